@@ -1,0 +1,14 @@
+#!/usr/bin/env node
+// Runs a repository script written in TypeScript (generators, benchmarks) through tsx's loader.
+import { register } from 'tsx/esm/api';
+import { pathToFileURL } from 'node:url';
+import { resolve } from 'node:path';
+
+register();
+const [script, ...rest] = process.argv.slice(2);
+if (script === undefined) {
+  console.error('run-ts: give the script to run, e.g. node bin/run-ts.js replays/make-replays.ts');
+  process.exit(2);
+}
+process.argv = [process.argv[0] ?? 'node', resolve(script), ...rest];
+await import(pathToFileURL(resolve(script)).href);

@@ -1,0 +1,6 @@
+import type { CommandIo } from './io.ts';
+
+export async function run(_argv: string[], io: CommandIo): Promise<number> {
+  io.err('lengthwise calibrate: this command is being built and is not available in this version.');
+  return 2;
+}

@@ -1,0 +1,229 @@
+/**
+ * A text file → batches of lines, streamed with fs streams so a file larger than memory works.
+ *
+ * Lines end at "\n" ("\r\n" too: the "\r" is removed); the last line may have no line ending; a UTF-8
+ * byte-order mark at the start of the file is removed. Blank lines (empty or only whitespace) are
+ * skipped and not delivered, but they are counted in the line numbers, so numbers match an editor.
+ * A line longer than maxLineBytes is delivered as a short excerpt with its length in bytes, and is
+ * never held whole in memory: at most one chunk plus maxLineBytes are buffered at any time.
+ */
+import { createReadStream } from 'node:fs';
+import { Observable } from 'rxjs';
+
+export interface ReadLinesOptions {
+  /** Longest line delivered whole, in bytes (line ending excluded). @default 1048576 (1 MiB) */
+  readonly maxLineBytes?: number;
+  /** Lines per batch (the last batch may be shorter). @default 1024 */
+  readonly batchLines?: number;
+  /** Bytes read from the file at a time. @default 262144 (256 KiB) */
+  readonly chunkBytes?: number;
+}
+
+/** Consecutive non-blank lines of a file, as parallel arrays (one entry per line). */
+export interface LineBatch {
+  /** Each line's text without its line ending; for a line over the cap, only its start (an excerpt). */
+  readonly texts: readonly string[];
+  /** Each line's 1-based number in the file (blank lines are counted). */
+  readonly lineNumbers: readonly number[];
+  /** Each line's length in bytes when it was over the cap (its text is then an excerpt), else 0. */
+  readonly overLongBytes: readonly number[];
+}
+
+/** The file could not be opened or read. */
+export class LineReadError extends Error {
+  override readonly name = 'LineReadError';
+  readonly path: string;
+  /** The system's error code (ENOENT, EACCES, EISDIR, …), or 'EUNKNOWN'. */
+  readonly code: string;
+
+  constructor(path: string, code: string, cause: unknown) {
+    super(`cannot read ${path} (${code}${hint(code)}): check that the path is right and that the file is readable`, { cause });
+    this.path = path;
+    this.code = code;
+  }
+}
+
+function hint(code: string): string {
+  switch (code) {
+    case 'ENOENT':
+      return ': no such file';
+    case 'EACCES':
+    case 'EPERM':
+      return ': permission denied';
+    case 'EISDIR':
+      return ': it is a directory, give a file';
+    default:
+      return '';
+  }
+}
+
+export const DEFAULT_MAX_LINE_BYTES = 1024 * 1024;
+export const DEFAULT_BATCH_LINES = 1024;
+const DEFAULT_CHUNK_BYTES = 256 * 1024;
+/** Bytes decoded for the excerpt of an over-long line (enough for EXCERPT_CHARS characters). */
+const EXCERPT_BYTES = 800;
+const EXCERPT_CHARS = 200;
+
+function positiveInteger(name: string, value: number): number {
+  if (!Number.isInteger(value) || value < 1) {
+    throw new RangeError(`readLines: ${name} is ${value}: must be a whole number ≥ 1`);
+  }
+  return value;
+}
+
+function isBlank(text: string): boolean {
+  if (text.length === 0) return true;
+  const first = text.charCodeAt(0);
+  // Only a line that starts with whitespace can be all whitespace: the common line pays one comparison.
+  return (first <= 32 || first === 0xa0 || first === 0xfeff || first === 0x2028) && text.trim().length === 0;
+}
+
+/** Streams a file as batches of lines; errors with a LineReadError when the file cannot be read. */
+export function readLines(path: string, options: ReadLinesOptions = {}): Observable<LineBatch> {
+  const maxLineBytes = positiveInteger('maxLineBytes', options.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES);
+  const batchLines = positiveInteger('batchLines', options.batchLines ?? DEFAULT_BATCH_LINES);
+  const chunkBytes = positiveInteger('chunkBytes', options.chunkBytes ?? DEFAULT_CHUNK_BYTES);
+
+  return new Observable<LineBatch>((subscriber) => {
+    const stream = createReadStream(path, { highWaterMark: chunkBytes });
+    let lineNumber = 0;
+    // The unfinished last line of the chunks so far, as byte pieces (never more than maxLineBytes in all).
+    let carry: Buffer[] = [];
+    let carryBytes = 0;
+    // An over-long line being skipped: its excerpt and its bytes so far.
+    let skipping = false;
+    let skipExcerpt = '';
+    let skipBytes = 0;
+
+    let texts: string[] = [];
+    let lineNumbers: number[] = [];
+    let overLongBytes: number[] = [];
+
+    const flush = (): void => {
+      if (texts.length === 0) return;
+      const batch: LineBatch = { texts, lineNumbers, overLongBytes };
+      texts = [];
+      lineNumbers = [];
+      overLongBytes = [];
+      subscriber.next(batch);
+    };
+    const deliver = (text: string, bytes: number): void => {
+      texts.push(text);
+      lineNumbers.push(lineNumber);
+      overLongBytes.push(bytes);
+      if (texts.length >= batchLines) flush();
+    };
+    const deliverText = (text: string): void => {
+      let t = text.charCodeAt(text.length - 1) === 13 ? text.slice(0, -1) : text;
+      if (lineNumber === 1 && t.charCodeAt(0) === 0xfeff) t = t.slice(1);
+      if (isBlank(t)) return;
+      // A UTF-8 character takes at most 3 bytes per UTF-16 unit, so short strings need no byte count.
+      if (t.length * 3 > maxLineBytes) {
+        const bytes = Buffer.byteLength(t, 'utf8');
+        if (bytes > maxLineBytes) {
+          deliver(t.slice(0, EXCERPT_CHARS), bytes);
+          return;
+        }
+      }
+      deliver(t, 0);
+    };
+    const deliverBytes = (bytes: Buffer): void => {
+      const end = bytes.length > 0 && bytes[bytes.length - 1] === 13 ? bytes.length - 1 : bytes.length;
+      if (end > maxLineBytes) {
+        deliver(bytes.toString('utf8', 0, EXCERPT_BYTES).slice(0, EXCERPT_CHARS), end);
+        return;
+      }
+      deliverText(bytes.toString('utf8', 0, end));
+    };
+    const startSkipping = (pieces: readonly Buffer[], bytes: number): void => {
+      skipping = true;
+      skipExcerpt = Buffer.concat(pieces as Buffer[]).toString('utf8', 0, EXCERPT_BYTES).slice(0, EXCERPT_CHARS);
+      skipBytes = bytes;
+      carry = [];
+      carryBytes = 0;
+    };
+
+    const onChunk = (chunk: Buffer): void => {
+      let pos = 0;
+      if (skipping || carryBytes > 0) {
+        const nl = chunk.indexOf(10, pos);
+        if (nl < 0) {
+          const rest = chunk.subarray(pos);
+          if (skipping) skipBytes += rest.length;
+          else if (carryBytes + rest.length > maxLineBytes) startSkipping([...carry, rest], carryBytes + rest.length);
+          else {
+            carry.push(rest);
+            carryBytes += rest.length;
+          }
+          return;
+        }
+        lineNumber++;
+        if (skipping) {
+          let bytes = skipBytes + (nl - pos);
+          if (nl > pos ? chunk[nl - 1] === 13 : false) bytes--;
+          skipping = false;
+          deliver(skipExcerpt, bytes);
+        } else {
+          carry.push(chunk.subarray(pos, nl));
+          const whole = Buffer.concat(carry);
+          carry = [];
+          carryBytes = 0;
+          deliverBytes(whole);
+        }
+        pos = nl + 1;
+        if (subscriber.closed) return;
+      }
+      const last = chunk.lastIndexOf(10);
+      if (last >= pos) {
+        const text = chunk.toString('utf8', pos, last);
+        let start = 0;
+        for (;;) {
+          const nl = text.indexOf('\n', start);
+          lineNumber++;
+          if (nl < 0) {
+            deliverText(start === 0 ? text : text.slice(start));
+            break;
+          }
+          deliverText(text.slice(start, nl));
+          start = nl + 1;
+        }
+        pos = last + 1;
+        if (subscriber.closed) return;
+      }
+      if (pos < chunk.length) {
+        const rest = chunk.subarray(pos);
+        if (rest.length > maxLineBytes) startSkipping([rest], rest.length);
+        else {
+          carry.push(rest);
+          carryBytes += rest.length;
+        }
+      }
+    };
+
+    stream.on('data', (chunk) => {
+      onChunk(typeof chunk === 'string' ? Buffer.from(chunk) : chunk);
+    });
+    stream.on('end', () => {
+      if (skipping) {
+        lineNumber++;
+        skipping = false;
+        deliver(skipExcerpt, skipBytes);
+      } else if (carryBytes > 0) {
+        lineNumber++;
+        const whole = Buffer.concat(carry);
+        carry = [];
+        carryBytes = 0;
+        deliverBytes(whole);
+      }
+      flush();
+      subscriber.complete();
+    });
+    stream.on('error', (error: NodeJS.ErrnoException) => {
+      subscriber.error(new LineReadError(path, error.code ?? 'EUNKNOWN', error));
+    });
+
+    return () => {
+      stream.destroy();
+    };
+  });
+}

@@ -7,7 +7,7 @@
  */
 import type { RegionKey } from './model/regions.ts';
 import type { RejectReason } from './reasons.ts';
-import type { CalibrationSpec } from './model/calibration.ts';
+import type { CalibrationSpec, MuscleCalibration } from './model/calibration.ts';
 
 export type Side = 'left' | 'right';
 export const SIDES: readonly Side[] = ['left', 'right'];
@@ -103,7 +103,40 @@ export interface Gap {
   readonly toS: number;
 }
 
-export type Frame = Sample | GaitEvent | Marker | Header | Rejection | Gap;
+/**
+ * Said by convertSarcomere once it knows a muscle's calibration (from a file, the header, or the
+ * uncalibrated baseline), so later stages and the summary learn it from the data's own path.
+ */
+export interface CalibrationApplied {
+  readonly kind: 'calibration';
+  readonly muscle: string;
+  readonly calibration: MuscleCalibration;
+  readonly sarcomeresInSeries: number;
+  readonly source: 'file' | 'header' | 'baseline' | 'runtime';
+}
+
+/** Said by segmentStrides at each foot strike of a muscle's side: the previous stride ends, this one starts. */
+export interface StrideBoundary {
+  readonly kind: 'stride';
+  readonly muscle: string;
+  readonly side: Side;
+  /** Index of the stride that starts here (0 for the first foot strike). */
+  readonly index: number;
+  readonly tS: number;
+}
+
+/** Something a person should know, said once by the stage that found it (side assumed, baseline used, …). */
+export interface Notice {
+  readonly kind: 'notice';
+  readonly muscle: string | null;
+  readonly text: string;
+}
+
+/** Records that come from the input, one per line or message element. */
+export type InputFrame = Sample | GaitEvent | Marker | Header | Rejection;
+/** Records the pipeline adds on the way. */
+export type DerivedFrame = Gap | CalibrationApplied | StrideBoundary | Notice;
+export type Frame = InputFrame | DerivedFrame;
 export type Batch = Frame[];
 
 /** Builds a Sample with its enrichment fields unset; the one place samples are created. */

@@ -40,7 +40,7 @@ export interface StrideSummary {
 }
 
 /** Where the muscle's sarcomeres-in-series came from. */
-export type CalibrationSource = 'file' | 'header' | 'baseline';
+export type CalibrationSource = 'file' | 'header' | 'baseline' | 'runtime';
 
 export interface MuscleState {
   readonly name: string;

@@ -1,0 +1,21 @@
+import { mkdir, rename, writeFile } from 'node:fs/promises';
+import { dirname } from 'node:path';
+
+export type WriteResult = { readonly ok: true; readonly path: string } | { readonly ok: false; readonly path: string; readonly message: string };
+
+/**
+ * Writes a whole file atomically (a temporary file renamed over the target), so a reader never sees half
+ * a summary. Creates missing folders. Failures come back as data with what to check.
+ */
+export async function writeFileAtomic(path: string, text: string): Promise<WriteResult> {
+  const tmp = `${path}.${process.pid}.tmp`;
+  try {
+    await mkdir(dirname(path), { recursive: true });
+    await writeFile(tmp, text, 'utf8');
+    await rename(tmp, path);
+    return { ok: true, path };
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code ?? 'unknown error';
+    return { ok: false, path, message: `could not write ${path} (${code}); check that the folder exists and is writable, and that the disk has room` };
+  }
+}

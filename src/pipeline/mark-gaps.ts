@@ -1,0 +1,40 @@
+import { defer, map, type OperatorFunction } from 'rxjs';
+import type { Batch, Frame } from '../records.ts';
+
+export interface MarkGapsOptions {
+  /** A forward jump between two samples of one muscle longer than this starts a gap. @default 0.25 */
+  readonly gapS?: number;
+}
+
+export const DEFAULT_GAP_S = 0.25;
+
+/**
+ * Inserts a `time_jump` Gap before a sample that comes more than `gapS` after the previous sample of
+ * its muscle, so filters restart and nothing is interpolated across the hole.
+ */
+export function markGaps(options: MarkGapsOptions = {}): OperatorFunction<Batch, Batch> {
+  const gapS = options.gapS ?? DEFAULT_GAP_S;
+  return (source) =>
+    defer(() => {
+      const lastTS = new Map<string, number>();
+      return source.pipe(
+        map((batch) => {
+          // Gaps are rare: the batch is rebuilt only when one is found.
+          let out: Frame[] | null = null;
+          for (let i = 0; i < batch.length; i++) {
+            const f = batch[i] as Frame;
+            if (f.kind === 'sample') {
+              const previous = lastTS.get(f.muscle);
+              lastTS.set(f.muscle, f.tS);
+              if (previous !== undefined && f.tS - previous > gapS) {
+                out ??= batch.slice(0, i);
+                out.push({ kind: 'gap', cause: 'time_jump', muscle: f.muscle, fromS: previous, toS: f.tS });
+              }
+            }
+            if (out !== null) out.push(f);
+          }
+          return out ?? batch;
+        }),
+      );
+    });
+}

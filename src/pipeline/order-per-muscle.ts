@@ -1,0 +1,41 @@
+import { defer, map, type OperatorFunction } from 'rxjs';
+import type { Batch, Sample } from '../records.ts';
+
+function excerptOf(s: Sample): string {
+  return JSON.stringify({ t: s.tS, muscle: s.muscle, fascicle_mm: s.fascicleMm }).slice(0, 200);
+}
+
+/**
+ * Rejects a sample whose time is not after the previous accepted sample of the same muscle:
+ * `duplicate` at exactly the same time, `time_not_increasing` when earlier. Other frames pass.
+ */
+export function orderPerMuscle(): OperatorFunction<Batch, Batch> {
+  return (source) =>
+    defer(() => {
+      const lastTS = new Map<string, number>();
+      return source.pipe(
+        map((batch) => {
+          for (let i = 0; i < batch.length; i++) {
+            const f = batch[i];
+            if (f === undefined || f.kind !== 'sample') continue;
+            const previous = lastTS.get(f.muscle);
+            if (previous === undefined || f.tS > previous) {
+              lastTS.set(f.muscle, f.tS);
+              continue;
+            }
+            const same = f.tS === previous;
+            batch[i] = {
+              kind: 'rejection',
+              reason: same ? 'duplicate' : 'time_not_increasing',
+              message: same
+                ? `muscle "${f.muscle}" already has a sample at t=${f.tS} s; each muscle's samples need distinct, increasing times (a device resending a message after reconnecting does this)`
+                : `muscle "${f.muscle}" at t=${f.tS} s is earlier than its previous sample at t=${previous} s; samples of one muscle must go forward in time (check the device clock, or that two devices do not share a muscle name)`,
+              line: f.line,
+              excerpt: excerptOf(f),
+            };
+          }
+          return batch;
+        }),
+      );
+    });
+}

@@ -1,0 +1,44 @@
+/** The whole pipeline, in the data's order. Live and replay both run exactly this. */
+import type { OperatorFunction } from 'rxjs';
+import type { Batch } from '../records.ts';
+import type { CalibrationSpec } from '../model/calibration.ts';
+import type { TrialState } from '../state.ts';
+import { orderPerMuscle } from './order-per-muscle.ts';
+import { markGaps } from './mark-gaps.ts';
+import { gateQuality } from './gate-quality.ts';
+import { smoothKalman, type SmoothKalmanOptions } from './smooth-kalman.ts';
+import { estimateVelocity } from './estimate-velocity.ts';
+import { convertSarcomere } from './convert-sarcomere.ts';
+import { evaluateForceLength } from './evaluate-force-length.ts';
+import { segmentStrides } from './segment-strides.ts';
+import { accumulateSummary } from './accumulate-summary.ts';
+
+export interface PipelineOptions {
+  /** File path or URL, for the summary. */
+  readonly source: string;
+  /** A user's calibration; wins over the stream header's. */
+  readonly calibration?: CalibrationSpec;
+  readonly gapS?: number;
+  readonly baselineS?: number;
+  readonly smoothing?: SmoothKalmanOptions;
+}
+
+/** Validated records in, the trial's running state out (the same object, once per batch). */
+export function pipeline(options: PipelineOptions): OperatorFunction<Batch, TrialState> {
+  const gap = options.gapS !== undefined ? { gapS: options.gapS } : {};
+  return (records$) =>
+    records$.pipe(
+      orderPerMuscle(),
+      markGaps(gap),
+      gateQuality(),
+      smoothKalman(options.smoothing ?? {}),
+      estimateVelocity(),
+      convertSarcomere({
+        ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
+        ...(options.baselineS !== undefined ? { baselineS: options.baselineS } : {}),
+      }),
+      evaluateForceLength(),
+      segmentStrides(),
+      accumulateSummary({ source: options.source, ...gap }),
+    );
+}

@@ -1,0 +1,86 @@
+import { defer, map, type OperatorFunction } from 'rxjs';
+import type { Batch, Frame, Side } from '../records.ts';
+
+interface MuscleStrides {
+  side: Side | null;
+  /** Index of the stride in progress; -1 before the first foot strike of the muscle's side. */
+  index: number;
+}
+
+/**
+ * Cuts each muscle's samples into strides from one foot strike of its side to the next: stamps
+ * `strideIndex` on samples and says each boundary as a StrideBoundary frame. A muscle with no side in
+ * the header takes the side of the first foot strike seen, and a Notice says so.
+ */
+export function segmentStrides(): OperatorFunction<Batch, Batch> {
+  return (source) =>
+    defer(() => {
+      const muscles = new Map<string, MuscleStrides>();
+      const declared = new Map<string, Side>();
+      let firstStrikeSide: Side | null = null;
+
+      const muscleOf = (name: string, out: Frame[]): MuscleStrides => {
+        let m = muscles.get(name);
+        if (m === undefined) {
+          m = { side: declared.get(name) ?? null, index: -1 };
+          muscles.set(name, m);
+          if (m.side === null && firstStrikeSide !== null) assume(name, m, firstStrikeSide, out);
+        }
+        return m;
+      };
+
+      const assume = (name: string, m: MuscleStrides, side: Side, out: Frame[]): void => {
+        m.side = side;
+        out.push({
+          kind: 'notice',
+          muscle: name,
+          text: `${name}: no side declared in the header, so it takes the side of the first foot strike seen (${side}); declare "muscles": {"${name}": {"side": "left"|"right"}} in the header to be sure`,
+        });
+      };
+
+      return source.pipe(
+        map((batch) => {
+          let out: Frame[] | null = null;
+          for (let i = 0; i < batch.length; i++) {
+            const f = batch[i] as Frame;
+            if (f.kind === 'sample') {
+              const m = muscles.get(f.muscle);
+              if (m !== undefined) {
+                f.strideIndex = m.index;
+                if (out !== null) out.push(f);
+                continue;
+              }
+              // A new muscle: may need a Notice, so the batch is rebuilt from here.
+              out ??= batch.slice(0, i);
+              f.strideIndex = muscleOf(f.muscle, out).index;
+              out.push(f);
+              continue;
+            }
+            out ??= f.kind === 'event' || f.kind === 'header' ? batch.slice(0, i) : null;
+            if (out === null) continue;
+            out.push(f);
+            if (f.kind === 'header') {
+              // Declared muscles count strides from the first foot strike, even before their first sample.
+              for (const [name, decl] of Object.entries(f.muscles)) {
+                if (decl.side !== undefined) declared.set(name, decl.side);
+                const m = muscles.get(name);
+                if (m === undefined) muscleOf(name, out);
+                else if (m.side === null && decl.side !== undefined) m.side = decl.side;
+              }
+            } else if (f.kind === 'event' && f.event === 'foot_strike') {
+              if (firstStrikeSide === null) {
+                firstStrikeSide = f.side;
+                for (const [name, m] of muscles) if (m.side === null) assume(name, m, f.side, out);
+              }
+              for (const [name, m] of muscles) {
+                if (m.side !== f.side) continue;
+                m.index++;
+                out.push({ kind: 'stride', muscle: name, side: f.side, index: m.index, tS: f.tS });
+              }
+            }
+          }
+          return out ?? batch;
+        }),
+      );
+    });
+}

@@ -63,7 +63,7 @@ const SHAPE: Readonly<Record<Kind, string>> = {
 };
 
 /** What each field accepts, said the same way in every message. */
-const FIELD_RULE: Readonly<Record<string, string>> = {
+export const FIELD_RULE: Readonly<Record<string, string>> = {
   t: 'must be a finite number (seconds on the device clock)',
   muscle: 'must be a non-empty string (any name, e.g. "calf")',
   fascicle_mm: 'must be a finite number > 0 (millimetres); if your device sends metres, use a device mapping',

@@ -1,0 +1,80 @@
+/**
+ * A recorded trial file (NDJSON or CSV lengthwise-stream) → batches of frames, in file order.
+ * One Batch per line batch of the reader; every non-blank line gives exactly one frame (blank lines are
+ * skipped and not counted; line numbers still count them). Nothing is paced here: see paceReplay.
+ */
+import { defer, map, type Observable } from 'rxjs';
+import type { Batch, Frame } from '../src/records.ts';
+import { createCsvParser, parseCsvHeaderRow } from './csv.ts';
+import { parseNdjsonLine } from './ndjson.ts';
+import { tooLongRejection } from './parse-record.ts';
+import { DEFAULT_MAX_LINE_BYTES, readLines, type ReadLinesOptions } from './read-lines.ts';
+
+export type FileFormat = 'ndjson' | 'csv';
+
+export interface FileSourceOptions extends ReadLinesOptions {
+  /**
+   * 'auto': CSV when the name ends in .csv or the first line starts with time_s, else NDJSON.
+   * @default 'auto'
+   */
+  readonly format?: FileFormat | 'auto';
+}
+
+/** The file as a whole cannot be read as its format (e.g. a CSV header row without a required column). */
+export class SourceFormatError extends Error {
+  override readonly name = 'SourceFormatError';
+  readonly path: string;
+  readonly line: number;
+
+  constructor(path: string, line: number, problem: string) {
+    super(`${path} line ${line}: ${problem}`);
+    this.path = path;
+    this.line = line;
+  }
+}
+
+/** The format the first non-blank line and the file name point to. */
+export function detectFormat(path: string, firstLine: string): FileFormat {
+  if (path.toLowerCase().endsWith('.csv')) return 'csv';
+  return /^\s*"?time_s/.test(firstLine) ? 'csv' : 'ndjson';
+}
+
+/**
+ * Reads and parses a trial file. Errors with a LineReadError (file missing or unreadable) or a
+ * SourceFormatError (a CSV file whose header row lacks a required column); bad lines are Rejection frames.
+ */
+export function fileSource(path: string, options: FileSourceOptions = {}): Observable<Batch> {
+  const maxLineBytes = options.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES;
+  const format = options.format ?? 'auto';
+  return defer(() => {
+    let parse: ((text: string, line: number) => Frame) | null = null;
+
+    const choose = (text: string, line: number): ((text: string, line: number) => Frame) => {
+      const chosen = format === 'auto' ? detectFormat(path, text) : format;
+      if (chosen === 'ndjson') return parseNdjsonLine;
+      const header = parseCsvHeaderRow(text);
+      if (!header.ok) throw new SourceFormatError(path, line, header.message);
+      return createCsvParser();
+    };
+
+    return readLines(path, options).pipe(
+      map((lines): Batch => {
+        const { texts, lineNumbers, overLongBytes } = lines;
+        const n = texts.length;
+        const batch: Batch = new Array<Frame>(n);
+        for (let i = 0; i < n; i++) {
+          const text = texts[i] as string;
+          const line = lineNumbers[i] as number;
+          const over = overLongBytes[i] as number;
+          if (over > 0) {
+            batch[i] = tooLongRejection(line, over, maxLineBytes, text);
+            continue;
+          }
+          if (parse === null) parse = choose(text, line);
+          batch[i] = parse(text, line);
+        }
+        return batch;
+      }),
+    );
+  });
+}

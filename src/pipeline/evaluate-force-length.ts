@@ -1,22 +1,24 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
 import type { Batch } from '../records.ts';
 import { DEFAULT_SPECIES } from '../model/species.ts';
-import { evaluatorForCalibration, type MuscleEvaluator } from './muscle-model.ts';
+import { muscleModelFor } from '../model/calibration.ts';
+import type { MuscleModel } from '../model/muscle-model.ts';
 
 /**
  * Places each sample on its muscle's force–length curve: relative active force and region. The curve
- * follows the muscle's CalibrationApplied frame (species, filaments); regions always come from geometry.
+ * follows the muscle's CalibrationApplied frame (species, filaments, shape, dispersion); regions always
+ * come from the geometry, whatever shape gives the force.
  */
 export function evaluateForceLength(): OperatorFunction<Batch, Batch> {
   return (source) =>
     defer(() => {
-      const fallback = evaluatorForCalibration({ species: DEFAULT_SPECIES, method: 'sarcomere_count', sarcomeresInSeries: 1 });
-      const evaluators = new Map<string, MuscleEvaluator>();
+      const fallback = muscleModelFor({ species: DEFAULT_SPECIES, method: 'sarcomere_count', sarcomeresInSeries: 1 });
+      const evaluators = new Map<string, MuscleModel>();
       return source.pipe(
         map((batch) => {
           for (const f of batch) {
             if (f.kind === 'calibration') {
-              evaluators.set(f.muscle, evaluatorForCalibration(f.calibration));
+              evaluators.set(f.muscle, muscleModelFor(f.calibration));
               continue;
             }
             if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;

@@ -1,28 +1,12 @@
 /**
- * The per-muscle model the pipeline evaluates: the one place a calibration becomes a curve, so the
- * conversion and the force–length stages always agree.
+ * The one place a calibration becomes a curve inside the pipeline, so the conversion, the force–length
+ * stage and the summary always agree on a muscle's geometry.
  */
 import type { MuscleCalibration } from '../model/calibration.ts';
-import type { ForceLengthCurve } from '../model/geometry.ts';
-import { geometricForce, regionAt } from '../model/geometry.ts';
-import { speciesCurve } from '../model/species.ts';
-import type { RegionKey } from '../model/regions.ts';
+import { curveFromGeometry, withFilaments, type ForceLengthCurve } from '../model/geometry.ts';
+import { SPECIES_GEOMETRY } from '../model/species.ts';
 
+/** The geometric curve of a calibrated muscle (species preset with the muscle's own filament lengths). */
 export function curveForCalibration(calibration: MuscleCalibration): ForceLengthCurve {
-  return speciesCurve(calibration.species);
-}
-
-export interface MuscleEvaluator {
-  readonly curve: ForceLengthCurve;
-  forceAt(sarcomereUm: number): number;
-  regionAt(sarcomereUm: number): RegionKey;
-}
-
-export function evaluatorForCalibration(calibration: MuscleCalibration): MuscleEvaluator {
-  const curve = curveForCalibration(calibration);
-  return {
-    curve,
-    forceAt: (sarcomereUm) => geometricForce(curve, sarcomereUm),
-    regionAt: (sarcomereUm) => regionAt(curve, sarcomereUm),
-  };
+  return curveFromGeometry(withFilaments(SPECIES_GEOMETRY[calibration.species], calibration.filaments));
 }

@@ -1,0 +1,29 @@
+/** The keys that work here, and the last short message (marker dropped, calibration asked…). */
+import { Box, Text } from 'ink';
+import type { KeyHelp } from './keys.ts';
+import type { Theme } from './theme.ts';
+
+export interface Props {
+  readonly keys: readonly KeyHelp[];
+  readonly theme: Theme;
+  readonly columns: number;
+  /** @default null */
+  readonly flash?: string | null;
+}
+
+export default function Footer({ keys, theme, columns, flash = null }: Props) {
+  return (
+    <Box width={columns}>
+      <Text wrap="truncate-end">
+        {keys.map((k, i) => (
+          <Text key={k.keys}>
+            {i === 0 ? '' : '  '}
+            <Text {...theme.role('key')}>{k.keys}</Text>
+            <Text {...theme.role('label')}>{` ${k.short}`}</Text>
+          </Text>
+        ))}
+        {flash === null ? null : <Text {...theme.role('flash')}>{`   ${flash}`}</Text>}
+      </Text>
+    </Box>
+  );
+}

@@ -1,0 +1,40 @@
+/** The help screen: every key, and how to read a panel. */
+import { Box, Text } from 'ink';
+import { REGION_KEYS, REGION_LABEL } from '../model/regions.ts';
+import { MARKER_IN_BAND, MARKER_LEFT, MARKER_RIGHT, MARKER_STEM } from './curve-drawing.ts';
+import type { KeyHelp } from './keys.ts';
+import type { Theme } from './theme.ts';
+
+export interface Props {
+  readonly keys: readonly KeyHelp[];
+  readonly theme: Theme;
+  readonly columns: number;
+}
+
+export default function HelpOverlay({ keys, theme, columns }: Props) {
+  return (
+    <Box flexDirection="column" borderStyle="round" paddingX={1} width={Math.min(columns, 100)}>
+      <Text {...theme.role('title')}>keys (? or Esc closes this help)</Text>
+      {keys.map((k) => (
+        <Text key={k.keys} wrap="truncate-end">
+          <Text {...theme.role('key')}>{k.keys.padEnd(8)}</Text>
+          <Text>{k.does}</Text>
+        </Text>
+      ))}
+      <Text> </Text>
+      <Text {...theme.role('title')}>reading a panel</Text>
+      <Text wrap="truncate-end">{`${MARKER_STEM} ${MARKER_IN_BAND}  the estimated sarcomere length now (${MARKER_LEFT} ${MARKER_RIGHT} when off the axis)`}</Text>
+      <Text wrap="truncate-end">▀  this stride's range of sarcomere length   ▄  the previous stride's   █  both</Text>
+      <Text wrap="truncate-end">
+        {'regions, short to long: '}
+        {REGION_KEYS.map((r, i) => (
+          <Text key={r}>
+            {i === 0 ? '' : ' · '}
+            <Text {...theme.region(r)}>{REGION_LABEL[r]}</Text>
+          </Text>
+        ))}
+      </Text>
+      <Text wrap="truncate-end">force: relative active force from length alone (0–1); velocity: + lengthening, − shortening</Text>
+    </Box>
+  );
+}

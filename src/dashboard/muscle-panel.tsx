@@ -1,0 +1,120 @@
+/**
+ * One muscle: where it is on its force–length curve now and over this stride, the numbers behind it,
+ * recent sarcomere lengths, and its last strides.
+ */
+import { Box, Text } from 'ink';
+import { REGION_LABEL, type RegionKey } from '../model/regions.ts';
+import CurvePlot from './curve-plot.tsx';
+import { fixed, signed } from './format.ts';
+import type { Layout } from './layout.ts';
+import { sparkline } from './sparkline.ts';
+import StrideTable from './stride-table.tsx';
+import type { Theme } from './theme.ts';
+import type { MuscleView } from './view-model.ts';
+
+export interface Props {
+  readonly muscle: MuscleView;
+  readonly layout: Layout;
+  readonly theme: Theme;
+  /** The muscle keys such as c act on. @default false */
+  readonly focused?: boolean;
+  /** Region probabilities from the model, when it gives them. */
+  readonly probability?: Partial<Readonly<Record<RegionKey, number>>> | undefined;
+}
+
+/** Inner width of a panel: its columns less border and padding. */
+export function innerCols(panelCols: number): number {
+  return Math.max(10, panelCols - 4);
+}
+
+function calibrationText(source: string | null): string {
+  switch (source) {
+    case null:
+      return 'calibration pending';
+    case 'baseline':
+      return 'uncalibrated: baseline';
+    case 'runtime':
+      return 'calibrated here';
+    default:
+      return `calibrated: ${source}`;
+  }
+}
+
+export default function MusclePanel({ muscle, layout, theme, focused = false, probability }: Props) {
+  const width = innerCols(layout.panelCols);
+  const s = muscle.latest;
+  const sl = s?.sarcomereUm ?? Number.NaN;
+  const region = s?.region ?? null;
+  const side = muscle.side === null ? 'side unknown' : muscle.sideSource === 'assumed' ? `${muscle.side}?` : muscle.side;
+  const regionP = region === null ? undefined : probability?.[region];
+  const spark = layout.showSparkline ? sparkline(muscle.history, Math.max(0, width - 18)) : null;
+  const calibrated = muscle.calibrationSource !== null && muscle.calibrationSource !== 'baseline';
+  const regionText = region === null ? '' : REGION_LABEL[region].toUpperCase();
+  const titleText = `${focused ? '▸ ' : ''}${muscle.name}`;
+  const sideText = ` ${side} · `;
+  const room = Math.max(0, width - regionText.length - 1 - titleText.length - sideText.length);
+  const calFull = calibrationText(muscle.calibrationSource);
+  const calText = calFull.length <= room ? calFull : calFull.slice(0, Math.max(0, room - 1)) + (room > 0 ? '…' : '');
+  const gap = Math.max(1, width - titleText.length - sideText.length - calText.length - regionText.length);
+  return (
+    <Box
+      flexDirection="column"
+      width={layout.panelCols}
+      borderStyle={focused ? 'double' : 'single'}
+      {...theme.border(focused)}
+      paddingX={1}
+    >
+      <Text wrap="truncate-end">
+        <Text {...(focused ? theme.role('focus') : theme.role('title'))}>{titleText}</Text>
+        <Text {...theme.role('label')}>{sideText}</Text>
+        <Text {...(calibrated ? theme.role('label') : theme.role('warning'))}>{calText}</Text>
+        <Text>{' '.repeat(gap)}</Text>
+        <Text {...theme.region(region)} bold>
+          {regionText}
+        </Text>
+      </Text>
+      <CurvePlot
+        curve={muscle.curve}
+        widthCols={width}
+        heightRows={layout.curveRows}
+        sarcomereUm={sl}
+        current={muscle.current}
+        previous={muscle.previous}
+        theme={theme}
+      />
+      <Text wrap="truncate-end">
+        <Text {...theme.role('label')}>SL </Text>
+        <Text bold>{fixed(sl, 2)}</Text>
+        <Text> µm</Text>
+        <Text {...theme.role('label')}> force </Text>
+        <Text bold>{fixed(s?.force ?? Number.NaN, 2)}</Text>
+        {regionP === undefined ? null : (
+          <>
+            <Text {...theme.role('label')}> p </Text>
+            <Text>{fixed(regionP, 2)}</Text>
+          </>
+        )}
+      </Text>
+      <Text wrap="truncate-end">
+        <Text {...theme.role('label')}>fascicle </Text>
+        <Text>{fixed(Number.isFinite(s?.smoothMm) ? (s?.smoothMm ?? Number.NaN) : (s?.fascicleMm ?? Number.NaN), 1)} mm</Text>
+        <Text {...theme.role('label')}> pennation </Text>
+        <Text>{fixed(s?.pennationDeg ?? Number.NaN, 1)}°</Text>
+      </Text>
+      <Text wrap="truncate-end">
+        <Text {...theme.role('label')}>velocity </Text>
+        <Text>{signed(s?.velocityMmS ?? Number.NaN, 1)} mm/s</Text>
+        <Text {...theme.role('label')}> quality </Text>
+        <Text {...(s?.lowQuality === true ? theme.role('warning') : {})}>{fixed(s?.quality ?? Number.NaN, 2)}</Text>
+      </Text>
+      {spark === null ? null : (
+        <Text wrap="truncate-end">
+          <Text {...theme.role('label')}>SL recent </Text>
+          <Text {...theme.region(region)}>{spark.text.padEnd(Math.max(0, width - 18))}</Text>
+          <Text {...theme.role('label')}>{` ${fixed(spark.min, 1)}–${fixed(spark.max, 1)}`}</Text>
+        </Text>
+      )}
+      <StrideTable strides={muscle.strides} rows={layout.strideRows} theme={theme} />
+    </Box>
+  );
+}

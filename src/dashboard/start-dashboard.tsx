@@ -1,0 +1,59 @@
+/**
+ * The entry point the replay and live commands call: renders the dashboard on the given terminal.
+ * `state$` is subscribed once; if the command also subscribes to it, pass a shared (hot) observable.
+ * q (or Ctrl+C) calls onQuit and then unmounts the dashboard, so waitUntilExit() resolves.
+ */
+import { render } from 'ink';
+import type { Observable, SchedulerLike } from 'rxjs';
+import type { TrialState } from '../state.ts';
+import Dashboard from './dashboard.tsx';
+import type { DashboardStatus } from './status.ts';
+import { colorEnabled } from './theme.ts';
+
+export type { DashboardStatus } from './status.ts';
+
+export interface DashboardOptions {
+  readonly state$: Observable<TrialState>;
+  readonly status$?: Observable<DashboardStatus>;
+  readonly title: string;
+  readonly stdout: NodeJS.WriteStream;
+  readonly stdin: NodeJS.ReadStream;
+  /** NO_COLOR (present and not empty) turns every colour off. */
+  readonly env: NodeJS.ProcessEnv;
+  /** q pressed: stop the trial and write its summary. */
+  readonly onQuit: () => void;
+  /** m pressed: a marker with a timestamped text. */
+  readonly onMarker?: (text: string) => void;
+  /** + / - in replays. */
+  readonly onSpeed?: (direction: 1 | -1) => void;
+  /** c pressed and a length confirmed: calibrate `muscle` from its last 3 s at `sarcomereUm`. */
+  readonly onCalibrate?: (muscle: string, sarcomereUm: number) => void;
+  /** Clock and timers of the display. @default asyncScheduler */
+  readonly scheduler?: SchedulerLike;
+  /** At most one frame per this many milliseconds. @default 80 */
+  readonly frameMs?: number;
+}
+
+export function startDashboard(options: DashboardOptions): { unmount(): void; waitUntilExit(): Promise<void> } {
+  const instance = render(
+    <Dashboard
+      state$={options.state$}
+      status$={options.status$}
+      title={options.title}
+      color={colorEnabled(options.env)}
+      onQuit={options.onQuit}
+      onMarker={options.onMarker}
+      onSpeed={options.onSpeed}
+      onCalibrate={options.onCalibrate}
+      scheduler={options.scheduler}
+      frameMs={options.frameMs}
+    />,
+    { stdout: options.stdout, stdin: options.stdin, exitOnCtrlC: false, patchConsole: false, maxFps: 15 },
+  );
+  return {
+    unmount: () => instance.unmount(),
+    waitUntilExit: async () => {
+      await instance.waitUntilExit();
+    },
+  };
+}

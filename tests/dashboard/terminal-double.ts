@@ -1,0 +1,111 @@
+/**
+ * In-memory stdout and stdin for rendering the dashboard with Ink in tests, like ink-testing-library's
+ * but with a chosen size that can be resized, so layouts at 80×24 and beyond are tested.
+ */
+import { EventEmitter } from 'node:events';
+import { render, type Instance } from 'ink';
+import type { ReactElement } from 'react';
+
+export class ScreenOut extends EventEmitter {
+  readonly frames: string[] = [];
+  isTTY = false;
+  constructor(
+    public columns = 80,
+    public rows = 24,
+  ) {
+    super();
+  }
+  write = (frame: string): boolean => {
+    this.frames.push(frame);
+    return true;
+  };
+  lastFrame(): string {
+    return this.frames[this.frames.length - 1] ?? '';
+  }
+  resize(columns: number, rows: number): void {
+    this.columns = columns;
+    this.rows = rows;
+    this.emit('resize');
+  }
+}
+
+export class KeysIn extends EventEmitter {
+  isTTY = true;
+  private data: string | null = null;
+  write(data: string): void {
+    this.data = data;
+    this.emit('readable');
+    this.emit('data', data);
+  }
+  read = (): string | null => {
+    const { data } = this;
+    this.data = null;
+    return data;
+  };
+  setEncoding(): void {}
+  setRawMode(): void {}
+  resume(): void {}
+  pause(): void {}
+  ref(): void {}
+  unref(): void {}
+}
+
+export interface Screen {
+  readonly out: ScreenOut;
+  readonly keys: KeysIn;
+  readonly instance: Instance;
+  lastFrame(): string;
+  /** Types keys, one write each, letting Ink handle each before the next. */
+  press(...keys: string[]): Promise<void>;
+}
+
+export const KEY = { tab: '\t', shiftTab: '\u001B[Z', enter: '\r', escape: '\u001B', backspace: '\u007F', right: '\u001B[C', left: '\u001B[D' } as const;
+
+export function tick(ms = 0): Promise<void> {
+  return new Promise((resolve) => setTimeout(resolve, ms));
+}
+
+export function renderScreen(tree: ReactElement, columns = 80, rows = 24): Screen {
+  const out = new ScreenOut(columns, rows);
+  const keys = new KeysIn();
+  const instance = render(tree, {
+    stdout: out as unknown as NodeJS.WriteStream,
+    stdin: keys as unknown as NodeJS.ReadStream,
+    debug: true,
+    exitOnCtrlC: false,
+    patchConsole: false,
+  });
+  return {
+    out,
+    keys,
+    instance,
+    lastFrame: () => out.lastFrame(),
+    press: async (...pressed: string[]) => {
+      for (const k of pressed) {
+        keys.write(k);
+        await tick(5);
+      }
+    },
+  };
+}
+
+/** Waits (real time, bounded) until the last frame satisfies `ok`; returns that frame or throws with it. */
+export async function frameWhere(screen: Screen, ok: (frame: string) => boolean, what: string, timeoutMs = 2000): Promise<string> {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const frame = screen.lastFrame();
+    if (ok(frame)) return frame;
+    if (Date.now() > until) throw new Error(`no frame ${what} within ${timeoutMs} ms; last frame:\n${frame}`);
+    await tick(10);
+  }
+}
+
+/** Colour SGR parameters: 30–39/40–49 (8 colours, defaults), 90–97/100–107 (bright), 38;…/48;… (256 and true colour). */
+// eslint-disable-next-line no-control-regex -- the escape character is what is looked for
+export const COLOUR_SGR = /\u001B\[(?:[0-9;]*;)?(?:3[0-9]|4[0-9]|9[0-7]|10[0-7])(?:;[0-9;]*)?m/;
+
+/** Removes every escape sequence, for reading the text. */
+export function plain(frame: string): string {
+  // eslint-disable-next-line no-control-regex -- escape sequences are what is removed
+  return frame.replace(/\u001B\[[0-9;?]*[A-Za-z]/g, '');
+}

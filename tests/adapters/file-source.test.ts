@@ -1,0 +1,130 @@
+import { lastValueFrom, toArray } from 'rxjs';
+import { afterAll, describe, expect, it } from 'vitest';
+import { detectFormat, fileSource, SourceFormatError } from '../../adapters/file-source.ts';
+import { LineReadError } from '../../adapters/read-lines.ts';
+import type { Batch, Frame } from '../../src/records.ts';
+import { csvTrial, ndjsonTrial, tempDir } from './invented-trial.ts';
+
+const tmp = tempDir();
+afterAll(() => tmp.remove());
+
+async function batchesOf(path: string, options?: Parameters<typeof fileSource>[1]): Promise<Batch[]> {
+  return lastValueFrom(fileSource(path, options).pipe(toArray()));
+}
+
+function tally(frames: readonly Frame[]): Record<string, number> {
+  const counts: Record<string, number> = {};
+  for (const f of frames) {
+    const key = f.kind === 'rejection' ? `rejection:${f.reason}` : f.kind;
+    counts[key] = (counts[key] ?? 0) + 1;
+  }
+  return counts;
+}
+
+describe('fileSource', () => {
+  it('completes with no batches for an empty file', async () => {
+    expect(await batchesOf(tmp.file('empty.ndjson', ''))).toEqual([]);
+  });
+
+  it('reads a one-line file', async () => {
+    const batches = await batchesOf(tmp.file('one.ndjson', '{"t":0,"muscle":"calf","fascicle_mm":50}'));
+    expect(batches).toHaveLength(1);
+    expect(batches[0]).toMatchObject([{ kind: 'sample', line: 1 }]);
+  });
+
+  it('gives one frame per non-blank line, in file order, one batch per line batch, for a file larger than the batch size', async () => {
+    const lines = ndjsonTrial(3000);
+    const batches = await batchesOf(tmp.file('trial.ndjson', `${lines.join('\n')}\n`), { batchLines: 1024 });
+    expect(lines).toHaveLength(3031);
+    expect(batches.map((b) => b.length)).toEqual([1024, 1024, 983]);
+    const frames = batches.flat();
+    expect(frames.map((f) => ('line' in f ? f.line : -1))).toEqual(lines.map((_, i) => i + 1));
+    expect(tally(frames)).toEqual({ header: 1, event: 30, sample: 3000 });
+  });
+
+  it('counts bad lines exactly, by reason, and goes on past them', async () => {
+    const content = [
+      '{"format":"lengthwise-stream","version":1}',
+      '{"t":0,"muscle":"calf","fascicle_mm":50}',
+      '',
+      'not json at all',
+      '{"t":0.01,"muscle":"calf","fascicle_mm":-3}',
+      '{"t":0.02,"muscle":"calf","fascicle_mm":50,"pennation_deg":120}',
+      '{"t":0.03,"event":"heel_off","side":"left"}',
+      '{"t":0.04,"marker":"m","__proto__":{"polluted":true}}',
+      `{"t":0.05,"marker":"m","x":${'['.repeat(20)}${']'.repeat(20)}}`,
+      '{"t":0.06,"muscle":"calf"}',
+      `{"t":0.07,"marker":"${'z'.repeat(3000)}"}`,
+      '   ',
+      '{"format":"lengthwise-stream","version":1}',
+      '{"t":0.08,"muscle":"calf","fascicle_mm":51}',
+    ].join('\r\n');
+    const frames = (await batchesOf(tmp.file('bad.ndjson', content), { maxLineBytes: 2048 })).flat();
+    expect(tally(frames)).toEqual({
+      header: 2,
+      sample: 2,
+      'rejection:not_json': 1,
+      'rejection:out_of_range': 2,
+      'rejection:unknown_event': 1,
+      'rejection:unsafe_key': 1,
+      'rejection:too_deep': 1,
+      'rejection:schema': 1,
+      'rejection:line_too_long': 1,
+    });
+    expect(frames.find((f) => f.kind === 'rejection' && f.reason === 'line_too_long')).toMatchObject({ line: 11 });
+    expect(frames.at(-1)).toMatchObject({ kind: 'sample', line: 14 });
+    expect(({} as Record<string, unknown>)['polluted']).toBeUndefined();
+  });
+
+  it('reads CSV by its extension, header row first', async () => {
+    const lines = csvTrial(250);
+    const frames = (await batchesOf(tmp.file('trial.csv', `${lines.join('\n')}\n`), { batchLines: 100 })).flat();
+    expect(frames).toHaveLength(lines.length);
+    expect(tally(frames)).toEqual({ header: 1, event: 3, sample: 250 });
+  });
+
+  it('reads CSV by its first line when the name says nothing', async () => {
+    const frames = (await batchesOf(tmp.file('trial.txt', 'time_s,muscle,fascicle_mm\n0,calf,50\n0.01,calf,-1\n'))).flat();
+    expect(frames.map((f) => (f.kind === 'rejection' ? f.reason : f.kind))).toEqual(['header', 'sample', 'out_of_range']);
+  });
+
+  it('errors once, with a SourceFormatError, when a CSV header row lacks a required column', async () => {
+    const error: unknown = await batchesOf(tmp.file('bad-header.csv', 'time_s,muscle\n0,calf\n')).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(SourceFormatError);
+    expect(error).toMatchObject({ line: 1 });
+    expect((error as Error).message).toContain('lacks column fascicle_mm');
+  });
+
+  it('errors with a LineReadError when the file is missing', async () => {
+    const error: unknown = await batchesOf(`${tmp.dir}/missing.ndjson`).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(LineReadError);
+    expect(error).toMatchObject({ code: 'ENOENT' });
+  });
+
+  it('stops reading when unsubscribed early', async () => {
+    const path = tmp.file('long.ndjson', `${ndjsonTrial(50_000).join('\n')}\n`);
+    const seen: Batch[] = [];
+    await new Promise<void>((resolve) => {
+      const subscription = fileSource(path, { batchLines: 10 }).subscribe((batch) => {
+        seen.push(batch);
+        subscription.unsubscribe();
+        setTimeout(resolve, 50);
+      });
+    });
+    expect(seen).toHaveLength(1);
+  });
+
+  it('can be told the format', async () => {
+    const path = tmp.file('forced.csv', '{"t":0,"marker":"m"}\n');
+    expect((await batchesOf(path, { format: 'ndjson' })).flat()).toMatchObject([{ kind: 'marker' }]);
+  });
+});
+
+describe('detectFormat', () => {
+  it('picks CSV for a .csv name or a time_s first line, else NDJSON', () => {
+    expect(detectFormat('a/B.CSV', '{}')).toBe('csv');
+    expect(detectFormat('a/b.ndjson', 'time_s,muscle')).toBe('csv');
+    expect(detectFormat('a/b.ndjson', '"time_s","muscle"')).toBe('csv');
+    expect(detectFormat('a/b', '{"t":0}')).toBe('ndjson');
+  });
+});

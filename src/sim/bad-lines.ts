@@ -79,7 +79,8 @@ export function badLineCsv(reason: RejectReason, ctx: BadLineContext): string | 
   const f = ctx.last?.fascicle_mm ?? 45;
   switch (reason) {
     case 'not_json':
-      return `${t},${m},${f}`;
+      // A quoted cell that never closes, as in a row cut off mid-write.
+      return `${t},"${ctx.muscle},${f},20`;
     case 'schema':
       return `${t},${m},n/a,20,0.9,,`;
     case 'out_of_range': {

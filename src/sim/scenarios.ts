@@ -138,6 +138,7 @@ export function scenarioSpec(scenario: Scenario, options: ScenarioOptions = {}):
     badLines: [],
     markers: [],
     header: options.header === undefined ? { calibrate: 'all' } : options.header,
-    longLineChars: 300_000,
+    // Above the 1 MiB line cap of the file reader and the message cap of live input.
+    longLineChars: 1024 * 1024 + 1024,
   };
 }

@@ -4,10 +4,16 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { lastValueFrom, reduce } from 'rxjs';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
+import { fileSource } from '../../adapters/file-source.ts';
+import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
+import { MAX_MESSAGE_CHARS } from '../../adapters/parse-record.ts';
+import type { Frame } from '../../src/records.ts';
 import { DEMO_FILES, demoRunSpec, demoWalkSpec } from '../../src/sim/demo-trials.ts';
 import { createTrial } from '../../src/sim/gait-generator.ts';
 import { CSV_HEADER_ROW } from '../../src/sim/writers.ts';
+import { ORDER_REASONS } from '../../src/sim/bad-lines.ts';
 import { createClassifier, type LineKind } from '../sim/stream-check.ts';
 
 const run = promisify(execFile);
@@ -31,7 +37,7 @@ afterAll(async () => {
 });
 
 function kindsOf(text: string, format: 'ndjson' | 'csv'): LineKind[] {
-  const check = createClassifier();
+  const check = createClassifier(DEFAULT_MAX_LINE_BYTES);
   const lines = text.split('\n');
   expect(lines.pop()).toBe('');
   if (format === 'csv') expect(lines.shift()).toBe(CSV_HEADER_ROW);
@@ -130,5 +136,28 @@ describe('make-replays', () => {
     expect(count(kinds).get('sample')).toBe(20 * 100 * 2);
     const truth = createTrial(demoRunSpec()).truth;
     expect(truth.strides('thigh').length).toBeGreaterThanOrEqual(25);
+  });
+
+  it('makes its too-long line longer than the caps of the file reader and of live messages', () => {
+    expect(demoWalkSpec().longLineChars).toBeGreaterThan(DEFAULT_MAX_LINE_BYTES);
+    expect(demoWalkSpec().longLineChars).toBeGreaterThan(MAX_MESSAGE_CHARS);
+  });
+
+  it('is read by the tool\'s file reader with exactly the intended rejections (ordering is checked later, per muscle)', async () => {
+    const cases = [
+      { name: DEMO_FILES.walkNdjson, reasons: demoWalkSpec().badLines.map((b) => b.reason) },
+      {
+        name: DEMO_FILES.walkCsv,
+        reasons: demoWalkSpec().badLines.map((b) => b.reason).filter((r) => r !== 'unsafe_key' && r !== 'too_deep'),
+      },
+      { name: DEMO_FILES.runNdjson, reasons: demoRunSpec().badLines.map((b) => b.reason) },
+    ];
+    for (const c of cases) {
+      const frames = await lastValueFrom(
+        fileSource(join(REPLAYS, c.name)).pipe(reduce((all: Frame[], batch) => (all.push(...batch), all), [])),
+      );
+      const rejected = frames.flatMap((f) => (f.kind === 'rejection' ? [f.reason] : []));
+      expect(rejected, c.name).toEqual(c.reasons.filter((r) => !ORDER_REASONS.includes(r)));
+    }
   });
 });

@@ -16,6 +16,7 @@ export function normalCdf(z: number): number {
   if (Number.isNaN(z)) return Number.NaN;
   if (z === Number.POSITIVE_INFINITY) return 1;
   if (z === Number.NEGATIVE_INFINITY) return 0;
+  if (z === 0) return 0.5;
   const x = Math.abs(z);
   const t = 1 / (1 + 0.2316419 * x);
   const poly = t * (0.31938153 + t * (-0.356563782 + t * (1.781477937 + t * (-1.821255978 + t * 1.330274429))));

@@ -1,0 +1,159 @@
+/**
+ * From calibration uncertainty to the probability of each region. The estimate is SL = F·1000/N̂; the
+ * truth is SL* = F·1000/N with N ~ Normal(N̂, (cv·N̂)²). SL* lies in the region [a, b) exactly when N lies
+ * in (F·1000/b, F·1000/a], so with r = SL/a the region's probability is a difference of normal CDFs:
+ * P = Φ((SL/a − 1)/cv) − Φ((SL/b − 1)/cv). (The mass of N ≤ 0, below 1e-23 for cv ≤ 0.1, is counted as
+ * no_overlap so the six probabilities sum to 1.)
+ */
+import { normalCdf, normalQuantile } from './normal.ts';
+import { regionLowerBoundsUm, regionAt, type ForceLengthCurve } from './geometry.ts';
+import { REGION_KEYS, regionIndex, zeroRegionRecord, type RegionKey } from './regions.ts';
+
+const REGIONS = REGION_KEYS.length;
+
+/**
+ * Probability of each region (REGION_KEYS order) for one estimated sarcomere length, written into `out`
+ * (no allocation when `out` is given). `relativeSd` is SD(N)/N̂; 0 gives certainty in the estimate's region.
+ */
+export function regionProbabilities(
+  curve: ForceLengthCurve,
+  sarcomereUm: number,
+  relativeSd: number,
+  out: Float64Array = new Float64Array(REGIONS),
+): Float64Array {
+  out.fill(0);
+  if (!Number.isFinite(sarcomereUm) || !(sarcomereUm > 0) || !(relativeSd >= 0)) {
+    out.fill(Number.NaN);
+    return out;
+  }
+  if (relativeSd === 0) {
+    out[regionIndex(regionAt(curve, sarcomereUm))] = 1;
+    return out;
+  }
+  const lower = regionLowerBoundsUm(curve);
+  // cdfAbove[i] = P(SL* ≥ lower[i]) = P(N ≤ F·1000/lower[i]) = Φ((SL/lower[i] − 1)/cv); lower[0] = 0 → 1.
+  let previous = 1;
+  for (let i = 1; i < REGIONS; i++) {
+    const above = normalCdf((sarcomereUm / (lower[i] as number) - 1) / relativeSd);
+    out[i - 1] = previous - above;
+    previous = above;
+  }
+  out[REGIONS - 1] = previous;
+  return out;
+}
+
+/** The same as a record keyed by region, for summaries (`region_probability`). */
+export function regionProbabilityRecord(curve: ForceLengthCurve, sarcomereUm: number, relativeSd: number): Record<RegionKey, number> {
+  const p = regionProbabilities(curve, sarcomereUm, relativeSd);
+  const record = zeroRegionRecord();
+  REGION_KEYS.forEach((key, i) => {
+    record[key] = p[i] as number;
+  });
+  return record;
+}
+
+/** Number of quantile points of N in strideRegionFractions. */
+export const DEFAULT_QUANTILE_POINTS = 200;
+
+export interface RegionFractionsWithInterval {
+  /** Expected time fraction of each region: the time-weighted mean of the samples' region probabilities. */
+  readonly expected: Record<RegionKey, number>;
+  /** 5th percentile of each region's fraction over the distribution of N. */
+  readonly low: Record<RegionKey, number>;
+  /** 95th percentile. */
+  readonly high: Record<RegionKey, number>;
+}
+
+const quantileCache = new Map<number, Float64Array>();
+
+/** z-values of M equal-probability points of the standard normal: Φ⁻¹((j + ½)/M). */
+function quantilePoints(m: number): Float64Array {
+  let z = quantileCache.get(m);
+  if (z === undefined) {
+    z = new Float64Array(m);
+    for (let j = 0; j < m; j++) z[j] = normalQuantile((j + 0.5) / m);
+    quantileCache.set(m, z);
+  }
+  return z;
+}
+
+/**
+ * Per-stride time fraction per region, with a 90% interval, under calibration uncertainty.
+ *
+ * The calibration's error is one value for the whole trial, not a fresh draw per sample: every sample of
+ * the stride moves together when N is off. So the fraction is a function of the one true N, and its
+ * interval comes from N's distribution: the stride's lengths are re-scaled (SL·N̂/N) at M equal-probability
+ * quantile points of N (deterministic — the same input always gives the same interval, no seed), the
+ * time fractions are computed at each, and the 5th and 95th percentiles are taken per region. Treating
+ * samples as independent would shrink the interval wrongly. The expected fraction is exact: the
+ * time-weighted mean of the analytic per-sample probabilities.
+ *
+ * `durationsS[i]` is the time sample i stands for (zero-order hold); NaN lengths are skipped.
+ */
+export function strideRegionFractions(
+  curve: ForceLengthCurve,
+  sarcomereUm: ArrayLike<number>,
+  durationsS: ArrayLike<number>,
+  relativeSd: number,
+  quantilePointCount: number = DEFAULT_QUANTILE_POINTS,
+): RegionFractionsWithInterval {
+  const expected = new Float64Array(REGIONS);
+  const p = new Float64Array(REGIONS);
+  let total = 0;
+  const n = Math.min(sarcomereUm.length, durationsS.length);
+  for (let i = 0; i < n; i++) {
+    const sl = sarcomereUm[i] as number;
+    const w = durationsS[i] as number;
+    if (!Number.isFinite(sl) || !(w > 0)) continue;
+    regionProbabilities(curve, sl, relativeSd, p);
+    for (let r = 0; r < REGIONS; r++) expected[r] = (expected[r] as number) + w * (p[r] as number);
+    total += w;
+  }
+  const toRecord = (values: Float64Array): Record<RegionKey, number> => {
+    const record = zeroRegionRecord();
+    REGION_KEYS.forEach((key, r) => {
+      record[key] = total > 0 ? values[r] as number : Number.NaN;
+    });
+    return record;
+  };
+  if (total === 0) return { expected: toRecord(expected), low: toRecord(expected), high: toRecord(expected) };
+  for (let r = 0; r < REGIONS; r++) expected[r] = (expected[r] as number) / total;
+  if (!(relativeSd > 0)) {
+    const e = toRecord(expected);
+    return { expected: e, low: { ...e }, high: { ...e } };
+  }
+
+  const z = quantilePoints(Math.max(20, Math.floor(quantilePointCount)));
+  const m = z.length;
+  // fractions[r * m + j]: fraction of region r when N = N̂(1 + cv·z_j).
+  const fractions = new Float64Array(REGIONS * m);
+  for (let j = 0; j < m; j++) {
+    const ratio = 1 + relativeSd * (z[j] as number);
+    for (let i = 0; i < n; i++) {
+      const sl = sarcomereUm[i] as number;
+      const w = durationsS[i] as number;
+      if (!Number.isFinite(sl) || !(w > 0)) continue;
+      const r = ratio > 0 ? regionIndex(regionAt(curve, sl / ratio)) : REGIONS - 1;
+      fractions[r * m + j] = (fractions[r * m + j] as number) + w / total;
+    }
+  }
+  const low = new Float64Array(REGIONS);
+  const high = new Float64Array(REGIONS);
+  const column = new Float64Array(m);
+  for (let r = 0; r < REGIONS; r++) {
+    for (let j = 0; j < m; j++) column[j] = fractions[r * m + j] as number;
+    column.sort();
+    low[r] = percentile(column, 0.05);
+    high[r] = percentile(column, 0.95);
+  }
+  return { expected: toRecord(expected), low: toRecord(low), high: toRecord(high) };
+}
+
+/** Linear-interpolated percentile of sorted values (the usual "type 7" definition; common practice, no source). */
+function percentile(sorted: Float64Array, q: number): number {
+  const pos = q * (sorted.length - 1);
+  const i = Math.floor(pos);
+  const a = sorted[i] as number;
+  const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
+  return a + (b - a) * (pos - i);
+}

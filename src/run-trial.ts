@@ -1,16 +1,24 @@
 /** Runs one trial through the pipeline once, for any number of readers (dashboard, status lines, summary). */
-import { ReplaySubject, type Observable } from 'rxjs';
+import { Observable, ReplaySubject, Subject, takeUntil } from 'rxjs';
 import type { Batch } from './records.ts';
 import type { TrialState } from './state.ts';
 import { pipeline, type PipelineOptions } from './pipeline/pipeline.ts';
+import { RecentFascicles } from './recent-fascicles.ts';
 
 export interface TrialRun {
   /** The running state (same object, mutated in place), replaying the latest to late subscribers. */
   readonly state$: Observable<TrialState>;
   /** Resolves with the final state when the input ends or `stop()` is called; rejects if the input fails. */
   readonly done: Promise<TrialState>;
-  /** Stops reading now (the user quit); `done` resolves with the state so far. */
+  /**
+   * Stops reading now (the user quit): the input is closed as if it had ended, so frames held inside the
+   * pipeline (a baseline window) are still counted, and `done` resolves with the state so far.
+   */
   stop(): void;
+  /** Puts frames into the pipeline's input between two batches: markers, calibrations captured while running. */
+  inject(batch: Batch): void;
+  /** The last seconds of each muscle's raw fascicle lengths (for capturing a calibration). */
+  readonly recent: RecentFascicles;
 }
 
 export function runTrial(records$: Observable<Batch>, options: PipelineOptions): TrialRun {
@@ -20,7 +28,26 @@ export function runTrial(records$: Observable<Batch>, options: PipelineOptions):
   const done = new Promise<TrialState>((resolve, reject) => {
     settle = { resolve, reject };
   });
-  const subscription = records$.pipe(pipeline(options)).subscribe({
+  const injected = new Subject<Batch>();
+  const stopped = new Subject<void>();
+  const recent = new RecentFascicles();
+  // The input is the records plus whatever is injected; it ends when the records end.
+  const input$ = new Observable<Batch>((subscriber) => {
+    const fromUser = injected.subscribe((batch) => subscriber.next(batch));
+    const fromSource = records$.subscribe({
+      next: (batch) => {
+        recent.record(batch);
+        subscriber.next(batch);
+      },
+      error: (error: unknown) => subscriber.error(error),
+      complete: () => subscriber.complete(),
+    });
+    return () => {
+      fromUser.unsubscribe();
+      fromSource.unsubscribe();
+    };
+  });
+  const subscription = input$.pipe(takeUntil(stopped), pipeline(options)).subscribe({
     next: (state) => {
       latest = state;
       state$.next(state);
@@ -38,12 +65,12 @@ export function runTrial(records$: Observable<Batch>, options: PipelineOptions):
   return {
     state$: state$.asObservable(),
     done,
+    recent,
+    inject: (batch) => {
+      if (!subscription.closed) injected.next(batch);
+    },
     stop: () => {
-      if (subscription.closed) return;
-      subscription.unsubscribe();
-      state$.complete();
-      // The pipeline's first state comes on subscription, so there is always one to settle with.
-      if (latest !== null) settle.resolve(latest);
+      stopped.next();
     },
   };
 }

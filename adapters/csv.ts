@@ -93,6 +93,42 @@ export function csvNumber(cell: string): number {
   return DECIMAL.test(cell) ? Number(cell) : Number.NaN;
 }
 
+/** Exact powers of ten as doubles (10^0 … 10^22 are all exactly representable). */
+const POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/**
+ * A plain decimal in text[start, end) (sign, digits, one point; no spaces, no exponent, at most 15
+ * digits) → its value; NaN for anything else, which the caller then reads the careful way. With at
+ * most 15 digits the digits form an exact integer below 2^53 and 10^k (k ≤ 22) is exact, so one
+ * division gives the correctly rounded double, the same as Number() (Clinger WD 1990, How to read
+ * floating point numbers accurately, Proc. ACM PLDI '90, 92–101: the "fast path").
+ */
+export function plainDecimalAt(text: string, start: number, end: number): number {
+  let i = start;
+  let negative = false;
+  const first = text.charCodeAt(i);
+  if (first === 45) {
+    negative = true;
+    i++;
+  } else if (first === 43) i++;
+  let m = 0;
+  let digits = 0;
+  let fraction = 0;
+  let point = false;
+  for (; i < end; i++) {
+    const c = text.charCodeAt(i);
+    if (c >= 48 && c <= 57) {
+      m = m * 10 + (c - 48);
+      digits++;
+      if (point) fraction++;
+    } else if (c === 46 && !point) point = true;
+    else return Number.NaN;
+  }
+  if (digits === 0 || digits > 15) return Number.NaN;
+  const value = fraction === 0 ? m : m / (POW10[fraction] as number);
+  return negative ? -value : value;
+}
+
 /** Learns the columns from a header row. */
 export function parseCsvHeaderRow(text: string): CsvHeaderResult {
   const raw = splitCsvRow(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
@@ -130,14 +166,28 @@ export function parseCsvHeaderRow(text: string): CsvHeaderResult {
   return { ok: true, columns: { index, cellCount: raw.length } };
 }
 
+/** Boundary of a cell of the current row; 0 for an absent column or a cell the row left off. */
+function at(bounds: Int32Array, n: number, column: number): number {
+  return column >= 0 && column < n ? (bounds[column] as number) : 0;
+}
+
 /** Muscle names are few: keeping one string per name saves memory and lets later stages compare cheaply. */
 const MAX_INTERNED = 4096;
+
+export interface CsvParserOptions {
+  /**
+   * Read the common valid rows by quick in-place checks before the careful reading. Off only to test
+   * that both readings agree. @default true
+   */
+  readonly quick?: boolean;
+}
 
 /**
  * A CSV line parser that learns the columns from the header row (the first line it is given).
  * Each call → one frame. Never throws. Until a valid header row is read, every line is rejected.
  */
-export function createCsvParser(): (text: string, line: number) => Frame {
+export function createCsvParser(options: CsvParserOptions = {}): (text: string, line: number) => Frame {
+  const quick = options.quick ?? true;
   let columns: CsvColumns | null = null;
   let headerTried = false;
   const muscleNames = new Map<string, string>();
@@ -151,6 +201,92 @@ export function createCsvParser(): (text: string, line: number) => Frame {
     return own;
   };
 
+  // The few muscle names seen so far, matched in place in the row before any substring is made.
+  const recentMuscles: string[] = [];
+  const muscleAt = (text: string, start: number, end: number): string => {
+    const length = end - start;
+    for (let k = 0; k < recentMuscles.length; k++) {
+      const name = recentMuscles[k] as string;
+      if (name.length === length && text.startsWith(name, start)) return name;
+    }
+    const name = intern(text.slice(start, end));
+    if (recentMuscles.length < 16) recentMuscles.push(name);
+    return name;
+  };
+
+  // Cell boundaries of the current row: cell i is text[starts[i], ends[i]).
+  let starts = new Int32Array(0);
+  let ends = new Int32Array(0);
+
+  /** The common valid rows (no quotes, no spaces, plain decimals), read without substrings; null: read carefully. */
+  const quickRow = (text: string, line: number, c: CsvColumns): Frame | null => {
+    const cellCount = c.cellCount;
+    let n = 0;
+    let pos = 0;
+    for (;;) {
+      const comma = text.indexOf(',', pos);
+      if (n === cellCount) return null;
+      starts[n] = pos;
+      ends[n] = comma < 0 ? text.length : comma;
+      n++;
+      if (comma < 0) break;
+      pos = comma + 1;
+    }
+    const index = c.index;
+    // No closures here: a function made per row costs more than the row (tsx names every function).
+    const tCol = index.time_s;
+    const tS = plainDecimalAt(text, at(starts, n, tCol), at(ends, n, tCol));
+    if (tS !== tS) return null;
+    const mCol = index.muscle;
+    const fCol = index.fascicle_mm;
+    const pCol = index.pennation_deg;
+    const qCol = index.quality;
+    const evCol = index.event;
+    const mStart = at(starts, n, mCol);
+    const mEnd = at(ends, n, mCol);
+    if (evCol >= 0 && at(ends, n, evCol) > at(starts, n, evCol)) {
+      if (mEnd > mStart || at(ends, n, fCol) > at(starts, n, fCol) || at(ends, n, pCol) > at(starts, n, pCol) || at(ends, n, qCol) > at(starts, n, qCol)) return null;
+      const evStart = at(starts, n, evCol);
+      const evLength = at(ends, n, evCol) - evStart;
+      const event =
+        evLength === 11 && text.startsWith('foot_strike', evStart)
+          ? 'foot_strike'
+          : evLength === 7 && text.startsWith('toe_off', evStart)
+            ? 'toe_off'
+            : null;
+      const sideCol = index.side;
+      const sideStart = at(starts, n, sideCol);
+      const sideLength = at(ends, n, sideCol) - sideStart;
+      const side =
+        sideLength === 4 && text.startsWith('left', sideStart)
+          ? 'left'
+          : sideLength === 5 && text.startsWith('right', sideStart)
+            ? 'right'
+            : null;
+      if (event === null || side === null) return null;
+      return { kind: 'event', tS, event, side, line };
+    }
+    if (mEnd <= mStart) return null;
+    const m0 = text.charCodeAt(mStart);
+    const m1 = text.charCodeAt(mEnd - 1);
+    if (m0 === 32 || m0 === 9 || m1 === 32 || m1 === 9) return null;
+    const sideCol = index.side;
+    if (sideCol >= 0 && at(ends, n, sideCol) > at(starts, n, sideCol)) return null;
+    const fascicleMm = plainDecimalAt(text, at(starts, n, fCol), at(ends, n, fCol));
+    if (!(fascicleMm > 0)) return null;
+    let pennationDeg = Number.NaN;
+    if (at(ends, n, pCol) > at(starts, n, pCol)) {
+      pennationDeg = plainDecimalAt(text, at(starts, n, pCol), at(ends, n, pCol));
+      if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+    }
+    let quality = 1;
+    if (at(ends, n, qCol) > at(starts, n, qCol)) {
+      quality = plainDecimalAt(text, at(starts, n, qCol), at(ends, n, qCol));
+      if (!(quality >= 0 && quality <= 1)) return null;
+    }
+    return makeSample(tS, muscleAt(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
+  };
+
   const headerRow = (text: string, line: number): Frame => {
     headerTried = true;
     const result = parseCsvHeaderRow(text);
@@ -159,22 +295,14 @@ export function createCsvParser(): (text: string, line: number) => Frame {
       return makeRejection('schema', result.message, line, text);
     }
     columns = result.columns;
+    starts = new Int32Array(columns.cellCount);
+    ends = new Int32Array(columns.cellCount);
     const header: Header = { kind: 'header', muscles: Object.create(null) as Header['muscles'], line };
     return header;
   };
 
-  return (text: string, line: number): Frame => {
-    if (columns === null) {
-      if (headerTried && text.indexOf('time_s') < 0) {
-        return makeRejection(
-          'schema',
-          `no valid CSV header row has been read, so this row cannot be read; the first line must name the columns, e.g. ${HEADER_EXAMPLE}`,
-          line,
-          text,
-        );
-      }
-      return headerRow(text, line);
-    }
+  /** The careful reading of a row: every rule checked one by one, with the message of the first that fails. */
+  const carefulRow = (text: string, line: number, c: CsvColumns): Frame => {
     const cells = splitCsvRow(text);
     if (cells === null) {
       return makeRejection(
@@ -185,7 +313,7 @@ export function createCsvParser(): (text: string, line: number) => Frame {
         text,
       );
     }
-    const { index, cellCount } = columns;
+    const { index, cellCount } = c;
     if (cells.length > cellCount) {
       return makeRejection(
         'not_json',
@@ -268,6 +396,25 @@ export function createCsvParser(): (text: string, line: number) => Frame {
       }
     }
     return makeSample(tS, intern(muscleCell), fascicleMm, pennationDeg, quality, line);
+  };
+
+  return (text: string, line: number): Frame => {
+    if (columns === null) {
+      if (headerTried && text.indexOf('time_s') < 0) {
+        return makeRejection(
+          'schema',
+          `no valid CSV header row has been read, so this row cannot be read; the first line must name the columns, e.g. ${HEADER_EXAMPLE}`,
+          line,
+          text,
+        );
+      }
+      return headerRow(text, line);
+    }
+    if (quick && text.indexOf('"') < 0) {
+      const frame = quickRow(text, line, columns);
+      if (frame !== null) return frame;
+    }
+    return carefulRow(text, line, columns);
   };
 }
 

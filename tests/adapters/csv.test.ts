@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { createCsvParser, csvNumber, parseCsvHeaderRow, splitCsvRow } from '../../adapters/csv.ts';
+import { createCsvParser, csvNumber, parseCsvHeaderRow, plainDecimalAt, splitCsvRow } from '../../adapters/csv.ts';
 import type { Frame } from '../../src/records.ts';
 import type { RejectReason } from '../../src/reasons.ts';
 import { csvTrial } from './invented-trial.ts';
@@ -53,6 +53,26 @@ describe('csvNumber', () => {
     expect(csvNumber('.5')).toBe(0.5);
     expect(csvNumber('1e400')).toBe(Infinity);
     for (const bad of ['', ' ', '0x10', 'NaN', 'Infinity', '1,5', '1.2.3', 'e5']) expect(csvNumber(bad)).toBeNaN();
+  });
+});
+
+describe('plainDecimalAt', () => {
+  it('reads plain decimals exactly as Number() does, and gives NaN for anything else', () => {
+    // Reference: the JavaScript Number() conversion of the engine (a general-purpose reference implementation).
+    const plain = fc
+      .tuple(fc.constantFrom('', '-', '+'), fc.stringMatching(/^[0-9]{0,9}$/), fc.boolean(), fc.stringMatching(/^[0-9]{0,9}$/))
+      .map(([sign, whole, point, fraction]) => `${sign}${whole}${point ? '.' : ''}${point ? fraction : ''}`);
+    fc.assert(
+      fc.property(fc.oneof(plain, fc.string({ maxLength: 8 })), (text) => {
+        const quick = plainDecimalAt(text, 0, text.length);
+        if (!Number.isNaN(quick)) expect(Object.is(quick, Number(text))).toBe(true);
+        if (/^[+-]?(\d+\.?\d*|\.\d+)$/.test(text) && text.replace(/[^0-9]/g, '').length <= 15) expect(quick).not.toBeNaN();
+      }),
+      { numRuns: 5000 },
+    );
+    expect(plainDecimalAt('x12.5y', 1, 5)).toBe(12.5);
+    expect(plainDecimalAt('1e5', 0, 3)).toBeNaN();
+    expect(plainDecimalAt('1234567890123456', 0, 16)).toBeNaN();
   });
 });
 
@@ -164,6 +184,33 @@ describe('createCsvParser', () => {
     const frames = parseRows([HEADER, '0,a muscle with a long name,50', '1,a muscle with a long name,51']);
     const [a, b] = [frames[1], frames[2]];
     expect(a?.kind === 'sample' && b?.kind === 'sample' && a.muscle === b.muscle).toBe(true);
+  });
+
+  it('gives the same frame with or without the quick checks, for near-valid rows', () => {
+    const number = fc.oneof(
+      fc.constantFrom('', '0', '-0', '1', '90', '90.0001', '0.5', '1.5', '-3', '52.25', '1e400', '1e2', ' 7', '.5', '5.', '+2', '0x10', 'x'),
+      fc.double({ noNaN: true }).map(String),
+      fc.integer({ min: -100, max: 100 }).map(String),
+    );
+    const text = fc.constantFrom('', 'calf', ' calf', 'calf ', 'a, b', 'say "hi"', 'time_s', 'foot_strike', 'toe_off', 'heel_off', 'left', 'right', 'up');
+    const quote = (cell: string): string => (/[",]/.test(cell) ? `"${cell.replaceAll('"', '""')}"` : cell);
+    const row = fc
+      .tuple(number, text, number, number, number, text, text, fc.integer({ min: 0, max: 2 }))
+      .map(([t, muscle, fascicle, pennation, quality, event, side, drop]) => {
+        const cells = [t, muscle, fascicle, pennation, quality, event, side].map(quote);
+        return cells.slice(0, cells.length - drop).join(',');
+      });
+    const headers = fc.constantFrom(HEADER, 'side,event,quality,pennation_deg,fascicle_mm,muscle,time_s', 'time_s,muscle,fascicle_mm,x,y,z,w');
+    fc.assert(
+      fc.property(headers, fc.array(row, { minLength: 1, maxLength: 5 }), (header, rows) => {
+        const quick = createCsvParser();
+        const careful = createCsvParser({ quick: false });
+        [header, ...rows].forEach((r, i) => {
+          expect(quick(r, i + 1)).toEqual(careful(r, i + 1));
+        });
+      }),
+      { numRuns: 3000 },
+    );
   });
 
   it('gives exactly one frame for any row and never throws', () => {

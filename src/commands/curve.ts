@@ -1,6 +1,194 @@
+/** `lengthwise curve`: the force–length model at given sarcomere lengths, or across its whole range. */
+import { parseArgs } from 'node:util';
 import type { CommandIo } from './io.ts';
+import { breakpoints, type FilamentGeometry } from '../model/geometry.ts';
+import { CURVE_SHAPES, DEFAULT_SHAPE, isCurveShape, makeMuscleModel, muscleModelProblems, type MuscleModel, type MuscleModelOptions } from '../model/muscle-model.ts';
+import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
+import type { RegionKey } from '../model/regions.ts';
 
-export async function run(_argv: string[], io: CommandIo): Promise<number> {
-  io.err('lengthwise curve: this command is being built and is not available in this version.');
-  return 2;
+const HELP = `usage: lengthwise curve [options]
+
+Prints the sarcomere force–length model: relative active force (0–1) and region at each sarcomere
+length. Without --sl, a table across the whole range plus the breakpoints, ready to plot (lines
+starting with # are comments; columns are tab-separated).
+
+options:
+  --species S            ${SPECIES.join(' | ')}  [default: ${DEFAULT_SPECIES}]
+  --filaments LIST       the muscle's own filament lengths, replacing the preset's one by one, e.g.
+                         thick=1.6,thin=1.27,bare_zone=0.17,z_disc=0.1 (µm); also steep_zero (µm)
+                         and steep_break_force (0–1)
+  --dispersion SD        SD (µm) of sarcomere lengths around the estimate (about 0.2 within a fibre);
+                         rounds the corners  [default: 0, off]
+  --shape S              ${CURVE_SHAPES.join(' | ')}: which curve gives the
+                         force; regions always come from the geometry  [default: ${DEFAULT_SHAPE}]
+  --sl LIST              sarcomere lengths (µm), comma-separated, e.g. 2.0,2.7,3.5
+  --step UM              spacing of the table without --sl  [default: 0.01]
+  --json                 a JSON array of {"sl_um", "force", "region"} instead of text
+  -h, --help             this text`;
+
+const FILAMENT_KEYS: Readonly<Record<string, keyof FilamentGeometry>> = {
+  thick: 'thickUm',
+  thin: 'thinUm',
+  bare_zone: 'bareZoneUm',
+  z_disc: 'zDiscUm',
+  steep_zero: 'steepZeroUm',
+  steep_break_force: 'steepBreakForce',
+};
+
+type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
+
+/** Reads `--filaments thick=1.6,thin=1.27,...`; the keys may also carry the calibration file's `_um` suffix. */
+export function parseFilaments(text: string): Parsed<Partial<FilamentGeometry>> {
+  const out: Partial<Record<keyof FilamentGeometry, number>> = {};
+  const accepted = `accepted keys: ${Object.keys(FILAMENT_KEYS).join(', ')} (µm, or 0–1 for steep_break_force), e.g. thick=1.6,thin=1.27`;
+  for (const part of text.split(',')) {
+    const item = part.trim();
+    if (item === '') continue;
+    const eq = item.indexOf('=');
+    const rawKey = (eq < 0 ? item : item.slice(0, eq)).trim();
+    const key = rawKey.endsWith('_um') ? rawKey.slice(0, -3) : rawKey;
+    const field = Object.hasOwn(FILAMENT_KEYS, key) ? FILAMENT_KEYS[key] : undefined;
+    if (field === undefined) return { ok: false, message: `--filaments: unknown key "${rawKey}"; ${accepted}` };
+    const valueText = eq < 0 ? '' : item.slice(eq + 1).trim();
+    const value = Number(valueText);
+    if (valueText === '' || !Number.isFinite(value)) {
+      return { ok: false, message: `--filaments: "${item}" needs a number after "="; ${accepted}` };
+    }
+    out[field] = value;
+  }
+  return { ok: true, value: out };
+}
+
+/** Reads `--sl 2.0,2.7,3.5`: positive finite lengths in µm. */
+export function parseSarcomereLengths(text: string): Parsed<number[]> {
+  const values: number[] = [];
+  for (const part of text.split(',')) {
+    const item = part.trim();
+    if (item === '') continue;
+    const value = Number(item);
+    if (!Number.isFinite(value) || value <= 0) {
+      return { ok: false, message: `--sl: "${item}" is not a sarcomere length; give positive numbers in µm, comma-separated, e.g. --sl 2.0,2.7,3.5` };
+    }
+    values.push(value);
+  }
+  if (values.length === 0) return { ok: false, message: '--sl: no lengths given; e.g. --sl 2.0,2.7,3.5' };
+  return { ok: true, value: values };
+}
+
+export interface CurvePoint {
+  readonly sl_um: number;
+  readonly force: number;
+  readonly region: RegionKey;
+}
+
+/** The model at each length. */
+export function curvePoints(model: MuscleModel, lengthsUm: readonly number[]): CurvePoint[] {
+  return lengthsUm.map((sl) => ({ sl_um: sl, force: model.forceAt(sl), region: model.regionAt(sl) }));
+}
+
+/** Lengths across the whole curve at `stepUm`, with every breakpoint included exactly. */
+export function rangeLengths(model: MuscleModel, stepUm: number): number[] {
+  const c = model.curve;
+  const margin = Math.max(0.2, 3 * model.dispersionSdUm);
+  // The grid sits on multiples of the step, so tables of different curves line up.
+  const first = Math.max(1, Math.floor((c.steepZeroUm - margin) / stepUm));
+  const last = Math.ceil((c.descendingZeroUm + margin) / stepUm);
+  const xs: number[] = [];
+  for (let i = first; i <= last; i++) xs.push(round(i * stepUm, 6));
+  for (const b of breakpoints(c)) xs.push(round(b.slUm, 6));
+  return [...new Set(xs)].sort((a, b) => a - b);
+}
+
+function round(x: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+}
+
+function describeModel(model: MuscleModel): string {
+  const dispersion = model.dispersionSdUm > 0 ? `sarcomere-length SD ${model.dispersionSdUm} µm` : 'no dispersion';
+  return `${model.species}, ${model.shape} force, ${dispersion}; plateau middle (L0) ${model.optimalUm.toFixed(3)} µm`;
+}
+
+function textTable(points: readonly CurvePoint[]): string[] {
+  return ['sl_um\tforce\tregion', ...points.map((p) => `${p.sl_um.toFixed(3)}\t${p.force.toFixed(4)}\t${p.region}`)];
+}
+
+export async function run(argv: string[], io: CommandIo): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: false,
+      options: {
+        species: { type: 'string', default: DEFAULT_SPECIES },
+        filaments: { type: 'string' },
+        dispersion: { type: 'string', default: '0' },
+        shape: { type: 'string', default: DEFAULT_SHAPE },
+        sl: { type: 'string', multiple: true },
+        step: { type: 'string', default: '0.01' },
+        json: { type: 'boolean', default: false },
+        help: { type: 'boolean', short: 'h', default: false },
+      },
+    });
+  } catch (error) {
+    io.err(`lengthwise curve: ${(error as Error).message}\n\n${HELP}`);
+    return 2;
+  }
+  const { values } = parsed;
+  if (values.help) {
+    io.out(HELP);
+    return 0;
+  }
+
+  const problems: string[] = [];
+  const species = values.species;
+  if (!isSpecies(species)) problems.push(`--species "${species}" is not known; accepted: ${SPECIES.join(', ')}`);
+  const shape = values.shape;
+  if (!isCurveShape(shape)) problems.push(`--shape "${shape}" is not known; accepted: ${CURVE_SHAPES.join(', ')}`);
+  const dispersionSdUm = Number(values.dispersion);
+  if (values.dispersion.trim() === '' || !Number.isFinite(dispersionSdUm)) {
+    problems.push(`--dispersion "${values.dispersion}" is not a number; give an SD in µm, e.g. --dispersion 0.2 (0 is off)`);
+  }
+  const stepUm = Number(values.step);
+  if (!(Number.isFinite(stepUm) && stepUm >= 0.0001 && stepUm <= 1)) {
+    problems.push(`--step "${values.step}" is not accepted; give a spacing from 0.0001 to 1 µm, e.g. --step 0.01`);
+  }
+  let filaments: Partial<FilamentGeometry> | undefined;
+  if (values.filaments !== undefined) {
+    const f = parseFilaments(values.filaments);
+    if (f.ok) filaments = f.value;
+    else problems.push(f.message);
+  }
+  let lengths: number[] | undefined;
+  if (values.sl !== undefined) {
+    const s = parseSarcomereLengths(values.sl.join(','));
+    if (s.ok) lengths = s.value;
+    else problems.push(s.message);
+  }
+  if (problems.length > 0 || !isSpecies(species) || !isCurveShape(shape)) {
+    io.err(problems.map((p) => `lengthwise curve: ${p}`).join('\n'));
+    return 2;
+  }
+
+  const options: MuscleModelOptions = { species, shape, dispersionSdUm, ...(filaments !== undefined ? { filaments } : {}) };
+  const modelProblems = muscleModelProblems(options);
+  if (modelProblems.length > 0) {
+    io.err(modelProblems.map((p) => `lengthwise curve: ${p}`).join('\n'));
+    return 2;
+  }
+  const model = makeMuscleModel(options);
+  const points = curvePoints(model, lengths ?? rangeLengths(model, stepUm));
+
+  if (values.json) {
+    io.out(JSON.stringify(points));
+    return 0;
+  }
+  const lines = [`# lengthwise curve: ${describeModel(model)}`];
+  if (lengths === undefined) {
+    lines.push('# breakpoint\tsl_um\tforce (geometric)');
+    for (const b of breakpoints(model.curve)) lines.push(`# ${b.name}\t${b.slUm.toFixed(3)}\t${b.force.toFixed(4)}`);
+  }
+  lines.push(...textTable(points));
+  io.out(lines.join('\n'));
+  return 0;
 }

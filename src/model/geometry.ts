@@ -54,12 +54,17 @@ export function curveFromGeometry(g: FilamentGeometry): ForceLengthCurve {
   return {
     geometry: g,
     steepZeroUm: g.steepZeroUm,
-    steepBreakUm: g.thickUm + g.zDiscUm,
-    plateauStartUm: thinSpanUm,
-    plateauEndUm: thinSpanUm + g.bareZoneUm,
-    descendingZeroUm: g.thickUm + thinSpanUm,
+    steepBreakUm: toPicometre(g.thickUm + g.zDiscUm),
+    plateauStartUm: toPicometre(thinSpanUm),
+    plateauEndUm: toPicometre(thinSpanUm + g.bareZoneUm),
+    descendingZeroUm: toPicometre(g.thickUm + thinSpanUm),
     steepBreakForce: g.steepBreakForce,
   };
+}
+
+/** Rounds a sum of lengths to 1e-6 µm, so 2.05 + 0.15 is 2.2 and a length typed as 2.2 lands on the breakpoint. */
+function toPicometre(um: number): number {
+  return Math.round(um * 1e6) / 1e6;
 }
 
 /** A preset with some of its values replaced (a muscle's own filament lengths, from a calibration). */

@@ -2,8 +2,8 @@
  * The whole screen: status, alerts, one panel per muscle, the footer; keys for quit, freeze, marker,
  * calibration, focus, help and replay speed. It reads the trial's state and never drives the pipeline.
  */
-import { Box, Text, useApp, useInput } from 'ink';
-import { useMemo, useState } from 'react';
+import { Box, Text, useApp, useInput, type Key } from 'ink';
+import { useCallback, useMemo, useRef, useState } from 'react';
 import type { Observable, SchedulerLike } from 'rxjs';
 import type { TrialState } from '../state.ts';
 import AlertList from './alert-list.tsx';
@@ -86,7 +86,7 @@ export default function Dashboard(props: Props) {
   });
   const say = (text: string): void => setFlash({ text, untilMs: view.wallMs + FLASH_MS });
 
-  useInput((input, key) => {
+  const onKey = (input: string, key: Key): void => {
     if (mode.kind === 'calibrate') {
       if (key.escape) {
         setMode({ kind: 'normal' });
@@ -142,7 +142,12 @@ export default function Dashboard(props: Props) {
     } else if ((input === '-' || input === '_') && onSpeed !== undefined) {
       onSpeed(-1);
     }
-  });
+  };
+  // Ink registers the handler in a passive effect; reading the newest one through a ref means a key
+  // pressed right after a frame never acts on the state of the frame before.
+  const onKeyRef = useRef(onKey);
+  onKeyRef.current = onKey;
+  useInput(useCallback((input: string, key: Key) => onKeyRef.current(input, key), []));
 
   const alertRows = Math.min(alerts.length, MAX_ALERT_ROWS);
   const promptRows = mode.kind === 'calibrate' ? 2 : 0;

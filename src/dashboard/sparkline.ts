@@ -11,7 +11,8 @@ export interface Sparkline {
 
 /** The newest `widthCols` finite values, oldest on the left; a flat window draws at mid height. */
 export function sparkline(values: readonly number[], widthCols: number): Sparkline {
-  const shown = values.filter(Number.isFinite).slice(-Math.max(0, Math.floor(widthCols)));
+  const width = Math.floor(widthCols);
+  const shown = width > 0 ? values.filter(Number.isFinite).slice(-width) : [];
   if (shown.length === 0) return { text: '', min: Number.NaN, max: Number.NaN };
   const min = Math.min(...shown);
   const max = Math.max(...shown);

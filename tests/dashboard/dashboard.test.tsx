@@ -4,8 +4,10 @@ import { BehaviorSubject, Subject, VirtualTimeScheduler } from 'rxjs';
 import Dashboard, { type Props } from '../../src/dashboard/dashboard.tsx';
 import type { TrialState } from '../../src/state.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
-import { pushSample, walkingState } from './fixtures.ts';
-import { COLOUR_SGR, frameWhere, plain, renderScreen, tick, type Screen } from './terminal-double.ts';
+import { startDashboard } from '../../src/dashboard/start-dashboard.tsx';
+import { MARKER_IN_BAND } from '../../src/dashboard/curve-drawing.ts';
+import { completeStride, makeMuscle, makeTrialState, pushSample, walkingState } from './fixtures.ts';
+import { COLOUR_SGR, frameWhere, KEY, KeysIn, plain, renderScreen, ScreenOut, tick, type Screen } from './terminal-double.ts';
 
 const screens: Screen[] = [];
 afterEach(() => {
@@ -81,7 +83,11 @@ describe('Dashboard', () => {
     }
     await advance(100);
     expect(plain(screen.lastFrame())).toContain('SL 2.91 µm');
-    expect(screen.out.frames.length - framesBefore).toBeLessThanOrEqual(3);
+    // Twenty batches inside one frame interval are shown once: no frame shows a length between.
+    const shown = new Set(
+      screen.out.frames.slice(framesBefore).flatMap((f) => [...plain(f).matchAll(/calf[^]*?SL (\d\.\d\d) µm/g)].map((m) => m[1])),
+    );
+    expect([...shown].filter((sl) => sl !== '2.71' && sl !== '2.91')).toEqual([]);
   });
 
   it('follows a resize, side by side when wide and stacked when narrow', async () => {
@@ -96,5 +102,242 @@ describe('Dashboard', () => {
       const row = lines.findIndex((l) => l.includes('calf'));
       return row >= 0 && !(lines[row] ?? '').includes('thigh') && lines.some((l) => l.includes('thigh'));
     }, 'with the panels stacked');
+  });
+
+  it('moves the marker along the curve when the sarcomere length changes', async () => {
+    const state = makeTrialState([makeMuscle('calf')]);
+    pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.2 });
+    const state$ = new BehaviorSubject(state);
+    const { screen, advance } = show(state$);
+    await advance(300);
+    const markerCol = (): number => {
+      const line = plain(screen.lastFrame()).split('\n').find((l) => l.includes(MARKER_IN_BAND)) ?? '';
+      return [...line].indexOf(MARKER_IN_BAND);
+    };
+    const before = markerCol();
+    expect(before).toBeGreaterThan(0);
+    pushSample(state, 'calf', { tS: 1.1, sarcomereUm: 3.2 });
+    state$.next(state);
+    await advance(300);
+    expect(markerCol()).toBeGreaterThan(before);
+  });
+
+  it('lists the last strides, newest first, with their SL range, main region and share', async () => {
+    const state = makeTrialState([makeMuscle('calf')]);
+    completeStride(state, 'calf', { slMinUm: 2.31, slMaxUm: 2.88, regionFraction: { plateau: 0.7, descending: 0.3 } });
+    completeStride(state, 'calf', { slMinUm: 2.45, slMaxUm: 3.12, regionFraction: { plateau: 0.35, descending: 0.65 } });
+    pushSample(state, 'calf', { tS: 3, sarcomereUm: 2.7 });
+    const { screen, advance } = show(new BehaviorSubject(state), {}, 80, 30);
+    await advance(300);
+    const lines = plain(screen.lastFrame()).split('\n');
+    const second = lines.findIndex((l) => /\b2 2\.45–3\.12 descending\s+65%/.test(l));
+    const first = lines.findIndex((l) => /\b1 2\.31–2\.88 plateau\s+70%/.test(l));
+    expect(second).toBeGreaterThan(0);
+    expect(first).toBe(second + 1);
+  });
+
+  it('raises an alert when a muscle stops while another flows, and clears it when samples return', async () => {
+    const state = walkingState();
+    const state$ = new BehaviorSubject(state);
+    const { screen, advance } = show(state$);
+    await advance(300);
+    expect(plain(screen.lastFrame())).not.toContain('no samples');
+    for (let i = 1; i <= 15; i++) {
+      pushSample(state, 'thigh', { tS: 5 + i / 10, sarcomereUm: 3 });
+      state$.next(state);
+      await advance(100);
+    }
+    expect(plain(screen.lastFrame())).toContain('calf: no samples for');
+    pushSample(state, 'calf', { tS: 6.6, sarcomereUm: 2.7 });
+    state$.next(state);
+    await advance(100);
+    expect(plain(screen.lastFrame())).not.toContain('no samples');
+  });
+
+  it('shouts UNCALIBRATED when the trial runs on the baseline assumption', async () => {
+    const state = makeTrialState([makeMuscle('calf', { calibrationSource: 'baseline' })]);
+    pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.7 });
+    const { screen, advance } = show(new BehaviorSubject(state), { onCalibrate: () => undefined });
+    await advance(300);
+    const text = plain(screen.lastFrame());
+    expect(text).toContain(' UNCALIBRATED ');
+    expect(text).toContain("! UNCALIBRATED — lengths assume each muscle's first 3 s");
+    expect(text).toContain('uncalibrated: baseline');
+  });
+
+  it('shows a disconnection from the status stream, and the replay progress and speed', async () => {
+    const status$ = new BehaviorSubject<DashboardStatus>({ connection: { state: 'reconnecting', retryInS: 4 }, logPath: 'sessions/walk.log' });
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { status$ });
+    await advance(300);
+    expect(plain(screen.lastFrame())).toContain('DISCONNECTED — reconnecting in 4 s');
+    expect(plain(screen.lastFrame())).toContain('log sessions/walk.log');
+    status$.next({ connection: { state: 'connected' }, replay: { progress: 0.5, speed: 4 } });
+    await advance(300);
+    const text = plain(screen.lastFrame());
+    expect(text).not.toContain('DISCONNECTED');
+    expect(text).toContain('50%');
+    expect(text).toContain('4×');
+  });
+
+  it('quits on q: calls onQuit and unmounts', async () => {
+    let quits = 0;
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onQuit: () => (quits += 1) });
+    await advance(100);
+    const exited = screen.instance.waitUntilExit();
+    await screen.press('q');
+    await exited;
+    expect(quits).toBe(1);
+  });
+
+  it('freezes the display on space while the state goes on, and resumes on space', async () => {
+    const state = walkingState();
+    const state$ = new BehaviorSubject(state);
+    const { screen, advance } = show(state$);
+    await advance(100);
+    await screen.press(' ');
+    await advance(100);
+    expect(plain(screen.lastFrame())).toContain('FROZEN');
+    pushSample(state, 'calf', { tS: 6, sarcomereUm: 3.01 });
+    state$.next(state);
+    await advance(500);
+    expect(plain(screen.lastFrame())).toContain('SL 2.71 µm');
+    await screen.press(' ');
+    await advance(100);
+    expect(plain(screen.lastFrame())).toContain('SL 3.01 µm');
+    expect(plain(screen.lastFrame())).not.toContain('FROZEN');
+  });
+
+  it('drops a timestamped marker on m', async () => {
+    const markers: string[] = [];
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), {
+      onMarker: (text) => markers.push(text),
+      now: () => new Date(2026, 0, 1, 14, 3, 9),
+    });
+    await advance(100);
+    await screen.press('m', 'm');
+    expect(markers).toEqual(['marker 1 at trial time 0:05.0 (14:03:09)', 'marker 2 at trial time 0:05.0 (14:03:09)']);
+    await advance(100);
+    expect(plain(screen.lastFrame())).toContain('marker 2 dropped');
+  });
+
+  it('asks the sarcomere length on c and calibrates the focused muscle, 2.7 µm by default', async () => {
+    const calls: [string, number][] = [];
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]) });
+    await advance(100);
+    await screen.press('c');
+    expect(plain(screen.lastFrame())).toContain('calibrate calf from its last 3 s');
+    await screen.press(KEY.enter);
+    expect(calls).toEqual([['calf', 2.7]]);
+    await screen.press(KEY.tab, 'c', '2', ',', '6', '5', KEY.enter);
+    expect(calls).toEqual([['calf', 2.7], ['thigh', 2.65]]);
+  });
+
+  it('refuses a calibration length outside the plausible range, says what is accepted, and cancels on Esc', async () => {
+    const calls: [string, number][] = [];
+    let quits = 0;
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]), onQuit: () => (quits += 1) });
+    await advance(100);
+    await screen.press('c', '9', KEY.enter);
+    expect(plain(screen.lastFrame())).toContain('"9" is not a usable sarcomere length: type a number of µm from 1.5 to 4.5');
+    await screen.press('q');
+    expect(quits).toBe(0);
+    await screen.press(KEY.escape);
+    await advance(100);
+    expect(plain(screen.lastFrame())).not.toContain('calibrate calf from');
+    expect(calls).toEqual([]);
+  });
+
+  it('changes the replay speed on + and -, only when the command offers it', async () => {
+    const speeds: number[] = [];
+    const offered = show(new BehaviorSubject(walkingState()), { onSpeed: (d) => speeds.push(d) });
+    await offered.advance(100);
+    await offered.screen.press('+', '=', '-');
+    expect(speeds).toEqual([1, 1, -1]);
+    expect(plain(offered.screen.lastFrame())).toContain('+ - speed');
+    const plainReplay = show(new BehaviorSubject(walkingState()));
+    await plainReplay.advance(100);
+    expect(plain(plainReplay.screen.lastFrame())).not.toContain('speed');
+  });
+
+  it('moves the focus with tab and the arrows', async () => {
+    const { screen, advance } = show(new BehaviorSubject(walkingState()));
+    await advance(100);
+    expect(plain(screen.lastFrame())).toContain('▸ calf');
+    await screen.press(KEY.tab);
+    expect(plain(screen.lastFrame())).toContain('▸ thigh');
+    await screen.press(KEY.right);
+    expect(plain(screen.lastFrame())).toContain('▸ calf');
+    await screen.press(KEY.left);
+    expect(plain(screen.lastFrame())).toContain('▸ thigh');
+  });
+
+  it('opens and closes the help on ?', async () => {
+    const { screen, advance } = show(new BehaviorSubject(walkingState()));
+    await advance(100);
+    await screen.press('?');
+    expect(plain(screen.lastFrame())).toContain('reading a panel');
+    await screen.press('?');
+    expect(plain(screen.lastFrame())).not.toContain('reading a panel');
+  });
+});
+
+describe('startDashboard', () => {
+  function terminal() {
+    return { out: new ScreenOut(80, 24), keys: new KeysIn() };
+  }
+
+  it('renders without any colour code when NO_COLOR is set', async () => {
+    const { out, keys } = terminal();
+    const dashboard = startDashboard({
+      state$: new BehaviorSubject(walkingState()),
+      title: 'lengthwise',
+      stdout: out as unknown as NodeJS.WriteStream,
+      stdin: keys as unknown as NodeJS.ReadStream,
+      env: { NO_COLOR: '1' },
+      onQuit: () => undefined,
+      frameMs: 10,
+    });
+    await tick(150);
+    dashboard.unmount();
+    await dashboard.waitUntilExit();
+    const all = out.frames.join('');
+    expect(plain(all)).toContain('SL 2.71 µm');
+    expect(all).not.toMatch(COLOUR_SGR);
+  });
+
+  it('uses colour when NO_COLOR is empty or absent', async () => {
+    const { out, keys } = terminal();
+    const dashboard = startDashboard({
+      state$: new BehaviorSubject(walkingState()),
+      title: 'lengthwise',
+      stdout: out as unknown as NodeJS.WriteStream,
+      stdin: keys as unknown as NodeJS.ReadStream,
+      env: { NO_COLOR: '' },
+      onQuit: () => undefined,
+      frameMs: 10,
+    });
+    await tick(150);
+    dashboard.unmount();
+    await dashboard.waitUntilExit();
+    expect(out.frames.join('')).toMatch(COLOUR_SGR);
+  });
+
+  it('calls onQuit on q and resolves waitUntilExit, unsubscribing from the state', async () => {
+    const { out, keys } = terminal();
+    const state$ = new BehaviorSubject(walkingState());
+    let quits = 0;
+    const dashboard = startDashboard({
+      state$,
+      title: 'lengthwise',
+      stdout: out as unknown as NodeJS.WriteStream,
+      stdin: keys as unknown as NodeJS.ReadStream,
+      env: {},
+      onQuit: () => (quits += 1),
+    });
+    await tick(50);
+    keys.write('q');
+    await dashboard.waitUntilExit();
+    expect(quits).toBe(1);
+    expect(state$.observed).toBe(false);
   });
 });

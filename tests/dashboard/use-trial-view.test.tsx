@@ -1,0 +1,144 @@
+import { afterEach, describe, expect, it } from 'vitest';
+import { Text } from 'ink';
+import { Subject, VirtualTimeScheduler, type Observable } from 'rxjs';
+import { useTrialView } from '../../src/dashboard/use-trial-view.ts';
+import { useStatus } from '../../src/dashboard/use-status.ts';
+import type { DashboardStatus } from '../../src/dashboard/status.ts';
+import type { TrialState } from '../../src/state.ts';
+import { pushSample, walkingState } from './fixtures.ts';
+import { renderScreen, tick, type Screen } from './terminal-double.ts';
+
+function Probe({ state$, scheduler, frozen = false }: { readonly state$: Observable<TrialState>; readonly scheduler: VirtualTimeScheduler; readonly frozen?: boolean }) {
+  const view = useTrialView(state$, { scheduler, frameMs: 80, tickMs: 250, frozen });
+  const calf = view.muscles[0]?.latest?.sarcomereUm;
+  return <Text>{`muscles=${view.muscles.length} calf=${calf ?? 'none'} error=${view.error ?? 'none'}`}</Text>;
+}
+
+function StatusProbe({ status$, scheduler }: { readonly status$: Observable<DashboardStatus>; readonly scheduler: VirtualTimeScheduler }) {
+  const status = useStatus(status$, scheduler, 80);
+  return <Text>{`log=${status.logPath ?? 'none'} conn=${status.connection?.state ?? 'none'}`}</Text>;
+}
+
+const screens: Screen[] = [];
+afterEach(() => {
+  for (const s of screens.splice(0)) s.instance.unmount();
+});
+
+function setup() {
+  const scheduler = new VirtualTimeScheduler(undefined, 0);
+  const advance = async (ms: number) => {
+    scheduler.maxFrames = scheduler.frame + ms;
+    scheduler.flush();
+    await tick(5);
+  };
+  return { scheduler, advance };
+}
+
+describe('useTrialView', () => {
+  it('shows nothing from a source that never emits', async () => {
+    const { scheduler, advance } = setup();
+    const screen = renderScreen(<Probe state$={new Subject<TrialState>()} scheduler={scheduler} />);
+    screens.push(screen);
+    await advance(1000);
+    expect(screen.lastFrame()).toContain('muscles=0');
+  });
+
+  it('shows the one state emitted, one frame later', async () => {
+    const { scheduler, advance } = setup();
+    const state$ = new Subject<TrialState>();
+    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    screens.push(screen);
+    state$.next(walkingState());
+    expect(screen.lastFrame()).toContain('muscles=0');
+    await advance(80);
+    expect(screen.lastFrame()).toContain('calf=2.71');
+  });
+
+  it('shows the newest of many emissions of the same mutated object', async () => {
+    const { scheduler, advance } = setup();
+    const state$ = new Subject<TrialState>();
+    const state = walkingState();
+    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    screens.push(screen);
+    for (let i = 0; i < 50; i++) {
+      pushSample(state, 'calf', { tS: 6 + i / 100, sarcomereUm: 2 + i / 100 });
+      state$.next(state);
+    }
+    await advance(80);
+    expect(screen.lastFrame()).toContain('calf=2.49');
+  });
+
+  it('keeps the last state and says why when the source errors', async () => {
+    const { scheduler, advance } = setup();
+    const state$ = new Subject<TrialState>();
+    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    screens.push(screen);
+    state$.next(walkingState());
+    state$.error(new Error('trial file vanished'));
+    await advance(300);
+    expect(screen.lastFrame()).toContain('calf=2.71');
+    expect(screen.lastFrame()).toContain('error=trial file vanished');
+  });
+
+  it('unsubscribes from the source and stops its timers on unmount', async () => {
+    const { scheduler, advance } = setup();
+    const state$ = new Subject<TrialState>();
+    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    state$.next(walkingState());
+    await advance(40);
+    expect(state$.observed).toBe(true);
+    expect(scheduler.actions.length).toBeGreaterThan(0);
+    screen.instance.unmount();
+    await tick(5);
+    expect(state$.observed).toBe(false);
+    expect(scheduler.actions.filter((a) => !a.closed)).toHaveLength(0);
+  });
+
+  it('unsubscribes when unmounted before anything arrived', async () => {
+    const { scheduler } = setup();
+    const state$ = new Subject<TrialState>();
+    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    screen.instance.unmount();
+    await tick(5);
+    expect(state$.observed).toBe(false);
+  });
+
+  it('holds the shown view while frozen and catches up when released', async () => {
+    const { scheduler, advance } = setup();
+    const state$ = new Subject<TrialState>();
+    const state = walkingState();
+    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} frozen={false} />);
+    screens.push(screen);
+    state$.next(state);
+    await advance(100);
+    screen.instance.rerender(<Probe state$={state$} scheduler={scheduler} frozen />);
+    pushSample(state, 'calf', { tS: 7, sarcomereUm: 3.33 });
+    state$.next(state);
+    await advance(1000);
+    expect(screen.lastFrame()).toContain('calf=2.71');
+    expect(state$.observed).toBe(true);
+    screen.instance.rerender(<Probe state$={state$} scheduler={scheduler} frozen={false} />);
+    await tick(5);
+    expect(screen.lastFrame()).toContain('calf=3.33');
+  });
+});
+
+describe('useStatus', () => {
+  it('merges the fields of each emission into the status so far and unsubscribes on unmount', async () => {
+    const { scheduler, advance } = setup();
+    const status$ = new Subject<DashboardStatus>();
+    const screen = renderScreen(<StatusProbe status$={status$} scheduler={scheduler} />);
+    await advance(100);
+    expect(screen.lastFrame()).toContain('log=none conn=none');
+    status$.next({ logPath: 'sessions/a.log' });
+    status$.next({ connection: { state: 'connected' } });
+    await advance(100);
+    expect(screen.lastFrame()).toContain('log=sessions/a.log conn=connected');
+    status$.next({ connection: undefined });
+    await advance(100);
+    expect(screen.lastFrame()).toContain('log=sessions/a.log conn=none');
+    screen.instance.unmount();
+    await tick(5);
+    expect(status$.observed).toBe(false);
+  });
+});

@@ -1,7 +1,7 @@
 /**
  * Sarcomere non-uniformity: the sarcomeres of a fibre do not all share the estimated length. If their
- * lengths spread normally around the estimate with SD σ (about 0.2 µm within a fibre; Cromie, Sanchez,
- * Forbes & Harvey 2013, J Physiol 591:5213–5226 — figure from memory), the expected force is the
+ * lengths spread normally around the estimate with SD σ (0.20 µm for sarcomeres in series within single
+ * fibres of a human forearm muscle: Cromie, Sanchez, Schnitzer & Delp 2013, Muscle Nerve 48:286–292), the expected force is the
  * curve convolved with that normal density. Computed once into a lookup table at model creation, so the
  * per-sample cost is one interpolation.
  */

@@ -8,9 +8,10 @@ export const DEFAULT_HILL_K = 0.25;
 /** Maximum shortening velocity in optimal lengths per second (Thelen 2003, J Biomech Eng 125:70–77: 10 L0/s for young adults). */
 export const DEFAULT_VMAX_L0_PER_S = 10;
 /**
- * Force plateau of the lengthening branch, × F0: 1.5 (van Soest & Bobbert 1993, J Biomech 26:1–8 — from
- * memory; isolated-fibre values run 1.5–1.8, Katz 1939). In vivo, voluntary human lengthening force rises
- * far less above isometric (Westing, Seger & Thorstensson 1990, Acta Physiol Scand 140:17–22 — from memory).
+ * Force plateau of the lengthening branch, × F0: 1.5, the eccentric enhancement of Geyer & Herr 2010
+ * (IEEE Trans Neural Syst Rehabil Eng 18:263–273 — from memory; isolated muscle gives 1.5–1.8, Katz 1939).
+ * In vivo, voluntary human lengthening force rises far less above isometric (Westing, Seger &
+ * Thorstensson 1990, Acta Physiol Scand 140:17–22 — from memory): pass a smaller plateau for such use.
  */
 export const DEFAULT_LENGTHENING_PLATEAU = 1.5;
 /**

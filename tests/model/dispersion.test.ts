@@ -81,7 +81,7 @@ describe('dispersed geometric force', () => {
     );
   });
 
-  it('with 0.2 µm SD (about the within-fibre spread, Cromie et al. 2013, J Physiol 591:5213–5226 — from memory) rounds the human plateau below 1', () => {
+  it('with 0.2 µm SD (about the within-fibre spread, Cromie, Sanchez, Schnitzer & Delp 2013, Muscle Nerve 48:286–292) rounds the human plateau below 1', () => {
     const model = makeMuscleModel({ dispersionSdUm: 0.2 });
     const peak = model.forceAt(model.optimalUm);
     expect(peak).toBeLessThan(1);

@@ -43,7 +43,7 @@ describe('forceVelocityFactor: shortening (Hill 1938, Proc R Soc Lond B 126:136�
 });
 
 describe('forceVelocityFactor: lengthening', () => {
-  it('rises monotonically towards a plateau of 1.5 F0 (van Soest & Bobbert 1993, J Biomech 26:1–8 — from memory)', () => {
+  it('rises monotonically towards a plateau of 1.5 F0 (Geyer & Herr 2010, IEEE Trans Neural Syst Rehabil Eng 18:263–273 — from memory)', () => {
     expect(DEFAULT_LENGTHENING_PLATEAU).toBe(1.5);
     expect(forceVelocityFactor(100)).toBeGreaterThan(1.49);
     expect(forceVelocityFactor(100)).toBeLessThan(1.5);

@@ -1,6 +1,205 @@
+/**
+ * `lengthwise simulate`: a simulated device, to try live mode with no hardware. Serves (--listen) or
+ * pushes (--connect) the synthetic gait stream of src/sim/ in real time, optionally with faults.
+ */
+import { parseArgs } from 'node:util';
 import type { CommandIo } from './io.ts';
+import { SCENARIOS, type Scenario } from '../sim/gait-generator.ts';
+import {
+  pushSimulator,
+  SimulatorError,
+  startSimulator,
+  type RunningSimulator,
+  type SimulatorOptions,
+  type SimulatorStats,
+} from '../sim/simulator.ts';
 
-export async function run(_argv: string[], io: CommandIo): Promise<number> {
-  io.err('lengthwise simulate: this command is being built and is not available in this version.');
-  return 2;
+const USAGE = `usage: lengthwise simulate --listen [HOST:]PORT | --connect URL [options]
+
+Sends a synthetic gait stream (lengthwise-stream version 1, one JSON array of records per 40 ms) in real
+time, as a device would. Everything it sends is invented by the generator; nothing is recorded data.
+
+  --listen [HOST:]PORT   serve the stream on a WebSocket (host 127.0.0.1 unless given; port 0 picks a free one);
+                         every client that connects gets the header, then the stream from that moment
+  --connect URL          push the stream to a WebSocket server (ws://… or wss://…), e.g. one started by
+                         \`lengthwise live --listen PORT\`; reconnects whenever the connection ends
+  --scenario walk|run    treadmill walking (stride 1.1 s) or running (stride 0.72 s)   [default: walk]
+  --rate HZ              samples per second per muscle, 1–2000                        [default: 100]
+  --muscles A,B          muscle names; the first gets a calf-like trajectory, the second a thigh-like one
+                                                                                      [default: calf,thigh]
+  --faults               also send malformed messages, drop connections, restart the device (header again,
+                         clock jumps ahead), jump the clock, stall then burst, and lose tracking now and then;
+                         one line on stderr per fault
+  --duration S           stop after S seconds                         [default: until Ctrl-C or SIGTERM]
+  --seed N               seed of the generator (same seed, same stream)              [default: 1]
+  -h, --help             this help
+
+examples:
+  lengthwise simulate --listen 8765
+  lengthwise simulate --connect ws://127.0.0.1:8765 --scenario run --faults --duration 60`;
+
+export interface ListenAddress {
+  readonly host: string;
+  readonly port: number;
+}
+
+/** "[HOST:]PORT" → host and port, or a problem saying what is accepted. */
+export function parseListen(text: string): ListenAddress | string {
+  const m = /^(?:\[([^\]]+)\]:|([^:[\]]+):)?(\d{1,5})$/.exec(text.trim());
+  const port = m === null ? Number.NaN : Number(m[3]);
+  if (m === null || !(port >= 0 && port <= 65535)) {
+    return `--listen "${text}": give PORT or HOST:PORT with a port 0–65535, e.g. --listen 8765 or --listen 0.0.0.0:8765`;
+  }
+  return { host: m[1] ?? m[2] ?? '127.0.0.1', port };
+}
+
+type Parsed =
+  | { readonly ok: true; readonly help: true }
+  | {
+      readonly ok: true;
+      readonly help: false;
+      readonly listen: ListenAddress | null;
+      readonly connect: string | null;
+      readonly sim: SimulatorOptions;
+    }
+  | { readonly ok: false; readonly problems: readonly string[] };
+
+function numberOption(
+  raw: string | undefined,
+  name: string,
+  accepted: string,
+  valid: (n: number) => boolean,
+  problems: string[],
+): number | undefined {
+  if (raw === undefined) return undefined;
+  const n = Number(raw);
+  if (raw.trim() === '' || !Number.isFinite(n) || !valid(n)) {
+    problems.push(`--${name} "${raw}": give ${accepted}`);
+    return undefined;
+  }
+  return n;
+}
+
+export function parseSimulateArgs(argv: readonly string[]): Parsed {
+  let values;
+  try {
+    ({ values } = parseArgs({
+      args: [...argv],
+      strict: true,
+      allowPositionals: false,
+      options: {
+        listen: { type: 'string' },
+        connect: { type: 'string' },
+        scenario: { type: 'string' },
+        rate: { type: 'string' },
+        muscles: { type: 'string' },
+        faults: { type: 'boolean' },
+        duration: { type: 'string' },
+        seed: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      },
+    }));
+  } catch (error) {
+    return { ok: false, problems: [`${(error as Error).message}; see lengthwise simulate --help for the options`] };
+  }
+  if (values.help === true) return { ok: true, help: true };
+  const problems: string[] = [];
+  let listen: ListenAddress | null = null;
+  if (values.listen !== undefined) {
+    const l = parseListen(values.listen);
+    if (typeof l === 'string') problems.push(l);
+    else listen = l;
+  }
+  const connect = values.connect ?? null;
+  if (connect !== null && !/^wss?:\/\/[^/\s]+/.test(connect)) {
+    problems.push(`--connect "${connect}": give a ws:// or wss:// address, e.g. --connect ws://127.0.0.1:8765`);
+  }
+  if ((values.listen === undefined) === (connect === null)) {
+    problems.push('give exactly one of --listen [HOST:]PORT (serve the stream) or --connect URL (push it to a server)');
+  }
+  let scenario: Scenario | undefined;
+  if (values.scenario !== undefined) {
+    if ((SCENARIOS as readonly string[]).includes(values.scenario)) scenario = values.scenario as Scenario;
+    else problems.push(`--scenario "${values.scenario}": give one of ${SCENARIOS.join(', ')}`);
+  }
+  const rateHz = numberOption(values.rate, 'rate', 'samples per second, 1–2000', (n) => n >= 1 && n <= 2000, problems);
+  const durationS = numberOption(values.duration, 'duration', 'seconds above 0, e.g. --duration 30', (n) => n > 0, problems);
+  const seed = numberOption(values.seed, 'seed', 'a whole number, e.g. --seed 7', (n) => Number.isInteger(n), problems);
+  let muscles: string[] | undefined;
+  if (values.muscles !== undefined) {
+    muscles = values.muscles.split(',').map((m) => m.trim());
+    if (muscles.some((m) => m.length === 0)) problems.push(`--muscles "${values.muscles}": give names separated by commas, e.g. --muscles calf,thigh`);
+    else if (new Set(muscles).size !== muscles.length) problems.push(`--muscles "${values.muscles}": give each muscle once`);
+    else if (muscles.length > 16) problems.push(`--muscles: give at most 16 muscles (got ${muscles.length})`);
+  }
+  if (problems.length > 0) return { ok: false, problems };
+  const sim: SimulatorOptions = {
+    ...(scenario === undefined ? {} : { scenario }),
+    ...(rateHz === undefined ? {} : { rateHz }),
+    ...(durationS === undefined ? {} : { durationS }),
+    ...(seed === undefined ? {} : { seed }),
+    ...(muscles === undefined ? {} : { muscles }),
+    faults: values.faults === true,
+  };
+  return { ok: true, help: false, listen, connect, sim };
+}
+
+function summaryLine(s: Readonly<SimulatorStats>): string {
+  const bad = Object.values(s.badSent).reduce((a, b) => a + (b ?? 0), 0);
+  const faults = Object.entries(s.faults).map(([k, n]) => `${k} ×${n}`);
+  return (
+    `simulate: sent ${s.samplesSent} samples, ${s.eventsSent} gait events, ${s.markersSent} markers, ` +
+    `${s.headersSent} headers and ${bad} malformed messages in ${s.messagesSent} messages over ${s.connections} connection` +
+    `${s.connections === 1 ? '' : 's'}` +
+    (faults.length > 0 ? `; faults: ${faults.join(', ')}` : '') +
+    (s.samplesDropped > 0 ? `; ${s.samplesDropped} samples dropped for a slow receiver` : '')
+  );
+}
+
+export async function run(argv: string[], io: CommandIo): Promise<number> {
+  const parsed = parseSimulateArgs(argv);
+  if (!parsed.ok) {
+    io.err(parsed.problems.map((p) => `lengthwise simulate: ${p}`).join('\n'));
+    return 2;
+  }
+  if (parsed.help) {
+    io.out(USAGE);
+    return 0;
+  }
+  const log = (line: string): void => io.err(line);
+  let sim: RunningSimulator;
+  try {
+    sim =
+      parsed.listen !== null
+        ? await startSimulator({ ...parsed.sim, host: parsed.listen.host, port: parsed.listen.port, log })
+        : await pushSimulator({ ...parsed.sim, url: parsed.connect as string, log });
+  } catch (error) {
+    if (error instanceof SimulatorError) {
+      io.err(`lengthwise simulate: ${error.message}`);
+      return 1;
+    }
+    throw error;
+  }
+  const what = `${parsed.sim.scenario ?? 'walk'} stream (${(parsed.sim.muscles ?? ['calf', 'thigh']).join(', ')} at ${parsed.sim.rateHz ?? 100} Hz${parsed.sim.faults === true ? ', with faults' : ''})`;
+  io.out(parsed.listen !== null ? `serving a synthetic ${what} on ${sim.url}` : `pushing a synthetic ${what} to ${sim.url}`);
+  if (parsed.sim.durationS === undefined) io.err('simulate: Ctrl-C stops it');
+
+  const onSignal = (signal: NodeJS.Signals): void => {
+    io.err(`simulate: ${signal} received, closing connections`);
+    void sim.stop();
+  };
+  process.once('SIGINT', onSignal);
+  process.once('SIGTERM', onSignal);
+  try {
+    await sim.done;
+  } finally {
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
+  }
+  io.err(summaryLine(sim.stats));
+  if (parsed.connect !== null && sim.stats.connections === 0) {
+    io.err(`lengthwise simulate: never connected to ${sim.url}; check that a server listens there (e.g. lengthwise live --listen PORT)`);
+    return 1;
+  }
+  return 0;
 }

@@ -13,7 +13,7 @@ import type { Frame } from '../../src/records.ts';
 import { DEMO_FILES, demoRunSpec, demoWalkSpec } from '../../src/sim/demo-trials.ts';
 import { createTrial } from '../../src/sim/gait-generator.ts';
 import { CSV_HEADER_ROW } from '../../src/sim/writers.ts';
-import { ORDER_REASONS } from '../../src/sim/bad-lines.ts';
+import { orderPerMuscle } from '../../src/pipeline/order-per-muscle.ts';
 import { createClassifier, type LineKind } from '../sim/stream-check.ts';
 
 const run = promisify(execFile);
@@ -143,7 +143,7 @@ describe('make-replays', () => {
     expect(demoWalkSpec().longLineChars).toBeGreaterThan(MAX_MESSAGE_CHARS);
   });
 
-  it('is read by the tool\'s file reader with exactly the intended rejections (ordering is checked later, per muscle)', async () => {
+  it('is read by the tool\'s file reader and per-muscle ordering with exactly the intended rejections', async () => {
     const cases = [
       { name: DEMO_FILES.walkNdjson, reasons: demoWalkSpec().badLines.map((b) => b.reason) },
       {
@@ -154,10 +154,13 @@ describe('make-replays', () => {
     ];
     for (const c of cases) {
       const frames = await lastValueFrom(
-        fileSource(join(REPLAYS, c.name)).pipe(reduce((all: Frame[], batch) => (all.push(...batch), all), [])),
+        fileSource(join(REPLAYS, c.name)).pipe(
+          orderPerMuscle(),
+          reduce((all: Frame[], batch) => (all.push(...batch), all), []),
+        ),
       );
       const rejected = frames.flatMap((f) => (f.kind === 'rejection' ? [f.reason] : []));
-      expect(rejected, c.name).toEqual(c.reasons.filter((r) => !ORDER_REASONS.includes(r)));
+      expect(rejected, c.name).toEqual(c.reasons);
     }
   });
 });

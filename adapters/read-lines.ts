@@ -17,6 +17,11 @@ export interface ReadLinesOptions {
   readonly batchLines?: number;
   /** Bytes read from the file at a time. @default 262144 (256 KiB) */
   readonly chunkBytes?: number;
+  /**
+   * While it last gave true, reading stops (the chunk in hand is still delivered): lets a slower
+   * consumer, such as a paced replay, keep a large file from being read into memory ahead of time.
+   */
+  readonly pause$?: Observable<boolean>;
 }
 
 /** Consecutive non-blank lines of a file, as parallel arrays (one entry per line). */
@@ -222,7 +227,13 @@ export function readLines(path: string, options: ReadLinesOptions = {}): Observa
       subscriber.error(new LineReadError(path, error.code ?? 'EUNKNOWN', error));
     });
 
+    const pauseSubscription = options.pause$?.subscribe((paused) => {
+      if (paused) stream.pause();
+      else stream.resume();
+    });
+
     return () => {
+      pauseSubscription?.unsubscribe();
       stream.destroy();
     };
   });

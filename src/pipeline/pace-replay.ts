@@ -9,9 +9,20 @@
  *   than rewindS (1 s by default: a new take, a device restart) restarts the clock at that frame.
  * - An error from upstream is passed on at once (frames still waiting are dropped); completion waits
  *   until every frame is released.
- * - Upstream is not slowed down: frames a file source reads ahead of their time wait here.
+ * - Upstream is not slowed down by this stage: frames a file source reads ahead of their time wait
+ *   here. To keep a large file from being read into memory ahead of time, pair the stage with a
+ *   readAheadValve (its pause$ goes to the file reader, its report to onBacklog).
  */
-import { asyncScheduler, Observable, of, type OperatorFunction, type SchedulerLike, type Subscription } from 'rxjs';
+import {
+  asyncScheduler,
+  BehaviorSubject,
+  distinctUntilChanged,
+  Observable,
+  of,
+  type OperatorFunction,
+  type SchedulerLike,
+  type Subscription,
+} from 'rxjs';
 import type { Batch, Frame } from '../records.ts';
 
 export type ReplaySpeed = number | 'max';
@@ -26,6 +37,34 @@ export interface PaceReplayOptions {
   readonly maxWaitS?: number;
   /** A step back in device time larger than this (seconds) restarts the clock at that frame. @default 1 */
   readonly rewindS?: number;
+  /** Told the number of frames waiting to be released, each time it changes. */
+  readonly onBacklog?: (framesWaiting: number) => void;
+}
+
+/** A pause signal for a file reader, driven by how many frames wait in a paced replay. */
+export interface ReadAheadValve {
+  /** true while the reader should stop reading. */
+  readonly pause$: Observable<boolean>;
+  /** Give it to paceReplay as onBacklog. */
+  readonly report: (framesWaiting: number) => void;
+}
+
+/**
+ * Pauses reading when highFrames frames wait, resumes when no more than lowFrames do. At about 200
+ * bytes a sample, the default keeps a replay's read-ahead to some tens of megabytes.
+ */
+export function readAheadValve(highFrames = 200_000, lowFrames = Math.floor(highFrames / 4)): ReadAheadValve {
+  if (!(highFrames >= 1) || !(lowFrames >= 0) || lowFrames >= highFrames) {
+    throw new RangeError(`readAheadValve: highFrames ${highFrames} and lowFrames ${lowFrames}: need 0 ≤ lowFrames < highFrames`);
+  }
+  const paused = new BehaviorSubject(false);
+  return {
+    pause$: paused.pipe(distinctUntilChanged()),
+    report: (framesWaiting) => {
+      if (framesWaiting >= highFrames) paused.next(true);
+      else if (framesWaiting <= lowFrames) paused.next(false);
+    },
+  };
 }
 
 function checkSpeed(speed: unknown, allowPause: boolean): ReplaySpeed {
@@ -78,6 +117,7 @@ export function paceReplayWith(
   const sliceS = positive('sliceS', options.sliceS ?? 1 / 60);
   const maxWaitMs = positive('maxWaitS', options.maxWaitS ?? 2) * 1000;
   const rewindS = positive('rewindS', options.rewindS ?? 1);
+  const onBacklog = options.onBacklog;
 
   return (source) =>
     new Observable<Batch>((subscriber) => {
@@ -94,6 +134,15 @@ export function paceReplayWith(
       let timer: Subscription | null = null;
 
       const deviceNowS = (nowMs: number): number => anchorDeviceS + ((nowMs - anchorWallMs) / 1000) * (speed as number);
+
+      let reported = 0;
+      const report = (): void => {
+        const waiting = queue.length - head;
+        if (onBacklog !== undefined && waiting !== reported) {
+          reported = waiting;
+          onBacklog(waiting);
+        }
+      };
 
       const compact = (): void => {
         if (head === queue.length) {
@@ -117,6 +166,7 @@ export function paceReplayWith(
             const out = head === 0 ? queue : queue.slice(head);
             queue = [];
             head = 0;
+            report();
             subscriber.next(out);
           }
           finishIfDone();
@@ -164,6 +214,7 @@ export function paceReplayWith(
           break;
         }
         compact();
+        report();
         if (out.length > 0) subscriber.next(out);
         if (subscriber.closed) return;
         if (waitMs >= 0) timer = scheduler.schedule(drain, waitMs);
@@ -206,6 +257,7 @@ export function paceReplayWith(
           }
           for (let i = 0; i < batch.length; i++) queue.push(batch[i] as Frame);
           if (timer === null) drain();
+          report();
         },
         error: (error: unknown) => subscriber.error(error),
         complete: () => {

@@ -1,4 +1,6 @@
-import { lastValueFrom, toArray } from 'rxjs';
+import { BehaviorSubject, lastValueFrom, toArray } from 'rxjs';
+import { setTimeout as sleep } from 'node:timers/promises';
+import { paceReplay, readAheadValve } from '../../src/pipeline/pace-replay.ts';
 import { afterAll, describe, expect, it } from 'vitest';
 import { detectFormat, fileSource, SourceFormatError } from '../../adapters/file-source.ts';
 import { LineReadError } from '../../adapters/read-lines.ts';
@@ -112,6 +114,41 @@ describe('fileSource', () => {
       });
     });
     expect(seen).toHaveLength(1);
+  });
+
+  it('stops reading while paused, and goes on when resumed', async () => {
+    const path = tmp.file('paused.ndjson', `${ndjsonTrial(20_000).join('\n')}\n`);
+    const pause$ = new BehaviorSubject(true);
+    let frames = 0;
+    const done = new Promise<void>((resolve, reject) => {
+      fileSource(path, { pause$, chunkBytes: 4096 }).subscribe({ next: (b) => (frames += b.length), complete: resolve, error: reject });
+    });
+    await sleep(100);
+    // At most the chunk in hand when the pause took effect.
+    expect(frames).toBeLessThan(200);
+    pause$.next(false);
+    await done;
+    expect(frames).toBe(20_201);
+  });
+
+  it('keeps a paced replay from reading far ahead, with a read-ahead valve', async () => {
+    // 20 000 samples at 100 Hz are 200 s of device time: 0.2 s of wall time at speed 1000.
+    const path = tmp.file('valve.ndjson', `${ndjsonTrial(20_000).join('\n')}\n`);
+    const valve = readAheadValve(1000, 250);
+    let most = 0;
+    const frames = await lastValueFrom(
+      fileSource(path, { pause$: valve.pause$, chunkBytes: 4096, batchLines: 64 }).pipe(
+        paceReplay(1000, undefined, {
+          onBacklog: (n) => {
+            most = Math.max(most, n);
+            valve.report(n);
+          },
+        }),
+        toArray(),
+      ),
+    );
+    expect(frames.flat()).toHaveLength(20_201);
+    expect(most).toBeLessThan(1000 + 200);
   });
 
   it('can be told the format', async () => {

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { from, NEVER, Subject, type SchedulerLike, type Subscription } from 'rxjs';
 import { TestScheduler } from 'rxjs/testing';
 import { describe, expect, it } from 'vitest';
-import { paceReplay, paceReplayWith, type ReplaySpeed } from '../../src/pipeline/pace-replay.ts';
+import { paceReplay, paceReplayWith, readAheadValve, type ReplaySpeed } from '../../src/pipeline/pace-replay.ts';
 import { makeSample, type Batch, type Frame, type Header, type Rejection } from '../../src/records.ts';
 
 const s = (tS: number, line = 0): Frame => makeSample(tS, 'calf', 50, Number.NaN, 1, line);
@@ -220,6 +220,32 @@ describe('paceReplay', () => {
       }),
       { numRuns: 300 },
     );
+  });
+});
+
+describe('backlog and read-ahead', () => {
+  it('reports the frames waiting each time their number changes', () => {
+    const ts = testScheduler();
+    const reports: Array<[number, number]> = [];
+    ts.run(({ cold }) => {
+      cold('(a|)', { a: [s(0), s(1), s(2)] })
+        .pipe(paceReplay(1, ts, { onBacklog: (n) => reports.push([ts.now(), n]) }))
+        .subscribe();
+    });
+    expect(reports).toEqual([
+      [0, 2],
+      [1000, 1],
+      [2000, 0],
+    ]);
+  });
+
+  it('pauses reading at the high mark and resumes at the low mark', () => {
+    const valve = readAheadValve(10, 2);
+    const seen: boolean[] = [];
+    valve.pause$.subscribe((p) => seen.push(p));
+    for (const n of [5, 10, 12, 6, 3, 2, 0, 11]) valve.report(n);
+    expect(seen).toEqual([false, true, false, true]);
+    expect(() => readAheadValve(5, 5)).toThrow(RangeError);
   });
 });
 

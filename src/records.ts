@@ -44,6 +44,10 @@ export interface Sample {
   force: number;
   /** evaluateForceLength: region of the geometric curve. */
   region: RegionKey | null;
+  /** evaluateCapacity: relative force capacity from length × velocity (force × force–velocity factor), 0–1.5. */
+  forceLv: number;
+  /** evaluateCapacity: the length × velocity capacity along the tendon (× cos pennation). */
+  forceTendon: number;
   /** segmentStrides: 0-based stride of this muscle, -1 before its first foot strike. */
   strideIndex: number;
 }
@@ -123,6 +127,8 @@ export interface StrideBoundary {
   /** Index of the stride that starts here (0 for the first foot strike). */
   readonly index: number;
   readonly tS: number;
+  /** How the boundary was found: a foot strike ('events', the default when absent) or the fascicle signal itself. */
+  readonly segmentation?: 'events' | 'estimated';
 }
 
 /** Something a person should know, said once by the stage that found it (side assumed, baseline used, …). */
@@ -162,6 +168,8 @@ export function makeSample(
     sarcomereUm: Number.NaN,
     force: Number.NaN,
     region: null,
+    forceLv: Number.NaN,
+    forceTendon: Number.NaN,
     strideIndex: -1,
   };
 }

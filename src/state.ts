@@ -23,7 +23,56 @@ export interface FrameCounts {
   headers: number;
 }
 
-/** Figures of one completed stride of one muscle (time-weighted; zero-order hold between samples). */
+/** Expected time fraction of each region under the calibration's uncertainty, with its 90% interval. */
+export interface RegionProbabilityFigures {
+  readonly expected: Readonly<Record<RegionKey, number>>;
+  /** 5th percentile of each region's fraction over the distribution of the sarcomere count. */
+  readonly low: Readonly<Record<RegionKey, number>>;
+  /** 95th percentile. */
+  readonly high: Readonly<Record<RegionKey, number>>;
+}
+
+/**
+ * Figures of one stretch of a muscle's samples (a stride, or its stance or swing phase). Time-weighted
+ * with a zero-order hold between samples; min/max/velocity from the samples inside the stretch.
+ */
+export interface SegmentFigures {
+  readonly startS: number;
+  readonly endS: number;
+  readonly slMinUm: number;
+  readonly slMaxUm: number;
+  readonly slMeanUm: number;
+  /** Time-weighted 5th and 95th percentiles (from a histogram of 0.001 µm bins over 0–8 µm). */
+  readonly slP5Um: number;
+  readonly slP95Um: number;
+  /** slMaxUm − slMinUm. */
+  readonly excursionUm: number;
+  /** Time-weighted fraction in each region; sums to 1 over the covered time. */
+  readonly regionFraction: Readonly<Record<RegionKey, number>>;
+  /** null when the calibration states no uncertainty. */
+  readonly regionProbability: RegionProbabilityFigures | null;
+  /** Mean relative force from length alone. */
+  readonly forceMean: number;
+  /** Mean force capacity from length × velocity. */
+  readonly forceLvMean: number;
+  /** Mean length × velocity capacity along the tendon (× cos pennation). */
+  readonly forceTendonMean: number;
+  /** Fascicle velocity range (mm/s, lengthening positive). */
+  readonly velocityMinMmS: number;
+  readonly velocityMaxMmS: number;
+  /** Seconds not covered by samples (dropouts, gaps). */
+  readonly gapS: number;
+  readonly sampleCount: number;
+}
+
+/** How a muscle's strides were found: from foot strikes, or estimated from its fascicle signal. */
+export type Segmentation = 'events' | 'estimated';
+
+/**
+ * Figures of one completed stride of one muscle (time-weighted; zero-order hold between samples). The
+ * fields after `sampleCount` are filled by accumulateSummary; they are optional only so that states made
+ * by hand (screen tests) need not give them.
+ */
 export interface StrideSummary {
   readonly index: number;
   readonly startS: number;
@@ -37,6 +86,36 @@ export interface StrideSummary {
   /** Seconds of the stride not covered by samples (dropouts, gaps). */
   readonly gapS: number;
   readonly sampleCount: number;
+  readonly slP5Um?: number;
+  readonly slP95Um?: number;
+  readonly excursionUm?: number;
+  readonly regionProbability?: RegionProbabilityFigures | null;
+  readonly forceLvMean?: number;
+  readonly forceTendonMean?: number;
+  readonly velocityMinMmS?: number;
+  readonly velocityMaxMmS?: number;
+  /** Gap time above the allowed share of the stride: left out of the trial figures and the cycle curve. */
+  readonly flagged?: boolean;
+  readonly segmentation?: Segmentation;
+  /** Foot strike to toe-off of the muscle's side; null when the stride had no toe-off (or was estimated). */
+  readonly stance?: SegmentFigures | null;
+  /** Toe-off to the next foot strike. */
+  readonly swing?: SegmentFigures | null;
+}
+
+/** Points of the gait-cycle curve: 0, 1, …, 100% of the stride (a convention of gait analysis). */
+export const CYCLE_POINTS = 101;
+
+/**
+ * Sarcomere length over the gait cycle across the unflagged strides, as running sums (Welford): each
+ * stride resampled to CYCLE_POINTS points, folded in when it closes.
+ */
+export interface CycleCurve {
+  /** Strides folded in. */
+  strideCount: number;
+  readonly slMeanUm: Float64Array;
+  /** Sum of squared deviations from the running mean, per point; SD = sqrt(m2 / (count − 1)). */
+  readonly slM2Um2: Float64Array;
 }
 
 /** Where the muscle's sarcomeres-in-series came from. */
@@ -58,7 +137,32 @@ export interface MuscleState {
   current: { readonly index: number; readonly startS: number; slMinUm: number; slMaxUm: number } | null;
   /** Completed strides, in order. */
   readonly strides: StrideSummary[];
+  /** How the strides were found; null (or absent) while none has started. */
+  segmentation?: Segmentation | null;
+  /** SD of the sarcomere count relative to the count, from the calibration; 0 when it states none. */
+  relativeSd?: number;
+  /** The latest sample's probability of each region (calibration uncertainty); null when there is none. */
+  regionProbability?: Record<RegionKey, number> | null;
+  /** Sarcomere length over the gait cycle (mean and spread across unflagged strides). */
+  cycle?: CycleCurve;
+  /** Trial-wide bounded accumulations for the summary's percentiles and probabilities. */
+  trialHistograms?: TrialHistograms;
 }
+
+/**
+ * Time-weighted sarcomere-length histograms of the unflagged strides (whole stride, stance, swing), merged
+ * as each stride closes: the trial's percentiles and region probabilities come from them. Bins of
+ * HISTOGRAM_BIN_UM from 0 to HISTOGRAM_MAX_UM; lengths outside go to the end bins.
+ */
+export interface TrialHistograms {
+  readonly stride: Float64Array;
+  readonly stance: Float64Array;
+  readonly swing: Float64Array;
+}
+
+export const HISTOGRAM_BIN_UM = 0.001;
+export const HISTOGRAM_MAX_UM = 8;
+export const HISTOGRAM_BINS = Math.round(HISTOGRAM_MAX_UM / HISTOGRAM_BIN_UM);
 
 export interface TrialState {
   readonly source: string;

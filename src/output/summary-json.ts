@@ -1,27 +1,79 @@
 /** The `--summary FILE.json` contract (lengthwise-summary, version 1), built from a TrialState. */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
-import type { MuscleState, StrideSummary, TrialState } from '../state.ts';
+import type { ForceLengthCurve } from '../model/geometry.ts';
+import { CYCLE_POINTS, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../state.ts';
+import { cycleSd, histogramQuantile, histogramRegionProbability } from '../pipeline/stride-figures.ts';
 
-export interface StrideJson {
-  index: number;
-  start_s: number;
-  end_s: number;
+/** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
+export type RegionIntervalJson = Record<RegionKey, [number | null, number | null]>;
+
+/** The figures every stretch has: a stride, a phase, or the trial over its strides or phases. */
+export interface FiguresJson {
   sl_min_um: number | null;
   sl_max_um: number | null;
   sl_mean_um: number | null;
+  sl_p5_um: number | null;
+  sl_p95_um: number | null;
   region_fraction: Record<RegionKey, number>;
+  /** Present only when the calibration states an uncertainty. */
+  region_probability?: Record<RegionKey, number | null>;
+  region_probability_90?: RegionIntervalJson;
   force_mean: number | null;
+  force_lv_mean: number | null;
+  force_tendon_mean: number | null;
+  velocity_min_mm_s: number | null;
+  velocity_max_mm_s: number | null;
   gap_s: number;
   sample_count: number;
 }
 
-export interface TrialFiguresJson {
+export interface PhaseJson extends FiguresJson {
+  start_s: number;
+  end_s: number;
+  duration_s: number;
+  excursion_um: number | null;
+}
+
+export interface StrideJson extends FiguresJson {
+  index: number;
+  start_s: number;
+  end_s: number;
+  duration_s: number;
+  excursion_um: number | null;
+  gap_fraction: number;
+  /** Too much gap time: left out of the trial figures and the cycle curve. */
+  flagged: boolean;
+  stance: PhaseJson | null;
+  swing: PhaseJson | null;
+}
+
+/** Trial figures over a set of stretches: min/max over them, means and fractions weighted by covered time. */
+export interface TrialPhaseJson extends FiguresJson {
+  /** Mean over the stretches of their excursion (max − min). */
+  excursion_mean_um: number | null;
+  duration_s: number;
+}
+
+export interface TrialFiguresJson extends TrialPhaseJson {
+  /** Complete strides, flagged ones included. */
   stride_count: number;
-  sl_min_um: number | null;
-  sl_max_um: number | null;
-  sl_mean_um: number | null;
-  region_fraction: Record<RegionKey, number>;
-  force_mean: number | null;
+  /** Strides left out of the trial figures for too much gap time. */
+  flagged_count: number;
+  /** Strides the trial figures are over (stride_count − flagged_count). */
+  strides_used: number;
+  /** Strides with a toe-off, whose stance and swing figures are over them. */
+  phased_count: number;
+  stance: TrialPhaseJson | null;
+  swing: TrialPhaseJson | null;
+}
+
+export interface CycleJson {
+  /** 0, 1, …, 100 (% of the gait cycle from the muscle's stride start). */
+  percent: number[];
+  sl_mean_um: (number | null)[];
+  /** Sample SD across strides (n − 1); null with fewer than two strides. */
+  sl_sd_um: (number | null)[];
+  stride_count: number;
 }
 
 export interface MuscleJson {
@@ -29,9 +81,14 @@ export interface MuscleJson {
   side: string | null;
   side_source: string | null;
   sarcomeres_in_series: number | null;
+  /** SD of the sarcomere count relative to the count (0: the calibration states none). */
+  sarcomeres_in_series_relative_sd: number;
   calibration_source: string | null;
+  /** How the strides were found: "events" (foot strikes), "estimated" (from the fascicle signal), null (none). */
+  segmentation: 'events' | 'estimated' | null;
   strides: StrideJson[];
   trial: TrialFiguresJson;
+  cycle: CycleJson | null;
 }
 
 export interface SummaryJson {
@@ -57,69 +114,199 @@ export interface SummaryJson {
 }
 
 /** JSON has no NaN: an unknown figure is null. */
-function num(x: number): number | null {
-  return Number.isFinite(x) ? x : null;
+function num(x: number | undefined): number | null {
+  return x !== undefined && Number.isFinite(x) ? x : null;
 }
 
-/** Time covered by samples in a stride: the weight of its means and fractions in the trial figures. */
-function coveredS(s: StrideSummary): number {
+type Stretch = Pick<StrideSummary, 'startS' | 'endS' | 'slMinUm' | 'slMaxUm' | 'slMeanUm' | 'regionFraction' | 'forceMean' | 'gapS' | 'sampleCount'> &
+  Partial<SegmentFigures>;
+
+/** Time covered by samples in a stretch: the weight of its means and fractions in the trial figures. */
+function coveredS(s: Stretch): number {
   return Math.max(0, s.endS - s.startS - s.gapS);
 }
 
-/** Trial figures over complete strides, each weighted by the time its samples cover. */
-export function trialFigures(strides: readonly StrideSummary[]): TrialFiguresJson {
+function probabilityJson(p: RegionProbabilityFigures | null | undefined): Pick<FiguresJson, 'region_probability' | 'region_probability_90'> {
+  if (p === null || p === undefined) return {};
+  const expected = {} as Record<RegionKey, number | null>;
+  const interval = {} as RegionIntervalJson;
+  for (const key of REGION_KEYS) {
+    expected[key] = num(p.expected[key]);
+    interval[key] = [num(p.low[key]), num(p.high[key])];
+  }
+  return { region_probability: expected, region_probability_90: interval };
+}
+
+/** What the trial figures need besides the strides: the muscle's histograms and curve, when known. */
+export interface TrialContext {
+  readonly curve: ForceLengthCurve;
+  readonly relativeSd: number;
+  readonly histograms: { readonly stride: Float64Array; readonly stance: Float64Array; readonly swing: Float64Array } | undefined;
+}
+
+function aggregate(stretches: readonly Stretch[], histogram: Float64Array | undefined, context: TrialContext | undefined): TrialPhaseJson {
   let min = Number.POSITIVE_INFINITY;
   let max = Number.NEGATIVE_INFINITY;
+  let vMin = Number.POSITIVE_INFINITY;
+  let vMax = Number.NEGATIVE_INFINITY;
   let slSeconds = 0;
   let forceSeconds = 0;
+  let lvSeconds = 0;
+  let lvWeight = 0;
+  let tendonSeconds = 0;
+  let tendonWeight = 0;
+  let excursionSum = 0;
+  let excursionCount = 0;
   let total = 0;
+  let gap = 0;
+  let duration = 0;
+  let samples = 0;
   const regionS = zeroRegionRecord();
-  for (const s of strides) {
+  for (const s of stretches) {
     const w = coveredS(s);
+    gap += s.gapS;
+    duration += s.endS - s.startS;
+    samples += s.sampleCount;
     if (s.slMinUm < min) min = s.slMinUm;
     if (s.slMaxUm > max) max = s.slMaxUm;
+    if (s.velocityMinMmS !== undefined && s.velocityMinMmS < vMin) vMin = s.velocityMinMmS;
+    if (s.velocityMaxMmS !== undefined && s.velocityMaxMmS > vMax) vMax = s.velocityMaxMmS;
+    const excursion = s.slMaxUm - s.slMinUm;
+    if (Number.isFinite(excursion)) {
+      excursionSum += excursion;
+      excursionCount++;
+    }
     if (w <= 0) continue;
     total += w;
     slSeconds += s.slMeanUm * w;
     forceSeconds += s.forceMean * w;
+    if (s.forceLvMean !== undefined && Number.isFinite(s.forceLvMean)) {
+      lvSeconds += s.forceLvMean * w;
+      lvWeight += w;
+    }
+    if (s.forceTendonMean !== undefined && Number.isFinite(s.forceTendonMean)) {
+      tendonSeconds += s.forceTendonMean * w;
+      tendonWeight += w;
+    }
     for (const key of REGION_KEYS) regionS[key] += s.regionFraction[key] * w;
   }
   const regionFraction = zeroRegionRecord();
   if (total > 0) for (const key of REGION_KEYS) regionFraction[key] = regionS[key] / total;
+  const probability =
+    histogram !== undefined && context !== undefined ? histogramRegionProbability(context.curve, histogram, context.relativeSd) : null;
   return {
-    stride_count: strides.length,
     sl_min_um: num(min),
     sl_max_um: num(max),
     sl_mean_um: total > 0 ? num(slSeconds / total) : null,
+    sl_p5_um: histogram !== undefined ? num(histogramQuantile(histogram, 0.05)) : null,
+    sl_p95_um: histogram !== undefined ? num(histogramQuantile(histogram, 0.95)) : null,
     region_fraction: regionFraction,
+    ...probabilityJson(probability),
     force_mean: total > 0 ? num(forceSeconds / total) : null,
+    force_lv_mean: lvWeight > 0 ? num(lvSeconds / lvWeight) : null,
+    force_tendon_mean: tendonWeight > 0 ? num(tendonSeconds / tendonWeight) : null,
+    velocity_min_mm_s: num(vMin),
+    velocity_max_mm_s: num(vMax),
+    gap_s: gap,
+    sample_count: samples,
+    excursion_mean_um: excursionCount > 0 ? excursionSum / excursionCount : null,
+    duration_s: duration,
   };
 }
 
-function strideJson(s: StrideSummary): StrideJson {
+/**
+ * Trial figures over complete strides, each weighted by the time its samples cover; flagged strides (too
+ * much gap time) are counted but left out. Percentiles and region probabilities need the muscle's
+ * histograms (`context`); without them they are null.
+ */
+export function trialFigures(strides: readonly StrideSummary[], context?: TrialContext): TrialFiguresJson {
+  const used = strides.filter((s) => s.flagged !== true);
+  const stance: SegmentFigures[] = [];
+  const swing: SegmentFigures[] = [];
+  for (const s of used) {
+    if (s.stance !== undefined && s.stance !== null && s.swing !== undefined && s.swing !== null) {
+      stance.push(s.stance);
+      swing.push(s.swing);
+    }
+  }
+  const h = context?.histograms;
   return {
-    index: s.index,
-    start_s: s.startS,
-    end_s: s.endS,
+    stride_count: strides.length,
+    flagged_count: strides.length - used.length,
+    strides_used: used.length,
+    phased_count: stance.length,
+    ...aggregate(used, h?.stride, context),
+    stance: stance.length > 0 ? aggregate(stance, h?.stance, context) : null,
+    swing: swing.length > 0 ? aggregate(swing, h?.swing, context) : null,
+  };
+}
+
+function figuresJson(s: Stretch): FiguresJson {
+  return {
     sl_min_um: num(s.slMinUm),
     sl_max_um: num(s.slMaxUm),
     sl_mean_um: num(s.slMeanUm),
+    sl_p5_um: num(s.slP5Um),
+    sl_p95_um: num(s.slP95Um),
     region_fraction: { ...s.regionFraction },
+    ...probabilityJson(s.regionProbability),
     force_mean: num(s.forceMean),
+    force_lv_mean: num(s.forceLvMean),
+    force_tendon_mean: num(s.forceTendonMean),
+    velocity_min_mm_s: num(s.velocityMinMmS),
+    velocity_max_mm_s: num(s.velocityMaxMmS),
     gap_s: s.gapS,
     sample_count: s.sampleCount,
   };
 }
 
+function phaseJson(s: SegmentFigures | null | undefined): PhaseJson | null {
+  if (s === null || s === undefined) return null;
+  return { start_s: s.startS, end_s: s.endS, duration_s: s.endS - s.startS, excursion_um: num(s.excursionUm), ...figuresJson(s) };
+}
+
+function strideJson(s: StrideSummary): StrideJson {
+  const durationS = s.endS - s.startS;
+  return {
+    index: s.index,
+    start_s: s.startS,
+    end_s: s.endS,
+    duration_s: durationS,
+    excursion_um: num(s.excursionUm ?? s.slMaxUm - s.slMinUm),
+    gap_fraction: durationS > 0 ? s.gapS / durationS : 0,
+    flagged: s.flagged === true,
+    ...figuresJson(s),
+    stance: phaseJson(s.stance),
+    swing: phaseJson(s.swing),
+  };
+}
+
+function cycleJson(m: MuscleState): CycleJson | null {
+  const c = m.cycle;
+  if (c === undefined || c.strideCount === 0) return null;
+  const percent: number[] = [];
+  for (let p = 0; p < CYCLE_POINTS; p++) percent.push(p);
+  return {
+    percent,
+    sl_mean_um: Array.from(c.slMeanUm, (x) => num(x)),
+    sl_sd_um: cycleSd(c).map((x) => num(x)),
+    stride_count: c.strideCount,
+  };
+}
+
 function muscleJson(m: MuscleState): MuscleJson {
+  const relativeSd = m.relativeSd ?? 0;
   return {
     species: m.species,
     side: m.side,
     side_source: m.sideSource,
     sarcomeres_in_series: num(m.sarcomeresInSeries),
+    sarcomeres_in_series_relative_sd: relativeSd,
     calibration_source: m.calibrationSource,
+    segmentation: m.segmentation ?? null,
     strides: m.strides.map(strideJson),
-    trial: trialFigures(m.strides),
+    trial: trialFigures(m.strides, { curve: m.curve, relativeSd, histograms: m.trialHistograms }),
+    cycle: cycleJson(m),
   };
 }
 

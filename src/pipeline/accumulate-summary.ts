@@ -1,71 +1,69 @@
 import { Observable, type OperatorFunction } from 'rxjs';
-import type { Batch, CalibrationApplied, Frame, Sample } from '../records.ts';
-import { emptyFrameCounts, type MuscleState, type StrideSummary, type TrialState } from '../state.ts';
-import { REGION_KEYS, regionIndex, type RegionKey } from '../model/regions.ts';
+import type { Batch, CalibrationApplied, Frame, GaitEvent, Sample, StrideBoundary } from '../records.ts';
+import {
+  CYCLE_POINTS,
+  HISTOGRAM_BINS,
+  emptyFrameCounts,
+  type MuscleState,
+  type Segmentation,
+  type StrideSummary,
+  type TrialState,
+} from '../state.ts';
+import { REGION_KEYS, regionIndex, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import { DEFAULT_SPECIES, speciesCurve } from '../model/species.ts';
+import { sarcomereCountSpread } from '../model/calibration.ts';
+import { regionProbabilities } from '../model/region-probability.ts';
 import { curveForCalibration } from './muscle-model.ts';
 import { DEFAULT_GAP_S } from './mark-gaps.ts';
+import { CycleBuffer, SegmentAccumulator, emptyCycleCurve, foldCycle, resampleCycle, type Held } from './stride-figures.ts';
 
 export interface AccumulateSummaryOptions {
   /** Where the trial came from (file path or URL), for the summary. */
   readonly source: string;
   /** Intervals between two samples of a muscle longer than this count as gap time, not as held values. @default 0.25 */
   readonly gapS?: number;
+  /**
+   * A stride whose gap time exceeds this share of its duration is flagged and left out of the trial
+   * figures and the cycle curve. @default 0.1
+   */
+  readonly maxGapFraction?: number;
 }
 
-/** Running figures of the stride in progress; time-weighted by holding each sample until the next. */
-class StrideAccumulator {
-  slMinUm = Number.POSITIVE_INFINITY;
-  slMaxUm = Number.NEGATIVE_INFINITY;
-  slSecondsUm = 0;
-  forceSeconds = 0;
-  coveredS = 0;
-  sampleCount = 0;
-  readonly regionS = new Float64Array(REGION_KEYS.length);
-  constructor(
-    readonly index: number,
-    readonly startS: number,
-  ) {}
+/** Largest share of a stride that may be gap time before the stride is flagged. */
+export const DEFAULT_MAX_GAP_FRACTION = 0.1;
 
-  finish(endS: number): StrideSummary {
-    const covered = this.coveredS;
-    const regionFraction = {} as Record<RegionKey, number>;
-    for (let r = 0; r < REGION_KEYS.length; r++) {
-      regionFraction[REGION_KEYS[r] as RegionKey] = covered > 0 ? (this.regionS[r] as number) / covered : 0;
-    }
-    const any = this.sampleCount > 0;
-    return {
-      index: this.index,
-      startS: this.startS,
-      endS,
-      slMinUm: any ? this.slMinUm : Number.NaN,
-      slMaxUm: any ? this.slMaxUm : Number.NaN,
-      slMeanUm: covered > 0 ? this.slSecondsUm / covered : Number.NaN,
-      regionFraction,
-      forceMean: covered > 0 ? this.forceSeconds / covered : Number.NaN,
-      gapS: Math.max(0, endS - this.startS - covered),
-      sampleCount: this.sampleCount,
-    };
-  }
-}
+const NO_PHASE = 0;
+const STANCE = 1;
+const SWING = 2;
 
 interface MuscleAccumulator {
   readonly state: MuscleState;
-  stride: StrideAccumulator | null;
+  /** Index of the stride in progress; -1 before the first boundary. */
+  strideIndex: number;
+  segmentation: Segmentation;
+  readonly stride: SegmentAccumulator;
+  readonly stance: SegmentAccumulator;
+  readonly swing: SegmentAccumulator;
+  /** NO_PHASE (no toe-off expected: estimated strides, or before the first boundary), STANCE or SWING. */
+  phase: number;
+  toeOffS: number;
+  readonly cycle: CycleBuffer;
   /** The last sample with an estimate, held until the next one (NaN time: none held). */
   heldTS: number;
-  heldSlUm: number;
-  heldForce: number;
-  heldRegion: number;
+  readonly held: Held;
+  /** Newest sample whose region probabilities are not yet in the state. */
+  probabilityDue: boolean;
 }
 
 /**
  * Folds the enriched frames into the trial's running state: counts, each muscle's latest sample, and
- * per-stride operating-range figures. Emits the same TrialState object at once, after every batch (mutated
- * in place), and once more, marked ended, when the input completes.
+ * per-stride and per-phase operating-range figures, the gait-cycle curve and the trial's histograms.
+ * Emits the same TrialState object at once, after every batch (mutated in place), and once more, marked
+ * ended, when the input completes. Memory is bounded per muscle: one stride's points at a time.
  */
 export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFunction<Batch, TrialState> {
   const gapS = options.gapS ?? DEFAULT_GAP_S;
+  const maxGapFraction = options.maxGapFraction ?? DEFAULT_MAX_GAP_FRACTION;
   return (source) =>
     new Observable<TrialState>((subscriber) => {
       const state: TrialState = {
@@ -81,6 +79,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         ended: false,
       };
       const accumulators = new Map<string, MuscleAccumulator>();
+      const probability = new Float64Array(REGION_KEYS.length);
+      const resampled = new Float64Array(CYCLE_POINTS);
 
       const muscle = (name: string): MuscleAccumulator => {
         let acc = accumulators.get(name);
@@ -97,12 +97,22 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
               latest: null,
               current: null,
               strides: [],
+              segmentation: null,
+              relativeSd: 0,
+              regionProbability: null,
+              cycle: emptyCycleCurve(),
             },
-            stride: null,
+            strideIndex: -1,
+            segmentation: 'events',
+            stride: new SegmentAccumulator(),
+            stance: new SegmentAccumulator(),
+            swing: new SegmentAccumulator(),
+            phase: NO_PHASE,
+            toeOffS: Number.NaN,
+            cycle: new CycleBuffer(),
             heldTS: Number.NaN,
-            heldSlUm: Number.NaN,
-            heldForce: Number.NaN,
-            heldRegion: -1,
+            held: { slUm: Number.NaN, force: Number.NaN, forceLv: Number.NaN, forceTendon: Number.NaN, region: -1 },
+            probabilityDue: false,
           };
           accumulators.set(name, acc);
           state.muscles.set(name, acc.state);
@@ -110,15 +120,20 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         return acc;
       };
 
-      /** Credits the held sample's value from its time up to `untilS` to the stride in progress. */
+      /** Credits the held sample's value from its time up to `untilS` to the stride (and phase) in progress. */
       const release = (acc: MuscleAccumulator, untilS: number): void => {
         const dtS = untilS - acc.heldTS;
-        const stride = acc.stride;
-        if (stride === null || !(dtS > 0) || dtS > gapS) return;
-        stride.coveredS += dtS;
-        stride.slSecondsUm += acc.heldSlUm * dtS;
-        stride.forceSeconds += acc.heldForce * dtS;
-        if (acc.heldRegion >= 0) stride.regionS[acc.heldRegion] = (stride.regionS[acc.heldRegion] ?? 0) + dtS;
+        if (acc.strideIndex < 0 || !(dtS > 0) || dtS > gapS) return;
+        acc.stride.credit(acc.held, dtS);
+        if (acc.phase === STANCE) acc.stance.credit(acc.held, dtS);
+        else if (acc.phase === SWING) acc.swing.credit(acc.held, dtS);
+      };
+
+      /** Credits the held value up to a time where something changes, and keeps holding it from there. */
+      const releaseAt = (acc: MuscleAccumulator, tS: number): void => {
+        if (Number.isNaN(acc.heldTS)) return;
+        release(acc, tS);
+        acc.heldTS = tS;
       };
 
       const onSample = (s: Sample): void => {
@@ -129,24 +144,113 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         state.lastTS = s.tS;
         const acc = muscle(s.muscle);
         acc.state.latest = s;
+        acc.probabilityDue = true;
         if (!Number.isNaN(acc.heldTS)) release(acc, s.tS);
         if (Number.isNaN(s.sarcomereUm) || s.region === null) {
           acc.heldTS = Number.NaN;
           return;
         }
         acc.heldTS = s.tS;
-        acc.heldSlUm = s.sarcomereUm;
-        acc.heldForce = s.force;
-        acc.heldRegion = regionIndex(s.region);
-        const stride = acc.stride;
-        if (stride === null || s.strideIndex !== stride.index) return;
-        stride.sampleCount++;
-        if (s.sarcomereUm < stride.slMinUm) stride.slMinUm = s.sarcomereUm;
-        if (s.sarcomereUm > stride.slMaxUm) stride.slMaxUm = s.sarcomereUm;
+        const held = acc.held;
+        held.slUm = s.sarcomereUm;
+        held.force = s.force;
+        held.forceLv = s.forceLv;
+        held.forceTendon = s.forceTendon;
+        held.region = regionIndex(s.region);
+        if (acc.strideIndex < 0 || s.strideIndex !== acc.strideIndex) return;
+        acc.stride.count(s.sarcomereUm, s.velocityMmS);
+        if (acc.phase === STANCE) acc.stance.count(s.sarcomereUm, s.velocityMmS);
+        else if (acc.phase === SWING) acc.swing.count(s.sarcomereUm, s.velocityMmS);
+        acc.cycle.push(s.tS, s.sarcomereUm);
         const current = acc.state.current;
         if (current !== null) {
-          current.slMinUm = stride.slMinUm;
-          current.slMaxUm = stride.slMaxUm;
+          current.slMinUm = acc.stride.slMinUm;
+          current.slMaxUm = acc.stride.slMaxUm;
+        }
+      };
+
+      /** Closes the stride in progress at `endS`: its figures, its flag, its share of the trial's sums. */
+      const closeStride = (acc: MuscleAccumulator, endS: number): void => {
+        const m = acc.state;
+        const relativeSd = m.relativeSd ?? 0;
+        const figures = acc.stride.finish(endS, m.curve, relativeSd);
+        const durationS = endS - figures.startS;
+        const flagged = !(figures.gapS <= maxGapFraction * durationS) || figures.sampleCount === 0;
+        const phased = acc.phase === SWING;
+        const summary: StrideSummary = {
+          index: acc.strideIndex,
+          ...figures,
+          flagged,
+          segmentation: acc.segmentation,
+          stance: phased ? acc.stance.finish(acc.toeOffS, m.curve, relativeSd) : null,
+          swing: phased ? acc.swing.finish(endS, m.curve, relativeSd) : null,
+        };
+        m.strides.push(summary);
+        if (flagged) return;
+        const histograms = (m.trialHistograms ??= {
+          stride: new Float64Array(HISTOGRAM_BINS),
+          stance: new Float64Array(HISTOGRAM_BINS),
+          swing: new Float64Array(HISTOGRAM_BINS),
+        });
+        acc.stride.histogram.mergeInto(histograms.stride);
+        if (phased) {
+          acc.stance.histogram.mergeInto(histograms.stance);
+          acc.swing.histogram.mergeInto(histograms.swing);
+        }
+        const buffer = acc.cycle;
+        if (!buffer.overflow && resampleCycle(buffer.tS, buffer.slUm, buffer.length, figures.startS, endS, resampled)) {
+          foldCycle((m.cycle ??= emptyCycleCurve()), resampled);
+        }
+      };
+
+      const onStride = (f: StrideBoundary): void => {
+        const acc = muscle(f.muscle);
+        const m = acc.state;
+        if (m.side === null) {
+          m.side = f.side;
+          m.sideSource = 'assumed';
+        }
+        releaseAt(acc, f.tS);
+        if (acc.strideIndex >= 0) closeStride(acc, f.tS);
+        acc.strideIndex = f.index;
+        acc.segmentation = f.segmentation ?? 'events';
+        m.segmentation = acc.segmentation;
+        acc.stride.reset(f.tS);
+        acc.phase = acc.segmentation === 'events' ? STANCE : NO_PHASE;
+        if (acc.phase === STANCE) acc.stance.reset(f.tS);
+        acc.toeOffS = Number.NaN;
+        acc.cycle.clear();
+        // The held value carries on into the new stride: it is the curve's value at 0%.
+        if (!Number.isNaN(acc.heldTS)) acc.cycle.push(f.tS, acc.held.slUm);
+        m.current = { index: f.index, startS: f.tS, slMinUm: Number.NaN, slMaxUm: Number.NaN };
+      };
+
+      /** A toe-off of a muscle's side ends the stance of its stride in progress (the first toe-off only). */
+      const onToeOff = (e: GaitEvent): void => {
+        for (const acc of accumulators.values()) {
+          if (acc.state.side !== e.side || acc.phase !== STANCE || acc.strideIndex < 0) continue;
+          releaseAt(acc, e.tS);
+          acc.phase = SWING;
+          acc.toeOffS = e.tS;
+          acc.swing.reset(e.tS);
+        }
+      };
+
+      /** The newest sample's region probabilities, once per batch (the dashboard reads them). */
+      const updateProbabilities = (): void => {
+        for (const acc of accumulators.values()) {
+          if (!acc.probabilityDue) continue;
+          acc.probabilityDue = false;
+          const m = acc.state;
+          const latest = m.latest;
+          const relativeSd = m.relativeSd ?? 0;
+          if (latest === null || !(relativeSd > 0) || !Number.isFinite(latest.sarcomereUm)) {
+            m.regionProbability = null;
+            continue;
+          }
+          regionProbabilities(m.curve, latest.sarcomereUm, relativeSd, probability);
+          const record: Record<RegionKey, number> = (m.regionProbability ??= zeroRegionRecord());
+          for (let r = 0; r < REGION_KEYS.length; r++) record[REGION_KEYS[r] as RegionKey] = probability[r] as number;
         }
       };
 
@@ -154,6 +258,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         const m = muscle(f.muscle).state;
         m.species = f.calibration.species;
         m.curve = curveForCalibration(f.calibration);
+        m.relativeSd = sarcomereCountSpread(f.calibration, m.curve).relativeSd;
         m.sarcomeresInSeries = f.sarcomeresInSeries;
         m.calibrationSource = f.source;
         let calibrated = true;
@@ -179,6 +284,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             state.frames.gaitEvents++;
             if (Number.isNaN(state.firstTS)) state.firstTS = f.tS;
             if (!(f.tS < state.lastTS)) state.lastTS = f.tS;
+            if (f.event === 'toe_off') onToeOff(f);
             return;
           case 'marker':
             state.frames.received++;
@@ -200,21 +306,9 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
           case 'calibration':
             onCalibration(f);
             return;
-          case 'stride': {
-            const acc = muscle(f.muscle);
-            if (acc.state.side === null) {
-              acc.state.side = f.side;
-              acc.state.sideSource = 'assumed';
-            }
-            if (!Number.isNaN(acc.heldTS)) {
-              release(acc, f.tS);
-              acc.heldTS = f.tS;
-            }
-            if (acc.stride !== null) acc.state.strides.push(acc.stride.finish(f.tS));
-            acc.stride = new StrideAccumulator(f.index, f.tS);
-            acc.state.current = { index: f.index, startS: f.tS, slMinUm: Number.NaN, slMaxUm: Number.NaN };
+          case 'stride':
+            onStride(f);
             return;
-          }
           case 'gap':
             if (f.muscle === null) for (const acc of accumulators.values()) acc.heldTS = Number.NaN;
             else muscle(f.muscle).heldTS = Number.NaN;
@@ -230,6 +324,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
       return source.subscribe({
         next: (batch) => {
           for (const f of batch) onFrame(f);
+          updateProbabilities();
           subscriber.next(state);
         },
         error: (error: unknown) => subscriber.error(error),

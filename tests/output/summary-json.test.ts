@@ -102,3 +102,37 @@ describe('stridesCsv', () => {
     expect(csvField(null)).toBe('');
   });
 });
+
+describe('summaryJson: flags, phases and the cycle curve', () => {
+  it('leaves flagged strides out of the trial figures and counts them', () => {
+    const s = state();
+    const m = s.muscles.get('calf, medial');
+    if (m === undefined) throw new Error('fixture');
+    m.strides.push({ ...stride(2, 3, 4, 1.9, 3.9, 2.0, 0, 0.5), flagged: true });
+    const t = summaryJson(s).muscles['calf, medial']?.trial;
+    expect(t).toMatchObject({ stride_count: 3, flagged_count: 1, strides_used: 2, sl_min_um: 2.5, sl_max_um: 3.2 });
+    expect(t?.sl_mean_um).toBeCloseTo((2.7 * 1 + 2.9 * 2) / 3, 12);
+    expect(summaryJson(s).muscles['calf, medial']?.strides[2]).toMatchObject({ flagged: true, gap_fraction: 0.5 });
+  });
+
+  it('writes region probabilities only when the calibration states an uncertainty', () => {
+    const json = summaryJson(state());
+    expect(json.muscles['calf, medial']?.strides[0]).not.toHaveProperty('region_probability');
+    expect(json.muscles['calf, medial']?.segmentation).toBeNull();
+    expect(json.muscles['calf, medial']?.cycle).toBeNull();
+  });
+});
+
+describe('stridesCsv: later figures', () => {
+  it('keeps the original columns first, in their order, and adds phase columns with units', () => {
+    expect(STRIDE_COLUMNS.slice(0, 19)).toEqual([
+      'muscle', 'side', 'stride', 'start_s', 'end_s', 'duration_s', 'sl_min_um', 'sl_max_um', 'sl_mean_um',
+      'too_short_fraction', 'steep_ascending_fraction', 'shallow_ascending_fraction', 'plateau_fraction', 'descending_fraction', 'no_overlap_fraction',
+      'force_mean', 'gap_s', 'sample_count', 'segmentation',
+    ]);
+    expect(STRIDE_COLUMNS).toContain('stance_sl_p95_um');
+    expect(STRIDE_COLUMNS).toContain('swing_velocity_max_mm_s');
+    const rows = stridesCsv(state()).trimEnd().split('\r\n');
+    expect(rows[1]?.split(',').length).toBe(STRIDE_COLUMNS.length + 1); // the quoted muscle name holds one comma
+  });
+});

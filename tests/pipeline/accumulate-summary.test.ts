@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { from, lastValueFrom, toArray } from 'rxjs';
 import { accumulateSummary } from '../../src/pipeline/accumulate-summary.ts';
-import { header, sample, strike } from '../helpers/frames.ts';
+import { header, sample, strike, toeOff } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
 import type { Batch, Frame, Sample } from '../../src/records.ts';
 import type { RegionKey } from '../../src/model/regions.ts';
@@ -127,5 +127,112 @@ describe('accumulateSummary', () => {
     const state = await final([[header({ subject: 'demo-subject', trial: 'walk-1', muscles: { calf: { side: 'right' } } })]]);
     expect(state.subject).toBe('demo-subject');
     expect(state.muscles.get('calf')).toMatchObject({ side: 'right', sideSource: 'declared' });
+  });
+});
+
+describe('accumulateSummary: phases, percentiles, capacity, flags', () => {
+  function full(tS: number, sarcomereUm: number, strideIndex: number, extra: { velocityMmS?: number; forceLv?: number; forceTendon?: number } = {}): Sample {
+    const region: RegionKey = sarcomereUm < 2.64 ? 'shallow_ascending' : sarcomereUm <= 2.81 ? 'plateau' : 'descending';
+    const s = enriched(tS, sarcomereUm, region, strideIndex, 1);
+    s.velocityMmS = extra.velocityMmS ?? 0;
+    s.forceLv = extra.forceLv ?? Number.NaN;
+    s.forceTendon = extra.forceTendon ?? Number.NaN;
+    return s;
+  }
+
+  it('splits a stride at the toe-off of its side into stance and swing, each time-weighted', async () => {
+    // Stride 0 from 0 to 1 s at 10 Hz; toe-off at 0.6 s. Stance holds 2.7 µm, swing 3.0 µm.
+    const frames: Frame[] = [header({ muscles: { calf: { side: 'left' } } }), boundary(0, 0)];
+    for (let i = 0; i < 10; i++) {
+      if (i === 6) frames.push(toeOff(0.6, 'left'), toeOff(0.6, 'right'));
+      frames.push(full(i / 10, i < 6 ? 2.7 : 3.0, 0, { velocityMmS: i - 4 }));
+    }
+    frames.push(boundary(1, 1));
+    const [stride] = (await final([frames])).muscles.get('calf')?.strides ?? [];
+    expect(stride?.stance).toMatchObject({ startS: 0, endS: 0.6, slMinUm: 2.7, slMaxUm: 2.7, sampleCount: 6, velocityMinMmS: -4, velocityMaxMmS: 1 });
+    expect(stride?.swing).toMatchObject({ startS: 0.6, endS: 1, slMinUm: 3.0, slMaxUm: 3.0, sampleCount: 4, velocityMinMmS: 2, velocityMaxMmS: 5 });
+    expect(stride?.stance?.regionFraction.plateau).toBeCloseTo(1, 12);
+    expect(stride?.swing?.regionFraction.descending).toBeCloseTo(1, 12);
+    expect(stride?.stance?.gapS).toBeCloseTo(0, 12);
+    expect(stride?.swing?.gapS).toBeCloseTo(0, 12);
+    expect(stride?.slMeanUm).toBeCloseTo(0.6 * 2.7 + 0.4 * 3.0, 12);
+    expect(stride).toMatchObject({ velocityMinMmS: -4, velocityMaxMmS: 5, segmentation: 'events', flagged: false });
+    expect(stride?.excursionUm).toBeCloseTo(0.3, 12);
+  });
+
+  it('gives no phases to a stride with no toe-off of its side', async () => {
+    const frames: Frame[] = [header({ muscles: { calf: { side: 'left' } } }), boundary(0, 0), full(0, 2.7, 0), toeOff(0.5, 'right'), full(0.5, 2.8, 0), boundary(1, 1)];
+    const [stride] = (await final([frames])).muscles.get('calf')?.strides ?? [];
+    expect(stride?.stance).toBeNull();
+    expect(stride?.swing).toBeNull();
+  });
+
+  it('gives time-weighted 5th and 95th percentiles within one histogram bin (0.001 µm) of a sorted-array reference', async () => {
+    // Invented lengths at uneven intervals inside one stride.
+    const times = [0, 0.013, 0.04, 0.05, 0.09, 0.1, 0.17, 0.2, 0.23, 0.31, 0.33, 0.4, 0.52, 0.55, 0.6, 0.71, 0.8, 0.83, 0.9, 0.97];
+    const lengths = [2.51, 2.903, 2.644, 2.7771, 2.59, 3.012, 2.688, 2.7, 2.5555, 2.81, 2.95, 2.62, 2.74, 2.8, 2.66, 3.1, 2.58, 2.72, 2.69, 2.87];
+    const endS = 1;
+    const frames: Frame[] = [boundary(0, 0), ...times.map((t, i) => full(t, lengths[i] as number, 0)), boundary(1, endS)];
+    const [stride] = (await final([frames])).muscles.get('calf')?.strides ?? [];
+    // Reference: each length holds until the next sample (the last until the stride's end), sorted by length;
+    // the q-quantile is the first length whose cumulative time reaches q × total (common practice, no source).
+    const pairs = times.map((t, i) => ({ sl: lengths[i] as number, w: (times[i + 1] ?? endS) - t })).sort((a, b) => a.sl - b.sl);
+    const total = pairs.reduce((a, p) => a + p.w, 0);
+    const quantile = (q: number): number => {
+      let cum = 0;
+      for (const p of pairs) {
+        cum += p.w;
+        if (cum >= q * total - 1e-12) return p.sl;
+      }
+      return Number.NaN;
+    };
+    expect(Math.abs((stride?.slP5Um ?? Number.NaN) - quantile(0.05))).toBeLessThanOrEqual(0.001 + 1e-9);
+    expect(Math.abs((stride?.slP95Um ?? Number.NaN) - quantile(0.95))).toBeLessThanOrEqual(0.001 + 1e-9);
+  });
+
+  it('means the length × velocity and along-tendon capacities over the time they are known', async () => {
+    const frames: Frame[] = [
+      boundary(0, 0),
+      full(0, 2.7, 0, { forceLv: Number.NaN, forceTendon: Number.NaN }),
+      full(0.5, 2.7, 0, { forceLv: 0.8, forceTendon: 0.72 }),
+      full(0.75, 2.7, 0, { forceLv: 0.4, forceTendon: 0.36 }),
+      boundary(1, 1),
+    ];
+    const [stride] = (await final([frames])).muscles.get('calf')?.strides ?? [];
+    expect(stride?.forceLvMean).toBeCloseTo((0.8 * 0.25 + 0.4 * 0.25) / 0.5, 12);
+    expect(stride?.forceTendonMean).toBeCloseTo((0.72 * 0.25 + 0.36 * 0.25) / 0.5, 12);
+  });
+
+  it('flags a stride whose gap time exceeds 10% of its duration, and keeps it out of the cycle curve', async () => {
+    const frames: Frame[] = [boundary(0, 0)];
+    for (let i = 0; i < 10; i++) frames.push(full(i / 10, 2.7, 0));
+    frames.push(boundary(1, 1));
+    // Stride 1: samples to 1.5 s, then nothing until 2 s (0.4 s uncovered, 40% of the stride).
+    for (let i = 0; i <= 5; i++) frames.push(full(1 + i / 10, 2.9, 1));
+    frames.push(boundary(2, 2));
+    const m = (await final([frames])).muscles.get('calf');
+    expect(m?.strides.map((s) => s.flagged)).toEqual([false, true]);
+    expect(m?.cycle?.strideCount).toBe(1);
+    expect(m?.cycle?.slMeanUm[50]).toBeCloseTo(2.7, 12);
+  });
+
+  it('resamples each stride to 101 points of the gait cycle and keeps the mean and SD across strides', async () => {
+    // Three strides of 1 s, each a straight ramp from a to a + 0.2 µm sampled at 100 Hz.
+    const starts = [2.5, 2.6, 2.8];
+    const frames: Frame[] = [];
+    starts.forEach((a, k) => {
+      frames.push(boundary(k, k));
+      for (let i = 0; i < 100; i++) frames.push(full(k + i / 100, a + (0.2 * i) / 100, k));
+    });
+    frames.push(boundary(3, 3));
+    const m = (await final([frames])).muscles.get('calf');
+    const cycle = m?.cycle;
+    expect(cycle?.slMeanUm).toHaveLength(101);
+    // Direct computation at 40% (a sample sits there): mean and sample SD of a + 0.08 over the three strides.
+    const at40 = starts.map((a) => a + 0.08);
+    const mean = at40.reduce((x, y) => x + y, 0) / 3;
+    const sd = Math.sqrt(at40.reduce((x, y) => x + (y - mean) ** 2, 0) / 2);
+    expect(cycle?.slMeanUm[40]).toBeCloseTo(mean, 12);
+    expect(Math.sqrt((cycle?.slM2Um2[40] ?? Number.NaN) / 2)).toBeCloseTo(sd, 12);
   });
 });

@@ -157,3 +157,75 @@ function percentile(sorted: Float64Array, q: number): number {
   const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
   return a + (b - a) * (pos - i);
 }
+
+/** Histogram bin of the stride accumulator (µm): a sample's length is known to this resolution for the interval. */
+export const ACCUMULATOR_BIN_UM = 0.002;
+const ACCUMULATOR_LO_UM = 0.5;
+const ACCUMULATOR_HI_UM = 6.5;
+
+export interface StrideRegionAccumulator {
+  /** Adds one sample standing for `durationS` seconds; NaN lengths and non-positive durations are skipped. No allocation. */
+  add(sarcomereUm: number, durationS: number): void;
+  /** The stride's expected fractions and 90% interval so far (as strideRegionFractions). */
+  result(): RegionFractionsWithInterval;
+  /** Empties it for the next stride. */
+  reset(): void;
+}
+
+/**
+ * The streaming form of strideRegionFractions, for a summary that sees samples one at a time: fixed
+ * memory per muscle (a histogram of lengths in 0.002 µm bins over 0.5–6.5 µm, lengths outside clamped to
+ * the end bins). The expected fractions are exact; the interval treats each sample as sitting at its
+ * bin's centre, which moves a boundary by at most 0.001 µm.
+ */
+export function makeStrideRegionAccumulator(
+  curve: ForceLengthCurve,
+  relativeSd: number,
+  quantilePointCount: number = DEFAULT_QUANTILE_POINTS,
+): StrideRegionAccumulator {
+  const bins = Math.ceil((ACCUMULATOR_HI_UM - ACCUMULATOR_LO_UM) / ACCUMULATOR_BIN_UM);
+  const weight = new Float64Array(bins);
+  const expected = new Float64Array(REGIONS);
+  const p = new Float64Array(REGIONS);
+  let total = 0;
+  let lowest = bins;
+  let highest = -1;
+  return {
+    add(sarcomereUm, durationS) {
+      if (!Number.isFinite(sarcomereUm) || !(durationS > 0) || !(sarcomereUm > 0)) return;
+      regionProbabilities(curve, sarcomereUm, relativeSd, p);
+      for (let r = 0; r < REGIONS; r++) expected[r] = (expected[r] as number) + durationS * (p[r] as number);
+      total += durationS;
+      let b = Math.floor((sarcomereUm - ACCUMULATOR_LO_UM) / ACCUMULATOR_BIN_UM);
+      b = b < 0 ? 0 : b >= bins ? bins - 1 : b;
+      weight[b] = (weight[b] as number) + durationS;
+      if (b < lowest) lowest = b;
+      if (b > highest) highest = b;
+    },
+    result() {
+      if (total === 0) return strideRegionFractions(curve, [], [], relativeSd, quantilePointCount);
+      const lengths: number[] = [];
+      const durations: number[] = [];
+      for (let b = lowest; b <= highest; b++) {
+        const w = weight[b] as number;
+        if (w > 0) {
+          lengths.push(ACCUMULATOR_LO_UM + (b + 0.5) * ACCUMULATOR_BIN_UM);
+          durations.push(w);
+        }
+      }
+      const binned = strideRegionFractions(curve, lengths, durations, relativeSd, quantilePointCount);
+      const exact = zeroRegionRecord();
+      REGION_KEYS.forEach((key, r) => {
+        exact[key] = (expected[r] as number) / total;
+      });
+      return { expected: exact, low: binned.low, high: binned.high };
+    },
+    reset() {
+      weight.fill(0);
+      expected.fill(0);
+      total = 0;
+      lowest = bins;
+      highest = -1;
+    },
+  };
+}

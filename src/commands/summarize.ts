@@ -1,6 +1,160 @@
+/** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
+import { parseArgs } from 'node:util';
 import type { CommandIo } from './io.ts';
+import type { CalibrationSpec } from '../model/calibration.ts';
+import { readCalibrationFile } from '../../adapters/calibration-file.ts';
+import { writeFileAtomic } from '../output/write-file.ts';
+import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
+import { studyCsv } from '../study/study-csv.ts';
+import { progressBar, progressFigures, rateText } from '../study/progress-line.ts';
+import type { SummaryJson } from '../output/summary-json.ts';
+import type { TrialOutcome } from '../study/summarize-trial.ts';
 
-export async function run(_argv: string[], io: CommandIo): Promise<number> {
-  io.err('lengthwise summarize: this command is being built and is not available in this version.');
-  return 2;
+const HELP = `usage: lengthwise summarize FILES... [options]
+
+Runs every trial file (lengthwise-stream NDJSON, its CSV variant, or session logs) through the same
+pipeline as replay, in parallel, and writes one study table: a row per trial and muscle, with the same
+figures as each trial's --summary.
+
+options:
+  --out FILE.csv         write the study table here  [default: standard output]
+  --calibration FILE     calibration JSON for every trial; wins over each trial's header calibration
+  --jobs N               trials summarised at once, one worker thread each  [default: ${defaultJobs()}, the cores]
+  --plain                plain progress lines instead of a progress bar, even on a terminal
+  -h, --help             this text
+
+A file that cannot be read or has no valid sample is named with the reason and left out; the others
+go on. Exit status: 0 all trials summarised, 1 some failed or a file could not be written, 2 usage.`;
+
+/** Reads `--jobs`: a whole number from 1 up. */
+export function parseJobs(text: string): { ok: true; jobs: number } | { ok: false; message: string } {
+  const n = Number(text);
+  if (/^\s*\d+\s*$/.test(text) && Number.isInteger(n) && n >= 1) return { ok: true, jobs: n };
+  return { ok: false, message: `--jobs "${text}" is not a number of workers: give a whole number from 1 up (the machine has ${defaultJobs()} cores)` };
+}
+
+/** Shows progress on standard error: a redrawn bar on a terminal, a line per finished trial otherwise. */
+function progressReporter(io: CommandIo, bar: boolean): { readonly onEvent: (event: StudyEvent) => void; readonly end: () => void } {
+  const started = performance.now();
+  const elapsedS = (): number => (performance.now() - started) / 1000;
+  let lastDraw = Number.NEGATIVE_INFINITY;
+  let drawn = false;
+  const clear = (): void => {
+    if (drawn) io.stderr.write('\r\x1b[2K');
+    drawn = false;
+  };
+  const draw = (p: StudyProgress, force: boolean): void => {
+    const now = performance.now();
+    if (!force && now - lastDraw < 100) return;
+    lastDraw = now;
+    io.stderr.write(`\r\x1b[2K${progressBar(p, elapsedS(), io.stderr.columns ?? 80)}`);
+    drawn = true;
+  };
+  const failure = (outcome: TrialOutcome): string => (outcome.ok ? '' : `lengthwise summarize: ${outcome.message}`);
+  return {
+    onEvent: (event) => {
+      if (bar) {
+        if (event.type === 'trial' && !event.outcome.ok) {
+          clear();
+          io.err(failure(event.outcome));
+        }
+        draw(event.progress, event.type === 'trial');
+        return;
+      }
+      if (event.type !== 'trial') return;
+      const p = event.progress;
+      const count = `[${p.trialsDone}/${p.trialsTotal}]`;
+      if (!event.outcome.ok) io.err(`${count} ${failure(event.outcome)}`);
+      else {
+        const muscles = Object.values(event.outcome.summary.muscles);
+        const strides = muscles.reduce((n, m) => n + m.trial.stride_count, 0);
+        io.err(`${count} ${event.outcome.path}: ${muscles.length} muscles, ${strides} strides, ${event.outcome.samples} samples · ${progressFigures(p, elapsedS())}`);
+      }
+    },
+    end: () => clear(),
+  };
+}
+
+export async function run(argv: string[], io: CommandIo): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: {
+        out: { type: 'string' },
+        calibration: { type: 'string' },
+        jobs: { type: 'string' },
+        plain: { type: 'boolean', default: false },
+        help: { type: 'boolean', short: 'h', default: false },
+      },
+    });
+  } catch (error) {
+    io.err(`lengthwise summarize: ${(error as Error).message}\n\n${HELP}`);
+    return 2;
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    io.out(HELP);
+    return 0;
+  }
+  if (positionals.length === 0) {
+    io.err(`lengthwise summarize: give one or more trial files.\n\n${HELP}`);
+    return 2;
+  }
+  let jobs = defaultJobs();
+  if (values.jobs !== undefined) {
+    const parsedJobs = parseJobs(values.jobs);
+    if (!parsedJobs.ok) {
+      io.err(`lengthwise summarize: ${parsedJobs.message}`);
+      return 2;
+    }
+    jobs = parsedJobs.jobs;
+  }
+  let calibration: CalibrationSpec | undefined;
+  if (values.calibration !== undefined) {
+    const result = await readCalibrationFile(values.calibration);
+    if (!result.ok) {
+      io.err(`lengthwise summarize: the calibration was not accepted:\n  ${result.problems.join('\n  ')}`);
+      return 2;
+    }
+    calibration = result.spec;
+  }
+
+  const started = performance.now();
+  const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);
+  const outcomes = await runStudy(positionals, {
+    jobs,
+    ...(calibration !== undefined ? { calibration } : {}),
+    onEvent: reporter.onEvent,
+  });
+  reporter.end();
+  const elapsedS = (performance.now() - started) / 1000;
+
+  const summaries: SummaryJson[] = [];
+  const failed: string[] = [];
+  let samples = 0;
+  for (const o of outcomes) {
+    if (o.ok) {
+      summaries.push(o.summary);
+      samples += o.samples;
+    } else failed.push(o.path);
+  }
+  let status = failed.length > 0 ? 1 : 0;
+  io.err(
+    `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${Math.min(jobs, outcomes.length)} workers)` +
+      (failed.length > 0 ? `; ${failed.length} failed: ${failed.join(', ')}` : ''),
+  );
+
+  const csv = studyCsv(summaries);
+  if (values.out === undefined) io.stdout.write(csv);
+  else {
+    const result = await writeFileAtomic(values.out, csv);
+    if (result.ok) io.err(`study table written to ${result.path}`);
+    else {
+      io.err(`lengthwise summarize: ${result.message}`);
+      status = 1;
+    }
+  }
+  return status;
 }

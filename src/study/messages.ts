@@ -1,0 +1,19 @@
+/** What the study runner and its worker threads say to each other (structured-clone data only). */
+import type { CalibrationSpec } from '../model/calibration.ts';
+import type { TrialOutcome } from './summarize-trial.ts';
+
+export interface WorkerSetup {
+  readonly calibration?: CalibrationSpec;
+  /** Samples between two progress messages of one trial. */
+  readonly progressEverySamples: number;
+}
+
+export interface JobMessage {
+  readonly type: 'job';
+  readonly id: number;
+  readonly path: string;
+}
+
+export type WorkerMessage =
+  | { readonly type: 'progress'; readonly id: number; readonly bytesRead: number; readonly samples: number }
+  | { readonly type: 'done'; readonly id: number; readonly outcome: TrialOutcome };

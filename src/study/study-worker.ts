@@ -1,0 +1,31 @@
+/** A study worker thread: summarises each trial it is sent, one at a time, and posts progress and outcomes. */
+import { parentPort, workerData } from 'node:worker_threads';
+import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
+import { summarizeTrial } from './summarize-trial.ts';
+
+const port = parentPort;
+if (port === null) throw new Error('study-worker.ts runs only as a worker thread; start it through runStudy');
+const setup = workerData as WorkerSetup;
+
+function post(message: WorkerMessage): void {
+  port?.postMessage(message);
+}
+
+port.on('message', (job: JobMessage) => {
+  let posted = 0;
+  void summarizeTrial(job.path, {
+    ...(setup.calibration !== undefined ? { calibration: setup.calibration } : {}),
+    onProgress: ({ bytesRead, samples }) => {
+      if (samples - posted < setup.progressEverySamples) return;
+      posted = samples;
+      post({ type: 'progress', id: job.id, bytesRead, samples });
+    },
+  })
+    .catch((error: unknown) => ({
+      ok: false as const,
+      path: job.path,
+      bytes: 0,
+      message: `${job.path} could not be summarised: ${error instanceof Error ? error.message : String(error)}`,
+    }))
+    .then((outcome) => post({ type: 'done', id: job.id, outcome }));
+});

@@ -1,0 +1,160 @@
+import { execFile, execFileSync } from 'node:child_process';
+import { readFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { promisify } from 'node:util';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { REGION_KEYS } from '../../src/model/regions.ts';
+import { summarizeTrial } from '../../src/study/summarize-trial.ts';
+import { parseJobs } from '../../src/commands/summarize.ts';
+import { csvRecords, trialFolder, type TrialFolder } from '../study/generated-trials.ts';
+
+const ROOT = fileURLToPath(new URL('../..', import.meta.url));
+const BIN = join(ROOT, 'bin', 'lengthwise.js');
+const run = promisify(execFile);
+
+interface Ran {
+  readonly code: number;
+  readonly stdout: string;
+  readonly stderr: string;
+}
+
+/** Runs the real command line as a child process, the way a user does. */
+async function lengthwise(args: readonly string[]): Promise<Ran> {
+  try {
+    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { cwd: ROOT, maxBuffer: 64 * 1024 * 1024 });
+    return { code: 0, stdout, stderr };
+  } catch (error) {
+    const e = error as { code?: number; stdout?: string; stderr?: string };
+    return { code: typeof e.code === 'number' ? e.code : -1, stdout: e.stdout ?? '', stderr: e.stderr ?? '' };
+  }
+}
+
+let folder: TrialFolder;
+const trials: string[] = [];
+let corrupt = '';
+let missing = '';
+beforeAll(async () => {
+  folder = await trialFolder('lengthwise-summarize-');
+  trials.push((await folder.trial('s01-walk.ndjson', { seed: 41, subject: 'SYN-101' })).path);
+  trials.push((await folder.trial('s01-run.ndjson', { seed: 42, scenario: 'run', subject: 'SYN-101' })).path);
+  trials.push((await folder.trial('s02-walk.csv', { seed: 43, format: 'csv', subject: 'SYN-102' })).path);
+  trials.push((await folder.trial('s02-run.ndjson', { seed: 44, scenario: 'run', subject: 'SYN-102' })).path);
+  corrupt = await folder.file('s03-corrupt.ndjson', Buffer.from('\u0000\u0001binary junk\n{"t": 1, "muscle"\nnot a record\n'));
+  missing = join(folder.dir, 's04-missing.ndjson');
+});
+afterAll(() => folder.remove());
+
+describe('lengthwise summarize', () => {
+  it('prints its options for --help and exits 0', async () => {
+    const ran = await lengthwise(['summarize', '--help']);
+    expect(ran.code).toBe(0);
+    for (const option of ['--out', '--calibration', '--jobs']) expect(ran.stdout).toContain(option);
+  });
+
+  it('asks for files when given none (exit 2)', async () => {
+    const ran = await lengthwise(['summarize']);
+    expect(ran.code).toBe(2);
+    expect(ran.stderr).toContain('give one or more trial files');
+  });
+
+  it('refuses a job count that is not a whole number from 1, saying what is accepted (exit 2)', async () => {
+    const ran = await lengthwise(['summarize', trials[0]!, '--jobs', '0']);
+    expect(ran.code).toBe(2);
+    expect(ran.stderr).toMatch(/--jobs "0" is not a number of workers: give a whole number from 1 up/);
+    expect(parseJobs('3')).toEqual({ ok: true, jobs: 3 });
+    expect(parseJobs('2.5').ok).toBe(false);
+    expect(parseJobs('many').ok).toBe(false);
+  });
+
+  it('refuses a calibration that is not accepted, naming the problem (exit 2)', async () => {
+    const cal = await folder.file('bad-cal.json', '{"muscles": {"calf": {"method": "guess"}}}');
+    const ran = await lengthwise(['summarize', trials[0]!, '--calibration', cal]);
+    expect(ran.code).toBe(2);
+    expect(ran.stderr).toContain('the calibration was not accepted');
+  });
+
+  it('writes the study table of one trial to standard output when no --out is given', async () => {
+    const ran = await lengthwise(['summarize', trials[0]!, '--jobs', '1']);
+    expect(ran.code).toBe(0);
+    const rows = csvRecords(ran.stdout);
+    expect(rows.map((r) => r.muscle)).toEqual(['calf', 'thigh']);
+    expect(ran.stderr).toMatch(/summarized 1 of 1 trials/);
+  });
+
+  it('summarises many trials on worker threads, names a missing and a corrupt file with reasons, and exits 1', async () => {
+    const out = join(folder.dir, 'out', 'study.csv');
+    const ran = await lengthwise(['summarize', trials[0]!, missing, trials[1]!, corrupt, trials[2]!, trials[3]!, '--out', out, '--jobs', '2']);
+    expect(ran.code).toBe(1);
+    expect(ran.stderr).toMatch(/s04-missing\.ndjson \(no such file\); check the path/);
+    expect(ran.stderr).toMatch(/s03-corrupt\.ndjson has no valid sample in 3 lines/);
+    expect(ran.stderr).toMatch(/summarized 4 of 6 trials .*; 2 failed/);
+    // Not a terminal: one plain line per finished trial, no bar drawing.
+    expect(ran.stderr).not.toContain('\r');
+    expect(ran.stderr.match(/^\[\d\/6\]/gm)).toHaveLength(6);
+
+    const rows = csvRecords(await readFile(out, 'utf8'));
+    expect(rows).toHaveLength(8);
+    let i = 0;
+    for (const path of trials) {
+      const outcome = await summarizeTrial(path);
+      if (!outcome.ok) throw new Error(outcome.message);
+      for (const [muscle, m] of Object.entries(outcome.summary.muscles)) {
+        const row = rows[i++]!;
+        expect(row).toMatchObject({ source_file: path, subject: outcome.summary.subject ?? '', muscle });
+        expect(Number(row.stride_count)).toBe(m.trial.stride_count);
+        expect(Number(row.sl_min_um)).toBe(m.trial.sl_min_um);
+        expect(Number(row.sl_max_um)).toBe(m.trial.sl_max_um);
+        expect(Number(row.sl_mean_um)).toBe(m.trial.sl_mean_um);
+        expect(Number(row.force_mean)).toBe(m.trial.force_mean);
+        for (const key of REGION_KEYS) expect(Number(row[`${key}_fraction`])).toBe(m.trial.region_fraction[key]);
+      }
+    }
+  });
+
+  it('says when the table cannot be written (exit 1)', async () => {
+    const blocker = await folder.file('not-a-folder', 'x');
+    const ran = await lengthwise(['summarize', trials[0]!, '--out', join(blocker, 'study.csv')]);
+    expect(ran.code).toBe(1);
+    expect(ran.stderr).toMatch(/could not write .*study\.csv/);
+  });
+});
+
+function hasTmux(): boolean {
+  try {
+    execFileSync('tmux', ['-V'], { stdio: 'ignore' });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+describe.skipIf(!hasTmux())('lengthwise summarize on a terminal (tmux)', () => {
+  it('draws a progress bar on the terminal, clears it, and ends with the tally', async () => {
+    const session = `lw-summarize-${process.pid}`;
+    const out = join(folder.dir, 'tty-study.csv');
+    const done = join(folder.dir, 'tty-done');
+    const raw = join(folder.dir, 'tty-raw');
+    const command = [process.execPath, BIN, 'summarize', ...trials, '--out', out, '--jobs', '2'].map((a) => `'${a}'`).join(' ');
+    // The pause lets the pane's output be piped to a file before the command starts.
+    execFileSync('tmux', ['new-session', '-d', '-s', session, '-x', '100', '-y', '20', `sleep 0.5; ${command}; echo "exit=$?" > '${done}'; sleep 30`], { cwd: ROOT });
+    try {
+      execFileSync('tmux', ['pipe-pane', '-t', session, `cat > '${raw}'`]);
+      let finished = '';
+      for (let i = 0; i < 300 && finished === ''; i++) {
+        await new Promise((resolve) => setTimeout(resolve, 100));
+        finished = await readFile(done, 'utf8').catch(() => '');
+      }
+      expect(finished).toContain('exit=0');
+      const screen = execFileSync('tmux', ['capture-pane', '-p', '-t', session], { encoding: 'utf8' });
+      expect(screen).toMatch(/summarized 4 of 4 trials/);
+      // The bar is drawn over itself and cleared: no per-trial lines are left on screen.
+      expect(screen).not.toMatch(/^\[\d\/4\]/m);
+      const written = await readFile(raw, 'utf8');
+      expect(written).toContain('\r\x1b[2K');
+      expect(written).toMatch(/█*░+ \d\/4 trials · .* samples\/s · .* left/);
+    } finally {
+      execFileSync('tmux', ['kill-session', '-t', session]);
+    }
+  });
+});

@@ -6,7 +6,7 @@ import { pipeline, type PipelineOptions } from './pipeline/pipeline.ts';
 import { RecentFascicles } from './recent-fascicles.ts';
 
 export interface TrialRun {
-  /** The running state (same object, mutated in place), replaying the latest to late subscribers. */
+  /** The running state (same object, mutated in place), replaying the latest to late subscribers; it never errors. */
   readonly state$: Observable<TrialState>;
   /** Resolves with the final state when the input ends or `stop()` is called; rejects if the input fails. */
   readonly done: Promise<TrialState>;
@@ -17,6 +17,8 @@ export interface TrialRun {
   stop(): void;
   /** Puts frames into the pipeline's input between two batches: markers, calibrations captured while running. */
   inject(batch: Batch): void;
+  /** The state as of now (the pipeline gives a first one at once). */
+  latest(): TrialState;
   /** The last seconds of each muscle's raw fascicle lengths (for capturing a calibration). */
   readonly recent: RecentFascicles;
 }
@@ -28,6 +30,8 @@ export function runTrial(records$: Observable<Batch>, options: PipelineOptions):
   const done = new Promise<TrialState>((resolve, reject) => {
     settle = { resolve, reject };
   });
+  // A failure may come before anyone awaits `done` (e.g. a missing file while the dashboard loads).
+  done.catch(() => undefined);
   const injected = new Subject<Batch>();
   const stopped = new Subject<void>();
   const recent = new RecentFascicles();
@@ -53,7 +57,8 @@ export function runTrial(records$: Observable<Batch>, options: PipelineOptions):
       state$.next(state);
     },
     error: (error: unknown) => {
-      state$.error(error);
+      // Readers of the state (the dashboard) just see it end; the failure is told once, through `done`.
+      state$.complete();
       settle.reject(error);
     },
     complete: () => {
@@ -66,6 +71,7 @@ export function runTrial(records$: Observable<Batch>, options: PipelineOptions):
     state$: state$.asObservable(),
     done,
     recent,
+    latest: () => latest as TrialState,
     inject: (batch) => {
       if (!subscription.closed) injected.next(batch);
     },

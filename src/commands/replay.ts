@@ -1,0 +1,202 @@
+/** `lengthwise replay FILE`: play a recorded trial through the pipeline, with the dashboard or plain status lines. */
+import { parseArgs } from 'node:util';
+import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
+import type { CommandIo } from './io.ts';
+import type { Batch } from '../records.ts';
+import type { CalibrationSpec } from '../model/calibration.ts';
+import { readCalibrationFile } from '../../adapters/calibration-file.ts';
+import { fileSource } from '../../adapters/file-source.ts';
+import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
+import type { DashboardStatus } from '../dashboard/status.ts';
+import { countLines } from './count-lines.ts';
+import { captureCalibration } from '../capture-calibration.ts';
+import { writeFileAtomic } from '../output/write-file.ts';
+import { runTrial, type TrialRun } from '../run-trial.ts';
+import type { TrialState } from '../state.ts';
+import { finishTrial, plainReport } from './finish-trial.ts';
+
+const HELP = `usage: lengthwise replay FILE [options]
+
+Plays a recorded trial (lengthwise-stream NDJSON, its CSV variant, or a session log) through the pipeline.
+
+options:
+  --speed N|max          play at N times recorded time (1 = real time), or as fast as possible  [default: 1]
+  --calibration FILE     calibration JSON; wins over the stream header's calibration
+  --summary FILE.json    write the per-stride and per-trial summary
+  --strides FILE.csv     write one row per stride and muscle
+  --plain                plain status lines instead of the dashboard, even on a terminal
+  -h, --help             this text
+
+On a terminal the dashboard shows each muscle's operating region live (q quits and still writes the
+summary); otherwise a status line every few seconds and a report at the end.`;
+
+export type Speed = ReplaySpeed;
+
+/** The speeds + and - step through on the dashboard. */
+export const SPEED_STEPS: readonly Speed[] = [0.25, 0.5, 1, 2, 4, 8, 16, 'max'];
+
+/** The next speed up (+1) or down (−1) from the current one; a speed between steps goes to the nearest step that way. */
+export function stepSpeed(current: Speed, direction: 1 | -1): Speed {
+  const value = (s: Speed): number => (s === 'max' ? Number.POSITIVE_INFINITY : s);
+  const now = value(current);
+  if (direction === 1) return SPEED_STEPS.find((s) => value(s) > now) ?? 'max';
+  return [...SPEED_STEPS].reverse().find((s) => value(s) < now) ?? (SPEED_STEPS[0] as Speed);
+}
+
+/** Reads `--speed`: a positive number or "max"; anything else is a message saying what is accepted. */
+export function parseSpeed(text: string): { ok: true; speed: Speed } | { ok: false; message: string } {
+  if (text === 'max') return { ok: true, speed: 'max' };
+  const n = Number(text);
+  if (text.trim() !== '' && Number.isFinite(n) && n > 0) return { ok: true, speed: n };
+  return { ok: false, message: `--speed "${text}" is not a speed: give a positive number (1 = real time, 4 = four times faster) or "max"` };
+}
+
+export async function run(argv: string[], io: CommandIo): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: {
+        speed: { type: 'string', default: '1' },
+        calibration: { type: 'string' },
+        summary: { type: 'string' },
+        strides: { type: 'string' },
+        plain: { type: 'boolean', default: false },
+        help: { type: 'boolean', short: 'h', default: false },
+      },
+    });
+  } catch (error) {
+    io.err(`lengthwise replay: ${(error as Error).message}\n\n${HELP}`);
+    return 2;
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    io.out(HELP);
+    return 0;
+  }
+  const [path, ...extra] = positionals;
+  if (path === undefined || extra.length > 0) {
+    io.err(`lengthwise replay: give exactly one trial file (got ${positionals.length}).\n\n${HELP}`);
+    return 2;
+  }
+  const speed = parseSpeed(values.speed);
+  if (!speed.ok) {
+    io.err(`lengthwise replay: ${speed.message}`);
+    return 2;
+  }
+  let calibration: CalibrationSpec | undefined;
+  if (values.calibration !== undefined) {
+    const result = await readCalibrationFile(values.calibration);
+    if (!result.ok) {
+      io.err(`lengthwise replay: the calibration was not accepted:\n  ${result.problems.join('\n  ')}`);
+      return 2;
+    }
+    calibration = result.spec;
+  }
+
+  const speed$ = new BehaviorSubject<Speed>(speed.speed);
+  const valve = readAheadValve();
+  let lastLine = 0;
+  const records$: Observable<Batch> = fileSource(path, { pause$: valve.pause$ }).pipe(
+    paceReplayWith(speed$, undefined, { onBacklog: valve.report }),
+    tap((batch) => {
+      const last = batch.at(-1);
+      if (last !== undefined && 'line' in last && last.line > lastLine) lastLine = last.line;
+    }),
+  );
+  const trial = runTrial(records$, { source: path, ...(calibration !== undefined ? { calibration } : {}) });
+  const useDashboard = io.stdout.isTTY === true && !values.plain;
+  const final = useDashboard
+    ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine) })
+    : await withStatusLines(trial, io);
+  speed$.complete();
+  if (!final.ok) {
+    io.err(`lengthwise replay: ${final.message}`);
+    return 1;
+  }
+  return finishTrial(final.state, { summary: values.summary, strides: values.strides }, io);
+}
+
+/** Fraction of the file's lines played so far (NaN until the line count is known). */
+function progressOf(path: string, lastLine: () => number): () => number {
+  let total = Number.NaN;
+  void countLines(path).then((n) => (total = n));
+  return () => (total > 0 ? Math.min(1, lastLine() / total) : Number.NaN);
+}
+
+type Final = { ok: true; state: TrialState } | { ok: false; message: string };
+
+async function settle(trial: TrialRun): Promise<Final> {
+  try {
+    return { ok: true, state: await trial.done };
+  } catch (error) {
+    return { ok: false, message: error instanceof Error ? error.message : String(error) };
+  }
+}
+
+async function withStatusLines(trial: TrialRun, io: CommandIo): Promise<Final> {
+  const { statusLine } = await import('../dashboard/status-line.ts');
+  let latest: TrialState | null = null;
+  const stateSub = trial.state$.subscribe((s) => (latest = s));
+  const tick = interval(3000).subscribe(() => {
+    if (latest !== null) io.err(statusLine(latest));
+  });
+  const final = await settle(trial);
+  tick.unsubscribe();
+  stateSub.unsubscribe();
+  if (final.ok) io.out(plainReport(final.state));
+  return final;
+}
+
+interface ReplayControls {
+  readonly speed$: BehaviorSubject<Speed>;
+  readonly progress: () => number;
+}
+
+async function withDashboard(trial: TrialRun, path: string, io: CommandIo, controls: ReplayControls): Promise<Final> {
+  const { startDashboard } = await import('../dashboard/start-dashboard.tsx');
+  const message$ = new BehaviorSubject<string | undefined>(undefined);
+  const status$: Observable<DashboardStatus> = interval(250).pipe(
+    map(() => {
+      const progress = controls.progress();
+      return {
+        sourceLabel: path,
+        replay: { progress: Number.isFinite(progress) ? progress : 0, speed: controls.speed$.value },
+        message: message$.value,
+      };
+    }),
+  );
+  const dashboard = startDashboard({
+    state$: trial.state$,
+    status$,
+    title: `replay ${path}`,
+    stdout: io.stdout,
+    stdin: io.stdin,
+    env: io.env,
+    onQuit: () => trial.stop(),
+    onSpeed: (direction) => controls.speed$.next(stepSpeed(controls.speed$.value, direction)),
+    onMarker: (text) => trial.inject([{ kind: 'marker', tS: trial.latest().lastTS, marker: text, line: 0 }]),
+    onCalibrate: (muscle, sarcomereUm) => {
+      void applyCapture(trial, muscle, sarcomereUm).then((text) => message$.next(text));
+    },
+  });
+  const final = await settle(trial);
+  // At the end of a replay the dashboard stays up until the user quits, so the last figures can be read.
+  await dashboard.waitUntilExit();
+  return final;
+}
+
+/** Captures a reference calibration from the last 3 s, applies it to the running trial and saves it. */
+export async function applyCapture(trial: TrialRun, muscle: string, sarcomereUm: number, folder = 'sessions'): Promise<string> {
+  const species = trial.latest().muscles.get(muscle)?.species ?? 'human';
+  const result = captureCalibration(muscle, species, trial.recent.window(muscle, 3), sarcomereUm);
+  if (!result.ok) return result.message;
+  trial.inject([result.frame]);
+  const stamp = new Date().toISOString().replaceAll(':', '-').replace(/\..*/, '');
+  const written = await writeFileAtomic(`${folder}/calibration-${muscle.replace(/[^A-Za-z0-9_-]+/g, '_')}-${stamp}.json`, `${JSON.stringify(result.json, null, 2)}\n`);
+  const spread = result.spreadPercent > 5 ? ` (posture not quiet: fascicle length varied ${result.spreadPercent.toFixed(0)}%)` : '';
+  return written.ok
+    ? `${muscle}: calibrated at ${sarcomereUm} µm from ${result.fascicleMm.toFixed(1)} mm${spread}; saved to ${written.path}`
+    : `${muscle}: calibrated at ${sarcomereUm} µm${spread}, but not saved: ${written.message}`;
+}

@@ -1,0 +1,135 @@
+import { describe, expect, it } from 'vitest';
+import { spawn } from 'node:child_process';
+import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { parseSpeed } from '../../src/commands/replay.ts';
+
+const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
+const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
+const DEMO_CSV = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.csv');
+const DEMO_CAL = join(import.meta.dirname, '..', '..', 'replays', 'demo-calibration.json');
+
+interface Ran {
+  readonly code: number | null;
+  readonly stdout: string;
+  readonly stderr: string;
+}
+
+function lengthwise(args: readonly string[]): Promise<Ran> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' } });
+    let stdout = '';
+    let stderr = '';
+    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
+    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+    child.on('error', reject);
+    child.on('close', (code) => resolve({ code, stdout, stderr }));
+  });
+}
+
+async function tmp(): Promise<string> {
+  return mkdtemp(join(tmpdir(), 'lengthwise-replay-'));
+}
+
+describe('lengthwise replay', () => {
+  it('replays the demo as fast as possible and writes the summary and the stride table', async () => {
+    const dir = await tmp();
+    const summaryPath = join(dir, 'out', 'summary.json');
+    const stridesPath = join(dir, 'out', 'strides.csv');
+    const ran = await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', summaryPath, '--strides', stridesPath]);
+    expect(ran.stderr).toContain('summary written');
+    expect(ran.code).toBe(0);
+    const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
+    expect(summary).toMatchObject({ format: 'lengthwise-summary', version: 1, calibrated: true });
+    // The demo's eleven bad lines, one or more of each kind (replays/README.md).
+    expect(summary.frames.rejected).toBe(11);
+    expect(summary.frames.rejected_by_reason).toMatchObject({
+      not_json: 1,
+      schema: 1,
+      out_of_range: 3,
+      time_not_increasing: 1,
+      duplicate: 1,
+      unknown_event: 1,
+      unsafe_key: 1,
+      too_deep: 1,
+      line_too_long: 1,
+    });
+    expect(summary.frames.received).toBe(summary.frames.accepted + summary.frames.rejected + summary.frames.gait_events + summary.frames.markers + summary.frames.headers);
+    expect(summary.frames.low_quality).toBeGreaterThan(0);
+    for (const name of ['calf', 'thigh']) {
+      const m = summary.muscles[name];
+      expect(m.trial.stride_count).toBeGreaterThan(40);
+      const sum = Object.values(m.trial.region_fraction as Record<string, number>).reduce((a, b) => a + b, 0);
+      expect(sum).toBeCloseTo(1, 9);
+    }
+    const rows = (await readFile(stridesPath, 'utf8')).trimEnd().split('\r\n');
+    const strideCount = summary.muscles.calf.strides.length + summary.muscles.thigh.strides.length;
+    expect(rows).toHaveLength(1 + strideCount);
+    expect(ran.stdout).toContain('calf');
+  });
+
+  it('gives the same figures for the CSV variant with a calibration file', async () => {
+    const dir = await tmp();
+    const a = join(dir, 'a.json');
+    const b = join(dir, 'b.json');
+    expect((await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', a])).code).toBe(0);
+    expect((await lengthwise(['replay', DEMO_CSV, '--calibration', DEMO_CAL, '--speed', 'max', '--summary', b])).code).toBe(0);
+    const ndjson = JSON.parse(await readFile(a, 'utf8'));
+    const csv = JSON.parse(await readFile(b, 'utf8'));
+    expect(csv.muscles.calf.trial.stride_count).toBe(ndjson.muscles.calf.trial.stride_count);
+    expect(csv.muscles.calf.trial.sl_mean_um).toBeCloseTo(ndjson.muscles.calf.trial.sl_mean_um, 2);
+  });
+
+  it('gives the same summary twice for the same input', async () => {
+    const dir = await tmp();
+    const a = join(dir, 'a.json');
+    const b = join(dir, 'b.json');
+    await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', a]);
+    await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', b]);
+    expect(await readFile(a, 'utf8')).toBe(await readFile(b, 'utf8'));
+  });
+
+  it('says loudly when a trial has no calibration, and still runs', async () => {
+    const dir = await tmp();
+    const summaryPath = join(dir, 's.json');
+    const ran = await lengthwise(['replay', DEMO_CSV, '--speed', 'max', '--summary', summaryPath]);
+    expect(ran.code).toBe(0);
+    expect(ran.stdout).toContain('UNCALIBRATED');
+    const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
+    expect(summary.calibrated).toBe(false);
+    expect(summary.muscles.calf.calibration_source).toBe('baseline');
+  });
+
+  it('names a missing file and exits 1 without a stack trace', async () => {
+    const ran = await lengthwise(['replay', '/nonexistent/trial.ndjson', '--speed', 'max']);
+    expect(ran.code).toBe(1);
+    expect(ran.stderr).toContain('/nonexistent/trial.ndjson');
+    expect(ran.stderr).not.toMatch(/at .*\.ts:\d+/);
+  });
+
+  it('refuses a bad calibration file with what was wrong', async () => {
+    const dir = await tmp();
+    const cal = join(dir, 'cal.json');
+    await writeFile(cal, JSON.stringify({ muscles: { calf: { species: 'human', method: 'sarcomere_count', sarcomeres_in_series: -3 } } }));
+    const ran = await lengthwise(['replay', DEMO, '--calibration', cal]);
+    expect(ran.code).toBe(2);
+    expect(ran.stderr).toContain('sarcomeres_in_series');
+  });
+
+  it('refuses a bad speed and unknown options with usage', async () => {
+    expect((await lengthwise(['replay', DEMO, '--speed', 'fast'])).stderr).toContain('positive number');
+    const unknown = await lengthwise(['replay', DEMO, '--sped', '2']);
+    expect(unknown.code).toBe(2);
+    expect(unknown.stderr).toContain('usage: lengthwise replay');
+  });
+});
+
+describe('parseSpeed', () => {
+  it('takes a positive number or max', () => {
+    expect(parseSpeed('4')).toEqual({ ok: true, speed: 4 });
+    expect(parseSpeed('0.5')).toEqual({ ok: true, speed: 0.5 });
+    expect(parseSpeed('max')).toEqual({ ok: true, speed: 'max' });
+    for (const bad of ['0', '-1', '', 'NaN', 'Infinity', 'two']) expect(parseSpeed(bad).ok).toBe(false);
+  });
+});

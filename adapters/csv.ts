@@ -101,7 +101,7 @@ const POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
  * digits) → its value; NaN for anything else, which the caller then reads the careful way. With at
  * most 15 digits the digits form an exact integer below 2^53 and 10^k (k ≤ 22) is exact, so one
  * division gives the correctly rounded double, the same as Number() (Clinger WD 1990, How to read
- * floating point numbers accurately, Proc. ACM PLDI '90, 92–101: the "fast path").
+ * floating point numbers accurately, Proc. ACM PLDI '90, 92–101: the "fast path"; citation from memory).
  */
 export function plainDecimalAt(text: string, start: number, end: number): number {
   let i = start;

@@ -10,6 +10,7 @@ import { smoothKalman, type SmoothKalmanOptions } from './smooth-kalman.ts';
 import { estimateVelocity } from './estimate-velocity.ts';
 import { convertSarcomere } from './convert-sarcomere.ts';
 import { evaluateForceLength } from './evaluate-force-length.ts';
+import { evaluateCapacity } from './evaluate-capacity.ts';
 import { segmentStrides } from './segment-strides.ts';
 import { accumulateSummary } from './accumulate-summary.ts';
 
@@ -26,19 +27,29 @@ export interface PipelineOptions {
 /** Validated records in, the trial's running state out (the same object, once per batch). */
 export function pipeline(options: PipelineOptions): OperatorFunction<Batch, TrialState> {
   const gap = options.gapS !== undefined ? { gapS: options.gapS } : {};
+  // rxjs types at most nine operators per pipe(), so the path is written as three consecutive pipes.
   return (records$) =>
-    records$.pipe(
-      orderPerMuscle(),
-      markGaps(gap),
-      gateQuality(),
-      smoothKalman(options.smoothing ?? {}),
-      estimateVelocity(),
-      convertSarcomere({
-        ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
-        ...(options.baselineS !== undefined ? { baselineS: options.baselineS } : {}),
-      }),
-      evaluateForceLength(),
-      segmentStrides(),
-      accumulateSummary({ source: options.source, ...gap }),
-    );
+    records$
+      .pipe(
+        // Cleaning.
+        orderPerMuscle(),
+        markGaps(gap),
+        gateQuality(),
+        smoothKalman(options.smoothing ?? {}),
+        estimateVelocity(),
+      )
+      .pipe(
+        // The muscle model.
+        convertSarcomere({
+          ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
+          ...(options.baselineS !== undefined ? { baselineS: options.baselineS } : {}),
+        }),
+        evaluateForceLength(),
+        evaluateCapacity(),
+      )
+      .pipe(
+        // Strides and the summary.
+        segmentStrides(),
+        accumulateSummary({ source: options.source, ...gap }),
+      );
 }

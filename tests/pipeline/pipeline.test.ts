@@ -108,6 +108,16 @@ describe('pipeline on a generated walking trial (replay path: file → runTrial 
     expect(summary.muscles['calf']?.trial.stance?.sl_mean_um).not.toBeNull();
   });
 
+  it('means the length × velocity and along-tendon capacities per stride, below the length force along the tendon', () => {
+    for (const s of summary.muscles['calf']?.strides ?? []) {
+      expect(s.force_lv_mean).not.toBeNull();
+      expect(s.force_tendon_mean ?? 2).toBeLessThan(s.force_lv_mean ?? Number.NaN);
+      expect(s.velocity_min_mm_s ?? 0).toBeLessThan(0);
+      expect(s.velocity_max_mm_s ?? 0).toBeGreaterThan(0);
+    }
+    expect(summary.muscles['calf']?.trial.force_lv_mean).not.toBeNull();
+  });
+
   it('gives a gait-cycle curve of 101 points per muscle', () => {
     const cycle = summary.muscles['calf']?.cycle;
     expect(cycle?.percent).toHaveLength(101);

@@ -170,7 +170,7 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
   const dashboard = startDashboard({
     state$: trial.state$,
     status$,
-    title: `replay ${path}`,
+    title: 'lengthwise replay',
     stdout: io.stdout,
     stdin: io.stdin,
     env: io.env,

@@ -1,0 +1,236 @@
+/**
+ * A live stream from an acquisition computer that serves it: a WebSocket client → batches of frames,
+ * one Batch per message. It reconnects by itself (exponential backoff with jitter), finds a dead peer
+ * with ping/pong, and says each disconnection in the data's own path: a `[link] disconnected` marker
+ * (kept in the session log) and a `disconnected` Gap, so filters restart. Timers run on a scheduler.
+ */
+import { Observable, asyncScheduler, interval, timer, type SchedulerLike, type Subscription } from 'rxjs';
+import { WebSocket, type RawData } from 'ws';
+import type { Batch, Frame, Gap, Marker } from '../src/records.ts';
+import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
+
+/** What a link is doing, for the screen and the status lines. */
+export type LinkEvent =
+  | { readonly kind: 'connecting'; readonly url: string; readonly attempt: number }
+  | { readonly kind: 'connected'; readonly connection: number; readonly peer: string }
+  | { readonly kind: 'disconnected'; readonly connection: number; readonly detail: string }
+  | { readonly kind: 'retrying'; readonly inMs: number; readonly attempt: number; readonly detail: string }
+  | { readonly kind: 'listening'; readonly url: string; readonly port: number }
+  | { readonly kind: 'refused'; readonly peer: string; readonly detail: string };
+
+/** Marker text of a disconnection; `restoreGaps` (src/session-log/) turns it back into a Gap on replay. */
+export const LINK_MARKER_PREFIX = '[link] disconnected';
+
+/**
+ * The marker saying a connection was lost. `muscles` null: every muscle (one peer); else only the
+ * muscles that connection carried (one of several devices).
+ */
+export function linkMarkerText(muscles: readonly string[] | null, detail: string): string {
+  return `${LINK_MARKER_PREFIX} ${JSON.stringify(muscles)} ${detail.replace(/[\r\n]+/g, ' ')}`;
+}
+
+/** The frames that say a connection was lost: the marker, then one Gap per muscle (or one for all). */
+export function disconnectionFrames(muscles: readonly string[] | null, lastTS: number, detail: string, line: number): Frame[] {
+  const marker: Marker = { kind: 'marker', tS: Number.isFinite(lastTS) ? lastTS : 0, marker: linkMarkerText(muscles, detail), line };
+  const gaps: Gap[] =
+    muscles === null
+      ? [{ kind: 'gap', cause: 'disconnected', muscle: null, fromS: lastTS, toS: Number.NaN }]
+      : muscles.map((muscle) => ({ kind: 'gap', cause: 'disconnected', muscle, fromS: lastTS, toS: Number.NaN }));
+  return [marker, ...gaps];
+}
+
+export interface IngestOptions {
+  /** Device field names and units; null: the device sends lengthwise-stream records. @default null */
+  readonly mapping?: DeviceMapping | null;
+  /** Longest message accepted, bytes; a longer one is refused by the socket (close 1009) and counted as line_too_long. */
+  readonly maxMessageBytes?: number;
+}
+
+/**
+ * Message decoding shared by the client and the server: counts frames (so frame i of the session is
+ * line i, as in the session log), tracks each connection's muscles and last device time.
+ */
+export class Ingest {
+  private nextLine = 1;
+  private readonly mapping: DeviceMapping | null;
+  readonly maxMessageBytes: number;
+
+  constructor(options: IngestOptions) {
+    this.mapping = options.mapping ?? null;
+    this.maxMessageBytes = options.maxMessageBytes ?? MAX_MESSAGE_BYTES;
+  }
+
+  /** One message → its frames; notes muscles and time on `peer`. Never throws. */
+  message(data: RawData, peer: PeerTrack): Batch {
+    const buffer = Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data);
+    let frames: Frame[];
+    if (buffer.length > this.maxMessageBytes) {
+      frames = [oversizeRejection(this.nextLine, buffer.length, this.maxMessageBytes, buffer.toString('utf8', 0, 800))];
+    } else {
+      frames = decodeMessage(buffer.toString('utf8'), this.nextLine, this.mapping);
+    }
+    this.nextLine += frames.length;
+    for (const f of frames) {
+      if (f.kind === 'sample') {
+        peer.muscles.add(f.muscle);
+        if (!(f.tS < peer.lastTS)) peer.lastTS = f.tS;
+      } else if (f.kind === 'event' && !(f.tS < peer.lastTS)) peer.lastTS = f.tS;
+    }
+    return frames;
+  }
+
+  /** The socket refused a message over the cap (it closes with 1009): one line_too_long rejection. */
+  oversize(): Batch {
+    const frame = oversizeRejection(this.nextLine, this.maxMessageBytes + 1, this.maxMessageBytes, '(not kept: the socket refused it unread)');
+    this.nextLine++;
+    return [{ ...frame, message: frame.message.replace(/^message is \d+ bytes long/, 'message is over the cap') }];
+  }
+
+  /** The connection is gone: the marker and the gaps. */
+  disconnected(peer: PeerTrack, allMuscles: boolean, detail: string): Batch {
+    const frames = disconnectionFrames(allMuscles ? null : [...peer.muscles], peer.lastTS, detail, this.nextLine);
+    this.nextLine++;
+    return frames;
+  }
+}
+
+/** What one connection carried so far. */
+export interface PeerTrack {
+  readonly muscles: Set<string>;
+  lastTS: number;
+}
+
+export function newPeerTrack(): PeerTrack {
+  return { muscles: new Set(), lastTS: Number.NaN };
+}
+
+/** A close code and reason as a short text. */
+export function closeDetail(code: number, reason: Buffer | string): string {
+  const text = reason.toString().slice(0, 80);
+  const names: Record<number, string> = { 1000: 'closed normally', 1001: 'peer going away', 1006: 'connection lost', 1009: 'message too big', 1011: 'peer error' };
+  return `code ${code}${names[code] !== undefined ? ` ${names[code]}` : ''}${text.length > 0 ? `: ${text}` : ''}`;
+}
+
+export interface BackoffOptions {
+  /** Upper bound of the first retry's delay, ms. @default 500 */
+  readonly firstMs?: number;
+  /** Longest delay, ms. @default 4000 */
+  readonly maxMs?: number;
+}
+
+/**
+ * Delay before reconnection attempt `attempt` (0 for the first retry): the bound doubles from firstMs up
+ * to maxMs, and the delay is drawn from its upper half ("equal jitter"), so many clients do not retry in step.
+ */
+export function backoffDelayMs(attempt: number, random: () => number, options: BackoffOptions = {}): number {
+  const firstMs = options.firstMs ?? 500;
+  const maxMs = options.maxMs ?? 4000;
+  const bound = Math.min(maxMs, firstMs * 2 ** Math.min(attempt, 30));
+  const r = Math.min(Math.max(random(), 0), 1 - Number.EPSILON);
+  return bound / 2 + (bound / 2) * r;
+}
+
+export interface WebSocketClientOptions extends IngestOptions, BackoffOptions {
+  /** ws:// or wss:// address of the acquisition computer's stream. */
+  readonly url: string;
+  /** Timers: backoff, ping. @default asyncScheduler */
+  readonly scheduler?: SchedulerLike;
+  /** Uniform [0, 1) source of the backoff's jitter. @default Math.random */
+  readonly random?: () => number;
+  /** A ping every this many ms; no pong (and no message) by the next one: the peer is dead. @default 2000 */
+  readonly pingMs?: number;
+  /** Extra HTTP headers of the upgrade request (e.g. Authorization). */
+  readonly headers?: Readonly<Record<string, string>>;
+  /** Link events, for the screen. */
+  readonly onLink?: (event: LinkEvent) => void;
+}
+
+/**
+ * Connects to `url` and emits one Batch per message received, for as long as it is subscribed; never
+ * completes by itself. Unsubscribing closes the socket and clears every timer.
+ */
+export function websocketClient(options: WebSocketClientOptions): Observable<Batch> {
+  const scheduler = options.scheduler ?? asyncScheduler;
+  const random = options.random ?? Math.random;
+  const pingMs = options.pingMs ?? 2000;
+  const onLink = options.onLink ?? (() => undefined);
+  return new Observable<Batch>((subscriber) => {
+    const ingest = new Ingest(options);
+    let socket: WebSocket | null = null;
+    let retry: Subscription | null = null;
+    let ping: Subscription | null = null;
+    let attempt = 0;
+    let connection = 0;
+    let stopped = false;
+
+    const connect = (): void => {
+      retry = null;
+      if (stopped) return;
+      onLink({ kind: 'connecting', url: options.url, attempt });
+      const ws = new WebSocket(options.url, {
+        maxPayload: ingest.maxMessageBytes,
+        skipUTF8Validation: true,
+        handshakeTimeout: 5000,
+        ...(options.headers !== undefined ? { headers: { ...options.headers } } : {}),
+      });
+      socket = ws;
+      const peer = newPeerTrack();
+      let opened = false;
+      let alive = true;
+      let lastError = '';
+      ws.on('open', () => {
+        opened = true;
+        attempt = 0;
+        connection++;
+        onLink({ kind: 'connected', connection, peer: options.url });
+        ping = interval(pingMs, scheduler).subscribe(() => {
+          if (!alive) {
+            lastError = `no answer to ping within ${pingMs} ms`;
+            ws.terminate();
+            return;
+          }
+          alive = false;
+          ws.ping();
+        });
+      });
+      ws.on('pong', () => (alive = true));
+      ws.on('message', (data: RawData) => {
+        alive = true;
+        subscriber.next(ingest.message(data, peer));
+      });
+      ws.on('error', (error: Error & { code?: string }) => {
+        if (error.code === 'WS_ERR_UNSUPPORTED_MESSAGE_LENGTH') subscriber.next(ingest.oversize());
+        lastError = error.code !== undefined && error.code.startsWith('WS_') ? error.message : `${error.message}`;
+      });
+      ws.on('close', (code: number, reason: Buffer) => {
+        ping?.unsubscribe();
+        ping = null;
+        socket = null;
+        if (stopped) return;
+        const detail = lastError !== '' && code === 1006 ? lastError : closeDetail(code, reason);
+        if (opened) {
+          onLink({ kind: 'disconnected', connection, detail });
+          subscriber.next(ingest.disconnected(peer, true, detail));
+        }
+        const inMs = backoffDelayMs(attempt, random, options);
+        onLink({ kind: 'retrying', inMs, attempt, detail });
+        attempt++;
+        retry = timer(inMs, scheduler).subscribe(connect);
+      });
+    };
+
+    connect();
+    return () => {
+      stopped = true;
+      retry?.unsubscribe();
+      ping?.unsubscribe();
+      const ws = socket;
+      socket = null;
+      if (ws !== null) {
+        ws.on('error', () => undefined);
+        if (ws.readyState === WebSocket.OPEN) ws.close(1000, 'receiver stopping');
+        else ws.terminate();
+      }
+    };
+  });
+}

@@ -1,6 +1,369 @@
+/**
+ * `lengthwise live`: ingest a live stream over WebSocket (as a client of the acquisition computer, or as
+ * a server devices push to), run it through the same pipeline as a replay, show the dashboard or plain
+ * status lines, keep the session log, and write the summary when the session ends (q, Ctrl+C, SIGTERM
+ * or --duration).
+ */
+import { parseArgs } from 'node:util';
+import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type Subscription } from 'rxjs';
 import type { CommandIo } from './io.ts';
+import type { Batch, Frame } from '../records.ts';
+import type { CalibrationSpec } from '../model/calibration.ts';
+import type { TrialState } from '../state.ts';
+import type { ConnectionStatus, DashboardStatus } from '../dashboard/status.ts';
+import { readCalibrationFile } from '../../adapters/calibration-file.ts';
+import { readDeviceMapping, unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { LINK_MARKER_PREFIX, websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { websocketServer } from '../../adapters/websocket-server.ts';
+import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
+import { writeSessionLog } from '../session-log/write-session-log.ts';
+import { watchLag } from '../session-log/watch-lag.ts';
+import { runTrial, type TrialRun } from '../run-trial.ts';
+import { finishTrial, plainReport } from './finish-trial.ts';
 
-export async function run(_argv: string[], io: CommandIo): Promise<number> {
-  io.err('lengthwise live: this command is being built and is not available in this version.');
-  return 2;
+const HELP = `usage: lengthwise live --connect ws://HOST:PORT/PATH [options]
+       lengthwise live --listen [HOST:]PORT [options]
+
+Ingests a live fascicle stream over WebSocket and runs it through the same pipeline as a replay.
+
+  --connect URL          connect to the acquisition computer's stream (ws:// or wss://); reconnects by
+                         itself after a drop-out, each disconnection a gap in the data
+  --listen [HOST:]PORT   be the server devices push to (several at once); binds 127.0.0.1 unless a host
+                         is given (0.0.0.0: every interface); PORT 0 picks a free port
+
+options:
+  --token T              --listen: refuse (401) a device without "Authorization: Bearer T" or ?token=T;
+                         --connect: send that header
+  --mapping FILE         device field names and units (lengthwise-mapping JSON; see adapters/mappings/)
+  --calibration FILE     calibration JSON; wins over the stream header's calibration
+  --summary FILE.json    write the per-stride and per-trial summary at the end
+  --strides FILE.csv     write one row per stride and muscle at the end
+  --log FILE             the session log (every message received, valid or not; a replay file)
+                         [default: sessions/<UTC date-time>Z.ndjson]
+  --duration S           end by itself after S seconds
+  --plain                plain status lines instead of the dashboard, even on a terminal
+  -h, --help             this text
+
+The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
+closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
+
+type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
+
+/** Reads `--listen`: PORT, HOST:PORT or [IPv6]:PORT. */
+export function parseListen(text: string): Parsed<{ host: string; port: number }> {
+  const m = /^(?:\[([^\]]+)\]:|([^:[\]]+):)?(\d{1,5})$/.exec(text.trim());
+  const port = m === null ? Number.NaN : Number(m[3]);
+  if (m === null || !(port >= 0 && port <= 65535)) {
+    return { ok: false, message: `--listen "${text}" is not an address: give PORT (e.g. 8765), HOST:PORT (e.g. 0.0.0.0:8765) or [IPv6]:PORT; PORT is 0–65535` };
+  }
+  return { ok: true, value: { host: m[1] ?? m[2] ?? '127.0.0.1', port } };
+}
+
+/** Reads `--connect`: a ws:// or wss:// URL. */
+export function parseConnect(text: string): Parsed<string> {
+  let url: URL;
+  try {
+    url = new URL(text);
+  } catch {
+    return { ok: false, message: `--connect "${text}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
+  }
+  if (url.protocol !== 'ws:' && url.protocol !== 'wss:') {
+    return { ok: false, message: `--connect "${text}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
+  }
+  return { ok: true, value: url.href };
+}
+
+/** Reads `--duration`: seconds above 0. */
+export function parseDuration(text: string): Parsed<number> {
+  const n = Number(text);
+  if (text.trim() === '' || !Number.isFinite(n) || !(n > 0)) {
+    return { ok: false, message: `--duration "${text}" is not a duration: give seconds above 0, e.g. 60` };
+  }
+  return { ok: true, value: n };
+}
+
+function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefined {
+  switch (event.kind) {
+    case 'connecting':
+      return event.attempt === 0 ? { state: 'reconnecting', detail: `connecting to ${event.url}` } : undefined;
+    case 'retrying':
+      return { state: 'reconnecting', retryInS: event.inMs / 1000, detail: event.detail };
+    case 'connected':
+      return { state: 'connected', detail: open > 1 ? `${open} devices` : event.peer };
+    case 'disconnected':
+      return open > 0 ? { state: 'connected', detail: `${open} device${open > 1 ? 's' : ''}` } : undefined;
+    case 'listening':
+      return { state: 'listening', detail: event.url };
+    case 'refused':
+      return undefined;
+  }
+}
+
+function linkText(event: LinkEvent): string | null {
+  switch (event.kind) {
+    case 'connecting':
+      return event.attempt === 0 ? `connecting to ${event.url}` : null;
+    case 'connected':
+      return `connected (${event.peer})`;
+    case 'disconnected':
+      return `DISCONNECTED: ${event.detail}`;
+    case 'retrying':
+      return event.attempt === 0 || event.attempt % 5 === 0 ? `reconnecting in ${(event.inMs / 1000).toFixed(1)} s (${event.detail})` : null;
+    case 'listening':
+      return `listening on ${event.url}`;
+    case 'refused':
+      return `refused a connection from ${event.peer}: ${event.detail}`;
+  }
+}
+
+export async function run(argv: string[], io: CommandIo): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: false,
+      options: {
+        connect: { type: 'string' },
+        listen: { type: 'string' },
+        token: { type: 'string' },
+        mapping: { type: 'string' },
+        calibration: { type: 'string' },
+        summary: { type: 'string' },
+        strides: { type: 'string' },
+        log: { type: 'string' },
+        duration: { type: 'string' },
+        plain: { type: 'boolean', default: false },
+        help: { type: 'boolean', short: 'h', default: false },
+      },
+    });
+  } catch (error) {
+    io.err(`lengthwise live: ${(error as Error).message}\n\n${HELP}`);
+    return 2;
+  }
+  const { values } = parsed;
+  if (values.help) {
+    io.out(HELP);
+    return 0;
+  }
+  if ((values.connect === undefined) === (values.listen === undefined)) {
+    io.err(`lengthwise live: give either --connect URL or --listen [HOST:]PORT (exactly one).\n\n${HELP}`);
+    return 2;
+  }
+  const connect = values.connect !== undefined ? parseConnect(values.connect) : null;
+  const listen = values.listen !== undefined ? parseListen(values.listen) : null;
+  const duration = values.duration !== undefined ? parseDuration(values.duration) : null;
+  for (const p of [connect, listen, duration]) {
+    if (p !== null && !p.ok) {
+      io.err(`lengthwise live: ${p.message}`);
+      return 2;
+    }
+  }
+  if (values.token !== undefined && values.token.length === 0) {
+    io.err('lengthwise live: --token is empty: give the token the devices send');
+    return 2;
+  }
+  let calibration: CalibrationSpec | undefined;
+  if (values.calibration !== undefined) {
+    const result = await readCalibrationFile(values.calibration);
+    if (!result.ok) {
+      io.err(`lengthwise live: the calibration was not accepted:\n  ${result.problems.join('\n  ')}`);
+      return 2;
+    }
+    calibration = result.spec;
+  }
+  let mapping: DeviceMapping | null = null;
+  if (values.mapping !== undefined) {
+    const result = await readDeviceMapping(values.mapping);
+    if (!result.ok) {
+      io.err(`lengthwise live: the device mapping was not accepted:\n  ${result.problems.join('\n  ')}`);
+      return 2;
+    }
+    mapping = result.mapping;
+  }
+
+  const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true);
+  const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());
+  const log = openSessionLog({ path: logPath, onProblem: (message) => session.logProblem(message) });
+  if (!log.complete && log.problem !== null) session.logProblem(log.problem);
+
+  let label: string;
+  let source$: Observable<Batch>;
+  const onLink = (event: LinkEvent): void => session.link(event);
+  if (connect !== null && connect.ok) {
+    label = connect.value;
+    source$ = websocketClient({
+      url: connect.value,
+      mapping,
+      onLink,
+      ...(values.token !== undefined ? { headers: { Authorization: `Bearer ${values.token}` } } : {}),
+    });
+  } else if (listen !== null && listen.ok) {
+    label = `ws://${listen.value.host.includes(':') ? `[${listen.value.host}]` : listen.value.host}:${listen.value.port}`;
+    source$ = websocketServer({
+      host: listen.value.host,
+      port: listen.value.port,
+      mapping,
+      onLink,
+      ...(values.token !== undefined ? { token: values.token } : {}),
+    });
+  } else {
+    return 2;
+  }
+  session.status({ sourceLabel: label, logPath });
+
+  const records$ = merge(source$, session.extra$).pipe(
+    writeSessionLog(log),
+    tap((batch) => session.watchUnits(batch, mapping)),
+    takeUntil(session.stop$),
+  );
+  const trial = runTrial(records$, { source: label, ...(calibration !== undefined ? { calibration } : {}) });
+  const final = await session.run(trial, label, duration !== null && duration.ok ? duration.value : null, () => log.flush());
+  log.close();
+  if (!log.complete && log.problem !== null) session.logProblem(log.problem);
+  if (!final.ok) {
+    io.err(`lengthwise live: ${final.message}`);
+    io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : ', INCOMPLETE'})`);
+    return 1;
+  }
+  if (session.plain) io.out(plainReport(final.state));
+  for (const hint of session.hints) io.err(`note: ${hint}`);
+  const status = await finishTrial(final.state, { summary: values.summary, strides: values.strides }, io);
+  io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
+  return status;
+}
+
+type Final = { ok: true; state: TrialState } | { ok: false; message: string };
+
+/** The command's running parts: status for the screen, extra frames, the ways a session ends. */
+class LiveSession {
+  readonly extra$ = new Subject<Batch>();
+  readonly stop$ = new Subject<void>();
+  readonly hints: string[] = [];
+  private readonly status$ = new BehaviorSubject<DashboardStatus>({});
+  private readonly hinted = new Set<string>();
+  private open = 0;
+  private logNoticeSent = false;
+  private logMessage: string | null = null;
+  private stopped = false;
+  private latest: TrialState | null = null;
+
+  constructor(
+    private readonly io: CommandIo,
+    readonly plain: boolean,
+  ) {}
+
+  status(next: DashboardStatus): void {
+    this.status$.next({ ...this.status$.getValue(), ...next });
+  }
+
+  say(text: string): void {
+    if (this.plain) this.io.err(text);
+    else this.status({ message: text });
+  }
+
+  link(event: LinkEvent): void {
+    if (event.kind === 'connected') this.open++;
+    if (event.kind === 'disconnected') this.open = Math.max(0, this.open - 1);
+    const connection = connectionOf(event, this.open);
+    if (connection !== undefined && !this.stopped) this.status({ connection });
+    const text = linkText(event);
+    if (text !== null && this.plain) this.io.err(text);
+  }
+
+  /** The log stopped being complete: said loudly now, and once in the trial's warnings (the summary). */
+  logProblem(message: string): void {
+    if (this.logMessage === null) this.io.err(`lengthwise live: ${message}`);
+    this.logMessage = message;
+    this.status({ message: 'SESSION LOG INCOMPLETE (see the end of the session)' });
+    // Never from inside a batch on its way: the notice goes in once the current batch has passed.
+    queueMicrotask(() => this.sendLogNotice());
+  }
+
+  private sendLogNotice(): void {
+    if (this.logNoticeSent || this.logMessage === null || this.stopped) return;
+    this.logNoticeSent = true;
+    this.extra$.next([{ kind: 'notice', muscle: null, text: `the session log is incomplete: ${this.logMessage}` }]);
+  }
+
+  watchUnits(batch: Batch, mapping: DeviceMapping | null): void {
+    for (const f of batch) {
+      if (f.kind !== 'sample' || this.hinted.has(f.muscle)) continue;
+      this.hinted.add(f.muscle);
+      const hint = unitHint(f, mapping);
+      if (hint === null) continue;
+      this.hints.push(hint);
+      this.io.err(`lengthwise live: ${hint}`);
+      this.status({ message: hint });
+    }
+  }
+
+  private marker(text: string): void {
+    const tS = this.latest !== null && Number.isFinite(this.latest.lastTS) ? this.latest.lastTS : 0;
+    // The link prefix is the adapter's: a person's marker never starts with it.
+    const marker = text.startsWith(LINK_MARKER_PREFIX) ? `(typed) ${text}` : text;
+    const frame: Frame = { kind: 'marker', tS, marker, line: 0 };
+    this.extra$.next([frame]);
+  }
+
+  async run(trial: TrialRun, label: string, durationS: number | null, flushLog: () => void): Promise<Final> {
+    const subscriptions: Subscription[] = [];
+    subscriptions.push(trial.state$.subscribe((s) => (this.latest = s)));
+    const stop = (): void => {
+      if (this.stopped) return;
+      // Everything received is in the file, and a failure to write it is in the summary.
+      flushLog();
+      this.sendLogNotice();
+      this.stopped = true;
+      this.status({ connection: { state: 'ended' } });
+      this.stop$.next();
+    };
+    const onSignal = (): void => stop();
+    process.on('SIGINT', onSignal);
+    process.on('SIGTERM', onSignal);
+    if (durationS !== null) subscriptions.push(timer(durationS * 1000, asyncScheduler).subscribe(stop));
+    subscriptions.push(
+      watchLag({
+        onLag: (lagMs) =>
+          this.say(
+            lagMs > 0
+              ? `processing fell behind by ${(lagMs / 1000).toFixed(1)} s: messages wait in the socket's buffer (none is dropped)`
+              : 'processing caught up',
+          ),
+      }),
+    );
+    let dashboard: { unmount(): void; waitUntilExit(): Promise<void> } | null = null;
+    if (this.plain) {
+      const { statusLine } = await import('../dashboard/status-line.ts');
+      subscriptions.push(
+        timer(3000, 3000).subscribe(() => {
+          if (this.latest !== null) this.io.err(statusLine(this.latest, this.status$.getValue()));
+        }),
+      );
+    } else {
+      const { startDashboard } = await import('../dashboard/start-dashboard.tsx');
+      dashboard = startDashboard({
+        state$: trial.state$,
+        status$: this.status$,
+        title: `live ${label}`,
+        stdout: this.io.stdout,
+        stdin: this.io.stdin,
+        env: this.io.env,
+        onQuit: stop,
+        onMarker: (text) => this.marker(text),
+      });
+    }
+    let final: Final;
+    try {
+      final = { ok: true, state: await trial.done };
+    } catch (error) {
+      final = { ok: false, message: error instanceof Error ? error.message : String(error) };
+    }
+    this.stopped = true;
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
+    for (const s of subscriptions) s.unsubscribe();
+    if (dashboard !== null) dashboard.unmount();
+    this.extra$.complete();
+    return final;
+  }
 }

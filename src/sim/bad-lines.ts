@@ -5,6 +5,7 @@
  */
 import type { RejectReason } from '../reasons.ts';
 import type { WireSample } from './wire.ts';
+import { formatNumber } from './format-number.ts';
 
 export interface BadLineContext {
   /** Time to write into the line (s): between two sample ticks, so order checks never fire first. */
@@ -107,7 +108,9 @@ export function csvField(text: string): string {
 }
 
 export function csvSampleRow(s: WireSample): string {
-  return `${s.t},${csvField(s.muscle)},${s.fascicle_mm},${s.pennation_deg ?? ''},${s.quality ?? ''},,`;
+  const p = s.pennation_deg === undefined ? '' : formatNumber(s.pennation_deg);
+  const q = s.quality === undefined ? '' : formatNumber(s.quality);
+  return `${formatNumber(s.t)},${csvField(s.muscle)},${formatNumber(s.fascicle_mm)},${p},${q},,`;
 }
 
 /** Device times are written to the microsecond. */

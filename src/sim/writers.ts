@@ -6,6 +6,7 @@ import { createWriteStream } from 'node:fs';
 import { once } from 'node:events';
 import { finished } from 'node:stream/promises';
 import { csvField, csvSampleRow } from './bad-lines.ts';
+import { formatNumber } from './format-number.ts';
 import { isWireEvent, isWireHeader, isWireMarker, isWireSample, type WireItem, type WireSample } from './wire.ts';
 
 export const CSV_HEADER_ROW = 'time_s,muscle,fascicle_mm,pennation_deg,quality,event,side';
@@ -23,9 +24,9 @@ function nameJson(name: string): string {
 
 function sampleLine(s: WireSample): string {
   // Hand-built for speed; key order as JSON.stringify would give for a generated sample.
-  let line = `{"t":${s.t},"muscle":${nameJson(s.muscle)},"fascicle_mm":${s.fascicle_mm}`;
-  if (s.pennation_deg !== undefined) line += `,"pennation_deg":${s.pennation_deg}`;
-  if (s.quality !== undefined) line += `,"quality":${s.quality}`;
+  let line = `{"t":${formatNumber(s.t)},"muscle":${nameJson(s.muscle)},"fascicle_mm":${formatNumber(s.fascicle_mm)}`;
+  if (s.pennation_deg !== undefined) line += `,"pennation_deg":${formatNumber(s.pennation_deg)}`;
+  if (s.quality !== undefined) line += `,"quality":${formatNumber(s.quality)}`;
   return `${line}}`;
 }
 
@@ -52,7 +53,7 @@ export function ndjsonLine(item: WireItem): string {
 export function csvLine(item: WireItem): string | null {
   if (typeof item === 'string') return item;
   if (isWireSample(item)) return csvSampleRow(item);
-  if (isWireEvent(item)) return `${item.t},,,,,${item.event},${item.side}`;
+  if (isWireEvent(item)) return `${formatNumber(item.t)},,,,,${item.event},${item.side}`;
   if (isWireHeader(item) || isWireMarker(item)) return null;
   return null;
 }

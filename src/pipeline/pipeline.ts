@@ -9,6 +9,7 @@ import { gateQuality } from './gate-quality.ts';
 import { smoothKalman, type SmoothKalmanOptions } from './smooth-kalman.ts';
 import { estimateVelocity } from './estimate-velocity.ts';
 import { convertSarcomere } from './convert-sarcomere.ts';
+import { checkPlausibleLength } from './check-plausible-length.ts';
 import { evaluateForceLength } from './evaluate-force-length.ts';
 import { evaluateCapacity } from './evaluate-capacity.ts';
 import { segmentStrides } from './segment-strides.ts';
@@ -44,6 +45,7 @@ export function pipeline(options: PipelineOptions): OperatorFunction<Batch, Tria
           ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
           ...(options.baselineS !== undefined ? { baselineS: options.baselineS } : {}),
         }),
+        checkPlausibleLength(),
         evaluateForceLength(),
         evaluateCapacity(),
       )

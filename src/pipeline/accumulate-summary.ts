@@ -206,7 +206,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
       const onStride = (f: StrideBoundary): void => {
         const acc = muscle(f.muscle);
         const m = acc.state;
-        if (m.side === null) {
+        if (m.side === null && f.segmentation !== 'estimated') {
           m.side = f.side;
           m.sideSource = 'assumed';
         }

@@ -13,6 +13,7 @@ import { checkPlausibleLength } from './check-plausible-length.ts';
 import { evaluateForceLength } from './evaluate-force-length.ts';
 import { evaluateCapacity } from './evaluate-capacity.ts';
 import { segmentStrides } from './segment-strides.ts';
+import { estimateStrides } from './estimate-strides.ts';
 import { accumulateSummary } from './accumulate-summary.ts';
 
 export interface PipelineOptions {
@@ -52,6 +53,7 @@ export function pipeline(options: PipelineOptions): OperatorFunction<Batch, Tria
       .pipe(
         // Strides and the summary.
         segmentStrides(),
+        estimateStrides(),
         accumulateSummary({ source: options.source, ...gap }),
       );
 }

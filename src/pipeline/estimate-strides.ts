@@ -1,0 +1,293 @@
+import { Observable, type OperatorFunction } from 'rxjs';
+import type { Batch, Frame, Sample, Side, StrideBoundary } from '../records.ts';
+import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from './stride-period.ts';
+
+export interface EstimateStridesOptions {
+  /**
+   * Seconds of a muscle's samples with no stride boundary (no foot strike of its side) after which its
+   * strides are estimated from its own fascicle-length signal. Every frame is held (never dropped) while
+   * a muscle's window fills. @default 10
+   */
+  readonly windowS?: number;
+  /** Shortest stride period looked for (s). @default 0.4 */
+  readonly minPeriodS?: number;
+  /** Longest stride period looked for (s). @default 3 */
+  readonly maxPeriodS?: number;
+}
+
+export const DEFAULT_ESTIMATE_WINDOW_S = 10;
+
+/**
+ * A cycle's shortest length counts as its boundary only when the signal came down to it from at least
+ * this share of the window's spread (5th to 95th percentile); a lower value at the start of a rising
+ * stretch is not a cycle's minimum.
+ */
+const MIN_DEPTH_SHARE = 0.3;
+/** How much of each new stride's duration the running period takes in (an exponential mean). */
+const PERIOD_ADAPT = 0.2;
+
+type Mode = 'undecided' | 'events' | 'estimated' | 'none';
+
+interface Detector {
+  periodS: number;
+  readonly depthMm: number;
+  /** Cycle minima are looked for from here on (half a period after the last boundary). */
+  searchFromS: number;
+  lastBoundaryS: number;
+  candidate: Sample | null;
+  /** Highest length since the search started, before the candidate. */
+  peakBeforeMm: number;
+  runningMaxMm: number;
+}
+
+interface MuscleStrides {
+  mode: Mode;
+  readonly firstS: number;
+  /** The window's smoothed lengths while undecided (bounded by the window). */
+  windowTS: number[];
+  windowMm: number[];
+  detector: Detector | null;
+  /** Index of the last boundary said (estimated mode). */
+  index: number;
+  /** Index of the last boundary released downstream: the stride of the samples released after it. */
+  releasedIndex: number;
+  toldLateEvents: boolean;
+}
+
+/**
+ * For a muscle whose side brings no foot strikes, estimates strides from its smoothed fascicle length and
+ * says them as the same StrideBoundary frames segmentStrides says for foot strikes (marked
+ * `segmentation: 'estimated'`), so every later stage works unchanged. The stride period is the dominant
+ * period of the autocorrelation over the muscle's first window; one boundary per cycle at the cycle's
+ * shortest length, decided once the signal has stayed above it for half a period. So frames are held:
+ * all of them while a muscle's window fills, then from the oldest undecided sample of an estimated muscle
+ * — about half a stride. A Notice says what was done. Order is kept and nothing is dropped, except foot
+ * strike boundaries for a muscle whose strides are already estimated (a Notice says so).
+ */
+export function estimateStrides(options: EstimateStridesOptions = {}): OperatorFunction<Batch, Batch> {
+  const windowS = options.windowS ?? DEFAULT_ESTIMATE_WINDOW_S;
+  const minPeriodS = options.minPeriodS ?? DEFAULT_MIN_PERIOD_S;
+  const maxPeriodS = options.maxPeriodS ?? DEFAULT_MAX_PERIOD_S;
+
+  return (source) =>
+    new Observable<Batch>((subscriber) => {
+      const muscles = new Map<string, MuscleStrides>();
+      const declared = new Map<string, Side>();
+      let undecided = 0;
+      let estimated = 0;
+      /** Frames not yet released, in order, from `head`. */
+      let held: Frame[] = [];
+      let head = 0;
+
+      const notice = (muscle: string, text: string): void => {
+        held.push({ kind: 'notice', muscle, text });
+      };
+
+      /** The time before which an estimated muscle's samples know their stride. */
+      const horizon = (m: MuscleStrides): number => {
+        const d = m.detector;
+        if (d === null) return Number.POSITIVE_INFINITY;
+        return d.candidate !== null ? d.candidate.tS : d.searchFromS;
+      };
+
+      const commit = (name: string, m: MuscleStrides, d: Detector): void => {
+        const at = d.candidate as Sample;
+        if (Number.isFinite(d.lastBoundaryS)) {
+          const durationS = at.tS - d.lastBoundaryS;
+          if (durationS > 0.6 * d.periodS && durationS < 1.6 * d.periodS) d.periodS += PERIOD_ADAPT * (durationS - d.periodS);
+        }
+        m.index++;
+        const boundary: StrideBoundary = {
+          kind: 'stride',
+          muscle: name,
+          side: declared.get(name) ?? 'left',
+          index: m.index,
+          tS: at.tS,
+          segmentation: 'estimated',
+        };
+        const position = held.lastIndexOf(at);
+        held.splice(position < head ? held.length : position, 0, boundary);
+        d.lastBoundaryS = at.tS;
+        d.searchFromS = at.tS + 0.5 * d.periodS;
+        d.candidate = null;
+        d.runningMaxMm = Number.NEGATIVE_INFINITY;
+        d.peakBeforeMm = Number.NEGATIVE_INFINITY;
+      };
+
+      const feed = (name: string, m: MuscleStrides, s: Sample): void => {
+        const d = m.detector;
+        if (d === null || !Number.isFinite(s.smoothMm) || s.tS < d.searchFromS) return;
+        const mm = s.smoothMm;
+        if (d.candidate === null) {
+          d.candidate = s;
+          d.peakBeforeMm = mm;
+        } else if (mm < d.candidate.smoothMm) {
+          d.candidate = s;
+          d.peakBeforeMm = d.runningMaxMm;
+        }
+        if (mm > d.runningMaxMm) d.runningMaxMm = mm;
+        const c = d.candidate;
+        if (s.tS - c.tS < 0.5 * d.periodS) return;
+        if (d.peakBeforeMm - c.smoothMm >= d.depthMm) {
+          commit(name, m, d);
+          feed(name, m, s);
+        } else {
+          // The candidate sat at the start of a rise, not at a cycle's minimum: look again from here.
+          d.candidate = s;
+          d.peakBeforeMm = mm;
+          d.runningMaxMm = mm;
+        }
+      };
+
+      const decide = (name: string, m: MuscleStrides): void => {
+        undecided--;
+        const n = m.windowTS.length;
+        const period = dominantPeriod(m.windowTS, m.windowMm, n, { minPeriodS, maxPeriodS });
+        m.windowTS = [];
+        m.windowMm = [];
+        if (period === null) {
+          m.mode = 'none';
+          notice(
+            name,
+            `${name}: no foot strikes of its side, and its fascicle length shows no steady stride period of ${minPeriodS}–${maxPeriodS} s in its first ${windowS} s; no strides are counted for it. Give gait events (foot_strike, toe_off) for strides`,
+          );
+          return;
+        }
+        m.mode = 'estimated';
+        estimated++;
+        m.detector = {
+          periodS: period.periodS,
+          depthMm: MIN_DEPTH_SHARE * period.rangeP5P95,
+          searchFromS: m.firstS,
+          lastBoundaryS: Number.NaN,
+          candidate: null,
+          peakBeforeMm: Number.NEGATIVE_INFINITY,
+          runningMaxMm: Number.NEGATIVE_INFINITY,
+        };
+        notice(
+          name,
+          `${name}: no foot strikes of its side in its first ${windowS} s, so its strides are ESTIMATED from its fascicle length (period ${period.periodS.toFixed(2)} s, one stride per cycle from each cycle's shortest length; no stance/swing phases). Give gait events (foot_strike, toe_off) for strides from foot strike to foot strike`,
+        );
+        // The window's samples, held in order, go through the detector now.
+        const mine: Sample[] = [];
+        for (let i = head; i < held.length; i++) {
+          const f = held[i] as Frame;
+          if (f.kind === 'sample' && f.muscle === name) mine.push(f);
+        }
+        for (const s of mine) feed(name, m, s);
+      };
+
+      const muscleOf = (name: string, tS: number): MuscleStrides => {
+        let m = muscles.get(name);
+        if (m === undefined) {
+          m = { mode: 'undecided', firstS: tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false };
+          muscles.set(name, m);
+          undecided++;
+        }
+        return m;
+      };
+
+      /** Takes one frame in; it waits in `held` until release. */
+      const step = (f: Frame): void => {
+        if (f.kind === 'header') {
+          for (const [name, decl] of Object.entries(f.muscles)) if (decl.side !== undefined) declared.set(name, decl.side);
+        } else if (f.kind === 'stride' && f.segmentation !== 'estimated') {
+          const m = muscles.get(f.muscle);
+          if (m !== undefined && m.mode === 'estimated') {
+            if (!m.toldLateEvents) {
+              m.toldLateEvents = true;
+              notice(f.muscle, `${f.muscle}: foot strikes of its side arrived after its strides were estimated from its fascicle length; they are not used for ${f.muscle}`);
+            }
+            return;
+          }
+          if (m === undefined) muscles.set(f.muscle, { mode: 'events', firstS: f.tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false });
+          else if (m.mode === 'undecided' || m.mode === 'none') {
+            if (m.mode === 'undecided') undecided--;
+            m.mode = 'events';
+            m.windowTS = [];
+            m.windowMm = [];
+          }
+        } else if (f.kind === 'sample') {
+          const m = muscleOf(f.muscle, f.tS);
+          held.push(f);
+          if (m.mode === 'undecided') {
+            if (Number.isFinite(f.smoothMm)) {
+              m.windowTS.push(f.tS);
+              m.windowMm.push(f.smoothMm);
+            }
+            if (f.tS - m.firstS >= windowS) decide(f.muscle, m);
+          } else if (m.mode === 'estimated') {
+            feed(f.muscle, m, f);
+          }
+          return;
+        }
+        held.push(f);
+      };
+
+      /** Releases the frames whose stride is known, in order, into `out`. */
+      const release = (out: Frame[]): void => {
+        if (undecided > 0) return;
+        for (; head < held.length; head++) {
+          const f = held[head] as Frame;
+          if (f.kind === 'sample') {
+            const m = muscles.get(f.muscle);
+            if (m !== undefined && m.mode === 'estimated') {
+              if (!(f.tS < horizon(m))) break;
+              f.strideIndex = m.releasedIndex;
+            }
+          } else if (f.kind === 'stride' && f.segmentation === 'estimated') {
+            const m = muscles.get(f.muscle);
+            if (m !== undefined) m.releasedIndex = f.index;
+          }
+          out.push(f);
+        }
+        if (head === held.length) {
+          held = [];
+          head = 0;
+        } else if (head > 4096 && head > held.length / 2) {
+          held = held.slice(head);
+          head = 0;
+        }
+      };
+
+      const process = (batch: Batch): Batch => {
+        // Fast path: nothing held, nothing estimated, every muscle decided.
+        if (held.length === 0 && estimated === 0 && undecided === 0) {
+          let i = 0;
+          for (; i < batch.length; i++) {
+            const f = batch[i] as Frame;
+            if (f.kind === 'sample' || f.kind === 'stride') {
+              if (!muscles.has(f.muscle)) break;
+            } else if (f.kind === 'header') break;
+          }
+          if (i === batch.length) return batch;
+          const out = batch.slice(0, i);
+          for (; i < batch.length; i++) step(batch[i] as Frame);
+          release(out);
+          return out;
+        }
+        for (const f of batch) step(f);
+        const out: Frame[] = [];
+        release(out);
+        return out;
+      };
+
+      return source.subscribe({
+        next: (batch) => {
+          const out = process(batch);
+          if (out.length > 0) subscriber.next(out);
+        },
+        error: (error: unknown) => subscriber.error(error),
+        complete: () => {
+          // The input ended inside a window: decide from what it holds; then everything still held goes,
+          // the samples after the last boundary staying in the unfinished stride.
+          for (const [name, m] of muscles) if (m.mode === 'undecided') decide(name, m);
+          for (const m of muscles.values()) if (m.detector !== null) m.detector = null;
+          const out: Frame[] = [];
+          release(out);
+          if (out.length > 0) subscriber.next(out);
+          subscriber.complete();
+        },
+      });
+    });
+}

@@ -1,0 +1,186 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Subject } from 'rxjs';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { estimateStrides } from '../../src/pipeline/estimate-strides.ts';
+import { dominantPeriod } from '../../src/pipeline/stride-period.ts';
+import { header, runBatches, runFrames, sample } from '../helpers/frames.ts';
+import { stageChecklist } from '../helpers/stage-checklist.ts';
+import type { Batch, Frame, Sample, StrideBoundary } from '../../src/records.ts';
+import { fileSource } from '../../adapters/file-source.ts';
+import { runTrial } from '../../src/run-trial.ts';
+import { summaryJson } from '../../src/output/summary-json.ts';
+import { createTrial } from '../../src/sim/gait-generator.ts';
+import { scenarioSpec } from '../../src/sim/scenarios.ts';
+import { isWireEvent } from '../../src/sim/wire.ts';
+import { writeNdjson } from '../../src/sim/writers.ts';
+
+stageChecklist('estimateStrides', estimateStrides);
+
+/** A smoothed sample, as the smoothing stage leaves it. */
+function smoothed(tS: number, mm: number, muscle = 'calf'): Sample {
+  const s = sample(tS, muscle, mm);
+  s.smoothMm = mm;
+  return s;
+}
+
+/** An invented cycle shape (mm) at angle x; one minimum per cycle, a little after x = 0. */
+function waveMm(x: number): number {
+  return 50 - 5 * Math.cos(x) + 1.5 * Math.sin(2 * x);
+}
+
+/** Where in the cycle (0–1) the invented shape has its minimum, found on a fine grid. */
+function minimumPhase(): number {
+  let best = 0;
+  for (let i = 1; i < 100_000; i++) if (waveMm((2 * Math.PI * i) / 100_000) < waveMm((2 * Math.PI * best) / 100_000)) best = i;
+  return best / 100_000;
+}
+
+/** An invented periodic fascicle length with period periodS, its cycles starting at phaseS. */
+function wave(periodS: number, phaseS: number, untilS: number, rateHz = 100, muscle = 'calf'): Sample[] {
+  const out: Sample[] = [];
+  for (let i = 0; i / rateHz < untilS; i++) {
+    const t = i / rateHz;
+    const x = 2 * Math.PI * ((t - phaseS) / periodS);
+    out.push(smoothed(t, waveMm(x), muscle));
+  }
+  return out;
+}
+
+function boundaries(frames: Frame[]): StrideBoundary[] {
+  return frames.filter((f): f is StrideBoundary => f.kind === 'stride');
+}
+
+describe('dominantPeriod', () => {
+  it('finds the period of a two-harmonic wave, not a multiple or a half of it', () => {
+    const samples = wave(1.23, 0.3, 10);
+    const p = dominantPeriod(
+      samples.map((s) => s.tS),
+      samples.map((s) => s.smoothMm),
+      samples.length,
+    );
+    expect(p?.periodS).toBeCloseTo(1.23, 2);
+  });
+
+  it('says null for a flat or too short signal', () => {
+    expect(dominantPeriod([0, 1, 2, 3], [5, 5, 5, 5], 4)).toBeNull();
+    expect(dominantPeriod([0, 0.5], [1, 2], 2)).toBeNull();
+  });
+});
+
+describe('estimateStrides', () => {
+  it('says one boundary per cycle at its shortest length, numbers samples by them, and keeps every frame in order', async () => {
+    const input = wave(1.2, 0.45, 20);
+    const batches: Batch[] = [];
+    for (let i = 0; i < input.length; i += 7) batches.push(input.slice(i, i + 7));
+    const out = (await runBatches(estimateStrides({ windowS: 6 }), batches)).flat();
+    const found = boundaries(out);
+    expect(found.map((b) => b.index)).toEqual([...Array(found.length).keys()]);
+    expect(found.length).toBeGreaterThanOrEqual(16);
+    const first = 0.45 + minimumPhase() * 1.2 - 1.2;
+    const offset = Math.round(((found[0]?.tS ?? 0) - first) / 1.2);
+    // Each boundary within one sample (10 ms) of the true minimum.
+    found.forEach((b, k) => expect(Math.abs(b.tS - (first + (k + offset) * 1.2))).toBeLessThanOrEqual(0.0101));
+    expect(found.every((b) => b.segmentation === 'estimated')).toBe(true);
+    const samples = out.filter((f): f is Sample => f.kind === 'sample');
+    expect(samples).toEqual(input);
+    for (const s of samples) {
+      const expected = found.filter((b) => b.tS <= s.tS).length - 1;
+      expect(s.strideIndex).toBe(expected);
+    }
+    const notice = out.find((f) => f.kind === 'notice');
+    expect(notice).toMatchObject({ muscle: 'calf' });
+    expect((notice as { text: string }).text).toContain('ESTIMATED');
+  });
+
+  it('holds frames only for the window, then about half a period', () => {
+    const input = wave(1.0, 0.2, 12);
+    const subject = new Subject<Batch>();
+    let released = 0;
+    subject.pipe(estimateStrides({ windowS: 4 })).subscribe((b) => (released += b.filter((f) => f.kind === 'sample').length));
+    input.forEach((s, i) => {
+      subject.next([s]);
+      const waiting = i + 1 - released;
+      // Nothing before the window filled (4 s); after it, no sample waits more than about half a period (50 samples).
+      if (s.tS < 4 - 1e-9) expect(released).toBe(0);
+      else if (s.tS > 6) expect(waiting).toBeLessThanOrEqual(60);
+    });
+    subject.complete();
+    expect(released).toBe(input.length);
+  });
+
+  it('passes everything unchanged for a muscle whose strides come from foot strikes', async () => {
+    const frames: Frame[] = [header({ muscles: { calf: { side: 'left' } } }), smoothed(0, 50), { kind: 'stride', muscle: 'calf', side: 'left', index: 0, tS: 0.01 }, smoothed(0.01, 51)];
+    const out = await runFrames(estimateStrides({ windowS: 2 }), [frames, [smoothed(0.02, 52)]]);
+    expect(out).toEqual([...frames, smoothed(0.02, 52)].map((f) => (f.kind === 'sample' ? expect.objectContaining({ tS: f.tS }) : f)));
+    expect(out.some((f) => f.kind === 'notice')).toBe(false);
+  });
+
+  it('counts no strides for a signal with no steady period, and says so', async () => {
+    const flat = Array.from({ length: 600 }, (_, i) => smoothed(i / 100, 50));
+    const out = await runFrames(estimateStrides({ windowS: 3 }), [flat]);
+    expect(boundaries(out)).toEqual([]);
+    expect(out.filter((f) => f.kind === 'sample')).toHaveLength(600);
+    expect((out.find((f) => f.kind === 'notice') as { text: string }).text).toContain('no strides are counted');
+  });
+
+  it('does not use foot strikes that arrive after the strides were estimated, and says so', async () => {
+    const input: Frame[] = wave(1.0, 0.3, 8);
+    input.push({ kind: 'stride', muscle: 'calf', side: 'left', index: 0, tS: 8 }, smoothed(8.01, 50));
+    const out = await runFrames(estimateStrides({ windowS: 4 }), [input]);
+    expect(boundaries(out).every((b) => b.segmentation === 'estimated')).toBe(true);
+    expect(out.some((f) => f.kind === 'notice' && f.text.includes('not used'))).toBe(true);
+  });
+});
+
+describe('estimateStrides on a generated walking trial with its gait events removed (replay path)', () => {
+  let dir = '';
+  beforeAll(async () => {
+    dir = await mkdtemp(join(tmpdir(), 'lengthwise-estimate-'));
+  });
+  afterAll(async () => {
+    await rm(dir, { recursive: true, force: true });
+  });
+
+  it('finds the true number of strides, each boundary at a true cycle minimum', async () => {
+    const trial = createTrial(scenarioSpec('walk', { seed: 11, durationS: 40 }));
+    const path = join(dir, 'walk-no-events.ndjson');
+    const items = function* () {
+      for (const item of trial.records({ badLines: 'none' })) if (typeof item === 'string' || !isWireEvent(item)) yield item;
+    };
+    const written = await writeNdjson(items(), path);
+    expect(written.ok).toBe(true);
+    const summary = summaryJson(await runTrial(fileSource(path), { source: path }).done);
+    expect(summary.frames.gait_events).toBe(0);
+    for (const muscle of ['calf', 'thigh']) {
+      const m = summary.muscles[muscle];
+      expect(m?.segmentation).toBe('estimated');
+      expect(summary.warnings.some((w) => w.startsWith(`${muscle}:`) && w.includes('ESTIMATED'))).toBe(true);
+      // True cycle minima: where the true length is the lowest within half a mean stride (0.55 s) either side.
+      const half = 0.55;
+      const minima: number[] = [];
+      for (let t = 0; t < 40; t += 0.002) {
+        const v = trial.truth.trueSarcomereUm(muscle, t);
+        let lowest = true;
+        for (let u = Math.max(0, t - half); u <= Math.min(40, t + half) && lowest; u += 0.01) if (trial.truth.trueSarcomereUm(muscle, u) < v) lowest = false;
+        if (lowest && (minima.length === 0 || t - (minima.at(-1) as number) > half)) minima.push(t);
+      }
+      // A minimum within half a stride of either end cannot be told from the trial's edge.
+      const clear = minima.filter((t) => t >= half && t <= 40 - half);
+      const strides = m?.strides ?? [];
+      expect(Math.abs(strides.length - (clear.length - 1))).toBeLessThanOrEqual(1);
+      for (const s of strides) {
+        const nearest = Math.min(...minima.map((t) => Math.abs(t - s.start_s)));
+        // Within 0.08 s (7% of a stride): the smoothing's lag and the noise on a flat minimum.
+        expect(nearest).toBeLessThan(0.08);
+        expect(s.stance).toBeNull();
+      }
+      const trueStrides = trial.truth.strides(muscle);
+      const meanTrue = trueStrides.reduce((a, s) => a + s.endS - s.startS, 0) / trueStrides.length;
+      const meanFound = strides.reduce((a, s) => a + s.duration_s, 0) / strides.length;
+      expect(Math.abs(meanFound - meanTrue) / meanTrue).toBeLessThan(0.02);
+      expect(m?.cycle?.percent).toHaveLength(101);
+    }
+  });
+});

@@ -65,6 +65,11 @@ function headerLine(h: Header, rx: string): string {
   return `${text.slice(0, -1)},"rx":${rx}}`;
 }
 
+/** A number as JSON, keeping the sign of a negative zero (JSON.stringify drops it). */
+function num(x: number): string {
+  return Object.is(x, -0) ? '-0' : JSON.stringify(x);
+}
+
 /**
  * One frame → its line of the session log (no line ending), or null for frames the pipeline derives
  * (gaps, notices, …), which a replay derives again.
@@ -73,15 +78,15 @@ export function logLine(f: Frame, rxMs: number): string | null {
   const rx = rxText(rxMs);
   switch (f.kind) {
     case 'sample': {
-      let text = `{"t":${JSON.stringify(f.tS)},"muscle":${JSON.stringify(f.muscle)},"fascicle_mm":${JSON.stringify(f.fascicleMm)}`;
-      if (!Number.isNaN(f.pennationDeg)) text += `,"pennation_deg":${JSON.stringify(f.pennationDeg)}`;
-      if (f.quality !== 1) text += `,"quality":${JSON.stringify(f.quality)}`;
+      let text = `{"t":${num(f.tS)},"muscle":${JSON.stringify(f.muscle)},"fascicle_mm":${num(f.fascicleMm)}`;
+      if (!Number.isNaN(f.pennationDeg)) text += `,"pennation_deg":${num(f.pennationDeg)}`;
+      if (f.quality !== 1) text += `,"quality":${num(f.quality)}`;
       return `${text},"rx":${rx}}`;
     }
     case 'event':
-      return `{"t":${JSON.stringify(f.tS)},"event":"${f.event}","side":"${f.side}","rx":${rx}}`;
+      return `{"t":${num(f.tS)},"event":"${f.event}","side":"${f.side}","rx":${rx}}`;
     case 'marker':
-      return `{"t":${JSON.stringify(f.tS)},"marker":${JSON.stringify(f.marker)},"rx":${rx}}`;
+      return `{"t":${num(f.tS)},"marker":${JSON.stringify(f.marker)},"rx":${rx}}`;
     case 'header':
       return headerLine(f, rx);
     case 'rejection':

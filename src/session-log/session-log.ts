@@ -86,6 +86,13 @@ class FileSessionLog implements SessionLog {
   ) {
     try {
       mkdirSync(dirname(path), { recursive: true });
+    } catch (error) {
+      // mkdir says EEXIST when a part of the folder path is a file.
+      const code = (error as NodeJS.ErrnoException).code;
+      this.fail(code === 'EEXIST' ? { code: 'ENOTDIR' } : error, 'could not be opened');
+      return;
+    }
+    try {
       this.fd = openSync(path, options.exclusive === false ? 'a' : 'wx');
     } catch (error) {
       this.fail(error, 'could not be opened');

@@ -1,0 +1,125 @@
+import fc from 'fast-check';
+import { mkdtemp, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { lastValueFrom, toArray } from 'rxjs';
+import { describe, expect, it } from 'vitest';
+import { parseNdjsonLine } from '../../adapters/ndjson.ts';
+import { fileSource } from '../../adapters/file-source.ts';
+import { decodeMessage } from '../../adapters/device-mapping.ts';
+import { makeRejection } from '../../adapters/parse-record.ts';
+import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
+import { disconnectionFrames } from '../../adapters/websocket-client.ts';
+import { logLine, rxText } from '../../src/session-log/log-line.ts';
+import { makeSample, type Frame } from '../../src/records.ts';
+import { REJECT_REASONS, type RejectReason } from '../../src/reasons.ts';
+
+const RX_MS = 1_764_000_000_123;
+
+function line(f: Frame): string {
+  const text = logLine(f, RX_MS);
+  if (text === null) throw new Error(`no line for a ${f.kind}`);
+  return text;
+}
+
+/** Reasons an adapter can give (the other two come from the pipeline's ordering stage). */
+const ADAPTER_REASONS = REJECT_REASONS.filter((r) => r !== 'time_not_increasing' && r !== 'duplicate');
+
+describe('logLine: valid records', () => {
+  it('writes a sample as our record with its receive time, which the parser reads back as the same sample', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ noNaN: true, noDefaultInfinity: true }),
+        fc.string({ minLength: 1 }),
+        fc.double({ min: Number.MIN_VALUE, max: 1e6, noNaN: true }),
+        fc.option(fc.double({ min: 0, max: 90, noNaN: true }), { nil: undefined }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (t, muscle, fascicleMm, pennation, quality) => {
+          fc.pre(!['__proto__', 'constructor', 'prototype'].includes(muscle));
+          const s = makeSample(t, muscle, fascicleMm, pennation ?? Number.NaN, quality, 3);
+          const back = parseNdjsonLine(line(s), 3);
+          expect(back.kind).toBe('sample');
+          if (back.kind !== 'sample') return;
+          expect([back.tS, back.muscle, back.fascicleMm, back.quality]).toEqual([s.tS, s.muscle, s.fascicleMm, s.quality]);
+          expect(Object.is(back.pennationDeg, s.pennationDeg) || back.pennationDeg === s.pennationDeg).toBe(true);
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
+
+  it('carries the receive time as "rx" in Unix seconds', () => {
+    expect(JSON.parse(line(makeSample(1, 'calf', 50, Number.NaN, 1, 1)))).toEqual({ t: 1, muscle: 'calf', fascicle_mm: 50, rx: 1_764_000_000.123 });
+    expect(rxText(RX_MS)).toBe('1764000000.123');
+  });
+
+  it('writes events, markers and headers so that they read back the same', () => {
+    const frames = decodeMessage(
+      JSON.stringify([
+        { t: 2, event: 'foot_strike', side: 'left' },
+        { t: 2.5, marker: 'speed up\nnow' },
+        { format: 'lengthwise-stream', version: 1, subject: 'SYN-1', muscles: { calf: { side: 'left' } }, calibration: { muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 17500 } } } },
+      ]),
+      1,
+    );
+    for (const f of frames) {
+      const text = line(f);
+      expect(text).not.toContain('\n');
+      expect(parseNdjsonLine(text, f.kind === 'header' || f.kind === 'event' || f.kind === 'marker' ? f.line : 0)).toEqual(f);
+    }
+  });
+
+  it('writes the disconnection marker and leaves out the gaps, which a replay derives again', () => {
+    const [marker, gap] = disconnectionFrames(null, 4.2, 'code 1006 connection lost', 9);
+    expect(parseNdjsonLine(line(marker as Frame), 9)).toEqual(marker);
+    expect(logLine(gap as Frame, RX_MS)).toBeNull();
+    expect(logLine({ kind: 'notice', muscle: null, text: 'x' }, RX_MS)).toBeNull();
+  });
+});
+
+describe('logLine: rejections', () => {
+  it.each(ADAPTER_REASONS.filter((r) => r !== 'line_too_long'))('writes a %s rejection as a line the parser rejects for the same reason', (reason) => {
+    const r = makeRejection(reason, `what failed for ${reason}`, 4, '{"t": 1, "excerpt": "of the input"}');
+    const back = parseNdjsonLine(line(r), 4);
+    expect(back).toMatchObject({ kind: 'rejection', reason });
+    expect(JSON.parse(line(r).replace(/,}$/, '}'))).toMatchObject({ rejected: reason, rx: 1_764_000_000.123, message: r.message, excerpt: r.excerpt });
+  });
+
+  it('writes a line_too_long rejection past the file reader\'s cap, so a replay of the file says line_too_long', async () => {
+    const r = makeRejection('line_too_long', 'message is over the cap', 1, 'xxxx');
+    const text = line(r);
+    expect(Buffer.byteLength(text)).toBe(DEFAULT_MAX_LINE_BYTES + 1);
+    const dir = await mkdtemp(join(tmpdir(), 'lengthwise-logline-'));
+    const path = join(dir, 'log.ndjson');
+    await writeFile(path, `${text}\n${line(makeSample(1, 'calf', 50, Number.NaN, 1, 2))}\n`);
+    const frames = (await lastValueFrom(fileSource(path).pipe(toArray()))).flat();
+    expect(frames.map((f) => (f.kind === 'rejection' ? f.reason : f.kind))).toEqual(['line_too_long', 'sample']);
+  });
+
+  it('gives each reason again whatever the message and excerpt hold (fuzzed)', () => {
+    fc.assert(
+      fc.property(fc.constantFrom<RejectReason>(...ADAPTER_REASONS.filter((r) => r !== 'line_too_long')), fc.string(), fc.string({ unit: 'binary' }), (reason, message, excerpt) => {
+        const back = parseNdjsonLine(line(makeRejection(reason, message, 1, excerpt)), 1);
+        expect(back).toMatchObject({ kind: 'rejection', reason });
+      }),
+      { numRuns: 300 },
+    );
+  });
+});
+
+describe('a line cut short by a crash', () => {
+  it('is never a valid record: every shorter start of every kind of line is a rejection', () => {
+    const lines = [
+      line(makeSample(12.34, 'calf', 51.25, 20.5, 0.875, 1)),
+      line({ kind: 'event', tS: 3, event: 'toe_off', side: 'right', line: 1 }),
+      line({ kind: 'marker', tS: 3, marker: 'a marker', line: 1 }),
+      ...decodeMessage('{"format": "lengthwise-stream", "version": 1, "rate_hz": 100}', 1).map(line),
+      ...ADAPTER_REASONS.filter((r) => r !== 'line_too_long').map((r) => line(makeRejection(r, 'm', 1, 'e'))),
+    ];
+    for (const text of lines) {
+      for (let end = 1; end < text.length; end++) {
+        expect(parseNdjsonLine(text.slice(0, end), 1).kind, `${text.slice(0, end)}`).toBe('rejection');
+      }
+    }
+  });
+});

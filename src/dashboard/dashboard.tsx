@@ -7,11 +7,10 @@ import { useCallback, useMemo, useRef, useState } from 'react';
 import type { Observable, SchedulerLike } from 'rxjs';
 import type { TrialState } from '../state.ts';
 import AlertList from './alert-list.tsx';
-import { PLAUSIBLE_SARCOMERE_UM } from './alerts.ts';
-import CalibratePrompt, { parseCalibrationUm } from './calibrate-prompt.tsx';
+import CalibratePrompt from './calibrate-prompt.tsx';
 import Footer from './footer.tsx';
-import { clockTime, elapsed, fixed } from './format.ts';
 import HelpOverlay from './help-overlay.tsx';
+import { handleKey, INITIAL_UI, type UiState } from './key-handler.ts';
 import { DEFAULT_CALIBRATION_UM, KEY_HELP, type KeyHelp } from './keys.ts';
 import { chooseLayout } from './layout.ts';
 import MusclePanel from './muscle-panel.tsx';
@@ -45,19 +44,16 @@ export interface Props {
   readonly rows?: number | undefined;
 }
 
-type Mode = { readonly kind: 'normal' } | { readonly kind: 'help' } | { readonly kind: 'calibrate'; readonly muscle: string; readonly typed: string; readonly problem: string | null };
-
 const FLASH_MS = 3000;
 const MAX_ALERT_ROWS = 3;
 
 export default function Dashboard(props: Props) {
   const { title, onQuit, onMarker, onSpeed, onCalibrate } = props;
   const theme = useMemo(() => createTheme(props.color ?? true), [props.color]);
-  const [frozen, setFrozen] = useState(false);
-  const [mode, setMode] = useState<Mode>({ kind: 'normal' });
-  const [focusIndex, setFocusIndex] = useState(0);
+  const ui = useRef<UiState>(INITIAL_UI);
+  const [, setUiVersion] = useState(0);
   const [flash, setFlash] = useState<{ readonly text: string; readonly untilMs: number } | null>(null);
-  const [markerCount, setMarkerCount] = useState(0);
+  const { frozen, mode } = ui.current;
   const { exit } = useApp();
   const size = useTerminalSize({
     ...(props.columns === undefined ? {} : { columns: props.columns }),
@@ -72,8 +68,7 @@ export default function Dashboard(props: Props) {
   const alerts = useMemo(() => detectAlerts(view, status, onCalibrate !== undefined), [view, status, onCalibrate]);
 
   const muscleCount = view.muscles.length;
-  const focus = muscleCount === 0 ? 0 : Math.min(focusIndex, muscleCount - 1);
-  const focused = view.muscles[focus];
+  const focus = muscleCount === 0 ? 0 : Math.min(ui.current.focus, muscleCount - 1);
   const keys: KeyHelp[] = KEY_HELP.filter((k) => {
     switch (k.needs) {
       case undefined:
@@ -84,70 +79,54 @@ export default function Dashboard(props: Props) {
         return props[k.needs] !== undefined;
     }
   });
-  const say = (text: string): void => setFlash({ text, untilMs: view.wallMs + FLASH_MS });
-
   const onKey = (input: string, key: Key): void => {
-    if (mode.kind === 'calibrate') {
-      if (key.escape) {
-        setMode({ kind: 'normal' });
-        say('calibration cancelled');
-      } else if (key.return) {
-        const parsed = parseCalibrationUm(mode.typed, DEFAULT_CALIBRATION_UM, PLAUSIBLE_SARCOMERE_UM);
-        if (!parsed.ok) {
-          setMode({ ...mode, problem: parsed.problem });
-          return;
-        }
-        setMode({ kind: 'normal' });
-        onCalibrate?.(mode.muscle, parsed.um);
-        say(`calibration of ${mode.muscle} at ${fixed(parsed.um, 2)} µm asked for`);
-      } else if (key.backspace || key.delete) {
-        setMode({ ...mode, typed: mode.typed.slice(0, -1), problem: null });
-      } else if (/^[0-9.,]+$/.test(input)) {
-        setMode({ ...mode, typed: (mode.typed + input.replaceAll(',', '.')).slice(0, 8), problem: null });
+    const step = handleKey(ui.current, input, key, {
+      muscles: view.muscles.map((m) => m.name),
+      elapsedS: view.elapsedS,
+      now: props.now ?? (() => new Date()),
+      canMark: onMarker !== undefined,
+      canCalibrate: onCalibrate !== undefined,
+      canChangeSpeed: onSpeed !== undefined,
+    });
+    if (step.ui !== ui.current) {
+      ui.current = step.ui;
+      setUiVersion((v) => v + 1);
+    }
+    for (const effect of step.effects) {
+      switch (effect.kind) {
+        case 'quit':
+          onQuit();
+          exit();
+          break;
+        case 'marker':
+          onMarker?.(effect.text);
+          break;
+        case 'calibrate':
+          onCalibrate?.(effect.muscle, effect.sarcomereUm);
+          break;
+        case 'speed':
+          onSpeed?.(effect.direction);
+          break;
+        case 'say':
+          setFlash({ text: effect.text, untilMs: view.wallMs + FLASH_MS });
+          break;
       }
-      return;
-    }
-    if (input === 'q' || (key.ctrl && input === 'c')) {
-      onQuit();
-      exit();
-      return;
-    }
-    if (mode.kind === 'help') {
-      if (input === '?' || key.escape) setMode({ kind: 'normal' });
-      return;
-    }
-    if (input === '?') {
-      setMode({ kind: 'help' });
-    } else if (input === ' ') {
-      setFrozen((f) => !f);
-    } else if (input === 'm') {
-      if (onMarker === undefined) {
-        say('markers cannot be dropped here');
-        return;
-      }
-      const n = markerCount + 1;
-      setMarkerCount(n);
-      onMarker(`marker ${n} at trial time ${elapsed(view.elapsedS)} (${clockTime((props.now ?? (() => new Date()))())})`);
-      say(`marker ${n} dropped`);
-    } else if (input === 'c') {
-      if (onCalibrate === undefined) say('calibration cannot be captured here');
-      else if (focused === undefined) say('no muscle to calibrate yet');
-      else setMode({ kind: 'calibrate', muscle: focused.name, typed: '', problem: null });
-    } else if (key.tab || key.rightArrow || key.downArrow) {
-      if (muscleCount > 0) setFocusIndex(((key.shift ? focus - 1 : focus + 1) + muscleCount) % muscleCount);
-    } else if (key.leftArrow || key.upArrow) {
-      if (muscleCount > 0) setFocusIndex((focus - 1 + muscleCount) % muscleCount);
-    } else if ((input === '+' || input === '=') && onSpeed !== undefined) {
-      onSpeed(1);
-    } else if ((input === '-' || input === '_') && onSpeed !== undefined) {
-      onSpeed(-1);
     }
   };
   // Ink registers the handler in a passive effect; reading the newest one through a ref means a key
   // pressed right after a frame never acts on the state of the frame before.
   const onKeyRef = useRef(onKey);
   onKeyRef.current = onKey;
-  useInput(useCallback((input: string, key: Key) => onKeyRef.current(input, key), []));
+  useInput(
+    useCallback((input: string, key: Key) => {
+      // Keys typed faster than a frame (or sent by a script) arrive as one string: take them one by one.
+      if (input.length > 1 && !key.ctrl && !key.meta && /^[\x20-\x7e]+$/.test(input)) {
+        for (const char of input) onKeyRef.current(char, { ...key, shift: false });
+      } else {
+        onKeyRef.current(input, key);
+      }
+    }, []),
+  );
 
   const alertRows = Math.min(alerts.length, MAX_ALERT_ROWS);
   const promptRows = mode.kind === 'calibrate' ? 2 : 0;

@@ -50,10 +50,11 @@ export function startDashboard(options: DashboardOptions): { unmount(): void; wa
     />,
     { stdout: options.stdout, stdin: options.stdin, exitOnCtrlC: false, patchConsole: false, maxFps: 15 },
   );
+  // Asked for now: Ink makes this promise on first request, and one first asked after the exit never settles.
+  const exited = instance.waitUntilExit().then(() => undefined);
+  exited.catch(() => undefined);
   return {
     unmount: () => instance.unmount(),
-    waitUntilExit: async () => {
-      await instance.waitUntilExit();
-    },
+    waitUntilExit: () => exited,
   };
 }

@@ -28,14 +28,15 @@ export function useTrialView(state$: Observable<TrialState>, options: TrialViewO
   const frameMs = options.frameMs ?? 80;
   const tickMs = options.tickMs ?? 250;
   const [view, setView] = useState<TrialView>(() => observeTrial(createTracker(), null, scheduler.now()));
-  const frozen = useRef(options.frozen ?? false);
+  const frozenNow = options.frozen ?? false;
+  // Read by the subscription at each frame, so it is set as the screen renders, not an effect later.
+  const frozen = useRef(frozenNow);
+  frozen.current = frozenNow;
   const publishNow = useRef<() => void>(() => undefined);
 
   useEffect(() => {
-    const wasFrozen = frozen.current;
-    frozen.current = options.frozen ?? false;
-    if (wasFrozen && !frozen.current) publishNow.current();
-  }, [options.frozen]);
+    if (!frozenNow) publishNow.current();
+  }, [frozenNow]);
 
   useEffect(() => {
     const tracker = createTracker();

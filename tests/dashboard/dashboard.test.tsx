@@ -1,29 +1,50 @@
 import './force-color.ts';
 import { afterEach, describe, expect, it } from 'vitest';
-import { BehaviorSubject, Subject, VirtualTimeScheduler } from 'rxjs';
+import { BehaviorSubject, Observable, Subject, VirtualTimeScheduler } from 'rxjs';
 import Dashboard, { type Props } from '../../src/dashboard/dashboard.tsx';
 import type { TrialState } from '../../src/state.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import { startDashboard } from '../../src/dashboard/start-dashboard.tsx';
 import { MARKER_IN_BAND } from '../../src/dashboard/curve-drawing.ts';
 import { completeStride, makeMuscle, makeTrialState, pushSample, walkingState } from './fixtures.ts';
-import { COLOUR_SGR, frameWhere, KEY, KeysIn, plain, renderScreen, ScreenOut, tick, type Screen } from './terminal-double.ts';
+import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, tick, type Screen } from './terminal-double.ts';
 
 const screens: Screen[] = [];
 afterEach(() => {
   for (const s of screens.splice(0)) s.instance.unmount();
 });
 
+/** The same stream, noting when the dashboard has subscribed (its effects run after the first frame). */
+function watched<T>(source$: Observable<T>): { readonly stream$: Observable<T>; readonly subscribed: () => boolean } {
+  let subscribed = false;
+  const stream$ = new Observable<T>((subscriber) => {
+    subscribed = true;
+    const inner = source$.subscribe(subscriber);
+    return () => inner.unsubscribe();
+  });
+  return { stream$, subscribed: () => subscribed };
+}
+
 /** Renders the dashboard on a virtual clock; `advance(ms)` moves the clock and runs what is due. */
 function show(state$: Props['state$'], more: Partial<Props> = {}, columns = 80, rows = 24) {
   const scheduler = new VirtualTimeScheduler(undefined, 0);
+  const state = watched(state$);
+  const status = more.status$ === undefined ? null : watched(more.status$);
   const advance = async (ms: number): Promise<void> => {
+    await waitFor(() => state.subscribed() && (status === null || status.subscribed()), 'the dashboard subscribing');
     scheduler.maxFrames = scheduler.frame + ms;
     scheduler.flush();
     await tick(5);
   };
   const screen = renderScreen(
-    <Dashboard state$={state$} title="lengthwise" onQuit={() => undefined} scheduler={scheduler} {...more} />,
+    <Dashboard
+      title="lengthwise"
+      onQuit={() => undefined}
+      scheduler={scheduler}
+      {...more}
+      state$={state.stream$}
+      status$={status === null ? undefined : status.stream$}
+    />,
     columns,
     rows,
   );
@@ -35,7 +56,7 @@ describe('Dashboard', () => {
   it('waits for the first samples on an empty trial', async () => {
     const { screen, advance } = show(new Subject<TrialState>());
     await advance(300);
-    expect(plain(screen.lastFrame())).toContain('waiting for the first samples');
+    await shows(screen, 'waiting for the first samples');
   });
 
   it('shows each muscle with its numbers and units', async () => {
@@ -66,7 +87,7 @@ describe('Dashboard', () => {
     const bare = show(new BehaviorSubject(walkingState()), { color: false });
     await bare.advance(300);
     expect(bare.screen.lastFrame()).not.toMatch(COLOUR_SGR);
-    expect(plain(bare.screen.lastFrame())).toContain('SL 2.71 µm');
+    await shows(bare.screen, 'SL 2.71 µm');
   });
 
   it('follows a state mutated in place at a bounded frame rate', async () => {
@@ -75,14 +96,14 @@ describe('Dashboard', () => {
     const { screen, advance } = show(state$, { frameMs: 80 });
     state$.next(state);
     await advance(100);
-    expect(plain(screen.lastFrame())).toContain('SL 2.71 µm');
+    await shows(screen, 'SL 2.71 µm');
     const framesBefore = screen.out.frames.length;
     for (let i = 1; i <= 20; i++) {
       pushSample(state, 'calf', { tS: 5 + i / 100, sarcomereUm: 2.71 + i / 100 });
       state$.next(state);
     }
     await advance(100);
-    expect(plain(screen.lastFrame())).toContain('SL 2.91 µm');
+    await shows(screen, 'SL 2.91 µm');
     // Twenty batches inside one frame interval are shown once: no frame shows a length between.
     const shown = new Set(
       screen.out.frames.slice(framesBefore).flatMap((f) => [...plain(f).matchAll(/calf[^]*?SL (\d\.\d\d) µm/g)].map((m) => m[1])),
@@ -141,17 +162,17 @@ describe('Dashboard', () => {
     const state$ = new BehaviorSubject(state);
     const { screen, advance } = show(state$);
     await advance(300);
-    expect(plain(screen.lastFrame())).not.toContain('no samples');
+    await hides(screen, 'no samples');
     for (let i = 1; i <= 15; i++) {
       pushSample(state, 'thigh', { tS: 5 + i / 10, sarcomereUm: 3 });
       state$.next(state);
       await advance(100);
     }
-    expect(plain(screen.lastFrame())).toContain('calf: no samples for');
+    await shows(screen, 'calf: no samples for');
     pushSample(state, 'calf', { tS: 6.6, sarcomereUm: 2.7 });
     state$.next(state);
     await advance(100);
-    expect(plain(screen.lastFrame())).not.toContain('no samples');
+    await hides(screen, 'no samples');
   });
 
   it('shouts UNCALIBRATED when the trial runs on the baseline assumption', async () => {
@@ -169,8 +190,8 @@ describe('Dashboard', () => {
     const status$ = new BehaviorSubject<DashboardStatus>({ connection: { state: 'reconnecting', retryInS: 4 }, logPath: 'sessions/walk.log' });
     const { screen, advance } = show(new BehaviorSubject(walkingState()), { status$ });
     await advance(300);
-    expect(plain(screen.lastFrame())).toContain('DISCONNECTED — reconnecting in 4 s');
-    expect(plain(screen.lastFrame())).toContain('log sessions/walk.log');
+    await shows(screen, 'DISCONNECTED — reconnecting in 4 s');
+    await shows(screen, 'log sessions/walk.log');
     status$.next({ connection: { state: 'connected' }, replay: { progress: 0.5, speed: 4 } });
     await advance(300);
     const text = plain(screen.lastFrame());
@@ -196,15 +217,15 @@ describe('Dashboard', () => {
     await advance(100);
     await screen.press(' ');
     await advance(100);
-    expect(plain(screen.lastFrame())).toContain('FROZEN');
+    await shows(screen, 'FROZEN');
     pushSample(state, 'calf', { tS: 6, sarcomereUm: 3.01 });
     state$.next(state);
     await advance(500);
-    expect(plain(screen.lastFrame())).toContain('SL 2.71 µm');
+    await shows(screen, 'SL 2.71 µm');
     await screen.press(' ');
     await advance(100);
-    expect(plain(screen.lastFrame())).toContain('SL 3.01 µm');
-    expect(plain(screen.lastFrame())).not.toContain('FROZEN');
+    await shows(screen, 'SL 3.01 µm');
+    await hides(screen, 'FROZEN');
   });
 
   it('drops a timestamped marker on m', async () => {
@@ -215,9 +236,10 @@ describe('Dashboard', () => {
     });
     await advance(100);
     await screen.press('m', 'm');
+    await waitFor(() => markers.length === 2, 'two markers');
     expect(markers).toEqual(['marker 1 at trial time 0:05.0 (14:03:09)', 'marker 2 at trial time 0:05.0 (14:03:09)']);
     await advance(100);
-    expect(plain(screen.lastFrame())).toContain('marker 2 dropped');
+    await shows(screen, 'marker 2 dropped');
   });
 
   it('asks the sarcomere length on c and calibrates the focused muscle, 2.7 µm by default', async () => {
@@ -225,10 +247,12 @@ describe('Dashboard', () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]) });
     await advance(100);
     await screen.press('c');
-    expect(plain(screen.lastFrame())).toContain('calibrate calf from its last 3 s');
+    await shows(screen, 'calibrate calf from its last 3 s');
     await screen.press(KEY.enter);
+    await waitFor(() => calls.length === 1, 'the first calibration');
     expect(calls).toEqual([['calf', 2.7]]);
     await screen.press(KEY.tab, 'c', '2', ',', '6', '5', KEY.enter);
+    await waitFor(() => calls.length === 2, 'the second calibration');
     expect(calls).toEqual([['calf', 2.7], ['thigh', 2.65]]);
   });
 
@@ -238,12 +262,12 @@ describe('Dashboard', () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]), onQuit: () => (quits += 1) });
     await advance(100);
     await screen.press('c', '9', KEY.enter);
-    expect(plain(screen.lastFrame())).toContain('"9" is not a usable sarcomere length: type a number of µm from 1.5 to 4.5');
+    await shows(screen, '"9" is not a usable sarcomere length: type a number of µm from 1.5 to 4.5');
     await screen.press('q');
     expect(quits).toBe(0);
     await screen.press(KEY.escape);
     await advance(100);
-    expect(plain(screen.lastFrame())).not.toContain('calibrate calf from');
+    await hides(screen, 'calibrate calf from');
     expect(calls).toEqual([]);
   });
 
@@ -252,32 +276,43 @@ describe('Dashboard', () => {
     const offered = show(new BehaviorSubject(walkingState()), { onSpeed: (d) => speeds.push(d) });
     await offered.advance(100);
     await offered.screen.press('+', '=', '-');
+    await waitFor(() => speeds.length === 3, 'three speed changes');
     expect(speeds).toEqual([1, 1, -1]);
-    expect(plain(offered.screen.lastFrame())).toContain('+ - speed');
+    await shows(offered.screen, '+ - speed');
     const plainReplay = show(new BehaviorSubject(walkingState()));
     await plainReplay.advance(100);
-    expect(plain(plainReplay.screen.lastFrame())).not.toContain('speed');
+    await hides(plainReplay.screen, 'speed');
   });
 
   it('moves the focus with tab and the arrows', async () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()));
     await advance(100);
-    expect(plain(screen.lastFrame())).toContain('▸ calf');
+    await shows(screen, '▸ calf');
     await screen.press(KEY.tab);
-    expect(plain(screen.lastFrame())).toContain('▸ thigh');
+    await shows(screen, '▸ thigh');
     await screen.press(KEY.right);
-    expect(plain(screen.lastFrame())).toContain('▸ calf');
+    await shows(screen, '▸ calf');
     await screen.press(KEY.left);
-    expect(plain(screen.lastFrame())).toContain('▸ thigh');
+    await shows(screen, '▸ thigh');
+  });
+
+  it('takes keys that arrive together one by one', async () => {
+    const markers: string[] = [];
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onMarker: (t) => markers.push(t) });
+    await advance(100);
+    await screen.press(' m?');
+    await waitFor(() => markers.length === 1, 'the marker');
+    await shows(screen, 'FROZEN');
+    await shows(screen, 'reading a panel');
   });
 
   it('opens and closes the help on ?', async () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()));
     await advance(100);
     await screen.press('?');
-    expect(plain(screen.lastFrame())).toContain('reading a panel');
+    await shows(screen, 'reading a panel');
     await screen.press('?');
-    expect(plain(screen.lastFrame())).not.toContain('reading a panel');
+    await hides(screen, 'reading a panel');
   });
 });
 
@@ -334,10 +369,26 @@ describe('startDashboard', () => {
       env: {},
       onQuit: () => (quits += 1),
     });
-    await tick(50);
+    await waitFor(() => keys.listenerCount('readable') > 0, 'the dashboard listening to keys');
     keys.write('q');
     await dashboard.waitUntilExit();
     expect(quits).toBe(1);
     expect(state$.observed).toBe(false);
+  });
+
+  it('resolves waitUntilExit even when first asked after the dashboard has gone', async () => {
+    const { out, keys } = terminal();
+    const dashboard = startDashboard({
+      state$: new BehaviorSubject(walkingState()),
+      title: 'lengthwise',
+      stdout: out as unknown as NodeJS.WriteStream,
+      stdin: keys as unknown as NodeJS.ReadStream,
+      env: {},
+      onQuit: () => undefined,
+    });
+    await waitFor(() => keys.listenerCount('readable') > 0, 'the dashboard listening to keys');
+    keys.write('q');
+    await tick(50);
+    await expect(Promise.race([dashboard.waitUntilExit().then(() => 'exited'), tick(1000).then(() => 'still waiting')])).resolves.toBe('exited');
   });
 });

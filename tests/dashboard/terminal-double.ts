@@ -31,9 +31,10 @@ export class ScreenOut extends EventEmitter {
 
 export class KeysIn extends EventEmitter {
   isTTY = true;
+  /** Written but not yet read, as a terminal would buffer it. */
   private data: string | null = null;
   write(data: string): void {
-    this.data = data;
+    this.data = (this.data ?? '') + data;
     this.emit('readable');
     this.emit('data', data);
   }
@@ -81,9 +82,11 @@ export function renderScreen(tree: ReactElement, columns = 80, rows = 24): Scree
     instance,
     lastFrame: () => out.lastFrame(),
     press: async (...pressed: string[]) => {
+      // Ink starts reading once its input hook's effect has run.
+      await waitFor(() => keys.listenerCount('readable') > 0, 'the dashboard listening to keys');
       for (const k of pressed) {
         keys.write(k);
-        await tick(5);
+        await tick(15);
       }
     },
   };
@@ -108,4 +111,23 @@ export const COLOUR_SGR = /\u001B\[(?:[0-9;]*;)?(?:3[0-9]|4[0-9]|9[0-7]|10[0-7])
 export function plain(frame: string): string {
   // eslint-disable-next-line no-control-regex -- escape sequences are what is removed
   return frame.replace(/\u001B\[[0-9;?]*[A-Za-z]/g, '');
+}
+
+/** Waits until the last frame's text holds `text`; fails with the frame. */
+export async function shows(screen: Screen, text: string): Promise<void> {
+  await frameWhere(screen, (f) => plain(f).includes(text), `showing "${text}"`);
+}
+
+/** Waits until the last frame's text no longer holds `text`; fails with the frame. */
+export async function hides(screen: Screen, text: string): Promise<void> {
+  await frameWhere(screen, (f) => !plain(f).includes(text), `without "${text}"`);
+}
+
+/** Waits (real time, bounded) until `ok()` holds. */
+export async function waitFor(ok: () => boolean, what: string, timeoutMs = 2000): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  while (!ok()) {
+    if (Date.now() > until) throw new Error(`${what} did not happen within ${timeoutMs} ms`);
+    await tick(10);
+  }
 }

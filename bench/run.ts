@@ -1,0 +1,179 @@
+/**
+ * npm run bench: replay throughput of the tool against a plain loop doing the same work, live latency
+ * over a real WebSocket, and memory over a long replay. Writes bench/results/<date-time>.json and prints
+ * a short table. Machines here are shared and noisy, so speed is reported as the median ratio of
+ * alternating runs (tool, loop, tool, loop, …) made in the same process.
+ *
+ *   npm run bench                  # full sizes (a few minutes on 2 cores)
+ *   npm run bench -- --quick       # small sizes, under a minute
+ *   npm run bench -- --only replay # or live, memory; several: --only replay,live
+ */
+import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { tmpdir, cpus, loadavg } from 'node:os';
+import { join, dirname } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { writeBenchTrial, type BenchFormat, type BenchTrial } from './generate.ts';
+import { runToolReplay } from './tool-replay.ts';
+import { plainLoop } from './plain-loop.ts';
+import { figureDifferences, figuresFromSummary, type BenchFigures } from './figures.ts';
+import { median } from './stats.ts';
+import { measureMemory, type MemoryResult } from './memory.ts';
+import { measureLive, type LiveResult } from './live.ts';
+
+export interface ReplayResult {
+  readonly format: BenchFormat;
+  readonly samples: number;
+  readonly bytes: number;
+  readonly toolMs: readonly number[];
+  readonly loopMs: readonly number[];
+  /** Each pair's tool ms / loop ms. */
+  readonly ratios: readonly number[];
+  readonly ratioMedian: number;
+  readonly toolSamplesPerS: number;
+  readonly loopSamplesPerS: number;
+  readonly figures: BenchFigures;
+  /** Where the tool's and the loop's figures differ; empty when they agree. */
+  readonly differences: readonly string[];
+}
+
+interface Args {
+  readonly quick: boolean;
+  readonly only: ReadonlySet<string>;
+  readonly samples: number;
+  readonly pairs: number;
+  readonly memorySamples: number;
+}
+
+function parseArgs(argv: readonly string[]): Args {
+  const quick = argv.includes('--quick');
+  const value = (name: string): string | undefined => {
+    const i = argv.indexOf(name);
+    return i >= 0 ? argv[i + 1] : undefined;
+  };
+  const only = new Set((value('--only') ?? 'replay,live,memory').split(','));
+  for (const part of only) {
+    if (!['replay', 'live', 'memory'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, live, memory (comma-separated)`);
+      process.exit(2);
+    }
+  }
+  return {
+    quick,
+    only,
+    samples: Number(value('--samples') ?? (quick ? 200_000 : 1_000_000)),
+    pairs: Number(value('--pairs') ?? (quick ? 3 : 5)),
+    memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
+  };
+}
+
+function sarcomeresOf(trial: BenchTrial): Record<string, number> {
+  const n: Record<string, number> = {};
+  for (const m of trial.spec.muscles) n[m.name] = m.sarcomeresInSeries;
+  return n;
+}
+
+/** Alternating runs of the tool and the plain loop over one file, after one warm-up run of each. */
+export async function measureReplay(trial: BenchTrial, pairs: number): Promise<ReplayResult> {
+  const loopOptions = { format: trial.format, sarcomeresInSeries: sarcomeresOf(trial) };
+  // Warm-up: both paths compiled before anything is timed.
+  const warm = await runToolReplay(trial.path, trial.calibration);
+  const loopFigures = await plainLoop(trial.path, loopOptions);
+  const figures = figuresFromSummary(warm.summary);
+  const differences = figureDifferences(figures, loopFigures);
+  const toolMs: number[] = [];
+  const loopMs: number[] = [];
+  const ratios: number[] = [];
+  for (let i = 0; i < pairs; i++) {
+    const tool = await runToolReplay(trial.path, trial.calibration);
+    const t0 = performance.now();
+    await plainLoop(trial.path, loopOptions);
+    const loop = performance.now() - t0;
+    toolMs.push(tool.ms);
+    loopMs.push(loop);
+    ratios.push(tool.ms / loop);
+  }
+  return {
+    format: trial.format,
+    samples: trial.samples,
+    bytes: trial.bytes,
+    toolMs,
+    loopMs,
+    ratios,
+    ratioMedian: median(ratios),
+    toolSamplesPerS: trial.samples / (median(toolMs) / 1000),
+    loopSamplesPerS: trial.samples / (median(loopMs) / 1000),
+    figures,
+    differences,
+  };
+}
+
+function stamp(d: Date): string {
+  return d.toISOString().replace(/[:]/g, '-').replace(/\..+$/, '');
+}
+
+function fmtRate(perS: number): string {
+  return `${(perS / 1e6).toFixed(2)} M/s`;
+}
+
+async function main(): Promise<void> {
+  const args = parseArgs(process.argv.slice(2));
+  const started = new Date();
+  const here = dirname(fileURLToPath(import.meta.url));
+  const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
+  const out: Record<string, unknown> = {
+    date: started.toISOString(),
+    node: process.version,
+    cpus: cpus().length,
+    cpuModel: cpus()[0]?.model ?? 'unknown',
+    loadavgAtStart: loadavg(),
+    quick: args.quick,
+  };
+  const lines: string[] = [];
+  try {
+    if (args.only.has('replay')) {
+      const replay: ReplayResult[] = [];
+      for (const format of ['csv', 'ndjson'] as const) {
+        console.error(`bench: writing a ${args.samples}-sample ${format} trial…`);
+        const trial = await writeBenchTrial(dir, format, { samples: args.samples });
+        console.error(`bench: replay ${format}, ${args.pairs} alternating pairs…`);
+        const r = await measureReplay(trial, args.pairs);
+        replay.push(r);
+        await rm(trial.path, { force: true });
+        lines.push(
+          `replay ${format.padEnd(6)} tool ${fmtRate(r.toolSamplesPerS).padStart(10)}  loop ${fmtRate(r.loopSamplesPerS).padStart(10)}  ` +
+            `tool/loop ${r.ratioMedian.toFixed(2)}× (median of ${r.ratios.length}: ${r.ratios.map((x) => x.toFixed(2)).join(' ')})  ` +
+            `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}`,
+        );
+      }
+      out['replay'] = replay;
+    }
+    if (args.only.has('live')) {
+      console.error('bench: live latency over a WebSocket on 127.0.0.1…');
+      const live: LiveResult = await measureLive({ quick: args.quick });
+      out['live'] = live;
+      for (const l of live.lines) lines.push(l);
+    }
+    if (args.only.has('memory')) {
+      console.error(`bench: memory over a ${args.memorySamples}-sample replay (writing it first)…`);
+      const memory: MemoryResult = await measureMemory(dir, args.memorySamples);
+      out['memory'] = memory;
+      lines.push(
+        `memory ${memory.samples} samples: RSS ${memory.rssStartMb.toFixed(0)} → ${memory.rssEndMb.toFixed(0)} MB (growth after the first checkpoint ` +
+          `${memory.rssGrowthMb.toFixed(1)} MB, peak ${memory.peakRssMb.toFixed(0)} MB), heap ${memory.heapStartMb.toFixed(1)} → ${memory.heapEndMb.toFixed(1)} MB, ` +
+          `${memory.strides} strides kept`,
+      );
+    }
+  } finally {
+    await rm(dir, { recursive: true, force: true });
+  }
+  out['loadavgAtEnd'] = loadavg();
+  out['seconds'] = (Date.now() - started.getTime()) / 1000;
+  const resultsDir = join(here, 'results');
+  await mkdir(resultsDir, { recursive: true });
+  const file = join(resultsDir, `${stamp(started)}.json`);
+  await writeFile(file, `${JSON.stringify(out, null, 2)}\n`);
+  console.log(lines.join('\n'));
+  console.log(`(${(out['seconds'] as number).toFixed(0)} s; load ${loadavg().map((x) => x.toFixed(1)).join(' ')}; written to ${file})`);
+}
+
+await main();

@@ -5,7 +5,9 @@
  */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
-import { strideRegionFractions } from '../model/region-probability.ts';
+import { DEFAULT_QUANTILE_POINTS, regionProbabilities } from '../model/region-probability.ts';
+import { normalQuantile } from '../model/normal.ts';
+import { regionLowerBoundsUm } from '../model/geometry.ts';
 import {
   CYCLE_POINTS,
   HISTOGRAM_BIN_UM,
@@ -79,9 +81,36 @@ export function histogramQuantile(weights: Float64Array, q: number, lo = 0, hi =
   return (hi + 1) * HISTOGRAM_BIN_UM;
 }
 
+const quantileCache = new Map<number, Float64Array>();
+
+/** z of M equal-probability points of the standard normal, Φ⁻¹((j + ½)/M): the model's quantile points of N. */
+function quantilePoints(m: number): Float64Array {
+  let z = quantileCache.get(m);
+  if (z === undefined) {
+    z = new Float64Array(m);
+    for (let j = 0; j < m; j++) z[j] = normalQuantile((j + 0.5) / m);
+    quantileCache.set(m, z);
+  }
+  return z;
+}
+
+/** Type 7 percentile of sorted values (common practice, no source), as the model uses. */
+function sortedPercentile(sorted: Float64Array, q: number): number {
+  const pos = q * (sorted.length - 1);
+  const i = Math.floor(pos);
+  const a = sorted[i] as number;
+  const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
+  return a + (b - a) * (pos - i);
+}
+
 /**
- * Region fractions with their 90% interval under calibration uncertainty, from a histogram: each non-empty
- * bin stands for its centre length and its time (1 nm resolution), then the model's strideRegionFractions.
+ * Region fractions with their 90% interval under calibration uncertainty, from a histogram: the same
+ * quantity as the model's strideRegionFractions (src/model/region-probability.ts), computed from the
+ * histogram in O(bins + M) instead of O(samples × M). The expected fraction is the time-weighted mean of
+ * the model's per-length probabilities at each non-empty bin's centre. For the interval, at each of the M
+ * equal-probability points of N the lengths are re-scaled by N̂/N; a region [a, b) of true length then
+ * holds the time the estimate spends in [a·N/N̂, b·N/N̂), read off the cumulative histogram (uniform within
+ * a bin, so within 1 nm of the exact thresholds). The 5th and 95th percentiles over the M points follow.
  */
 export function histogramRegionProbability(
   curve: ForceLengthCurve,
@@ -89,22 +118,58 @@ export function histogramRegionProbability(
   relativeSd: number,
   lo = 0,
   hi = weights.length - 1,
+  quantilePointCount: number = DEFAULT_QUANTILE_POINTS,
 ): RegionProbabilityFigures | null {
-  if (!(relativeSd > 0)) return null;
-  let n = 0;
-  for (let b = lo; b <= hi; b++) if ((weights[b] as number) > 0) n++;
-  if (n === 0) return null;
-  const sl = new Float64Array(n);
-  const w = new Float64Array(n);
-  let i = 0;
-  for (let b = lo; b <= hi; b++) {
-    const x = weights[b] as number;
-    if (!(x > 0)) continue;
-    sl[i] = (b + 0.5) * HISTOGRAM_BIN_UM;
-    w[i] = x;
-    i++;
+  if (!(relativeSd > 0) || hi < lo) return null;
+  const span = hi - lo + 1;
+  const cumulative = new Float64Array(span + 1);
+  const expected = new Float64Array(REGIONS);
+  const p = new Float64Array(REGIONS);
+  for (let i = 0; i < span; i++) {
+    const w = weights[lo + i] as number;
+    cumulative[i + 1] = (cumulative[i] as number) + w;
+    if (!(w > 0)) continue;
+    regionProbabilities(curve, (lo + i + 0.5) * HISTOGRAM_BIN_UM, relativeSd, p);
+    for (let r = 0; r < REGIONS; r++) expected[r] = (expected[r] as number) + w * (p[r] as number);
   }
-  return strideRegionFractions(curve, sl, w, relativeSd);
+  const total = cumulative[span] as number;
+  if (!(total > 0)) return null;
+  /** Time with the estimate below x (µm). */
+  const below = (x: number): number => {
+    const u = x / HISTOGRAM_BIN_UM - lo;
+    if (u <= 0) return 0;
+    if (u >= span) return total;
+    const i = Math.floor(u);
+    return (cumulative[i] as number) + (weights[lo + i] as number) * (u - i);
+  };
+  const bounds = regionLowerBoundsUm(curve);
+  const z = quantilePoints(Math.max(20, Math.floor(quantilePointCount)));
+  const m = z.length;
+  const columns = Array.from({ length: REGIONS }, () => new Float64Array(m));
+  for (let j = 0; j < m; j++) {
+    const ratio = 1 + relativeSd * (z[j] as number);
+    if (!(ratio > 0)) {
+      (columns[REGIONS - 1] as Float64Array)[j] = 1;
+      continue;
+    }
+    let previous = 0;
+    for (let r = 0; r < REGIONS; r++) {
+      const upper = r + 1 < REGIONS ? below((bounds[r + 1] as number) * ratio) : total;
+      (columns[r] as Float64Array)[j] = (upper - previous) / total;
+      previous = upper;
+    }
+  }
+  const expectedRecord = zeroRegionRecord();
+  const low = zeroRegionRecord();
+  const high = zeroRegionRecord();
+  for (let r = 0; r < REGIONS; r++) {
+    const key = REGION_KEYS[r] as RegionKey;
+    const column = (columns[r] as Float64Array).sort();
+    expectedRecord[key] = (expected[r] as number) / total;
+    low[key] = sortedPercentile(column, 0.05);
+    high[key] = sortedPercentile(column, 0.95);
+  }
+  return { expected: expectedRecord, low, high };
 }
 
 /** Running figures of one segment (a stride or a phase). Reused from one stride to the next. */

@@ -236,3 +236,31 @@ describe('accumulateSummary: phases, percentiles, capacity, flags', () => {
     expect(Math.sqrt((cycle?.slM2Um2[40] ?? Number.NaN) / 2)).toBeCloseTo(sd, 12);
   });
 });
+
+describe('accumulateSummary: region probabilities under calibration uncertainty', () => {
+  const withSd = { species: 'human' as const, method: 'sarcomere_count' as const, sarcomeresInSeries: 20000, sarcomeresInSeriesSd: 1000 };
+  const calibration = (c: typeof withSd | Omit<typeof withSd, 'sarcomeresInSeriesSd'>): Frame => ({ kind: 'calibration', muscle: 'calf', calibration: c, sarcomeresInSeries: 20000, source: 'file' });
+
+  it('gives the latest sample’s region probabilities and per-stride expected fractions with an interval', async () => {
+    const frames: Frame[] = [calibration(withSd), boundary(0, 0)];
+    for (let i = 0; i < 10; i++) frames.push(enriched(i / 10, 2.95, 'descending', 0));
+    frames.push(boundary(1, 1), enriched(1, 2.95, 'descending', 1));
+    const m = (await final([frames])).muscles.get('calf');
+    expect(m?.relativeSd).toBeCloseTo(0.05, 12);
+    // 2.95 µm with a 5% count SD: P(true SL ≥ 2.81 µm) = Φ((2.95/2.81 − 1)/0.05) = Φ(0.996) ≈ 0.840
+    // (Abramowitz & Stegun 1964, Table 26.1: Φ(1.00) = 0.8413).
+    const descending = (m?.regionProbability?.descending ?? 0) + (m?.regionProbability?.no_overlap ?? 0);
+    expect(descending).toBeCloseTo(0.84, 2);
+    const p = m?.strides[0]?.regionProbability;
+    expect((p?.expected.descending ?? 0) + (p?.expected.no_overlap ?? 0)).toBeCloseTo(0.84, 2);
+    expect(p?.low.descending).toBe(0);
+    expect(p?.high.descending).toBe(1);
+  });
+
+  it('gives none when the calibration states no uncertainty', async () => {
+    const { sarcomeresInSeriesSd: _, ...noSd } = withSd;
+    const m = (await final([[calibration(noSd), boundary(0, 0), enriched(0, 2.7, 'plateau', 0), boundary(1, 1)]])).muscles.get('calf');
+    expect(m?.regionProbability).toBeNull();
+    expect(m?.strides[0]?.regionProbability).toBeNull();
+  });
+});

@@ -126,3 +126,33 @@ describe('pipeline on a generated walking trial (replay path: file → runTrial 
     expect(cycle?.stride_count).toBe(summary.muscles['calf']?.trial.strides_used);
   });
 });
+
+describe('pipeline with a calibration that states its uncertainty', () => {
+  it('puts region probabilities with a 90% interval next to the region fractions of strides, phases and trial', async () => {
+    const trial = createTrial(scenarioSpec('walk', { seed: 12, durationS: 12, header: { calibrate: [] } }));
+    const path = join(dir, 'walk-uncertain.ndjson');
+    const written = await writeNdjson(trial.records({ badLines: 'none' }), path);
+    expect(written.ok).toBe(true);
+    const calibration = {
+      muscles: {
+        calf: { species: 'human' as const, method: 'sarcomere_count' as const, sarcomeresInSeries: 17_500, sarcomeresInSeriesSd: 875 },
+        thigh: { species: 'human' as const, method: 'sarcomere_count' as const, sarcomeresInSeries: 30_000 },
+      },
+    };
+    const summary = summaryJson(await runTrial(fileSource(path), { source: path, calibration }).done);
+    const calf = summary.muscles['calf'];
+    expect(calf?.sarcomeres_in_series_relative_sd).toBeCloseTo(0.05, 12);
+    for (const s of calf?.strides ?? []) {
+      const sum = REGION_KEYS.reduce((a, k) => a + (s.region_probability?.[k] ?? 0), 0);
+      expect(sum).toBeCloseTo(1, 9);
+      for (const k of REGION_KEYS) {
+        const [low, high] = s.region_probability_90?.[k] ?? [null, null];
+        expect(low ?? 2).toBeLessThanOrEqual(high ?? -1);
+      }
+      expect(s.stance?.region_probability).toBeDefined();
+    }
+    expect(calf?.trial.region_probability).toBeDefined();
+    expect(calf?.trial.region_probability_90).toBeDefined();
+    expect(summary.muscles['thigh']?.strides[0]).not.toHaveProperty('region_probability');
+  });
+});

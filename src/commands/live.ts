@@ -308,6 +308,8 @@ class LiveSession {
   async run(trial: TrialRun, label: string, durationS: number | null, flushLog: () => void): Promise<Final> {
     const subscriptions: Subscription[] = [];
     subscriptions.push(trial.state$.subscribe((s) => (this.latest = s)));
+    // A log that failed before the trial started is in the summary too.
+    this.sendLogNotice();
     const stop = (): void => {
       if (this.stopped) return;
       // Everything received is in the file, and a failure to write it is in the summary.

@@ -1,0 +1,259 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { appendFile, mkdtemp, readFile, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, describe, expect, it } from 'vitest';
+import { parseConnect, parseDuration, parseListen } from '../../src/commands/live.ts';
+import { startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
+import { fileSource } from '../../adapters/file-source.ts';
+import { restoreGaps } from '../../src/session-log/restore-gaps.ts';
+import { runTrial } from '../../src/run-trial.ts';
+import { summaryJson } from '../../src/output/summary-json.ts';
+import { sampleTexts, sendAll, until, wsClient } from '../adapters/ws-peers.ts';
+
+const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
+
+interface Child {
+  readonly child: ChildProcess;
+  stdout: string;
+  stderr: string;
+  readonly exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
+}
+
+const children: Child[] = [];
+const stops: (() => unknown)[] = [];
+afterEach(async () => {
+  for (const c of children.splice(0)) if (c.child.exitCode === null && c.child.signalCode === null) c.child.kill('SIGKILL');
+  while (stops.length > 0) await stops.pop()?.();
+});
+
+function lengthwise(args: readonly string[], cwd?: string): Child {
+  const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' }, ...(cwd !== undefined ? { cwd } : {}) });
+  const c: Child = {
+    child,
+    stdout: '',
+    stderr: '',
+    exited: new Promise((resolve) => child.on('exit', (code, signal) => resolve({ code, signal }))),
+  };
+  child.stdout?.on('data', (d: Buffer) => (c.stdout += d.toString()));
+  child.stderr?.on('data', (d: Buffer) => (c.stderr += d.toString()));
+  children.push(c);
+  return c;
+}
+
+async function tmp(): Promise<string> {
+  return mkdtemp(join(tmpdir(), 'lengthwise-live-'));
+}
+
+/** The port a `live --listen 127.0.0.1:0` child says it listens on. */
+async function listeningPort(c: Child): Promise<number> {
+  await until(() => /listening on ws:\/\/127\.0\.0\.1:\d+/.test(c.stderr), 15_000, `the child to listen (stderr: ${c.stderr})`);
+  return Number(/listening on ws:\/\/127\.0\.0\.1:(\d+)/.exec(c.stderr)?.[1]);
+}
+
+async function json(path: string): Promise<Record<string, unknown> & { frames: Record<string, unknown> }> {
+  return JSON.parse(await readFile(path, 'utf8'));
+}
+
+async function replaySummary(log: string, dir: string, name: string): Promise<Record<string, unknown> & { frames: Record<string, unknown> }> {
+  const out = join(dir, name);
+  const r = lengthwise(['replay', log, '--speed', 'max', '--plain', '--summary', out]);
+  const { code } = await r.exited;
+  expect(code, r.stderr).toBe(0);
+  return json(out);
+}
+
+function withoutSource(summary: Record<string, unknown>): Record<string, unknown> {
+  const { source: _source, ...rest } = summary;
+  return rest;
+}
+
+const BAD_MESSAGES: readonly (readonly [string, string])[] = [
+  ['{"t": 1, "muscle": "calf"', 'not_json'],
+  ['{"t": 1, "muscle": "calf", "fascicle_mm": 0}', 'out_of_range'],
+  ['{"t": 1, "event": "hop", "side": "left"}', 'unknown_event'],
+  ['{"__proto__": {"t": 1}}', 'unsafe_key'],
+  [`{"x": ${'['.repeat(30)}${']'.repeat(30)}}`, 'too_deep'],
+  ['{"what": 1}', 'schema'],
+];
+
+describe('lengthwise live: options', () => {
+  it('prints its help with exit 0', async () => {
+    const c = lengthwise(['live', '--help']);
+    expect((await c.exited).code).toBe(0);
+    expect(c.stdout).toContain('--connect URL');
+    expect(c.stdout).toContain('--listen [HOST:]PORT');
+  });
+
+  it.each([
+    [[], /exactly one/],
+    [['--connect', 'ws://127.0.0.1:1', '--listen', '8765'], /exactly one/],
+    [['--connect', 'http://127.0.0.1:1'], /give a ws:\/\/ or wss:\/\/ URL/],
+    [['--listen', 'port'], /give PORT/],
+    [['--listen', '8765', '--duration=-1'], /give seconds above 0/],
+    [['--listen', '8765', '--mapping', '/nonexistent/m.json'], /cannot read mapping file/],
+  ])('refuses %j with exit 2 and says what is accepted', async (args, message) => {
+    const c = lengthwise(['live', ...args]);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toMatch(message);
+  });
+
+  it('reads listen addresses, URLs and durations', () => {
+    expect(parseListen('8765')).toEqual({ ok: true, value: { host: '127.0.0.1', port: 8765 } });
+    expect(parseListen('0.0.0.0:80')).toEqual({ ok: true, value: { host: '0.0.0.0', port: 80 } });
+    expect(parseListen('[::1]:9000')).toEqual({ ok: true, value: { host: '::1', port: 9000 } });
+    expect(parseListen('70000').ok).toBe(false);
+    expect(parseConnect('ws://h:1/p').ok).toBe(true);
+    expect(parseDuration('2.5')).toEqual({ ok: true, value: 2.5 });
+    expect(parseDuration('').ok).toBe(false);
+  });
+});
+
+describe('lengthwise live --listen', () => {
+  it('survives a killed process: the log of what was received replays with the same counts', async () => {
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', log, '--plain']);
+    const port = await listeningPort(c);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    const texts = sampleTexts(300, 'calf');
+    const messages: string[] = [];
+    for (let i = 0; i < 300; i += 30) messages.push(`[${texts.slice(i, i + 30).join(',')}]`);
+    await sendAll(ws, [...messages, ...BAD_MESSAGES.map(([m]) => m)]);
+    // The log is flushed at least every second.
+    await new Promise((r) => setTimeout(r, 1600));
+    c.child.kill('SIGKILL');
+    expect((await c.exited).signal).toBe('SIGKILL');
+    const summary = await replaySummary(log, dir, 'replay.json');
+    expect(summary.frames).toMatchObject({ accepted: 300, rejected: BAD_MESSAGES.length });
+    expect(summary.frames['rejected_by_reason']).toEqual({ not_json: 1, out_of_range: 1, unknown_event: 1, unsafe_key: 1, too_deep: 1, schema: 1 });
+
+    // A line torn by a kill in the middle of a write is at worst one rejected line.
+    await appendFile(log, '{"t":3.01,"muscle":"calf","fascicle_mm":5');
+    const torn = await replaySummary(log, dir, 'torn.json');
+    expect(torn.frames).toMatchObject({ accepted: 300, rejected: BAD_MESSAGES.length + 1 });
+    expect((torn.frames['rejected_by_reason'] as Record<string, number>)['not_json']).toBe(2);
+  });
+
+  it('ends on SIGTERM: writes the summary, closes the log and exits 0; the replay of its log gives the same summary', async () => {
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
+    const port = await listeningPort(c);
+    const header = JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side: 'left' } } });
+    const a = await wsClient(`ws://127.0.0.1:${port}`);
+    const b = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => a.terminate(), () => b.terminate());
+    const strikes = [0.2, 1.2, 2.2].map((t) => JSON.stringify({ t, event: 'foot_strike', side: 'left' }));
+    await sendAll(a, [header, ...sampleTexts(150, 'calf'), ...strikes.slice(0, 2)]);
+    await sendAll(b, sampleTexts(80, 'shin'));
+    a.close();
+    await until(() => /DISCONNECTED/.test(c.stderr), 5000, 'the disconnection');
+    await sendAll(b, [...sampleTexts(20, 'shin', 1), ...BAD_MESSAGES.map(([m]) => m)]);
+    await new Promise((r) => setTimeout(r, 300));
+    c.child.kill('SIGTERM');
+    expect((await c.exited).code).toBe(0);
+    expect(c.stderr).toContain(`session log: ${log}`);
+    const live = await json(join(dir, 'live.json'));
+    expect(live.frames).toMatchObject({ accepted: 250, rejected: BAD_MESSAGES.length, headers: 1, gait_events: 2, markers: 1 });
+    const replay = await replaySummary(log, dir, 'replay.json');
+    expect(withoutSource(replay)).toEqual(withoutSource(live));
+  });
+
+  it('says loudly when the log cannot be written, goes on, and the summary says the log is incomplete', async () => {
+    const dir = await tmp();
+    await writeFile(join(dir, 'a-file'), '');
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', join(dir, 'a-file', 'log.ndjson'), '--plain', '--summary', join(dir, 's.json'), '--duration', '2.5']);
+    const port = await listeningPort(c);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, sampleTexts(10));
+    expect((await c.exited).code).toBe(0);
+    expect(c.stderr).toMatch(/session log .* could not be opened \(ENOTDIR/);
+    const summary = await json(join(dir, 's.json'));
+    expect(summary.frames).toMatchObject({ accepted: 10 });
+    expect((summary['warnings'] as string[]).some((w) => /session log is incomplete/.test(w))).toBe(true);
+  });
+
+  it('refuses a device without the token with 401 and takes one with it', async () => {
+    const dir = await tmp();
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--token', 'bench-7', '--log', join(dir, 'l.ndjson'), '--plain', '--summary', join(dir, 's.json'), '--duration', '3']);
+    const port = await listeningPort(c);
+    await expect(wsClient(`ws://127.0.0.1:${port}`)).rejects.toThrow(/401/);
+    const ws = await wsClient(`ws://127.0.0.1:${port}/?token=bench-7`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, sampleTexts(5));
+    expect((await c.exited).code).toBe(0);
+    expect((await json(join(dir, 's.json'))).frames).toMatchObject({ accepted: 5 });
+    expect(c.stderr).toMatch(/refused a connection/);
+  });
+
+  it('reads a device through a mapping, and the log holds our own records', async () => {
+    const dir = await tmp();
+    const log = join(dir, 'l.ndjson');
+    const mapping = join(import.meta.dirname, '..', '..', 'adapters', 'mappings', 'twin-probe-si.json');
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--mapping', mapping, '--log', log, '--plain', '--summary', join(dir, 's.json'), '--duration', '2.5']);
+    const port = await listeningPort(c);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, [JSON.stringify([{ ts_us: 10_000, site: 'calf', len_m: 0.0523 }, { ts_us: 20_000, site: 'calf', len_m: 0.0525 }])]);
+    expect((await c.exited).code).toBe(0);
+    const first = JSON.parse((await readFile(log, 'utf8')).split('\n')[0] as string);
+    expect(first).toMatchObject({ t: 0.01, muscle: 'calf' });
+    expect(first.fascicle_mm).toBeCloseTo(52.3, 9);
+  });
+
+  it('hints at a mapping when fascicle lengths look like metres', async () => {
+    const dir = await tmp();
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', join(dir, 'l.ndjson'), '--plain', '--duration', '2.5']);
+    const port = await listeningPort(c);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, ['{"t": 0, "muscle": "calf", "fascicle_mm": 0.05}']);
+    expect((await c.exited).code).toBe(0);
+    expect(c.stderr).toMatch(/0\.05 mm looks like metres.*--mapping FILE/);
+  });
+});
+
+describe('lengthwise live --connect', () => {
+  async function simulator(extra: Parameters<typeof startSimulator>[0] = {}): Promise<RunningSimulator> {
+    const sim = await startSimulator({ port: 0, seed: 3, ...extra });
+    stops.push(() => sim.stop());
+    return sim;
+  }
+
+  it('accepts exactly the valid samples the simulator sent, and the replay of its log gives the same summary', async () => {
+    const sim = await simulator();
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '3']);
+    expect((await c.exited).code, c.stderr).toBe(0);
+    await sim.stop();
+    const live = await json(join(dir, 'live.json'));
+    expect(live.frames['accepted']).toBe(sim.stats.samplesSent);
+    expect(live.frames['headers']).toBe(sim.stats.headersSent);
+    expect(live.ended).toBe(true);
+    const replay = await replaySummary(log, dir, 'replay.json');
+    expect(withoutSource(replay)).toEqual(withoutSource(live));
+  });
+
+  it('through faults (malformed messages, disconnections, restarts) loses no valid sample received, and the log with its gaps restored replays the same', async () => {
+    const sim = await simulator({ faults: { everyS: 0.8, kinds: ['malformed', 'disconnect', 'resent_header', 'malformed', 'device_restart'] } });
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '4.5']);
+    expect((await c.exited).code, c.stderr).toBe(0);
+    await sim.stop();
+    const live = await json(join(dir, 'live.json'));
+    expect(sim.stats.faults['disconnect'] ?? 0).toBeGreaterThanOrEqual(1);
+    // Every valid sample sent reached the pipeline: accepted, or rejected by ordering after a restart.
+    const byReason = live.frames['rejected_by_reason'] as Record<string, number>;
+    const ordering = (byReason['time_not_increasing'] ?? 0) + (byReason['duplicate'] ?? 0);
+    expect((live.frames['accepted'] as number) + ordering).toBeGreaterThanOrEqual(sim.stats.samplesSent);
+    expect(live.frames['markers']).toBeGreaterThanOrEqual(1);
+    // The disconnection gaps are restored from the log's link markers.
+    const final = await runTrial(fileSource(log).pipe(restoreGaps()), { source: log }).done;
+    expect(withoutSource(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSource(live));
+  });
+});

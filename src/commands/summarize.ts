@@ -18,6 +18,7 @@ figures as each trial's --summary.
 
 options:
   --out FILE.csv         write the study table here  [default: standard output]
+  --report FILE.html     write one self-contained HTML report with plots of every trial and muscle
   --calibration FILE     calibration JSON for every trial; wins over each trial's header calibration
   --jobs N               trials summarised at once, one worker thread each  [default: ${defaultJobs()}, the cores]
   --plain                plain progress lines instead of a progress bar, even on a terminal
@@ -83,6 +84,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       allowPositionals: true,
       options: {
         out: { type: 'string' },
+        report: { type: 'string' },
         calibration: { type: 'string' },
         jobs: { type: 'string' },
         plain: { type: 'boolean', default: false },
@@ -151,6 +153,15 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   else {
     const result = await writeFileAtomic(values.out, csv);
     if (result.ok) io.err(`study table written to ${result.path}`);
+    else {
+      io.err(`lengthwise summarize: ${result.message}`);
+      status = 1;
+    }
+  }
+  if (values.report !== undefined) {
+    const { writeReport } = await import('../report/write-report.ts');
+    const result = await writeReport(values.report, summaries, { title: `Study of ${summaries.length} trials` });
+    if (result.ok) io.err(`report written to ${result.path}`);
     else {
       io.err(`lengthwise summarize: ${result.message}`);
       status = 1;

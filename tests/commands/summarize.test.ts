@@ -49,7 +49,7 @@ describe('lengthwise summarize', () => {
   it('prints its options for --help and exits 0', async () => {
     const ran = await lengthwise(['summarize', '--help']);
     expect(ran.code).toBe(0);
-    for (const option of ['--out', '--calibration', '--jobs']) expect(ran.stdout).toContain(option);
+    for (const option of ['--out', '--report', '--calibration', '--jobs']) expect(ran.stdout).toContain(option);
   });
 
   it('asks for files when given none (exit 2)', async () => {
@@ -84,7 +84,8 @@ describe('lengthwise summarize', () => {
 
   it('summarises many trials on worker threads, names a missing and a corrupt file with reasons, and exits 1', async () => {
     const out = join(folder.dir, 'out', 'study.csv');
-    const ran = await lengthwise(['summarize', trials[0]!, missing, trials[1]!, corrupt, trials[2]!, trials[3]!, '--out', out, '--jobs', '2']);
+    const report = join(folder.dir, 'out', 'study.html');
+    const ran = await lengthwise(['summarize', trials[0]!, missing, trials[1]!, corrupt, trials[2]!, trials[3]!, '--out', out, '--report', report, '--jobs', '2']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toMatch(/s04-missing\.ndjson \(no such file\); check the path/);
     expect(ran.stderr).toMatch(/s03-corrupt\.ndjson has no valid sample in 3 lines/);
@@ -95,6 +96,12 @@ describe('lengthwise summarize', () => {
 
     const rows = csvRecords(await readFile(out, 'utf8'));
     expect(rows).toHaveLength(8);
+    // One report over the trials summarised: three plots per trial × muscle and two overviews.
+    const html = await readFile(report, 'utf8');
+    expect(html.startsWith('<!DOCTYPE html>')).toBe(true);
+    expect(html.match(/<section class="entry"/g)).toHaveLength(8);
+    expect(html.match(/<svg/g)).toHaveLength(8 * 3 + 2);
+    expect(ran.stderr).toContain(`report written to ${report}`);
     let i = 0;
     for (const path of trials) {
       const outcome = await summarizeTrial(path);

@@ -22,11 +22,12 @@ export type LinkEvent =
 export const LINK_MARKER_PREFIX = '[link] disconnected';
 
 /**
- * The marker saying a connection was lost. `muscles` null: every muscle (one peer); else only the
- * muscles that connection carried (one of several devices).
+ * The marker saying a connection was lost: `[link] disconnected: DETAIL` for every muscle (one peer), or
+ * `[link] disconnected ["calf","shin"]: DETAIL` for the muscles that connection carried (one of several devices).
  */
 export function linkMarkerText(muscles: readonly string[] | null, detail: string): string {
-  return `${LINK_MARKER_PREFIX} ${JSON.stringify(muscles)} ${detail.replace(/[\r\n]+/g, ' ')}`;
+  const text = detail.replace(/[\r\n]+/g, ' ');
+  return muscles === null ? `${LINK_MARKER_PREFIX}: ${text}` : `${LINK_MARKER_PREFIX} ${JSON.stringify(muscles)}: ${text}`;
 }
 
 /** The frames that say a connection was lost: the marker, then one Gap per muscle (or one for all). */

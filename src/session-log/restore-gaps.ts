@@ -7,14 +7,14 @@ import { LINK_MARKER_PREFIX } from '../../adapters/websocket-client.ts';
  * muscles, or undefined when the text is not such a marker.
  */
 export function linkMarkerMuscles(text: string): readonly string[] | null | undefined {
-  if (!text.startsWith(`${LINK_MARKER_PREFIX} `)) return undefined;
-  const rest = text.slice(LINK_MARKER_PREFIX.length + 1);
-  if (rest.startsWith('null')) return null;
-  if (!rest.startsWith('[')) return undefined;
-  // The list is JSON; its end is the first "]" after which the text parses as a list of names.
-  for (let end = rest.indexOf(']'); end >= 0; end = rest.indexOf(']', end + 1)) {
+  if (!text.startsWith(LINK_MARKER_PREFIX)) return undefined;
+  const rest = text.slice(LINK_MARKER_PREFIX.length);
+  if (rest.startsWith(':')) return null;
+  if (!rest.startsWith(' [')) return undefined;
+  // The list is JSON; its end is the first "]:" before which the text parses as a list of names.
+  for (let end = rest.indexOf(']:'); end >= 0; end = rest.indexOf(']:', end + 1)) {
     try {
-      const value: unknown = JSON.parse(rest.slice(0, end + 1));
+      const value: unknown = JSON.parse(rest.slice(1, end + 1));
       if (Array.isArray(value) && value.every((v) => typeof v === 'string')) return value as string[];
     } catch {
       // Not the end of the list yet.

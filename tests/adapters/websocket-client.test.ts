@@ -141,7 +141,7 @@ describe('websocketClient', () => {
     const markers = frames.filter((f) => f.kind === 'marker');
     const gaps = frames.filter((f) => f.kind === 'gap');
     expect(markers).toHaveLength(1);
-    expect(markers[0]?.kind === 'marker' && markers[0].marker.startsWith(`${LINK_MARKER_PREFIX} null`)).toBe(true);
+    expect(markers[0]?.kind === 'marker' && markers[0].marker.startsWith(`${LINK_MARKER_PREFIX}: code 1006`)).toBe(true);
     expect(markers[0]?.kind === 'marker' && markers[0].tS).toBeCloseTo(0.49, 9);
     expect(gaps).toEqual([{ kind: 'gap', cause: 'disconnected', muscle: null, fromS: 0.49, toS: Number.NaN }]);
     // The marker and the gap come between the last sample before and the first after.

@@ -66,7 +66,7 @@ describe('websocketServer', () => {
     const gaps = s.frames().filter((f) => f.kind === 'gap');
     expect(gaps).toEqual([{ kind: 'gap', cause: 'disconnected', muscle: 'calf', fromS: 0.29, toS: Number.NaN }]);
     const marker = s.frames().find((f) => f.kind === 'marker');
-    expect(marker?.kind === 'marker' && marker.marker.startsWith(`${LINK_MARKER_PREFIX} ["calf"]`)).toBe(true);
+    expect(marker?.kind === 'marker' && marker.marker.startsWith(`${LINK_MARKER_PREFIX} ["calf"]: device 1`)).toBe(true);
     await sendAll(b, sampleTexts(5, 'thigh', 1));
     await until(() => samples(s.frames(), 'thigh') === 45, 4000, 'the other device going on');
   });

@@ -1,4 +1,5 @@
-import { spawn, type ChildProcess } from 'node:child_process';
+import { execFileSync, spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { existsSync, readFileSync } from 'node:fs';
 import { appendFile, mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -255,5 +256,37 @@ describe('lengthwise live --connect', () => {
     // The disconnection gaps are restored from the log's link markers.
     const final = await runTrial(fileSource(log).pipe(restoreGaps()), { source: log }).done;
     expect(withoutSource(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSource(live));
+  });
+});
+
+const HAS_TMUX = spawnSync('tmux', ['-V'], { encoding: 'utf8' }).status === 0;
+const REPO = join(import.meta.dirname, '..', '..');
+
+describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : ' (skipped: tmux is not installed)'}`, () => {
+  const socket = `lengthwise-live-test-${process.pid}`;
+  const tmux = (...args: string[]): string => execFileSync('tmux', ['-L', socket, ...args], { encoding: 'utf8' });
+  afterEach(() => {
+    spawnSync('tmux', ['-L', socket, 'kill-server']);
+  });
+
+  it('shows the connection and the log path, and q ends the session with the summary written', { timeout: 40_000 }, async () => {
+    const sim = await startSimulator({ port: 0, seed: 5 });
+    stops.push(() => sim.stop());
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const summary = join(dir, 'live.json');
+    const status = join(dir, 'status');
+    const script = `cd '${REPO}' && unset CI; export NO_COLOR=1; node bin/lengthwise.js live --connect '${sim.url}' --log '${log}' --summary '${summary}'; echo $? > '${status}'; sleep 30`;
+    tmux('new-session', '-d', '-s', 'live', '-x', '100', '-y', '30', script);
+    const screen = (): string => tmux('capture-pane', '-p', '-t', 'live');
+    await until(() => screen().includes('connected') && screen().includes('session.ndjson') && /\d+ samples/.test(screen()), 20_000, 'the dashboard with the connection and the log');
+    tmux('send-keys', '-t', 'live', 'q');
+    await until(() => existsSync(status) && readFileSync(status, 'utf8').trim() !== '', 15_000, 'the exit status');
+    expect(readFileSync(status, 'utf8').trim()).toBe('0');
+    const live = await json(summary);
+    expect(live.frames['accepted']).toBeGreaterThan(0);
+    expect(live.ended).toBe(true);
+    const replay = await replaySummary(log, dir, 'replay.json');
+    expect(withoutSource(replay)).toEqual(withoutSource(live));
   });
 });

@@ -7,10 +7,12 @@ import { runBatches, runFrames, sample } from '../helpers/frames.ts';
 describe('linkMarkerMuscles', () => {
   it('reads every muscle, a list of muscles, or no link marker at all', () => {
     expect(linkMarkerMuscles(linkMarkerText(null, 'code 1006'))).toBeNull();
-    expect(linkMarkerMuscles(linkMarkerText(['calf', 'thigh, front', 'a] b'], 'device 2 code 1000'))).toEqual(['calf', 'thigh, front', 'a] b']);
+    expect(linkMarkerMuscles(linkMarkerText(['calf', 'thigh, front', 'a]: b'], 'device 2 code 1000'))).toEqual(['calf', 'thigh, front', 'a]: b']);
+    expect(linkMarkerMuscles(linkMarkerText([], 'device 3'))).toEqual([]);
     expect(linkMarkerMuscles('treadmill speed up')).toBeUndefined();
     expect(linkMarkerMuscles('[link] disconnected soon')).toBeUndefined();
-    expect(linkMarkerMuscles('[link] disconnected [not json')).toBeUndefined();
+    expect(linkMarkerMuscles('[link] disconnected [not json]: x')).toBeUndefined();
+    expect(linkMarkerMuscles('[link] disconnectedness')).toBeUndefined();
   });
 });
 

@@ -9,9 +9,11 @@ import { REGION_KEYS, REGION_LABEL } from '../model/regions.ts';
 export interface FinishOptions {
   readonly summary?: string | undefined;
   readonly strides?: string | undefined;
+  /** A self-contained HTML report with plots of the trial. */
+  readonly report?: string | undefined;
 }
 
-/** Writes the summary and stride table if asked; exit status 1 when a file could not be written. */
+/** Writes the summary, stride table and report if asked; exit status 1 when a file could not be written. */
 export async function finishTrial(state: TrialState, options: FinishOptions, io: CommandIo): Promise<number> {
   let status = 0;
   if (options.summary !== undefined) {
@@ -25,6 +27,16 @@ export async function finishTrial(state: TrialState, options: FinishOptions, io:
   if (options.strides !== undefined) {
     const result = await writeFileAtomic(options.strides, stridesCsv(state));
     if (result.ok) io.err(`strides written to ${result.path}`);
+    else {
+      io.err(`lengthwise: ${result.message}`);
+      status = 1;
+    }
+  }
+  if (options.report !== undefined) {
+    // Loaded only when asked for: the plotting libraries take a moment to load.
+    const { writeReport } = await import('../report/write-report.ts');
+    const result = await writeReport(options.report, [summaryJson(state)], { title: `lengthwise report: ${state.trial ?? state.source}` });
+    if (result.ok) io.err(`report written to ${result.path}`);
     else {
       io.err(`lengthwise: ${result.message}`);
       status = 1;

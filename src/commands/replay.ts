@@ -24,6 +24,7 @@ options:
   --calibration FILE     calibration JSON; wins over the stream header's calibration
   --summary FILE.json    write the per-stride and per-trial summary
   --strides FILE.csv     write one row per stride and muscle
+  --report FILE.html     write a self-contained HTML report with plots of the trial
   --plain                plain status lines instead of the dashboard, even on a terminal
   -h, --help             this text
 
@@ -62,6 +63,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
         calibration: { type: 'string' },
         summary: { type: 'string' },
         strides: { type: 'string' },
+        report: { type: 'string' },
         plain: { type: 'boolean', default: false },
         help: { type: 'boolean', short: 'h', default: false },
       },
@@ -115,7 +117,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise replay: ${final.message}`);
     return 1;
   }
-  return finishTrial(final.state, { summary: values.summary, strides: values.strides }, io);
+  return finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
 }
 
 /** Fraction of the file's lines played so far (NaN until the line count is known). */

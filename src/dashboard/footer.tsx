@@ -12,6 +12,19 @@ export interface Props {
 }
 
 export default function Footer({ keys, theme, columns, flash = null }: Props) {
+  if (flash !== null) {
+    // A message for the person wins the line for a moment; help stays one key away.
+    return (
+      <Box width={columns}>
+        <Text wrap="truncate-end">
+          <Text {...theme.role('flash')}>{flash}</Text>
+          <Text {...theme.role('label')}>{'   '}</Text>
+          <Text {...theme.role('key')}>?</Text>
+          <Text {...theme.role('label')}> help</Text>
+        </Text>
+      </Box>
+    );
+  }
   return (
     <Box width={columns}>
       <Text wrap="truncate-end">
@@ -22,7 +35,6 @@ export default function Footer({ keys, theme, columns, flash = null }: Props) {
             <Text {...theme.role('label')}>{` ${k.short}`}</Text>
           </Text>
         ))}
-        {flash === null ? null : <Text {...theme.role('flash')}>{`   ${flash}`}</Text>}
       </Text>
     </Box>
   );

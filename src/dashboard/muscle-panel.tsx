@@ -86,11 +86,11 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
         <Text {...theme.role('label')}>SL </Text>
         <Text bold>{fixed(sl, 2)}</Text>
         <Text> µm</Text>
-        <Text {...theme.role('label')}> force </Text>
+        <Text {...theme.role('label')}>{'  force '}</Text>
         <Text bold>{fixed(s?.force ?? Number.NaN, 2)}</Text>
         {regionP === undefined ? null : (
           <>
-            <Text {...theme.role('label')}> p </Text>
+            <Text {...theme.role('label')}>{'  p '}</Text>
             <Text>{fixed(regionP, 2)}</Text>
           </>
         )}
@@ -98,13 +98,13 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
       <Text wrap="truncate-end">
         <Text {...theme.role('label')}>fascicle </Text>
         <Text>{fixed(Number.isFinite(s?.smoothMm) ? (s?.smoothMm ?? Number.NaN) : (s?.fascicleMm ?? Number.NaN), 1)} mm</Text>
-        <Text {...theme.role('label')}> pennation </Text>
+        <Text {...theme.role('label')}>{'  pennation '}</Text>
         <Text>{fixed(s?.pennationDeg ?? Number.NaN, 1)}°</Text>
       </Text>
       <Text wrap="truncate-end">
         <Text {...theme.role('label')}>velocity </Text>
         <Text>{signed(s?.velocityMmS ?? Number.NaN, 1)} mm/s</Text>
-        <Text {...theme.role('label')}> quality </Text>
+        <Text {...theme.role('label')}>{'  quality '}</Text>
         <Text {...(s?.lowQuality === true ? theme.role('warning') : {})}>{fixed(s?.quality ?? Number.NaN, 2)}</Text>
       </Text>
       {spark === null ? null : (

@@ -28,8 +28,12 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
       <Box>
         <Text wrap="truncate-end">
           <Text {...theme.role('title')}>{title}</Text>
-          <Text {...theme.role('label')}> · </Text>
-          <Text>{keepEnd(source, Math.max(8, columns - fixedWidth))}</Text>
+          {source === '' || title.includes(source) ? null : (
+            <>
+              <Text {...theme.role('label')}> · </Text>
+              <Text>{keepEnd(source, Math.max(8, columns - fixedWidth))}</Text>
+            </>
+          )}
           {connection === null ? null : (
             <>
               <Text {...theme.role('label')}> · </Text>

@@ -103,9 +103,13 @@ export async function frameWhere(screen: Screen, ok: (frame: string) => boolean,
   }
 }
 
-/** Colour SGR parameters: 30–39/40–49 (8 colours, defaults), 90–97/100–107 (bright), 38;…/48;… (256 and true colour). */
+/**
+ * An SGR sequence that sets a colour: 30–38 / 40–48 (8 colours; 38 and 48 lead 256 and true colour),
+ * 90–97 / 100–107 (bright). 39 and 49 only return to the terminal's own colours (tmux writes them after
+ * every attribute reset), so they do not count.
+ */
 // eslint-disable-next-line no-control-regex -- the escape character is what is looked for
-export const COLOUR_SGR = /\u001B\[(?:[0-9;]*;)?(?:3[0-9]|4[0-9]|9[0-7]|10[0-7])(?:;[0-9;]*)?m/;
+export const COLOUR_SGR = /\u001B\[(?:[0-9;]*;)?(?:3[0-8]|4[0-8]|9[0-7]|10[0-7])(?:;[0-9;]*)?m/;
 
 /** Removes every escape sequence, for reading the text. */
 export function plain(frame: string): string {

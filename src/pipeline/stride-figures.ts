@@ -83,6 +83,13 @@ export function histogramQuantile(weights: Float64Array, q: number, lo = 0, hi =
 
 const quantileCache = new Map<number, Float64Array>();
 
+const scratch = {
+  cumulative: new Float64Array(HISTOGRAM_BINS + 1),
+  expected: new Float64Array(REGIONS),
+  probability: new Float64Array(REGIONS),
+  columns: new Float64Array(REGIONS * DEFAULT_QUANTILE_POINTS),
+};
+
 /** z of M equal-probability points of the standard normal, Φ⁻¹((j + ½)/M): the model's quantile points of N. */
 function quantilePoints(m: number): Float64Array {
   let z = quantileCache.get(m);
@@ -94,12 +101,43 @@ function quantilePoints(m: number): Float64Array {
   return z;
 }
 
-/** Type 7 percentile of sorted values (common practice, no source), as the model uses. */
-function sortedPercentile(sorted: Float64Array, q: number): number {
-  const pos = q * (sorted.length - 1);
+/** Moves the k-th smallest value to index k, smaller ones before it, larger after (Hoare's selection). */
+function selectKth(a: Float64Array, k: number): void {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (lo < hi) {
+    const pivot = a[(lo + hi) >> 1] as number;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while ((a[i] as number) < pivot) i++;
+      while ((a[j] as number) > pivot) j--;
+      if (i <= j) {
+        const t = a[i] as number;
+        a[i] = a[j] as number;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return;
+  }
+}
+
+/**
+ * Type 7 percentile (linear between order statistics; common practice, no source), as the model takes
+ * it, by selection rather than a full sort. Reorders `values`.
+ */
+function percentileOf(values: Float64Array, q: number): number {
+  const pos = q * (values.length - 1);
   const i = Math.floor(pos);
-  const a = sorted[i] as number;
-  const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
+  selectKth(values, i);
+  const a = values[i] as number;
+  if (i + 1 >= values.length) return a;
+  let b = Number.POSITIVE_INFINITY;
+  for (let j = i + 1; j < values.length; j++) if ((values[j] as number) < b) b = values[j] as number;
   return a + (b - a) * (pos - i);
 }
 
@@ -122,9 +160,11 @@ export function histogramRegionProbability(
 ): RegionProbabilityFigures | null {
   if (!(relativeSd > 0) || hi < lo) return null;
   const span = hi - lo + 1;
-  const cumulative = new Float64Array(span + 1);
-  const expected = new Float64Array(REGIONS);
-  const p = new Float64Array(REGIONS);
+  // Scratch space shared by every call (synchronous, so never in use twice): no garbage per stride.
+  const cumulative = scratch.cumulative;
+  const expected = scratch.expected.fill(0);
+  const p = scratch.probability;
+  cumulative[0] = 0;
   for (let i = 0; i < span; i++) {
     const w = weights[lo + i] as number;
     cumulative[i + 1] = (cumulative[i] as number) + w;
@@ -145,11 +185,12 @@ export function histogramRegionProbability(
   const bounds = regionLowerBoundsUm(curve);
   const z = quantilePoints(Math.max(20, Math.floor(quantilePointCount)));
   const m = z.length;
-  const columns = Array.from({ length: REGIONS }, () => new Float64Array(m));
+  if (scratch.columns.length < REGIONS * m) scratch.columns = new Float64Array(REGIONS * m);
+  const columns = Array.from({ length: REGIONS }, (_, r) => scratch.columns.subarray(r * m, (r + 1) * m));
   for (let j = 0; j < m; j++) {
     const ratio = 1 + relativeSd * (z[j] as number);
     if (!(ratio > 0)) {
-      (columns[REGIONS - 1] as Float64Array)[j] = 1;
+      for (let r = 0; r < REGIONS; r++) (columns[r] as Float64Array)[j] = r === REGIONS - 1 ? 1 : 0;
       continue;
     }
     let previous = 0;
@@ -164,10 +205,23 @@ export function histogramRegionProbability(
   const high = zeroRegionRecord();
   for (let r = 0; r < REGIONS; r++) {
     const key = REGION_KEYS[r] as RegionKey;
-    const column = (columns[r] as Float64Array).sort();
+    const column = columns[r] as Float64Array;
     expectedRecord[key] = (expected[r] as number) / total;
-    low[key] = sortedPercentile(column, 0.05);
-    high[key] = sortedPercentile(column, 0.95);
+    let min = column[0] as number;
+    let max = min;
+    for (let j = 1; j < m; j++) {
+      const x = column[j] as number;
+      if (x < min) min = x;
+      else if (x > max) max = x;
+    }
+    if (min === max) {
+      // Most regions lie far from a stride's lengths: the same fraction at every N, nothing to sort.
+      low[key] = min;
+      high[key] = min;
+      continue;
+    }
+    low[key] = percentileOf(column, 0.05);
+    high[key] = percentileOf(column, 0.95);
   }
   return { expected: expectedRecord, low, high };
 }

@@ -229,8 +229,13 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
       socket = null;
       if (ws !== null) {
         ws.on('error', () => undefined);
-        if (ws.readyState === WebSocket.OPEN) ws.close(1000, 'receiver stopping');
-        else ws.terminate();
+        if (ws.readyState === WebSocket.OPEN) {
+          ws.close(1000, 'receiver stopping');
+          // A peer that does not answer the closing handshake is cut off, so the process can end.
+          const cut = setTimeout(() => ws.terminate(), 1000);
+          cut.unref();
+          ws.on('close', () => clearTimeout(cut));
+        } else ws.terminate();
       }
     };
   });

@@ -210,3 +210,20 @@ describe('websocketClient', () => {
   });
 });
 
+
+describe('websocketClient against a peer that never answers the closing handshake', () => {
+  it('cuts the connection a second after unsubscribing', async () => {
+    const peer = await silentPeer();
+    cleanups.push(
+      () =>
+        new Promise<void>((r) => {
+          for (const s of peer.sockets) s.destroy();
+          peer.server.close(() => r());
+        }),
+    );
+    const client = subscribeClient(`ws://127.0.0.1:${peer.port}`, { pingMs: 60_000 });
+    await until(() => client.links.some((e) => e.kind === 'connected'), 3000, 'the connection');
+    client.sub.unsubscribe();
+    await until(() => peer.sockets.size === 0, 3000, 'the socket to be cut');
+  });
+});

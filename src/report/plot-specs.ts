@@ -246,9 +246,9 @@ export function regionShareSpec(rows: readonly OverviewRow[]): TopLevelSpec {
     data: { values },
     mark: { type: 'bar' },
     encoding: {
-      y: { field: 'label', type: 'nominal', title: null, sort: { field: 'order', op: 'min' }, axis: { labelLimit: 260 } },
+      y: { field: 'label', type: 'nominal', title: null, sort: { field: 'order', op: 'min' }, axis: { labelLimit: 480 } },
       x: { field: 'percent', type: 'quantitative', title: 'time in each region (% of stride time)', stack: 'zero', scale: { domain: [0, 100] } },
-      color: regionColour(true),
+      color: regionColour(false),
       order: { field: 'k', type: 'quantitative' },
     },
   };
@@ -261,7 +261,7 @@ export function rangeOverviewSpec(rows: readonly OverviewRow[], curve: ForceLeng
   const lo = finite.length > 0 ? Math.floor((Math.min(...finite) - 0.1) * 10) / 10 : 1.5;
   const hi = finite.length > 0 ? Math.ceil((Math.max(...finite) + 0.1) * 10) / 10 : 4;
   const x = fixedScale(lo, hi);
-  const yEnc = { field: 'label', type: 'nominal', title: null, sort: { field: 'order', op: 'min' }, axis: { labelLimit: 260 } } as const;
+  const yEnc = { field: 'label', type: 'nominal', title: null, sort: { field: 'order', op: 'min' }, axis: { labelLimit: 480 } } as const;
   return {
     width: 420,
     height: overviewHeight(rows.length),

@@ -34,7 +34,9 @@ export default function HelpOverlay({ keys, theme, columns }: Props) {
           </Text>
         ))}
       </Text>
-      <Text wrap="truncate-end">force: relative active force from length alone (0–1); velocity: + lengthening, − shortening</Text>
+      <Text wrap="truncate-end">force: relative active force from length alone (0–1); capacity: with the force–velocity relation too</Text>
+      <Text wrap="truncate-end">velocity: + lengthening, − shortening; a % beside the region: its probability under the calibration</Text>
+      <Text wrap="truncate-end">≈ before a stride number: strides estimated from the fascicle signal (no foot strikes for that side)</Text>
     </Box>
   );
 }

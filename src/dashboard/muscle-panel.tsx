@@ -5,7 +5,7 @@
 import { Box, Text } from 'ink';
 import { REGION_LABEL, type RegionKey } from '../model/regions.ts';
 import CurvePlot from './curve-plot.tsx';
-import { fixed, signed } from './format.ts';
+import { fixed, percent, signed } from './format.ts';
 import type { Layout } from './layout.ts';
 import { sparkline } from './sparkline.ts';
 import StrideTable from './stride-table.tsx';
@@ -18,7 +18,7 @@ export interface Props {
   readonly theme: Theme;
   /** The muscle keys such as c act on. @default false */
   readonly focused?: boolean;
-  /** Region probabilities from the model, when it gives them. */
+  /** Region probabilities from the status stream; the trial state's own, when present, win. */
   readonly probability?: Partial<Readonly<Record<RegionKey, number>>> | undefined;
 }
 
@@ -46,10 +46,14 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
   const sl = s?.sarcomereUm ?? Number.NaN;
   const region = s?.region ?? null;
   const side = muscle.side === null ? 'side unknown' : muscle.sideSource === 'assumed' ? `${muscle.side}?` : muscle.side;
-  const regionP = region === null ? undefined : probability?.[region];
+  const probabilities = muscle.regionProbability ?? probability;
+  const regionP = region === null ? undefined : probabilities?.[region];
   const spark = layout.showSparkline ? sparkline(muscle.history, Math.max(0, width - 18)) : null;
   const calibrated = muscle.calibrationSource !== null && muscle.calibrationSource !== 'baseline';
-  const regionText = region === null ? '' : REGION_LABEL[region].toUpperCase();
+  const regionText =
+    region === null ? '' : `${REGION_LABEL[region].toUpperCase()}${regionP === undefined || !Number.isFinite(regionP) ? '' : ` ${percent(regionP)}`}`;
+  const forceLv = s?.forceLv ?? Number.NaN;
+  const capacityLabel = width >= 38 ? 'capacity' : 'cap.';
   const titleText = `${focused ? '▸ ' : ''}${muscle.name}`;
   const sideText = ` ${side} · `;
   const room = Math.max(0, width - regionText.length - 1 - titleText.length - sideText.length);
@@ -88,12 +92,12 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
         <Text> µm</Text>
         <Text {...theme.role('label')}>{'  force '}</Text>
         <Text bold>{fixed(s?.force ?? Number.NaN, 2)}</Text>
-        {regionP === undefined ? null : (
+        {Number.isFinite(forceLv) ? (
           <>
-            <Text {...theme.role('label')}>{'  p '}</Text>
-            <Text>{fixed(regionP, 2)}</Text>
+            <Text {...theme.role('label')}>{`  ${capacityLabel} `}</Text>
+            <Text>{fixed(forceLv, 2)}</Text>
           </>
-        )}
+        ) : null}
       </Text>
       <Text wrap="truncate-end">
         <Text {...theme.role('label')}>fascicle </Text>
@@ -114,7 +118,7 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
           <Text {...theme.role('label')}>{` ${fixed(spark.min, 1)}–${fixed(spark.max, 1)}`}</Text>
         </Text>
       )}
-      <StrideTable strides={muscle.strides} rows={layout.strideRows} theme={theme} />
+      <StrideTable strides={muscle.strides} rows={layout.strideRows} theme={theme} estimated={muscle.stridesEstimated} />
     </Box>
   );
 }

@@ -10,6 +10,8 @@ export interface Props {
   readonly strides: readonly StrideSummary[];
   readonly rows: number;
   readonly theme: Theme;
+  /** Strides found from the fascicle signal, not from foot strikes: numbers are marked ≈. @default false */
+  readonly estimated?: boolean;
 }
 
 /** The region the stride spent most time in, and that fraction; null when no time was covered. */
@@ -22,7 +24,7 @@ export function mainRegion(stride: StrideSummary): { readonly region: RegionKey;
   return best;
 }
 
-export default function StrideTable({ strides, rows, theme }: Props) {
+export default function StrideTable({ strides, rows, theme, estimated = false }: Props) {
   if (rows <= 0) return null;
   const shown = strides.slice(-rows).reverse();
   return (
@@ -35,7 +37,7 @@ export default function StrideTable({ strides, rows, theme }: Props) {
         const main = mainRegion(s);
         return (
           <Text key={s.index} wrap="truncate-end">
-            <Text>{`${String(s.index + 1).padStart(3)} ${`${fixed(s.slMinUm, 2)}–${fixed(s.slMaxUm, 2)}`.padEnd(9)} `}</Text>
+            <Text>{`${`${estimated ? '≈' : ''}${s.index + 1}`.padStart(3)} ${`${fixed(s.slMinUm, 2)}–${fixed(s.slMaxUm, 2)}`.padEnd(9)} `}</Text>
             <Text {...theme.region(main?.region ?? null)}>{(main === null ? '–' : REGION_LABEL[main.region]).padEnd(17)}</Text>
             <Text>{` ${(main === null ? '–' : percent(main.fraction)).padStart(4)}`}</Text>
           </Text>

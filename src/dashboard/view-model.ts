@@ -39,6 +39,8 @@ export interface SampleView {
   readonly velocityMmS: number;
   readonly sarcomereUm: number;
   readonly force: number;
+  /** Force capacity from length × velocity, 0–1.5; NaN when the model gives none. */
+  readonly forceLv: number;
   readonly region: RegionKey | null;
   readonly strideIndex: number;
 }
@@ -70,6 +72,10 @@ export interface MuscleView {
   readonly lowSinceS: number | null;
   /** Wall milliseconds since this muscle's newest sample arrived. */
   readonly lastSampleAgeMs: number;
+  /** The latest sample's probability of each region (calibration uncertainty); null when none is given. */
+  readonly regionProbability: Readonly<Record<RegionKey, number>> | null;
+  /** Strides estimated from the fascicle signal rather than found from foot strikes. */
+  readonly stridesEstimated: boolean;
 }
 
 export interface TrialView {
@@ -203,6 +209,7 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
         velocityMmS: s.velocityMmS,
         sarcomereUm: s.sarcomereUm,
         force: s.force,
+        forceLv: s.forceLv,
         region: s.region,
         strideIndex: s.strideIndex,
       };
@@ -223,6 +230,8 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
       history: historyOf(memory),
       lowSinceS: memory.lowSinceS,
       lastSampleAgeMs: nowMs - memory.lastSampleMs,
+      regionProbability: m.regionProbability == null ? null : { ...m.regionProbability },
+      stridesEstimated: m.segmentation === 'estimated',
     });
   }
   return {

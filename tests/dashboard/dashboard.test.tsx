@@ -143,6 +143,31 @@ describe('Dashboard', () => {
     expect(markerCol()).toBeGreaterThan(before);
   });
 
+  it('gives the region its probability from the trial state, or else from the status stream, and the capacity', async () => {
+    const state = makeTrialState([makeMuscle('calf'), makeMuscle('thigh', { side: 'right' })]);
+    pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.72, forceLv: 0.84 });
+    pushSample(state, 'thigh', { tS: 1, sarcomereUm: 3.2 });
+    const calf = state.muscles.get('calf');
+    if (calf !== undefined) calf.regionProbability = { too_short: 0, steep_ascending: 0, shallow_ascending: 0.2, plateau: 0.74, descending: 0.06, no_overlap: 0 };
+    const status$ = new BehaviorSubject<DashboardStatus>({ regionProbability: { thigh: { descending: 0.9 }, calf: { plateau: 0.1 } } });
+    const { screen, advance } = show(new BehaviorSubject(state), { status$ });
+    await advance(300);
+    await shows(screen, 'PLATEAU 74%');
+    await shows(screen, 'DESCENDING 90%');
+    await shows(screen, 'cap. 0.84');
+  });
+
+  it('marks strides estimated from the fascicle signal', async () => {
+    const state = makeTrialState([makeMuscle('calf')]);
+    completeStride(state, 'calf', { slMinUm: 2.31, slMaxUm: 2.88 });
+    const calf = state.muscles.get('calf');
+    if (calf !== undefined) calf.segmentation = 'estimated';
+    pushSample(state, 'calf', { tS: 3, sarcomereUm: 2.7 });
+    const { screen, advance } = show(new BehaviorSubject(state), {}, 80, 30);
+    await advance(300);
+    await shows(screen, '≈1 2.31–2.88');
+  });
+
   it('lists the last strides, newest first, with their SL range, main region and share', async () => {
     const state = makeTrialState([makeMuscle('calf')]);
     completeStride(state, 'calf', { slMinUm: 2.31, slMaxUm: 2.88, regionFraction: { plateau: 0.7, descending: 0.3 } });

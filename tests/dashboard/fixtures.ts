@@ -55,6 +55,8 @@ export interface SampleOptions {
   readonly pennationDeg?: number;
   readonly velocityMmS?: number;
   readonly strideIndex?: number;
+  /** Force capacity from length × velocity; NaN (the default) as when the model gives none. */
+  readonly forceLv?: number;
 }
 
 /** Gives `muscle` a new latest sample, enriched as the stages would, and counts it; mutates in place. */
@@ -69,6 +71,7 @@ export function pushSample(state: TrialState, muscle: string, options: SampleOpt
   s.sarcomereUm = options.sarcomereUm;
   s.force = geometricForce(m.curve, options.sarcomereUm);
   s.region = regionAt(m.curve, options.sarcomereUm);
+  s.forceLv = options.forceLv ?? Number.NaN;
   s.strideIndex = options.strideIndex ?? (m.current?.index ?? -1);
   m.latest = s;
   if (m.current !== null) {

@@ -37,6 +37,7 @@ options:
   --mapping FILE         device field names and units (lengthwise-mapping JSON; see adapters/mappings/)
   --calibration FILE     calibration JSON; wins over the stream header's calibration
   --summary FILE.json    write the per-stride and per-trial summary at the end
+                         [default: beside the session log, LOG.summary.json]
   --strides FILE.csv     write one row per stride and muscle at the end
   --log FILE             the session log (every message received, valid or not; a replay file)
                          [default: sessions/<UTC date-time>Z.ndjson]
@@ -227,9 +228,16 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   }
   if (session.plain) io.out(plainReport(final.state));
   for (const hint of session.hints) io.err(`note: ${hint}`);
-  const status = await finishTrial(final.state, { summary: values.summary, strides: values.strides }, io);
+  // A live session cannot be run again: its summary is written even when not asked for, beside the log.
+  const summary = values.summary ?? (log.complete ? summaryPathFor(log.path) : undefined);
+  const status = await finishTrial(final.state, { summary, strides: values.strides }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
   return status;
+}
+
+/** The summary written beside a session log when --summary is not given: LOG.summary.json. */
+export function summaryPathFor(logPath: string): string {
+  return `${logPath.replace(/\.ndjson$/, '')}.summary.json`;
 }
 
 type Final = { ok: true; state: TrialState } | { ok: false; message: string };
@@ -264,6 +272,7 @@ class LiveSession {
   link(event: LinkEvent): void {
     if (event.kind === 'connected') this.open++;
     if (event.kind === 'disconnected') this.open = Math.max(0, this.open - 1);
+    if (event.kind === 'listening') this.status({ sourceLabel: event.url });
     const connection = connectionOf(event, this.open);
     if (connection !== undefined && !this.stopped) this.status({ connection });
     const text = linkText(event);

@@ -214,6 +214,8 @@ describe('lengthwise live --listen', () => {
     await sendAll(ws, ['{"t": 0, "muscle": "calf", "fascicle_mm": 0.05}']);
     expect((await c.exited).code).toBe(0);
     expect(c.stderr).toMatch(/0\.05 mm looks like metres.*--mapping FILE/);
+    // With no --summary, the summary goes beside the log.
+    expect((await json(join(dir, 'l.summary.json'))).frames).toMatchObject({ accepted: 1 });
   });
 });
 

@@ -23,6 +23,8 @@ export const DEFAULT_ESTIMATE_WINDOW_S = 10;
  * stretch is not a cycle's minimum.
  */
 const MIN_DEPTH_SHARE = 0.3;
+/** How long past its due time a silent muscle's pending boundary waits for the muscle's own samples (s). */
+const SILENCE_S = 0.25;
 /** How much of each new stride's duration the running period takes in (an exponential mean). */
 const PERIOD_ADAPT = 0.2;
 
@@ -177,6 +179,29 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         for (const s of mine) feed(name, m, s);
       };
 
+      /**
+       * A muscle that falls silent must not hold the others back: once the stream's time (any muscle's
+       * sample) is a window past its first sample, it is decided; once it is half a period and a gap past
+       * a pending candidate, the candidate is settled as if a sample had come.
+       */
+      const settleOthers = (own: MuscleStrides, tS: number): void => {
+        for (const [name, m] of muscles) {
+          if (m === own) continue;
+          if (m.mode === 'undecided' && tS - m.firstS >= windowS) decide(name, m);
+          else if (m.mode === 'estimated') {
+            const d = m.detector;
+            const c = d?.candidate ?? null;
+            if (d === null || c === null || tS - c.tS < 0.5 * d.periodS + SILENCE_S) continue;
+            if (d.peakBeforeMm - c.smoothMm >= d.depthMm) commit(name, m, d);
+            else {
+              d.candidate = null;
+              d.searchFromS = tS;
+              d.runningMaxMm = Number.NEGATIVE_INFINITY;
+            }
+          }
+        }
+      };
+
       const muscleOf = (name: string, tS: number): MuscleStrides => {
         let m = muscles.get(name);
         if (m === undefined) {
@@ -209,6 +234,7 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
           }
         } else if (f.kind === 'sample') {
           const m = muscleOf(f.muscle, f.tS);
+          if (undecided > 0 || estimated > 0) settleOthers(m, f.tS);
           held.push(f);
           if (m.mode === 'undecided') {
             if (Number.isFinite(f.smoothMm)) {

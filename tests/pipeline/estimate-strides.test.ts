@@ -184,3 +184,30 @@ describe('estimateStrides on a generated walking trial with its gait events remo
     }
   });
 });
+
+describe('estimateStrides when a muscle falls silent', () => {
+  it.each([
+    ['inside its window', 2],
+    ['after its window', 6],
+  ])('does not hold the other muscles back when it stops %s: it is decided and its pending boundary settled by the stream’s time', (_, stopS) => {
+    const subject = new Subject<Batch>();
+    let released = 0;
+    subject.pipe(estimateStrides({ windowS: 4 })).subscribe((b) => (released += b.filter((f) => f.kind === 'sample').length));
+    // Both muscles wave, then the calf stops; the thigh goes on to 20 s.
+    const calf = wave(1.0, 0.2, stopS, 100, 'calf');
+    const thigh = wave(1.1, 0.5, 20, 100, 'thigh');
+    let sent = 0;
+    thigh.forEach((s, i) => {
+      const c = calf[i];
+      if (c !== undefined) {
+        subject.next([c]);
+        sent++;
+      }
+      subject.next([s]);
+      sent++;
+      if (s.tS > 10) expect(sent - released).toBeLessThan(150);
+    });
+    subject.complete();
+    expect(released).toBe(sent);
+  });
+});

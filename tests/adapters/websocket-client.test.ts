@@ -227,3 +227,21 @@ describe('websocketClient against a peer that never answers the closing handshak
     await until(() => peer.sockets.size === 0, 3000, 'the socket to be cut');
   });
 });
+
+describe('websocketClient on virtual time', () => {
+  it('waits for the scheduler before each retry, so backoff is tested without waiting', async () => {
+    const { VirtualTimeScheduler, VirtualAction } = await import('rxjs');
+    const { server: s, url } = await wsServer();
+    await killServer(s);
+    const scheduler = new VirtualTimeScheduler(VirtualAction, 10_000);
+    const client = subscribeClient(url, { scheduler });
+    await until(() => client.links.some((e) => e.kind === 'retrying'), 3000, 'the first refusal');
+    await new Promise((r) => setTimeout(r, 200));
+    // Real time passes, virtual time does not: no second attempt yet.
+    expect(client.links.filter((e) => e.kind === 'connecting')).toHaveLength(1);
+    const first = client.links.find((e) => e.kind === 'retrying');
+    scheduler.flush();
+    expect(client.links.filter((e) => e.kind === 'connecting')).toHaveLength(2);
+    expect(scheduler.now()).toBe(first?.kind === 'retrying' ? first.inMs : -1);
+  });
+});

@@ -226,6 +226,11 @@ export function histogramRegionProbability(
   return { expected: expectedRecord, low, high };
 }
 
+/** Uncovered time; differences below a nanosecond are rounding of the sums, not gaps. */
+function gapOf(uncoveredS: number): number {
+  return uncoveredS > 1e-9 ? uncoveredS : 0;
+}
+
 /** Running figures of one segment (a stride or a phase). Reused from one stride to the next. */
 export class SegmentAccumulator {
   startS = Number.NaN;
@@ -315,7 +320,7 @@ export class SegmentAccumulator {
       forceTendonMean: this.forceTendonCoveredS > 0 ? this.forceTendonSeconds / this.forceTendonCoveredS : Number.NaN,
       velocityMinMmS: Number.isFinite(this.velocityMinMmS) ? this.velocityMinMmS : Number.NaN,
       velocityMaxMmS: Number.isFinite(this.velocityMaxMmS) ? this.velocityMaxMmS : Number.NaN,
-      gapS: Math.max(0, endS - this.startS - covered),
+      gapS: gapOf(endS - this.startS - covered),
       sampleCount: this.sampleCount,
     };
   }

@@ -8,6 +8,7 @@ import { REGION_KEYS } from '../../src/model/regions.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import { parseJobs } from '../../src/commands/summarize.ts';
 import { csvRecords, trialFolder, type TrialFolder } from '../study/generated-trials.ts';
+import type { SummaryJson } from '../../src/output/summary-json.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const BIN = join(ROOT, 'bin', 'lengthwise.js');
@@ -117,6 +118,32 @@ describe('lengthwise summarize', () => {
         for (const key of REGION_KEYS) expect(Number(row[`${key}_fraction`])).toBe(m.trial.region_fraction[key]);
       }
     }
+  });
+
+  it('gives the same figures as replay --summary for the same file', async () => {
+    const summaryPath = join(folder.dir, 'replayed-summary.json');
+    const replayed = await lengthwise(['replay', trials[2]!, '--speed', 'max', '--plain', '--summary', summaryPath]);
+    expect(replayed.code).toBe(0);
+    const summary = JSON.parse(await readFile(summaryPath, 'utf8')) as SummaryJson;
+    const ran = await lengthwise(['summarize', trials[2]!, '--jobs', '1']);
+    const rows = csvRecords(ran.stdout);
+    expect(rows.map((r) => r.muscle)).toEqual(Object.keys(summary.muscles));
+    for (const row of rows) {
+      const t = summary.muscles[row.muscle!]!.trial;
+      for (const key of ['stride_count', 'sl_min_um', 'sl_max_um', 'sl_mean_um', 'sl_p5_um', 'sl_p95_um', 'force_mean'] as const) {
+        expect(row[key] === '' ? null : Number(row[key])).toBe(t[key]);
+      }
+      for (const key of REGION_KEYS) expect(Number(row[`${key}_fraction`])).toBe(t.region_fraction[key]);
+    }
+  });
+
+  it('applies one calibration file to every trial', async () => {
+    const cal = join(ROOT, 'replays', 'demo-calibration.json');
+    const ran = await lengthwise(['summarize', trials[2]!, trials[0]!, '--calibration', cal, '--jobs', '2']);
+    expect(ran.code).toBe(0);
+    const rows = csvRecords(ran.stdout);
+    expect(rows).toHaveLength(4);
+    for (const row of rows) expect(row).toMatchObject({ calibration_source: 'file', uncalibrated: 'false' });
   });
 
   it('says when the table cannot be written (exit 1)', async () => {

@@ -13,6 +13,7 @@ import { runTrial } from '../../src/run-trial.ts';
 import { summaryJson } from '../../src/output/summary-json.ts';
 import { createTrial } from '../../src/sim/gait-generator.ts';
 import { scenarioSpec } from '../../src/sim/scenarios.ts';
+import { demoWalkSpec } from '../../src/sim/demo-trials.ts';
 import { isWireEvent } from '../../src/sim/wire.ts';
 import { writeNdjson } from '../../src/sim/writers.ts';
 
@@ -182,6 +183,37 @@ describe('estimateStrides on a generated walking trial with its gait events remo
       expect(Math.abs(meanFound - meanTrue) / meanTrue).toBeLessThan(0.02);
       expect(m?.cycle?.percent).toHaveLength(101);
     }
+  });
+});
+
+describe('estimateStrides on the demo walking trial with its gait events removed', () => {
+  let dir = '';
+  beforeAll(async () => {
+    dir = await mkdtemp(join(tmpdir(), 'lengthwise-estimate-demo-'));
+  });
+  afterAll(async () => {
+    await rm(dir, { recursive: true, force: true });
+  });
+
+  it('finds the true number of strides within one, of the true period, and flags the stride with the dropout', async () => {
+    const trial = createTrial(demoWalkSpec());
+    const path = join(dir, 'demo-walk-no-events.ndjson');
+    const items = function* () {
+      for (const item of trial.records()) if (typeof item === 'string' || !isWireEvent(item)) yield item;
+    };
+    expect((await writeNdjson(items(), path)).ok).toBe(true);
+    const summary = summaryJson(await runTrial(fileSource(path), { source: path }).done);
+    for (const muscle of ['calf', 'thigh']) {
+      const m = summary.muscles[muscle];
+      const truth = trial.truth.strides(muscle);
+      const meanTrueS = truth.reduce((a, s) => a + s.endS - s.startS, 0) / truth.length;
+      expect(m?.segmentation).toBe('estimated');
+      expect(Math.abs((m?.strides.length ?? 0) - truth.length)).toBeLessThanOrEqual(1);
+      for (const s of m?.strides ?? []) if (!s.flagged) expect(Math.abs(s.duration_s - meanTrueS) / meanTrueS).toBeLessThan(0.15);
+    }
+    // The calf's tracking is lost from 22.4 to 22.9 s (the demo's dropout): the stride holding it is flagged.
+    const calf = summary.muscles['calf']?.strides ?? [];
+    expect(calf.filter((s) => s.flagged).map((s) => s.start_s < 22.9 && s.end_s > 22.4)).toEqual([true]);
   });
 });
 

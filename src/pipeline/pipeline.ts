@@ -24,6 +24,10 @@ export interface PipelineOptions {
   readonly gapS?: number;
   readonly baselineS?: number;
   readonly smoothing?: SmoothKalmanOptions;
+  /** Seconds without a foot strike of a muscle's side before its strides are estimated from its signal. @default 10 */
+  readonly estimateWindowS?: number;
+  /** Share of a stride that may be gap time before it is flagged and left out of the trial figures. @default 0.1 */
+  readonly maxGapFraction?: number;
 }
 
 /** Validated records in, the trial's running state out (the same object, once per batch). */
@@ -53,7 +57,11 @@ export function pipeline(options: PipelineOptions): OperatorFunction<Batch, Tria
       .pipe(
         // Strides and the summary.
         segmentStrides(),
-        estimateStrides(),
-        accumulateSummary({ source: options.source, ...gap }),
+        estimateStrides(options.estimateWindowS !== undefined ? { windowS: options.estimateWindowS } : {}),
+        accumulateSummary({
+          source: options.source,
+          ...gap,
+          ...(options.maxGapFraction !== undefined ? { maxGapFraction: options.maxGapFraction } : {}),
+        }),
       );
 }

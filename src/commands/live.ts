@@ -5,7 +5,7 @@
  * or --duration).
  */
 import { parseArgs } from 'node:util';
-import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type Subscription } from 'rxjs';
+import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from './io.ts';
 import type { Batch, Frame } from '../records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
@@ -117,7 +117,12 @@ function linkText(event: LinkEvent): string | null {
   }
 }
 
-export async function run(argv: string[], io: CommandIo): Promise<number> {
+export interface LiveRunOptions {
+  /** Clock of --duration and the plain status lines. @default asyncScheduler */
+  readonly scheduler?: SchedulerLike;
+}
+
+export async function run(argv: string[], io: CommandIo, options: LiveRunOptions = {}): Promise<number> {
   let parsed;
   try {
     parsed = parseArgs({
@@ -182,7 +187,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     mapping = result.mapping;
   }
 
-  const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true);
+  const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
   const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());
   const log = openSessionLog({ path: logPath, onProblem: (message) => session.logProblem(message) });
   if (!log.complete && log.problem !== null) session.logProblem(log.problem);
@@ -258,6 +263,7 @@ class LiveSession {
   constructor(
     private readonly io: CommandIo,
     readonly plain: boolean,
+    private readonly scheduler: SchedulerLike,
   ) {}
 
   status(next: DashboardStatus): void {
@@ -331,7 +337,7 @@ class LiveSession {
     const onSignal = (): void => stop();
     process.on('SIGINT', onSignal);
     process.on('SIGTERM', onSignal);
-    if (durationS !== null) subscriptions.push(timer(durationS * 1000, asyncScheduler).subscribe(stop));
+    if (durationS !== null) subscriptions.push(timer(durationS * 1000, this.scheduler).subscribe(stop));
     subscriptions.push(
       watchLag({
         onLag: (lagMs) =>
@@ -346,7 +352,7 @@ class LiveSession {
     if (this.plain) {
       const { statusLine } = await import('../dashboard/status-line.ts');
       subscriptions.push(
-        timer(3000, 3000).subscribe(() => {
+        timer(3000, 3000, this.scheduler).subscribe(() => {
           if (this.latest !== null) this.io.err(statusLine(this.latest, this.status$.getValue()));
         }),
       );

@@ -4,7 +4,9 @@ import { appendFile, mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { parseConnect, parseDuration, parseListen } from '../../src/commands/live.ts';
+import { VirtualAction, VirtualTimeScheduler } from 'rxjs';
+import { parseConnect, parseDuration, parseListen, run } from '../../src/commands/live.ts';
+import type { CommandIo } from '../../src/commands/io.ts';
 import { startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { restoreGaps } from '../../src/session-log/restore-gaps.ts';
@@ -290,5 +292,41 @@ describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : 
     expect(live.ended).toBe(true);
     const replay = await replaySummary(log, dir, 'replay.json');
     expect(withoutSource(replay)).toEqual(withoutSource(live));
+  });
+});
+
+describe('lengthwise live in-process, on virtual time', () => {
+  it('ends after --duration of the given clock and writes the summary', async () => {
+    const dir = await tmp();
+    const scheduler = new VirtualTimeScheduler(VirtualAction, 60_000);
+    const out: string[] = [];
+    const err: string[] = [];
+    const io: CommandIo = {
+      out: (t) => out.push(t),
+      err: (t) => err.push(t),
+      stdout: process.stdout,
+      stderr: process.stderr,
+      stdin: process.stdin,
+      env: { NO_COLOR: '1' },
+    };
+    const ran = run(['--listen', '127.0.0.1:0', '--plain', '--duration', '30', '--log', join(dir, 'l.ndjson'), '--summary', join(dir, 's.json')], io, { scheduler });
+    await until(() => err.some((l) => l.startsWith('listening on')), 5000, 'listening');
+    const port = Number(/:(\d+)$/.exec(err.find((l) => l.startsWith('listening on')) ?? '')?.[1]);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, sampleTexts(25));
+    await until(() => err.length > 0 && ws.readyState === ws.OPEN, 2000, 'the device');
+    await new Promise((r) => setTimeout(r, 200));
+    // Thirty virtual seconds pass at once: status lines every 3 s, then the end.
+    scheduler.flush();
+    expect(await ran).toBe(0);
+    // A status line every 3 virtual seconds while the session ran; none once it has ended.
+    const statusLines = (): number => err.filter((l) => l.startsWith(`ws://127.0.0.1:${port} | `)).length;
+    expect(statusLines()).toBeGreaterThanOrEqual(9);
+    const n = statusLines();
+    scheduler.flush();
+    expect(statusLines()).toBe(n);
+    expect((await json(join(dir, 's.json'))).frames).toMatchObject({ accepted: 25 });
+    expect(out.join('\n')).toContain('25 samples accepted');
   });
 });

@@ -10,7 +10,7 @@ import AlertList from './alert-list.tsx';
 import CalibratePrompt from './calibrate-prompt.tsx';
 import Footer from './footer.tsx';
 import HelpOverlay from './help-overlay.tsx';
-import { handleKey, INITIAL_UI, type UiState } from './key-handler.ts';
+import { handleKey, INITIAL_UI, keyOfChar, type UiState } from './key-handler.ts';
 import { DEFAULT_CALIBRATION_UM, KEY_HELP, type KeyHelp } from './keys.ts';
 import { chooseLayout } from './layout.ts';
 import MusclePanel from './muscle-panel.tsx';
@@ -45,6 +45,7 @@ export interface Props {
 }
 
 const FLASH_MS = 3000;
+
 const MAX_ALERT_ROWS = 3;
 
 export default function Dashboard(props: Props) {
@@ -120,8 +121,8 @@ export default function Dashboard(props: Props) {
   useInput(
     useCallback((input: string, key: Key) => {
       // Keys typed faster than a frame (or sent by a script) arrive as one string: take them one by one.
-      if (input.length > 1 && !key.ctrl && !key.meta && /^[\x20-\x7e]+$/.test(input)) {
-        for (const char of input) onKeyRef.current(char, { ...key, shift: false });
+      if (input.length > 1 && !key.meta && !input.includes('\u001B')) {
+        for (const char of input) onKeyRef.current(...keyOfChar(char));
       } else {
         onKeyRef.current(input, key);
       }

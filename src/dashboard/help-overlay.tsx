@@ -13,30 +13,42 @@ export interface Props {
 
 export default function HelpOverlay({ keys, theme, columns }: Props) {
   return (
-    <Box flexDirection="column" borderStyle="round" paddingX={1} width={Math.min(columns, 100)}>
-      <Text {...theme.role('title')}>keys (? or Esc closes this help)</Text>
-      {keys.map((k) => (
-        <Text key={k.keys} wrap="truncate-end">
-          <Text {...theme.role('key')}>{k.keys.padEnd(8)}</Text>
-          <Text>{k.does}</Text>
-        </Text>
-      ))}
-      <Text> </Text>
+    <Box flexDirection="column" paddingX={1} width={Math.min(columns, 100)}>
+      <Text {...theme.role('title')} wrap="truncate-end">
+        keys (? or Esc closes this help)
+      </Text>
+      {keys
+        .filter((k) => k.keys !== '?')
+        .map((k) => (
+          <Text key={k.keys} wrap="truncate-end">
+            <Text {...theme.role('key')}>{k.keys.padEnd(8)}</Text>
+            <Text>{k.does}</Text>
+          </Text>
+        ))}
       <Text {...theme.role('title')}>reading a panel</Text>
-      <Text wrap="truncate-end">{`${MARKER_STEM} ${MARKER_IN_BAND}  the estimated sarcomere length now (${MARKER_LEFT} ${MARKER_RIGHT} when off the axis)`}</Text>
-      <Text wrap="truncate-end">▀  this stride's range of sarcomere length   ▄  the previous stride's   █  both</Text>
+      <Text wrap="truncate-end">{`${MARKER_STEM} ${MARKER_IN_BAND}  sarcomere length now (${MARKER_LEFT} ${MARKER_RIGHT}: off the axis)`}</Text>
+      <Text wrap="truncate-end">▀  this stride's range   ▄  the previous stride's   █  both</Text>
       <Text wrap="truncate-end">
-        {'regions, short to long: '}
-        {REGION_KEYS.map((r, i) => (
+        {'regions: '}
+        {REGION_KEYS.slice(0, 3).map((r, i) => (
           <Text key={r}>
             {i === 0 ? '' : ' · '}
             <Text {...theme.region(r)}>{REGION_LABEL[r]}</Text>
           </Text>
         ))}
       </Text>
-      <Text wrap="truncate-end">force: relative active force from length alone (0–1); capacity: with the force–velocity relation too</Text>
-      <Text wrap="truncate-end">velocity: + lengthening, − shortening; a % beside the region: its probability under the calibration</Text>
-      <Text wrap="truncate-end">≈ before a stride number: strides estimated from the fascicle signal (no foot strikes for that side)</Text>
+      <Text wrap="truncate-end">
+        {'         '}
+        {REGION_KEYS.slice(3).map((r, i) => (
+          <Text key={r}>
+            {i === 0 ? '' : ' · '}
+            <Text {...theme.region(r)}>{REGION_LABEL[r]}</Text>
+          </Text>
+        ))}
+      </Text>
+      <Text wrap="truncate-end">force: from length alone (0–1)   capacity: with force–velocity too</Text>
+      <Text wrap="truncate-end">velocity: + lengthening, − shortening   %: the region's probability</Text>
+      <Text wrap="truncate-end">≈ before a stride: estimated from the fascicle signal, no foot strikes</Text>
     </Box>
   );
 }

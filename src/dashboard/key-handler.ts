@@ -5,7 +5,6 @@
  */
 import type { Key } from 'ink';
 import { PLAUSIBLE_SARCOMERE_UM } from './alerts.ts';
-import { parseCalibrationUm } from './calibrate-prompt.tsx';
 import { clockTime, elapsed, fixed } from './format.ts';
 import { DEFAULT_CALIBRATION_UM } from './keys.ts';
 
@@ -96,4 +95,61 @@ export function handleKey(ui: UiState, input: string, key: KeyInfo, ctx: KeyCont
   if (ctx.canChangeSpeed && (input === '+' || input === '=')) return { ui, effects: [{ kind: 'speed', direction: 1 }] };
   if (ctx.canChangeSpeed && (input === '-' || input === '_')) return { ui, effects: [{ kind: 'speed', direction: -1 }] };
   return { ui, effects: [] };
+}
+
+export const NO_KEY: Key = {
+  upArrow: false,
+  downArrow: false,
+  leftArrow: false,
+  rightArrow: false,
+  pageDown: false,
+  pageUp: false,
+  home: false,
+  end: false,
+  return: false,
+  escape: false,
+  ctrl: false,
+  shift: false,
+  tab: false,
+  backspace: false,
+  delete: false,
+  meta: false,
+  super: false,
+  hyper: false,
+  capsLock: false,
+  numLock: false,
+};
+
+/** One character of a run of typed keys, as Ink would have given it alone. */
+export function keyOfChar(char: string): [string, Key] {
+  switch (char) {
+    case '\r':
+    case '\n':
+      return ['', { ...NO_KEY, return: true }];
+    case '\t':
+      return ['', { ...NO_KEY, tab: true }];
+    case '\u007F':
+    case '\b':
+      return ['', { ...NO_KEY, backspace: true }];
+    default:
+      return [char, NO_KEY];
+  }
+}
+
+/** Reads the typed length: a number of µm in the plausible range, or a message saying what is accepted. */
+export function parseCalibrationUm(
+  typed: string,
+  defaultUm: number,
+  range: { readonly min: number; readonly max: number },
+): { readonly ok: true; readonly um: number } | { readonly ok: false; readonly problem: string } {
+  const text = typed.trim();
+  if (text === '') return { ok: true, um: defaultUm };
+  const um = Number(text);
+  if (!Number.isFinite(um) || um < range.min || um > range.max) {
+    return {
+      ok: false,
+      problem: `"${text}" is not a usable sarcomere length: type a number of µm from ${range.min} to ${range.max} (e.g. 2.7), or Esc to cancel`,
+    };
+  }
+  return { ok: true, um };
 }

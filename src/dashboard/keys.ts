@@ -11,12 +11,12 @@ export interface KeyHelp {
 
 export const KEY_HELP: readonly KeyHelp[] = [
   { keys: 'q', short: 'quit', does: 'quit: stop the trial and write its summary' },
-  { keys: 'space', short: 'freeze', does: 'freeze the display to read it (ingestion goes on); space again resumes' },
+  { keys: 'space', short: 'freeze', does: 'freeze the display (ingestion goes on); space again resumes' },
   { keys: 'm', short: 'marker', does: 'drop a timestamped marker into the trial', needs: 'onMarker' },
   {
     keys: 'c',
     short: 'calibrate',
-    does: 'calibrate the focused muscle from its last 3 s at the current posture (asks the sarcomere length)',
+    does: 'calibrate the focused muscle from its last 3 s at this posture',
     needs: 'onCalibrate',
   },
   { keys: 'tab ←→', short: 'muscle', does: 'focus the next / previous muscle', needs: 'manyMuscles' },

@@ -27,16 +27,17 @@ export function innerCols(panelCols: number): number {
   return Math.max(10, panelCols - 4);
 }
 
-function calibrationText(source: string | null): string {
+/** How the panel names the muscle's calibration, in full and short, for narrow panels. */
+function calibrationText(source: string | null): { readonly full: string; readonly short: string } {
   switch (source) {
     case null:
-      return 'calibration pending';
+      return { full: 'calibration pending', short: 'pending' };
     case 'baseline':
-      return 'uncalibrated: baseline';
+      return { full: 'uncalibrated', short: 'uncal.' };
     case 'runtime':
-      return 'calibrated here';
+      return { full: 'calibrated here', short: 'cal. here' };
     default:
-      return `calibrated: ${source}`;
+      return { full: `calibrated: ${source}`, short: `cal. ${source}` };
   }
 }
 
@@ -57,8 +58,8 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
   const titleText = `${focused ? '▸ ' : ''}${muscle.name}`;
   const sideText = ` ${side} · `;
   const room = Math.max(0, width - regionText.length - 1 - titleText.length - sideText.length);
-  const calFull = calibrationText(muscle.calibrationSource);
-  const calText = calFull.length <= room ? calFull : calFull.slice(0, Math.max(0, room - 1)) + (room > 0 ? '…' : '');
+  const cal = calibrationText(muscle.calibrationSource);
+  const calText = cal.full.length <= room ? cal.full : cal.short.length <= room ? cal.short : '';
   const gap = Math.max(1, width - titleText.length - sideText.length - calText.length - regionText.length);
   return (
     <Box

@@ -208,7 +208,7 @@ describe('Dashboard', () => {
     const text = plain(screen.lastFrame());
     expect(text).toContain(' UNCALIBRATED ');
     expect(text).toContain("! UNCALIBRATED — lengths assume each muscle's first 3 s");
-    expect(text).toContain('uncalibrated: baseline');
+    expect(text).toContain('calf left · uncalibrated');
   });
 
   it('shows a disconnection from the status stream, and the replay progress and speed', async () => {
@@ -272,7 +272,7 @@ describe('Dashboard', () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]) });
     await advance(100);
     await screen.press('c');
-    await shows(screen, 'calibrate calf from its last 3 s');
+    await shows(screen, 'calibrate calf from the last 3 s');
     await screen.press(KEY.enter);
     await waitFor(() => calls.length === 1, 'the first calibration');
     expect(calls).toEqual([['calf', 2.7]]);
@@ -329,6 +329,15 @@ describe('Dashboard', () => {
     await waitFor(() => markers.length === 1, 'the marker');
     await shows(screen, 'FROZEN');
     await shows(screen, 'reading a panel');
+  });
+
+  it('takes a calibration typed in one go, Enter included', async () => {
+    const calls: [string, number][] = [];
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]) });
+    await advance(100);
+    await screen.press('c2.6\r');
+    await waitFor(() => calls.length === 1, 'the calibration');
+    expect(calls).toEqual([['calf', 2.6]]);
   });
 
   it('opens and closes the help on ?', async () => {

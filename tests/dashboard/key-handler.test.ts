@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { handleKey, INITIAL_UI, type KeyContext, type KeyInfo, type UiState } from '../../src/dashboard/key-handler.ts';
+import { handleKey, INITIAL_UI, keyOfChar, type KeyContext, type KeyInfo, type UiState } from '../../src/dashboard/key-handler.ts';
 
 const NO_KEY: KeyInfo = {
   ctrl: false,
@@ -121,5 +121,14 @@ describe('handleKey', () => {
       { kind: 'speed', direction: -1 },
       { kind: 'speed', direction: -1 },
     ]);
+  });
+});
+
+describe('keyOfChar', () => {
+  it('turns the control characters of a typed run into their keys and leaves others as input', () => {
+    expect(keyOfChar('\r')[1].return).toBe(true);
+    expect(keyOfChar('\t')[1].tab).toBe(true);
+    expect(keyOfChar('\u007F')[1].backspace).toBe(true);
+    expect(keyOfChar('7')).toEqual(['7', expect.objectContaining({ return: false, tab: false }) as unknown]);
   });
 });

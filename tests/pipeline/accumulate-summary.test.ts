@@ -264,3 +264,14 @@ describe('accumulateSummary: region probabilities under calibration uncertainty'
     expect(m?.strides[0]?.regionProbability).toBeNull();
   });
 });
+
+describe('accumulateSummary: estimated strides', () => {
+  it('takes no side from estimated boundaries and gives their strides no phases, whatever toe-offs come', async () => {
+    const estimated = (index: number, tS: number): Frame => ({ kind: 'stride', muscle: 'calf', side: 'left', index, tS, segmentation: 'estimated' });
+    const frames: Frame[] = [estimated(0, 0), enriched(0, 2.7, 'plateau', 0), toeOff(0.5, 'left'), enriched(0.5, 2.8, 'plateau', 0), estimated(1, 1)];
+    const m = (await final([frames])).muscles.get('calf');
+    expect(m?.side).toBeNull();
+    expect(m?.segmentation).toBe('estimated');
+    expect(m?.strides[0]).toMatchObject({ segmentation: 'estimated', stance: null, swing: null });
+  });
+});

@@ -394,7 +394,7 @@ export function emptyCycleCurve(): CycleCurve {
   return { strideCount: 0, slMeanUm: new Float64Array(CYCLE_POINTS), slM2Um2: new Float64Array(CYCLE_POINTS) };
 }
 
-/** Folds one resampled stride into the running mean and sum of squares (Welford 1962, Technometrics 4:419–420). */
+/** Folds one resampled stride into the running mean and sum of squares (Welford 1962, Technometrics 4:419–420 — from memory). */
 export function foldCycle(curve: CycleCurve, points: Float64Array): void {
   curve.strideCount++;
   const n = curve.strideCount;

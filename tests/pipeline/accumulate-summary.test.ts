@@ -248,7 +248,7 @@ describe('accumulateSummary: region probabilities under calibration uncertainty'
     const m = (await final([frames])).muscles.get('calf');
     expect(m?.relativeSd).toBeCloseTo(0.05, 12);
     // 2.95 µm with a 5% count SD: P(true SL ≥ 2.81 µm) = Φ((2.95/2.81 − 1)/0.05) = Φ(0.996) ≈ 0.840
-    // (Abramowitz & Stegun 1964, Table 26.1: Φ(1.00) = 0.8413).
+    // (Abramowitz & Stegun 1964, Handbook of Mathematical Functions, Table 26.1: Φ(1.00) = 0.8413 — from memory).
     const descending = (m?.regionProbability?.descending ?? 0) + (m?.regionProbability?.no_overlap ?? 0);
     expect(descending).toBeCloseTo(0.84, 2);
     const p = m?.strides[0]?.regionProbability;

@@ -70,7 +70,7 @@ describe('histogramRegionProbability', () => {
     expect(histogramRegionProbability(human, h.weights, 0, h.lo, h.hi)).toBeNull();
   });
 
-  it('gives Φ(1) for the region a length lies 1 SD inside (Abramowitz & Stegun 1964, Table 26.1: Φ(1) = 0.8413447)', () => {
+  it('gives Φ(1) for the region a length lies 1 SD inside (Abramowitz & Stegun 1964, Handbook of Mathematical Functions, Table 26.1: Φ(1) = 0.8413447 — from memory)', () => {
     // Estimate 5% above the human plateau end (2.81 µm), count SD 5%: P(true SL ≥ 2.81) = Φ((SL/2.81 − 1)/0.05) = Φ(1).
     const sl = human.plateauEndUm * 1.05;
     const h = new LengthHistogram();

@@ -92,7 +92,8 @@ function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefi
     case 'connected':
       return { state: 'connected', detail: open > 1 ? `${open} devices` : event.peer };
     case 'disconnected':
-      return open > 0 ? { state: 'connected', detail: `${open} device${open > 1 ? 's' : ''}` } : undefined;
+      // A client says 'retrying' at once after this; a server waits for its devices again.
+      return open > 0 ? { state: 'connected', detail: `${open} device${open > 1 ? 's' : ''}` } : { state: 'listening', detail: `no device now (${event.detail})` };
     case 'listening':
       return { state: 'listening', detail: event.url };
     case 'refused':

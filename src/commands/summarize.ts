@@ -129,19 +129,25 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     jobs,
     ...(calibration !== undefined ? { calibration } : {}),
     onEvent: reporter.onEvent,
+    drawReport: values.report !== undefined,
   });
   reporter.end();
   const elapsedS = (performance.now() - started) / 1000;
 
   const summaries: SummaryJson[] = [];
+  // For the report: each trial's place among the files given, and the sections its worker drew.
+  const keys: number[] = [];
+  const sections: (string | undefined)[] = [];
   const failed: string[] = [];
   let samples = 0;
-  for (const o of outcomes) {
+  outcomes.forEach((o, i) => {
     if (o.ok) {
       summaries.push(o.summary);
+      keys.push(i + 1);
+      sections.push(o.reportSections);
       samples += o.samples;
     } else failed.push(o.path);
-  }
+  });
   let status = failed.length > 0 ? 1 : 0;
   io.err(
     `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${Math.min(jobs, outcomes.length)} workers)` +
@@ -160,7 +166,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   }
   if (values.report !== undefined) {
     const { writeReport } = await import('../report/write-report.ts');
-    const result = await writeReport(values.report, summaries, { title: `Study of ${summaries.length} trials` });
+    const result = await writeReport(values.report, summaries, { title: `Study of ${summaries.length} trials`, keys, sections });
     if (result.ok) io.err(`report written to ${result.path}`);
     else {
       io.err(`lengthwise summarize: ${result.message}`);

@@ -18,6 +18,16 @@ export interface ReportOptions {
   readonly title?: string;
   /** Receives the plotting libraries' warnings, if any (a spec they had to adjust); they are never printed. */
   readonly warnings?: string[];
+  /**
+   * Each summary's key in the page's anchors (`trial-KEY-MUSCLE`), e.g. its place among the files given.
+   * @default 1, 2, 3, … in the summaries' order
+   */
+  readonly keys?: readonly number[];
+  /**
+   * Each summary's sections, already drawn by trialSectionsHtml with the same key (worker threads draw
+   * them in parallel); drawn here when not given.
+   */
+  readonly sections?: readonly (string | undefined)[];
 }
 
 /** Bin width of the time-at-length bars (µm). */
@@ -62,16 +72,17 @@ function flagsOf(s: SummaryJson, m: MuscleJson): string[] {
   return flags;
 }
 
-function entries(summaries: readonly SummaryJson[]): Entry[] {
-  const out: Entry[] = [];
-  summaries.forEach((summary, t) => {
-    for (const [muscle, m] of Object.entries(summary.muscles)) {
-      const { curve, note } = curveOf(m);
-      const label = `${summary.subject ?? '—'} · ${trialName(summary)} · ${muscle}${m.side !== null ? ` (${m.side})` : ''}`;
-      out.push({ id: `trial-${t + 1}-${muscle.replace(/[^A-Za-z0-9_-]/g, '_')}`, summary, muscle, m, label, curve, curveNote: note, flags: flagsOf(summary, m) });
-    }
+/** The anchor of a trial × muscle section. */
+export function entryId(key: number, muscle: string): string {
+  return `trial-${key}-${muscle.replace(/[^A-Za-z0-9_-]/g, '_')}`;
+}
+
+function trialEntries(summary: SummaryJson, key: number): Entry[] {
+  return Object.entries(summary.muscles).map(([muscle, m]) => {
+    const { curve, note } = curveOf(m);
+    const label = `${summary.subject ?? '—'} · ${trialName(summary)} · ${muscle}${m.side !== null ? ` (${m.side})` : ''}`;
+    return { id: entryId(key, muscle), summary, muscle, m, label, curve, curveNote: note, flags: flagsOf(summary, m) };
   });
-  return out;
 }
 
 function mainRegion(fraction: Readonly<Record<RegionKey, number>>): RegionKey {
@@ -235,13 +246,24 @@ a { color: #2b3f6b; }
 @media print { body { background: #fff; padding: 0; } section { break-inside: avoid; border: none; } }
 `;
 
+/** The sections of one trial's muscles, each with its three plots; `key` as in ReportOptions.keys. */
+export async function trialSectionsHtml(summary: SummaryJson, key: number, warnings: string[] = []): Promise<string> {
+  const sections: string[] = [];
+  for (const e of trialEntries(summary, key)) sections.push(await entrySection(e, warnings));
+  return sections.join('\n');
+}
+
 /** The whole report as an HTML document (deterministic: the same summaries give the same bytes). */
 export async function reportHtml(summaries: readonly SummaryJson[], options: ReportOptions = {}): Promise<string> {
   const title = options.title ?? 'lengthwise report';
-  const list = entries(summaries);
-  const sections: string[] = [];
   const warnings = options.warnings ?? [];
-  for (const e of list) sections.push(await entrySection(e, warnings));
+  const keys = summaries.map((_, i) => options.keys?.[i] ?? i + 1);
+  const list = summaries.flatMap((s, i) => trialEntries(s, keys[i] as number));
+  const sections: string[] = [];
+  for (let i = 0; i < summaries.length; i++) {
+    const ready = options.sections?.[i];
+    sections.push(ready ?? (await trialSectionsHtml(summaries[i] as SummaryJson, keys[i] as number, warnings)));
+  }
   const species = new Set(list.map((e) => e.m.species));
   const shared = list[0] !== undefined && species.size === 1 ? list[0].curve : null;
   const rows = overviewRows(list);

@@ -6,6 +6,8 @@ export interface WorkerSetup {
   readonly calibration?: CalibrationSpec;
   /** Samples between two progress messages of one trial. */
   readonly progressEverySamples: number;
+  /** Draw each trial's report sections too, keyed by the job's place in the study (id + 1). */
+  readonly drawReport: boolean;
 }
 
 export interface JobMessage {

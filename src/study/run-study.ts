@@ -35,6 +35,8 @@ export interface StudyOptions {
   readonly signal?: AbortSignal;
   /** @default 20000 */
   readonly progressEverySamples?: number;
+  /** Have the workers draw each trial's report sections as well (outcome.reportSections). @default false */
+  readonly drawReport?: boolean;
 }
 
 const WORKER_ENTRY = new URL('./worker-entry.js', import.meta.url);
@@ -84,6 +86,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
   const setup: WorkerSetup = {
     ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
     progressEverySamples: options.progressEverySamples ?? 20_000,
+    drawReport: options.drawReport ?? false,
   };
   const requested = options.jobs ?? defaultJobs();
   const jobs = Math.max(1, Math.min(Number.isFinite(requested) ? Math.floor(requested) : 1, total));

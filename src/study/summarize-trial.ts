@@ -18,6 +18,10 @@ export type TrialOutcome =
       /** Samples accepted by the pipeline. */
       readonly samples: number;
       readonly bytes: number;
+      /** The trial's report sections, when the study asked its workers to draw them (see trialSectionsHtml). */
+      readonly reportSections?: string;
+      /** The plotting libraries' warnings while drawing them. */
+      readonly reportWarnings?: readonly string[];
     }
   | { readonly ok: false; readonly path: string; readonly message: string; readonly bytes: number };
 

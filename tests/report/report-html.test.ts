@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
-import { escapeHtml, reportHtml } from '../../src/report/report-html.ts';
+import { escapeHtml, reportHtml, trialSectionsHtml } from '../../src/report/report-html.ts';
 import { writeReport } from '../../src/report/write-report.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import { trialFolder, type TrialFolder } from '../study/generated-trials.ts';
@@ -123,6 +123,17 @@ describe('reportHtml', () => {
 
   it('gives the same bytes for the same summaries', async () => {
     expect(await reportHtml(summaries, { title: 'Invented study <A&B>' })).toBe(html);
+  });
+
+  it('assembles the same page from sections drawn elsewhere, under the keys given', async () => {
+    const keys = [2, 5, 9];
+    const sections = await Promise.all(summaries.map((s, i) => trialSectionsHtml(s, keys[i]!)));
+    const assembled = await reportHtml(summaries, { title: 'keyed', keys, sections });
+    expect(assembled).toBe(await reportHtml(summaries, { title: 'keyed', keys }));
+    expect(assembled).toContain('href="#trial-9-calf"');
+    expect(assembled).toContain('id="trial-9-calf"');
+    // A missing section is drawn here.
+    expect(await reportHtml(summaries, { title: 'keyed', keys, sections: [sections[0], undefined, sections[2]] })).toBe(assembled);
   });
 
   it('makes a valid page with nothing to plot for no trials', async () => {

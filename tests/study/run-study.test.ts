@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runStudy, type StudyEvent } from '../../src/study/run-study.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
+import { trialSectionsHtml } from '../../src/report/report-html.ts';
 import { trialFolder, type TrialFolder } from './generated-trials.ts';
 
 let folder: TrialFolder;
@@ -36,6 +37,18 @@ describe('runStudy', () => {
     expect(outcomes.map((o) => o.path)).toEqual([files[3], ...files.slice(0, 3)]);
     for (const o of outcomes) expect(o).toEqual(await summarizeTrial(o.path));
     expect([...order].sort()).toEqual([0, 1, 2, 3]);
+  });
+
+  it('draws each trial\'s report sections on its worker when asked, the same as drawn in this thread', async () => {
+    const outcomes = await runStudy([files[0]!, files[1]!], { jobs: 2, drawReport: true });
+    for (const [i, o] of outcomes.entries()) {
+      if (!o.ok) throw new Error(o.message);
+      expect(o.reportWarnings).toEqual([]);
+      expect(o.reportSections).toBe(await trialSectionsHtml(o.summary, i + 1));
+      expect(o.reportSections).toContain(`id="trial-${i + 1}-calf"`);
+    }
+    const plain = await runStudy([files[0]!], { jobs: 1 });
+    expect(plain[0]).not.toHaveProperty('reportSections');
   });
 
   it('names a missing and a corrupt file with their reasons and summarises the rest', async () => {

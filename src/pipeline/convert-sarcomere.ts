@@ -120,13 +120,13 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         if (f.kind === 'sample') {
           if (!ready.has(f.muscle) && !collecting.has(f.muscle)) start(f, out);
           const window = collecting.get(f.muscle);
-          if (window !== undefined) {
-            if (f.quality >= skipBelow && Number.isFinite(f.fascicleMm)) window.fascicleMm.push(f.fascicleMm);
+          if (window !== undefined && f.quality >= skipBelow && Number.isFinite(f.fascicleMm)) window.fascicleMm.push(f.fascicleMm);
+          // A window closes by the stream's time, not only its own muscle's: a muscle that falls silent
+          // inside its window must not hold every other muscle back.
+          for (const [muscle, w] of collecting) if (f.tS - w.startS >= baselineS) finishBaseline(muscle, w);
+          if (window !== undefined || collecting.size > 0 || decided.length > 0) {
             held.push(f);
-            if (f.tS - window.startS >= baselineS) {
-              finishBaseline(f.muscle, window);
-              if (collecting.size === 0) flushInto(out);
-            }
+            if (collecting.size === 0) flushInto(out);
             return;
           }
         }

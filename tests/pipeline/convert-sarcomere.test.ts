@@ -109,3 +109,19 @@ describe('convertSarcomere', () => {
     expect((out[1] as Sample).sarcomereUm).toBeNaN();
   });
 });
+
+describe('convertSarcomere with a muscle that falls silent', () => {
+  it('closes its baseline window by the stream time, so other muscles are not held back', async () => {
+    const input = new Subject<Batch>();
+    const seen: Frame[] = [];
+    input.pipe(convertSarcomere({ calibration: calfCount, baselineS: 1 })).subscribe((b) => seen.push(...b));
+    input.next([smoothed(0, 'thigh', 80), smoothed(0, 'calf', 54)]);
+    for (let i = 1; i <= 300; i++) input.next([smoothed(i / 100, 'calf', 54)]);
+    // thigh sent one sample and went quiet; by t = 1 s its window is decided and calf flows.
+    const samples = seen.filter((f): f is Sample => f.kind === 'sample');
+    expect(samples.length).toBeGreaterThan(250);
+    expect(samples.every((s) => Number.isFinite(s.sarcomereUm))).toBe(true);
+    expect(seen.some((f) => f.kind === 'calibration' && f.muscle === 'thigh' && f.source === 'baseline')).toBe(true);
+    input.complete();
+  });
+});

@@ -2,10 +2,10 @@
  * The numbers behind the report's plots, from one muscle's summary JSON and its force–length curve.
  * Pure functions of numbers (no I/O, no plotting library): what is drawn is testable on its own.
  */
-import { breakpoints, regionAt, type ForceLengthCurve } from '../model/geometry.ts';
+import { breakpoints, curveFromGeometry, geometryProblems, regionAt, withFilaments, type FilamentGeometry, type ForceLengthCurve } from '../model/geometry.ts';
 import { normalCdf } from '../model/normal.ts';
 import { REGION_KEYS, type RegionKey } from '../model/regions.ts';
-import { isSpecies, speciesCurve } from '../model/species.ts';
+import { isSpecies, SPECIES_GEOMETRY, type Species } from '../model/species.ts';
 import type { CycleJson, MuscleJson } from '../output/summary-json.ts';
 
 /** A point of the force–length curve. */
@@ -14,10 +14,36 @@ export interface CurvePoint {
   readonly force: number;
 }
 
-/** The curve of a muscle's species; an unknown species falls back to the human preset, said in `note`. */
-export function curveOf(m: Pick<MuscleJson, 'species'>): { readonly curve: ForceLengthCurve; readonly note: string | null } {
-  if (isSpecies(m.species)) return { curve: speciesCurve(m.species), note: null };
-  return { curve: speciesCurve('human'), note: `species "${m.species}" has no preset here; the human curve is drawn` };
+/** The calibration file's names for a muscle's own filament lengths, as a summary may carry them (`filaments`). */
+const FILAMENT_KEYS = {
+  thick_um: 'thickUm',
+  thin_um: 'thinUm',
+  bare_zone_um: 'bareZoneUm',
+  z_disc_um: 'zDiscUm',
+  steep_zero_um: 'steepZeroUm',
+  steep_break_force: 'steepBreakForce',
+} as const satisfies Record<string, keyof FilamentGeometry>;
+
+/**
+ * The curve to draw for a muscle: its species' preset, with the muscle's own filament lengths when the
+ * summary carries them (`filaments`, the calibration's key names). An unknown species or unusable lengths
+ * fall back to a preset, said in `note`.
+ */
+export function curveOf(m: Pick<MuscleJson, 'species'>): { readonly curve: ForceLengthCurve; readonly note: string | null; readonly ownFilaments: boolean } {
+  const known = isSpecies(m.species);
+  const base = SPECIES_GEOMETRY[known ? (m.species as Species) : 'human'];
+  const note = known ? null : `species "${m.species}" has no preset here; the human curve is drawn`;
+  const given: unknown = (m as { filaments?: unknown }).filaments;
+  if (typeof given !== 'object' || given === null) return { curve: curveFromGeometry(base), note, ownFilaments: false };
+  const overrides: Partial<Record<keyof FilamentGeometry, number>> = {};
+  for (const [key, field] of Object.entries(FILAMENT_KEYS)) {
+    const value = (given as Record<string, unknown>)[key];
+    if (typeof value === 'number') overrides[field] = value;
+  }
+  const geometry = withFilaments(base, overrides);
+  const problems = geometryProblems(geometry);
+  if (problems.length > 0) return { curve: curveFromGeometry(base), note: `the muscle's filament lengths make no curve (${problems.join('; ')}); the preset is drawn`, ownFilaments: false };
+  return { curve: curveFromGeometry(geometry), note, ownFilaments: true };
 }
 
 /** The piecewise-linear curve through its breakpoints, with a short zero stretch either side. */

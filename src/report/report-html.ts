@@ -54,6 +54,7 @@ interface Entry {
   readonly label: string;
   readonly curve: ForceLengthCurve;
   readonly curveNote: string | null;
+  readonly ownFilaments: boolean;
   readonly flags: string[];
 }
 
@@ -79,9 +80,9 @@ export function entryId(key: number, muscle: string): string {
 
 function trialEntries(summary: SummaryJson, key: number): Entry[] {
   return Object.entries(summary.muscles).map(([muscle, m]) => {
-    const { curve, note } = curveOf(m);
+    const { curve, note, ownFilaments } = curveOf(m);
     const label = `${summary.subject ?? '—'} · ${trialName(summary)} · ${muscle}${m.side !== null ? ` (${m.side})` : ''}`;
-    return { id: entryId(key, muscle), summary, muscle, m, label, curve, curveNote: note, flags: flagsOf(summary, m) };
+    return { id: entryId(key, muscle), summary, muscle, m, label, curve, curveNote: note, ownFilaments, flags: flagsOf(summary, m) };
   });
 }
 
@@ -155,7 +156,7 @@ async function entrySection(e: Entry, warnings: string[]): Promise<string> {
   return [
     `<section class="entry" id="${e.id}">`,
     `<h2>${escapeHtml(e.label)}</h2>`,
-    `<p class="source">${escapeHtml(e.summary.source)} · ${escapeHtml(e.m.species)} filament geometry</p>`,
+    `<p class="source">${escapeHtml(e.summary.source)} · curve from ${escapeHtml(e.m.species)} filament geometry${e.ownFilaments ? " with the muscle's own lengths" : ''}</p>`,
     flags.length > 0 ? `<p class="flags">${flags.map((f) => `<span class="flag">${escapeHtml(f)}</span>`).join(' ')}</p>` : '',
     `<p class="facts">${facts.map(escapeHtml).join(' · ')}</p>`,
     `<div class="plots">${plots.join('')}</div>`,

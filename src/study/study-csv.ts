@@ -67,6 +67,7 @@ const ID_COLUMNS: readonly Column[] = [
   ['species', (r) => r.m.species],
   ['calibration_source', (r) => r.m.calibration_source],
   ['sarcomeres_in_series', (r) => r.m.sarcomeres_in_series],
+  ['sarcomeres_in_series_relative_sd', (r) => numberOrNull(field(r.m, 'sarcomeres_in_series_relative_sd'))],
 ];
 
 /** The figures every study has, always present (empty when a summary lacks them). */

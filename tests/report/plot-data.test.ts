@@ -67,10 +67,24 @@ describe('curvePoints', () => {
 
 describe('curveOf', () => {
   it('uses the species preset, and the human curve with a note for a species it does not know', () => {
-    expect(curveOf({ species: 'frog' })).toEqual({ curve: frog, note: null });
+    expect(curveOf({ species: 'frog' })).toEqual({ curve: frog, note: null, ownFilaments: false });
     const unknown = curveOf({ species: 'newt' });
     expect(unknown.curve).toEqual(human);
     expect(unknown.note).toContain('"newt"');
+  });
+
+  it("draws a muscle's own filament lengths when the summary carries them: plateau from 2 × thin + Z-disc to that + bare zone (Gordon, Huxley & Julian 1966, J Physiol 184:170–192, Fig. 13)", () => {
+    const own = curveOf({ species: 'frog', filaments: { thin_um: 0.95 } } as Pick<MuscleJson, 'species'>);
+    expect(own.ownFilaments).toBe(true);
+    expect(own.curve.plateauStartUm).toBeCloseTo(2 * 0.95 + 0.05, 10);
+    expect(own.curve.plateauEndUm).toBeCloseTo(2 * 0.95 + 0.05 + 0.15, 10);
+  });
+
+  it('falls back to the preset, saying why, when the filament lengths make no curve', () => {
+    const bad = curveOf({ species: 'human', filaments: { thick_um: 2.9, thin_um: 0.4 } } as Pick<MuscleJson, 'species'>);
+    expect(bad.curve).toEqual(human);
+    expect(bad.ownFilaments).toBe(false);
+    expect(bad.note).toMatch(/make no curve/);
   });
 });
 

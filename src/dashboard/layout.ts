@@ -2,8 +2,8 @@
 
 /** Narrower than this, a panel's curve is too coarse to read: panels stack instead. */
 export const MIN_PANEL_COLS = 38;
-/** Rows of a panel that do not depend on the terminal: border (2), title, band, axis, three number lines. */
-export const PANEL_FIXED_ROWS = 8;
+/** Rows of a panel that do not depend on the terminal: border (2), title, band, axis, four number lines. */
+export const PANEL_FIXED_ROWS = 9;
 
 export interface Layout {
   /** Panels side by side per row of panels. */

@@ -54,13 +54,12 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
   const regionText =
     region === null ? '' : `${REGION_LABEL[region].toUpperCase()}${regionP === undefined || !Number.isFinite(regionP) ? '' : ` ${percent(regionP)}`}`;
   const forceLv = s?.forceLv ?? Number.NaN;
-  const capacityLabel = width >= 38 ? 'capacity' : 'cap.';
+  const capacityLabel = 'capacity';
+  // The title depends on the muscle and its calibration only, so it stays still while the region changes.
   const titleText = `${focused ? '▸ ' : ''}${muscle.name}`;
-  const sideText = ` ${side} · `;
-  const room = Math.max(0, width - regionText.length - 1 - titleText.length - sideText.length);
+  const room = Math.max(0, width - titleText.length - side.length - 4);
   const cal = calibrationText(muscle.calibrationSource);
   const calText = cal.full.length <= room ? cal.full : cal.short.length <= room ? cal.short : '';
-  const gap = Math.max(1, width - titleText.length - sideText.length - calText.length - regionText.length);
   return (
     <Box
       flexDirection="column"
@@ -71,12 +70,8 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
     >
       <Text wrap="truncate-end">
         <Text {...(focused ? theme.role('focus') : theme.role('title'))}>{titleText}</Text>
-        <Text {...theme.role('label')}>{sideText}</Text>
+        <Text {...theme.role('label')}>{` ${side}${calText === '' ? '' : ' · '}`}</Text>
         <Text {...(calibrated ? theme.role('label') : theme.role('warning'))}>{calText}</Text>
-        <Text>{' '.repeat(gap)}</Text>
-        <Text {...theme.region(region)} bold>
-          {regionText}
-        </Text>
       </Text>
       <CurvePlot
         curve={muscle.curve}
@@ -90,8 +85,13 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
       <Text wrap="truncate-end">
         <Text {...theme.role('label')}>SL </Text>
         <Text bold>{fixed(sl, 2)}</Text>
-        <Text> µm</Text>
-        <Text {...theme.role('label')}>{'  force '}</Text>
+        <Text> µm  </Text>
+        <Text {...theme.region(region)} bold>
+          {regionText === '' ? '–' : regionText}
+        </Text>
+      </Text>
+      <Text wrap="truncate-end">
+        <Text {...theme.role('label')}>{'force '}</Text>
         <Text bold>{fixed(s?.force ?? Number.NaN, 2)}</Text>
         {Number.isFinite(forceLv) ? (
           <>

@@ -15,23 +15,45 @@ export interface Props {
   readonly columns: number;
 }
 
+const FROZEN = ' FROZEN ';
+const CALIBRATED = 'calibrated';
+const UNCALIBRATED = ' UNCALIBRATED ';
+const ENDED = ' · trial ended';
+
+/** The connection in a few words; the alert line says the rest. */
+function connectionShort(status: DashboardStatus): string | null {
+  const c = status.connection;
+  if (c === undefined) return null;
+  if (c.state === 'reconnecting') return c.retryInS === undefined ? 'reconnecting' : `reconnecting in ${Math.max(0, Math.ceil(c.retryInS))} s`;
+  return connectionText(status);
+}
+
 export default function StatusBar({ title, view, status, theme, frozen, columns }: Props) {
-  const connection = connectionText(status);
+  const connection = connectionShort(status);
   const source = status.sourceLabel ?? view.source;
+  const elapsedText = elapsed(view.elapsedS);
+  // What must always show (calibration, time) is laid out first; the source takes what is left.
+  const right =
+    2 + (frozen ? FROZEN.length + 1 : 0) + (view.calibrated ? CALIBRATED : UNCALIBRATED).length + 5 + elapsedText.length + (view.ended ? ENDED.length : 0);
+  const left = title.length + (connection === null ? 0 : 3 + connection.length);
+  const sourceRoom = columns - left - right - 3;
+  const sourceText = source === '' || title.includes(source) || sourceRoom < 8 ? '' : keepEnd(source, sourceRoom);
   const rate = Number.isFinite(view.samplesPerS) ? `${fixed(view.samplesPerS, 0)} samples/s` : '– samples/s';
   const rejected =
     view.rejected === 0 ? 'no lines rejected' : `${view.rejected} rejected${view.topReason === null ? '' : ` (most ${view.topReason.reason})`}`;
-  const fixedWidth = title.length + 40;
+  const samplesText = `${view.accepted} samples`;
+  const lowText = view.lowQuality > 0 ? ` (${view.lowQuality} low quality)` : '';
+  const logRoom = columns - (rate.length + 3 + samplesText.length + lowText.length + 3 + rejected.length + ' · log '.length);
   const connectionStyle = status.connection?.state === 'reconnecting' ? theme.role('critical') : theme.role('good');
   return (
     <Box flexDirection="column" width={columns}>
       <Box>
         <Text wrap="truncate-end">
           <Text {...theme.role('title')}>{title}</Text>
-          {source === '' || title.includes(source) ? null : (
+          {sourceText === '' ? null : (
             <>
               <Text {...theme.role('label')}> · </Text>
-              <Text>{keepEnd(source, Math.max(8, columns - fixedWidth))}</Text>
+              <Text>{sourceText}</Text>
             </>
           )}
           {connection === null ? null : (
@@ -40,31 +62,31 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
               <Text {...connectionStyle}>{connection}</Text>
             </>
           )}
-          <Text {...theme.role('label')}> · t </Text>
-          <Text>{elapsed(view.elapsedS)}</Text>
-          <Text> </Text>
-          {view.calibrated ? <Text {...theme.role('good')}>calibrated</Text> : <Text {...theme.role('critical')}> UNCALIBRATED </Text>}
+          <Text>{'  '}</Text>
           {frozen ? (
             <>
+              <Text {...theme.role('frozen')}>{FROZEN}</Text>
               <Text> </Text>
-              <Text {...theme.role('frozen')}> FROZEN </Text>
             </>
           ) : null}
-          {view.ended ? <Text {...theme.role('label')}> · trial ended</Text> : null}
+          {view.calibrated ? <Text {...theme.role('good')}>{CALIBRATED}</Text> : <Text {...theme.role('critical')}>{UNCALIBRATED}</Text>}
+          <Text {...theme.role('label')}> · t </Text>
+          <Text>{elapsedText}</Text>
+          {view.ended ? <Text {...theme.role('label')}>{ENDED}</Text> : null}
         </Text>
       </Box>
       <Box>
         <Text wrap="truncate-end">
           <Text>{rate}</Text>
           <Text {...theme.role('label')}> · </Text>
-          <Text>{view.accepted} samples</Text>
-          {view.lowQuality > 0 ? <Text {...theme.role('label')}> ({view.lowQuality} low quality)</Text> : null}
+          <Text>{samplesText}</Text>
+          {lowText === '' ? null : <Text {...theme.role('label')}>{lowText}</Text>}
           <Text {...theme.role('label')}> · </Text>
           <Text {...(view.rejected > 0 ? theme.role('warning') : {})}>{rejected}</Text>
           {status.logPath === undefined ? null : (
             <>
               <Text {...theme.role('label')}> · log </Text>
-              <Text>{keepEnd(status.logPath, 40)}</Text>
+              <Text>{keepEnd(status.logPath, Math.max(12, logRoom))}</Text>
             </>
           )}
         </Text>

@@ -154,7 +154,7 @@ describe('Dashboard', () => {
     await advance(300);
     await shows(screen, 'PLATEAU 74%');
     await shows(screen, 'DESCENDING 90%');
-    await shows(screen, 'cap. 0.84');
+    await shows(screen, 'capacity 0.84');
   });
 
   it('marks strides estimated from the fascicle signal', async () => {

@@ -104,6 +104,17 @@ const POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
  * floating point numbers accurately, Proc. ACM PLDI '90, 92–101: the "fast path"; citation from memory).
  */
 export function plainDecimalAt(text: string, start: number, end: number): number {
+  return readPlainDecimal(text, start, end, scratch) ? (scratch[0] as number) : Number.NaN;
+}
+
+const scratch = new Float64Array(1);
+
+/**
+ * plainDecimalAt without a number object per call: true and the value in out[0], or false (out untouched)
+ * where plainDecimalAt gives NaN. A function that returns a double boxes it when it is not inlined; a
+ * parser reading millions of cells avoids that by reading the value from `out`.
+ */
+export function readPlainDecimal(text: string, start: number, end: number, out: Float64Array): boolean {
   let i = start;
   let negative = false;
   const first = text.charCodeAt(i);
@@ -122,11 +133,24 @@ export function plainDecimalAt(text: string, start: number, end: number): number
       digits++;
       if (point) fraction++;
     } else if (c === 46 && !point) point = true;
-    else return Number.NaN;
+    else return false;
   }
-  if (digits === 0 || digits > 15) return Number.NaN;
+  if (digits === 0 || digits > 15) return false;
   const value = fraction === 0 ? m : m / (POW10[fraction] as number);
-  return negative ? -value : value;
+  out[0] = negative ? -value : value;
+  return true;
+}
+
+/**
+ * True when `piece` appears in `text` at index `at`: text.startsWith(piece, at), written out, because
+ * the built-in with a start index costs several times more than this loop for the short pieces a
+ * parser compares (measured with bench/profile-summary.ts --lines).
+ */
+export function textAt(text: string, at: number, piece: string): boolean {
+  const n = piece.length;
+  if (at < 0 || at + n > text.length) return false;
+  for (let k = 0; k < n; k++) if (text.charCodeAt(at + k) !== piece.charCodeAt(k)) return false;
+  return true;
 }
 
 /** Learns the columns from a header row. */
@@ -207,7 +231,7 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
     const length = end - start;
     for (let k = 0; k < recentMuscles.length; k++) {
       const name = recentMuscles[k] as string;
-      if (name.length === length && text.startsWith(name, start)) return name;
+      if (name.length === length && textAt(text, start, name)) return name;
     }
     const name = intern(text.slice(start, end));
     if (recentMuscles.length < 16) recentMuscles.push(name);
@@ -215,6 +239,8 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
   };
 
   // Cell boundaries of the current row: cell i is text[starts[i], ends[i]).
+  /** Where quickRow's numbers are read into (no number object per cell). */
+  const num = new Float64Array(1);
   let starts = new Int32Array(0);
   let ends = new Int32Array(0);
 
@@ -235,8 +261,8 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
     const index = c.index;
     // No closures here: a function made per row costs more than the row (tsx names every function).
     const tCol = index.time_s;
-    const tS = plainDecimalAt(text, at(starts, n, tCol), at(ends, n, tCol));
-    if (tS !== tS) return null;
+    if (!readPlainDecimal(text, at(starts, n, tCol), at(ends, n, tCol), num)) return null;
+    const tS = num[0] as number;
     const mCol = index.muscle;
     const fCol = index.fascicle_mm;
     const pCol = index.pennation_deg;
@@ -249,18 +275,18 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
       const evStart = at(starts, n, evCol);
       const evLength = at(ends, n, evCol) - evStart;
       const event =
-        evLength === 11 && text.startsWith('foot_strike', evStart)
+        evLength === 11 && textAt(text, evStart, 'foot_strike')
           ? 'foot_strike'
-          : evLength === 7 && text.startsWith('toe_off', evStart)
+          : evLength === 7 && textAt(text, evStart, 'toe_off')
             ? 'toe_off'
             : null;
       const sideCol = index.side;
       const sideStart = at(starts, n, sideCol);
       const sideLength = at(ends, n, sideCol) - sideStart;
       const side =
-        sideLength === 4 && text.startsWith('left', sideStart)
+        sideLength === 4 && textAt(text, sideStart, 'left')
           ? 'left'
-          : sideLength === 5 && text.startsWith('right', sideStart)
+          : sideLength === 5 && textAt(text, sideStart, 'right')
             ? 'right'
             : null;
       if (event === null || side === null) return null;
@@ -272,16 +298,19 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
     if (m0 === 32 || m0 === 9 || m1 === 32 || m1 === 9) return null;
     const sideCol = index.side;
     if (sideCol >= 0 && at(ends, n, sideCol) > at(starts, n, sideCol)) return null;
-    const fascicleMm = plainDecimalAt(text, at(starts, n, fCol), at(ends, n, fCol));
+    if (!readPlainDecimal(text, at(starts, n, fCol), at(ends, n, fCol), num)) return null;
+    const fascicleMm = num[0] as number;
     if (!(fascicleMm > 0)) return null;
     let pennationDeg = Number.NaN;
     if (at(ends, n, pCol) > at(starts, n, pCol)) {
-      pennationDeg = plainDecimalAt(text, at(starts, n, pCol), at(ends, n, pCol));
+      if (!readPlainDecimal(text, at(starts, n, pCol), at(ends, n, pCol), num)) return null;
+      pennationDeg = num[0] as number;
       if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
     }
     let quality = 1;
     if (at(ends, n, qCol) > at(starts, n, qCol)) {
-      quality = plainDecimalAt(text, at(starts, n, qCol), at(ends, n, qCol));
+      if (!readPlainDecimal(text, at(starts, n, qCol), at(ends, n, qCol), num)) return null;
+      quality = num[0] as number;
       if (!(quality >= 0 && quality <= 1)) return null;
     }
     return makeSample(tS, muscleAt(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);

@@ -6,7 +6,7 @@
 import { defer, map, type Observable } from 'rxjs';
 import type { Batch, Frame } from '../src/records.ts';
 import { createCsvParser, parseCsvHeaderRow } from './csv.ts';
-import { parseNdjsonLine } from './ndjson.ts';
+import { createNdjsonParser } from './ndjson.ts';
 import { tooLongRejection } from './parse-record.ts';
 import { DEFAULT_MAX_LINE_BYTES, readLines, type ReadLinesOptions } from './read-lines.ts';
 
@@ -51,7 +51,7 @@ export function fileSource(path: string, options: FileSourceOptions = {}): Obser
 
     const choose = (text: string, line: number): ((text: string, line: number) => Frame) => {
       const chosen = format === 'auto' ? detectFormat(path, text) : format;
-      if (chosen === 'ndjson') return parseNdjsonLine;
+      if (chosen === 'ndjson') return createNdjsonParser();
       const header = parseCsvHeaderRow(text);
       if (!header.ok) throw new SourceFormatError(path, line, header.message);
       return createCsvParser();

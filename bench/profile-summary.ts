@@ -8,6 +8,7 @@ interface ProfileNode {
   readonly id: number;
   readonly callFrame: { readonly functionName: string; readonly url: string; readonly lineNumber: number; readonly columnNumber: number };
   readonly children?: readonly number[];
+  readonly positionTicks?: readonly { readonly line: number; readonly ticks: number }[];
 }
 interface Profile {
   readonly nodes: readonly ProfileNode[];
@@ -35,9 +36,24 @@ export function selfTimes(profile: Profile): { name: string; ms: number; share: 
     .sort((a, b) => b.ms - a.ms);
 }
 
+/** Ticks per source line inside the functions of one name (the profile's positionTicks), highest first. */
+export function lineTicks(profile: Profile, functionName: string): { line: number; ticks: number }[] {
+  const byLine = new Map<number, number>();
+  for (const n of profile.nodes) {
+    if (n.callFrame.functionName !== functionName) continue;
+    for (const p of n.positionTicks ?? []) byLine.set(p.line, (byLine.get(p.line) ?? 0) + p.ticks);
+  }
+  return [...byLine.entries()].map(([line, ticks]) => ({ line, ticks })).sort((a, b) => b.ticks - a.ticks);
+}
+
+// Usage: profile-summary.ts FILE [TOP]  |  profile-summary.ts FILE --lines FUNCTION (hot lines of a function)
 const file = process.argv[2];
 if (file !== undefined && process.argv[1]?.endsWith('profile-summary.ts')) {
-  const top = Number(process.argv[3] ?? 30);
-  const rows = selfTimes(JSON.parse(readFileSync(file, 'utf8')) as Profile);
-  for (const r of rows.slice(0, top)) console.log(`${r.ms.toFixed(0).padStart(7)} ms ${(r.share * 100).toFixed(1).padStart(5)}%  ${r.name}`);
+  const profile = JSON.parse(readFileSync(file, 'utf8')) as Profile;
+  if (process.argv[3] === '--lines') {
+    for (const r of lineTicks(profile, process.argv[4] ?? '').slice(0, 25)) console.log(`${String(r.ticks).padStart(7)} ticks  line ${r.line}`);
+  } else {
+    const top = Number(process.argv[3] ?? 30);
+    for (const r of selfTimes(profile).slice(0, top)) console.log(`${r.ms.toFixed(0).padStart(7)} ms ${(r.share * 100).toFixed(1).padStart(5)}%  ${r.name}`);
+  }
 }

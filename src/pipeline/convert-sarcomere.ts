@@ -144,8 +144,9 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
           for (; i < batch.length; i++) {
             const f = batch[i] as Frame;
             if (f.kind === 'sample') {
-              if (!ready.has(f.muscle)) break;
-              convert(f);
+              const n = ready.get(f.muscle);
+              if (n === undefined) break;
+              f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, n);
             } else if (f.kind === 'header' || f.kind === 'calibration') {
               step(f, []);
             }

@@ -16,7 +16,8 @@ export function markGaps(options: MarkGapsOptions = {}): OperatorFunction<Batch,
   const gapS = options.gapS ?? DEFAULT_GAP_S;
   return (source) =>
     defer(() => {
-      const lastTS = new Map<string, number>();
+      // One mutable cell per muscle: the common sample costs one lookup and no Map write.
+      const lastTS = new Map<string, { tS: number }>();
       return source.pipe(
         map((batch) => {
           // Gaps are rare: the batch is rebuilt only when one is found.
@@ -24,8 +25,13 @@ export function markGaps(options: MarkGapsOptions = {}): OperatorFunction<Batch,
           for (let i = 0; i < batch.length; i++) {
             const f = batch[i] as Frame;
             if (f.kind === 'sample') {
-              const previous = lastTS.get(f.muscle);
-              lastTS.set(f.muscle, f.tS);
+              const cell = lastTS.get(f.muscle);
+              let previous: number | undefined;
+              if (cell === undefined) lastTS.set(f.muscle, { tS: f.tS });
+              else {
+                previous = cell.tS;
+                cell.tS = f.tS;
+              }
               if (previous !== undefined && f.tS - previous > gapS) {
                 out ??= batch.slice(0, i);
                 out.push({ kind: 'gap', cause: 'time_jump', muscle: f.muscle, fromS: previous, toS: f.tS });

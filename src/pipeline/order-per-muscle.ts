@@ -12,15 +12,21 @@ function excerptOf(s: Sample): string {
 export function orderPerMuscle(): OperatorFunction<Batch, Batch> {
   return (source) =>
     defer(() => {
-      const lastTS = new Map<string, number>();
+      // One mutable cell per muscle: the common sample costs one lookup and no Map write.
+      const lastTS = new Map<string, { tS: number }>();
       return source.pipe(
         map((batch) => {
           for (let i = 0; i < batch.length; i++) {
             const f = batch[i];
             if (f === undefined || f.kind !== 'sample') continue;
-            const previous = lastTS.get(f.muscle);
-            if (previous === undefined || f.tS > previous) {
-              lastTS.set(f.muscle, f.tS);
+            const cell = lastTS.get(f.muscle);
+            if (cell === undefined) {
+              lastTS.set(f.muscle, { tS: f.tS });
+              continue;
+            }
+            const previous = cell.tS;
+            if (f.tS > previous) {
+              cell.tS = f.tS;
               continue;
             }
             const same = f.tS === previous;

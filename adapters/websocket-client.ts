@@ -8,6 +8,9 @@ import { Observable, asyncScheduler, interval, timer, type SchedulerLike, type S
 import { WebSocket, type RawData } from 'ws';
 import type { Batch, Frame, Gap, Marker } from '../src/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
+import { linkMarkerText } from '../src/link-marker.ts';
+
+export { LINK_MARKER_PREFIX, linkMarkerText } from '../src/link-marker.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =
@@ -19,17 +22,6 @@ export type LinkEvent =
   | { readonly kind: 'refused'; readonly peer: string; readonly detail: string };
 
 /** Marker text of a disconnection; `restoreGaps` (src/session-log/) turns it back into a Gap on replay. */
-export const LINK_MARKER_PREFIX = '[link] disconnected';
-
-/**
- * The marker saying a connection was lost: `[link] disconnected: DETAIL` for every muscle (one peer), or
- * `[link] disconnected ["calf","shin"]: DETAIL` for the muscles that connection carried (one of several devices).
- */
-export function linkMarkerText(muscles: readonly string[] | null, detail: string): string {
-  const text = detail.replace(/[\r\n]+/g, ' ');
-  return muscles === null ? `${LINK_MARKER_PREFIX}: ${text}` : `${LINK_MARKER_PREFIX} ${JSON.stringify(muscles)}: ${text}`;
-}
-
 /** The frames that say a connection was lost: the marker, then one Gap per muscle (or one for all). */
 export function disconnectionFrames(muscles: readonly string[] | null, lastTS: number, detail: string, line: number): Frame[] {
   const marker: Marker = { kind: 'marker', tS: Number.isFinite(lastTS) ? lastTS : 0, marker: linkMarkerText(muscles, detail), line };

@@ -3,6 +3,7 @@ import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialState } from '../state.ts';
+import { restoreGaps } from './restore-gaps.ts';
 import { orderPerMuscle } from './order-per-muscle.ts';
 import { markGaps } from './mark-gaps.ts';
 import { gateQuality } from './gate-quality.ts';
@@ -38,6 +39,7 @@ export function pipeline(options: PipelineOptions): OperatorFunction<Batch, Tria
     records$
       .pipe(
         // Cleaning.
+        restoreGaps(),
         orderPerMuscle(),
         markGaps(gap),
         gateQuality(),

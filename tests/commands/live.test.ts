@@ -9,7 +9,6 @@ import { parseConnect, parseDuration, parseListen, run } from '../../src/command
 import type { CommandIo } from '../../src/commands/io.ts';
 import { startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
 import { fileSource } from '../../adapters/file-source.ts';
-import { restoreGaps } from '../../src/session-log/restore-gaps.ts';
 import { runTrial } from '../../src/run-trial.ts';
 import { summaryJson } from '../../src/output/summary-json.ts';
 import { sampleTexts, sendAll, until, wsClient } from '../adapters/ws-peers.ts';
@@ -258,7 +257,7 @@ describe('lengthwise live --connect', () => {
     expect(live.frames['rejected_by_reason']).toEqual(badSent);
     expect(live.frames['markers']).toBeGreaterThanOrEqual(1);
     // The disconnection gaps are restored from the log's link markers.
-    const final = await runTrial(fileSource(log).pipe(restoreGaps()), { source: log }).done;
+    const final = await runTrial(fileSource(log), { source: log }).done;
     expect(withoutSource(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSource(live));
   });
 });

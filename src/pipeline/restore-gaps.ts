@@ -1,6 +1,6 @@
 import { map, type OperatorFunction } from 'rxjs';
 import type { Batch, Frame, Gap } from '../records.ts';
-import { LINK_MARKER_PREFIX } from '../../adapters/websocket-client.ts';
+import { LINK_MARKER_PREFIX } from '../link-marker.ts';
 
 /**
  * The muscles a `[link] disconnected` marker names: null for every muscle, a list for one device's
@@ -24,9 +24,10 @@ export function linkMarkerMuscles(text: string): readonly string[] | null | unde
 }
 
 /**
- * For replays of a session log: after each `[link] disconnected` marker, the `disconnected` Gaps the
- * live session had, so filters restart at the same places. Other frames pass; a live stream that already
- * carries its gaps gets them twice, which changes nothing (a restart of a restarted filter).
+ * After each `[link] disconnected` marker, the `disconnected` Gaps the live session had, so a replay of
+ * its session log restarts the filters at the same places. It runs first in every pipeline, so live,
+ * replay and summarize agree; a live stream that already carries its gaps gets them twice, which changes
+ * nothing (a restart of a restarted filter).
  */
 export function restoreGaps(): OperatorFunction<Batch, Batch> {
   return map((batch) => {

@@ -13,6 +13,7 @@ import HelpOverlay from './help-overlay.tsx';
 import { handleKey, INITIAL_UI, keyOfChar, type UiState } from './key-handler.ts';
 import { DEFAULT_CALIBRATION_UM, KEY_HELP, type KeyHelp } from './keys.ts';
 import { chooseLayout } from './layout.ts';
+import MuscleLine from './muscle-line.tsx';
 import MusclePanel from './muscle-panel.tsx';
 import ReplayBar from './replay-bar.tsx';
 import type { DashboardStatus } from './status.ts';
@@ -151,18 +152,25 @@ export default function Dashboard(props: Props) {
         </Box>
       ) : (
         <Box flexDirection="row" flexWrap="wrap" width={size.columns}>
-          {view.muscles.map((m, i) => (
-            <MusclePanel
-              key={m.name}
-              muscle={m}
-              layout={layout}
-              theme={theme}
-              focused={i === focus && muscleCount > 1}
-              probability={status.regionProbability?.[m.name]}
-            />
-          ))}
+          {view.muscles.map((m, i) =>
+            layout.compact && i !== focus ? null : (
+              <MusclePanel
+                key={m.name}
+                muscle={m}
+                layout={layout}
+                theme={theme}
+                focused={i === focus && muscleCount > 1}
+                probability={status.regionProbability?.[m.name]}
+              />
+            ),
+          )}
         </Box>
       )}
+      {layout.compact && mode.kind !== 'help' ? (
+        <Box flexDirection="column" width={size.columns}>
+          {view.muscles.map((m, i) => (i === focus ? null : <MuscleLine key={m.name} muscle={m} theme={theme} />))}
+        </Box>
+      ) : null}
       {mode.kind === 'calibrate' ? (
         <CalibratePrompt
           muscle={mode.muscle}

@@ -119,7 +119,7 @@ export default function MusclePanel({ muscle, layout, theme, focused = false, pr
           <Text {...theme.role('label')}>{` ${fixed(spark.min, 1)}–${fixed(spark.max, 1)}`}</Text>
         </Text>
       )}
-      <StrideTable strides={muscle.strides} rows={layout.strideRows} theme={theme} estimated={muscle.stridesEstimated} />
+      <StrideTable strides={muscle.strides} rows={layout.strideRows} theme={theme} estimated={muscle.stridesEstimated} wide={width >= 48} />
     </Box>
   );
 }

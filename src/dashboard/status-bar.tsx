@@ -35,12 +35,14 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
   // What must always show (calibration, time) is laid out first; the source takes what is left.
   const right =
     2 + (frozen ? FROZEN.length + 1 : 0) + (view.calibrated ? CALIBRATED : UNCALIBRATED).length + 5 + elapsedText.length + (view.ended ? ENDED.length : 0);
-  const left = title.length + (connection === null ? 0 : 3 + connection.length);
+  const connectionCols = connection === null ? 0 : 3 + connection.length;
+  const titleText = title.length + connectionCols + right <= columns ? title : `${title.slice(0, Math.max(4, columns - connectionCols - right - 1))}…`;
+  const left = titleText.length + connectionCols;
   const sourceRoom = columns - left - right - 3;
   const sourceText = source === '' || title.includes(source) || sourceRoom < 8 ? '' : keepEnd(source, sourceRoom);
   const rate = Number.isFinite(view.samplesPerS) ? `${fixed(view.samplesPerS, 0)} samples/s` : '– samples/s';
   const rejected =
-    view.rejected === 0 ? 'no lines rejected' : `${view.rejected} rejected${view.topReason === null ? '' : ` (most ${view.topReason.reason})`}`;
+    view.rejected === 0 ? '0 rejected' : `${view.rejected} rejected${view.topReason === null ? '' : ` (most ${view.topReason.reason})`}`;
   const samplesText = `${view.accepted} samples`;
   const lowText = view.lowQuality > 0 ? ` (${view.lowQuality} low quality)` : '';
   const logRoom = columns - (rate.length + 3 + samplesText.length + lowText.length + 3 + rejected.length + ' · log '.length);
@@ -49,7 +51,7 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
     <Box flexDirection="column" width={columns}>
       <Box>
         <Text wrap="truncate-end">
-          <Text {...theme.role('title')}>{title}</Text>
+          <Text {...theme.role('title')}>{titleText}</Text>
           {sourceText === '' ? null : (
             <>
               <Text {...theme.role('label')}> · </Text>
@@ -83,10 +85,10 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
           {lowText === '' ? null : <Text {...theme.role('label')}>{lowText}</Text>}
           <Text {...theme.role('label')}> · </Text>
           <Text {...(view.rejected > 0 ? theme.role('warning') : {})}>{rejected}</Text>
-          {status.logPath === undefined ? null : (
+          {status.logPath === undefined || logRoom < 10 ? null : (
             <>
               <Text {...theme.role('label')}> · log </Text>
-              <Text>{keepEnd(status.logPath, Math.max(12, logRoom))}</Text>
+              <Text>{keepEnd(status.logPath, logRoom)}</Text>
             </>
           )}
         </Text>

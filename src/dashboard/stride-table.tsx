@@ -12,6 +12,8 @@ export interface Props {
   readonly theme: Theme;
   /** Strides found from the fascicle signal, not from foot strikes: numbers are marked ≈. @default false */
   readonly estimated?: boolean;
+  /** Room for the mean length and mean force columns too. @default false */
+  readonly wide?: boolean;
 }
 
 /** The region the stride spent most time in, and that fraction; null when no time was covered. */
@@ -24,13 +26,13 @@ export function mainRegion(stride: StrideSummary): { readonly region: RegionKey;
   return best;
 }
 
-export default function StrideTable({ strides, rows, theme, estimated = false }: Props) {
+export default function StrideTable({ strides, rows, theme, estimated = false, wide = false }: Props) {
   if (rows <= 0) return null;
   const shown = strides.slice(-rows).reverse();
   return (
     <Box flexDirection="column">
       <Text {...theme.role('label')} wrap="truncate-end">
-        {`${'#'.padStart(3)} ${'SL µm'.padEnd(9)} ${'main region'.padEnd(17)} ${'time'.padStart(4)}`}
+        {`${'#'.padStart(3)} ${'SL µm'.padEnd(9)} ${'main region'.padEnd(17)} ${'time'.padStart(4)}${wide ? `  ${'mean'.padStart(4)}  force` : ''}`}
       </Text>
       {shown.length === 0 ? <Text {...theme.role('label')}>no completed stride yet</Text> : null}
       {shown.map((s) => {
@@ -40,6 +42,7 @@ export default function StrideTable({ strides, rows, theme, estimated = false }:
             <Text>{`${`${estimated ? '≈' : ''}${s.index + 1}`.padStart(3)} ${`${fixed(s.slMinUm, 2)}–${fixed(s.slMaxUm, 2)}`.padEnd(9)} `}</Text>
             <Text {...theme.region(main?.region ?? null)}>{(main === null ? '–' : REGION_LABEL[main.region]).padEnd(17)}</Text>
             <Text>{` ${(main === null ? '–' : percent(main.fraction)).padStart(4)}`}</Text>
+            {wide ? <Text>{`  ${fixed(s.slMeanUm, 2)}  ${fixed(s.forceMean, 2).padStart(5)}`}</Text> : null}
           </Text>
         );
       })}

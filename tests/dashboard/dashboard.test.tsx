@@ -125,6 +125,25 @@ describe('Dashboard', () => {
     }, 'with the panels stacked');
   });
 
+  it('keeps the status in view on a small terminal: one panel for the focused muscle, a line for the others', async () => {
+    const state = walkingState();
+    state.muscles.set('shin', makeMuscle('shin', { side: 'right', calibrationSource: 'baseline' }));
+    state.calibrated = false;
+    pushSample(state, 'shin', { tS: 5, sarcomereUm: 2.4 });
+    const { screen, advance } = show(new BehaviorSubject(state), { title: 'lengthwise live ws://127.0.0.1:8750/stream/with/a/long/path' }, 60, 24);
+    await advance(300);
+    await shows(screen, 'UNCALIBRATED');
+    const lines = plain(screen.lastFrame()).split('\n');
+    expect(lines.length).toBeLessThanOrEqual(23);
+    expect(lines[0]).toContain('UNCALIBRATED');
+    expect(lines[0]).toContain('t 0:05.0');
+    expect(lines.some((l) => /^\s+thigh right\s+SL 3\.05 µm\s+DESCENDING/.test(l))).toBe(true);
+    expect(lines.some((l) => /^\s+shin right\s+SL 2\.40 µm/.test(l))).toBe(true);
+    await screen.press(KEY.tab);
+    await frameWhere(screen, (f) => plain(f).split('\n').some((l) => /^\s+calf left\s+SL 2\.71 µm/.test(l)), 'calf as a line once thigh has the panel');
+    await shows(screen, '▸ thigh');
+  });
+
   it('moves the marker along the curve when the sarcomere length changes', async () => {
     const state = makeTrialState([makeMuscle('calf')]);
     pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.2 });

@@ -37,4 +37,12 @@ describe('chooseLayout', () => {
     expect(l.panelsPerRow).toBe(2);
     expect(2 * panelRows(l)).toBeLessThanOrEqual(50 - 5);
   });
+  it('gives only the focused muscle a panel when stacked panels would not fit, one line for each other', () => {
+    const l = chooseLayout(60, 23, 3, 4);
+    expect(l.compact).toBe(true);
+    expect(l.panelsPerRow).toBe(1);
+    expect(panelRows(l) + 2).toBeLessThanOrEqual(23 - 4);
+    expect(chooseLayout(80, 23, 2, 5).compact).toBe(false);
+    expect(chooseLayout(60, 23, 1, 4).compact).toBe(false);
+  });
 });

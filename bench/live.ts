@@ -1,7 +1,172 @@
-/** Placeholder until the live measurement lands. */
+/**
+ * Live latency over a real WebSocket on 127.0.0.1: a simulated device in its own process pushes
+ * 4 muscles × 500 Hz to the tool's own server adapter (adapters/websocket-server.ts), which feeds
+ * runTrial (the same pipeline as replays). For every message: the time from its send (just before
+ * ws.send in the device process) to the updated state, an upper bound of receipt → state since it
+ * also holds the loopback and the WebSocket framing; and the time from the adapter's output to the
+ * updated state (decoding excluded). Measured without and with the dashboard rendering into a fake
+ * terminal at its own frame rate.
+ */
+import { execFile } from 'node:child_process';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { tap } from 'rxjs';
+import { websocketServer } from '../adapters/websocket-server.ts';
+import { runTrial } from '../src/run-trial.ts';
+import { quantile } from './stats.ts';
+import { FakeStdin, FakeStdout } from './fake-terminal.ts';
+
+export interface LatencyFigures {
+  readonly messages: number;
+  readonly samples: number;
+  readonly samplesPerS: number;
+  /** Device send → updated state, ms. */
+  readonly sendToStateP50Ms: number;
+  readonly sendToStateP99Ms: number;
+  readonly sendToStateMaxMs: number;
+  /** Adapter output → updated state, ms. */
+  readonly pipelineP50Ms: number;
+  readonly pipelineP99Ms: number;
+  /** Dashboard frames written (0 without the dashboard). */
+  readonly frames: number;
+  /** Receiving process CPU time per second of streaming (ms/s): what the pipeline (and dashboard) cost. */
+  readonly cpuMsPerS: number;
+  /** Event-loop delay p99 (ms): how long the loop was kept from answering (renders, collections). */
+  readonly loopDelayP99Ms: number;
+}
+
 export interface LiveResult {
+  readonly rateHz: number;
+  readonly muscles: number;
+  readonly messageMs: number;
+  readonly durationS: number;
+  readonly plain: LatencyFigures;
+  readonly dashboard: LatencyFigures;
+  /** p99 with the dashboard / p99 without (send → state). */
+  readonly dashboardP99Ratio: number;
   readonly lines: readonly string[];
 }
-export async function measureLive(_options: { readonly quick: boolean }): Promise<LiveResult> {
-  return { lines: ['live: not measured yet'] };
+
+interface SessionOptions {
+  readonly rateHz: number;
+  readonly muscles: number;
+  readonly durationS: number;
+  readonly messageMs: number;
+  readonly dashboard: boolean;
+  /** Messages of the first second are left out (warm-up). */
+  readonly warmupS: number;
+}
+
+const here = dirname(fileURLToPath(import.meta.url));
+
+async function session(options: SessionOptions): Promise<LatencyFigures> {
+  let port = 0;
+  let listening!: () => void;
+  const ready = new Promise<void>((resolve) => (listening = resolve));
+  let enteredNs = 0n;
+  const source$ = websocketServer({
+    port: 0,
+    onLink: (event) => {
+      if (event.kind === 'listening') {
+        port = event.port;
+        listening();
+      }
+    },
+  }).pipe(tap(() => (enteredNs = process.hrtime.bigint())));
+  const run = runTrial(source$, { source: 'bench-live' });
+  /** Device time of the newest record → the first moment a state showed it, with the pipeline time. */
+  const seen = new Map<number, { ns: bigint; pipelineNs: bigint }>();
+  const subscription = run.state$.subscribe((state) => {
+    const now = process.hrtime.bigint();
+    if (!Number.isNaN(state.lastTS) && !seen.has(state.lastTS)) seen.set(state.lastTS, { ns: now, pipelineNs: now - enteredNs });
+  });
+  let dashboard: { unmount(): void } | null = null;
+  const stdout = new FakeStdout();
+  if (options.dashboard) {
+    const { startDashboard } = await import('../src/dashboard/start-dashboard.tsx');
+    dashboard = startDashboard({
+      state$: run.state$,
+      title: 'live bench',
+      stdout: stdout as unknown as NodeJS.WriteStream,
+      stdin: new FakeStdin() as unknown as NodeJS.ReadStream,
+      env: {},
+      onQuit: () => run.stop(),
+    });
+  }
+  await ready;
+  const delay = monitorEventLoopDelay({ resolution: 1 });
+  delay.enable();
+  const cpu0 = process.cpuUsage();
+  const sent = await new Promise<{ samples: number; sends: [number, string][] }>((resolve, reject) => {
+    execFile(
+      process.execPath,
+      [
+        join(here, '../bin/run-ts.js'),
+        join(here, 'live-sender.ts'),
+        `ws://127.0.0.1:${port}`,
+        String(options.rateHz),
+        String(options.muscles),
+        String(options.durationS),
+        String(options.messageMs),
+      ],
+      { maxBuffer: 64 * 1024 * 1024 },
+      (error, stdoutText) => {
+        if (error !== null) reject(error);
+        else resolve(JSON.parse(stdoutText.trim().split('\n').pop() ?? '{}') as { samples: number; sends: [number, string][] });
+      },
+    );
+  });
+  const cpu = process.cpuUsage(cpu0);
+  delay.disable();
+  dashboard?.unmount();
+  run.stop();
+  await run.done;
+  subscription.unsubscribe();
+  const sendToState: number[] = [];
+  const pipeline: number[] = [];
+  const first = sent.sends[0]?.[0] ?? 0;
+  for (const [t, ns] of sent.sends) {
+    if (t - first < options.warmupS) continue;
+    const got = seen.get(t);
+    if (got === undefined) continue;
+    sendToState.push(Number(got.ns - BigInt(ns)) / 1e6);
+    pipeline.push(Number(got.pipelineNs) / 1e6);
+  }
+  return {
+    messages: sendToState.length,
+    samples: sent.samples,
+    samplesPerS: sent.samples / options.durationS,
+    sendToStateP50Ms: quantile(sendToState, 0.5),
+    sendToStateP99Ms: quantile(sendToState, 0.99),
+    sendToStateMaxMs: quantile(sendToState, 1),
+    pipelineP50Ms: quantile(pipeline, 0.5),
+    pipelineP99Ms: quantile(pipeline, 0.99),
+    frames: stdout.frames,
+    cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.durationS,
+    loopDelayP99Ms: delay.percentile(99) / 1e6,
+  };
+}
+
+function line(name: string, f: LatencyFigures): string {
+  return (
+    `live ${name.padEnd(10)} ${f.samplesPerS.toFixed(0)} samples/s in ${f.messages} messages: send → state p50 ${f.sendToStateP50Ms.toFixed(2)} ms, ` +
+    `p99 ${f.sendToStateP99Ms.toFixed(2)} ms (max ${f.sendToStateMaxMs.toFixed(1)}); pipeline p50 ${f.pipelineP50Ms.toFixed(3)} ms, p99 ${f.pipelineP99Ms.toFixed(3)} ms` +
+    `; CPU ${f.cpuMsPerS.toFixed(0)} ms/s, event-loop delay p99 ${f.loopDelayP99Ms.toFixed(1)} ms` +
+    (f.frames > 0 ? `; ${f.frames} screen writes` : '')
+  );
+}
+
+export async function measureLive(options: { readonly quick: boolean }): Promise<LiveResult> {
+  const base = { rateHz: 500, muscles: 4, messageMs: 10, durationS: options.quick ? 6 : 20, warmupS: 1 };
+  const plain = await session({ ...base, dashboard: false });
+  const dashboard = await session({ ...base, dashboard: true });
+  const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
+  return {
+    ...base,
+    plain,
+    dashboard,
+    dashboardP99Ratio: ratio,
+    lines: [line('plain', plain), line('dashboard', dashboard), `live dashboard adds ${((ratio - 1) * 100).toFixed(0)}% to the p99`],
+  };
 }

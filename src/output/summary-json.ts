@@ -1,7 +1,7 @@
 /** The `--summary FILE.json` contract (lengthwise-summary, version 1), built from a TrialState. */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
-import { CYCLE_POINTS, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../state.ts';
+import { CYCLE_POINTS, HISTOGRAM_BIN_UM, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../state.ts';
 import { cycleSd, histogramQuantile, histogramRegionProbability } from '../pipeline/stride-figures.ts';
 
 /** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
@@ -89,6 +89,58 @@ export interface MuscleJson {
   strides: StrideJson[];
   trial: TrialFiguresJson;
   cycle: CycleJson | null;
+  /** The filament lengths of the curve the muscle was placed on (µm; the calibration's key names). */
+  filaments: FilamentsJson;
+  /** Seconds of the unflagged strides spent at each sarcomere length: bin i covers start_um + i × bin_um. */
+  sl_histogram: SlHistogramJson | null;
+}
+
+export interface FilamentsJson {
+  thick_um: number;
+  thin_um: number;
+  bare_zone_um: number;
+  z_disc_um: number;
+  steep_zero_um: number;
+  steep_break_force: number;
+}
+
+export interface SlHistogramJson {
+  start_um: number;
+  bin_um: number;
+  seconds: number[];
+}
+
+/** Bin width of the summary's time-at-length histogram, µm: fine enough to draw, small enough to read. */
+export const SUMMARY_HISTOGRAM_BIN_UM = 0.01;
+
+/** The trial's fine histogram, coarsened to SUMMARY_HISTOGRAM_BIN_UM and trimmed of empty ends. */
+export function slHistogramJson(fine: Float64Array | undefined): SlHistogramJson | null {
+  if (fine === undefined) return null;
+  const factor = Math.max(1, Math.round(SUMMARY_HISTOGRAM_BIN_UM / HISTOGRAM_BIN_UM));
+  const coarse: number[] = [];
+  for (let i = 0; i < fine.length; i += factor) {
+    let sum = 0;
+    for (let j = i; j < Math.min(fine.length, i + factor); j++) sum += fine[j] as number;
+    coarse.push(sum);
+  }
+  const first = coarse.findIndex((x) => x > 0);
+  if (first === -1) return null;
+  let last = coarse.length - 1;
+  while (last > first && !((coarse[last] as number) > 0)) last--;
+  const binUm = factor * HISTOGRAM_BIN_UM;
+  return { start_um: Math.round(first * binUm * 1e6) / 1e6, bin_um: binUm, seconds: coarse.slice(first, last + 1) };
+}
+
+function filamentsJson(m: MuscleState): FilamentsJson {
+  const g = m.curve.geometry;
+  return {
+    thick_um: g.thickUm,
+    thin_um: g.thinUm,
+    bare_zone_um: g.bareZoneUm,
+    z_disc_um: g.zDiscUm,
+    steep_zero_um: g.steepZeroUm,
+    steep_break_force: g.steepBreakForce,
+  };
 }
 
 export interface SummaryJson {
@@ -307,6 +359,8 @@ function muscleJson(m: MuscleState): MuscleJson {
     strides: m.strides.map(strideJson),
     trial: trialFigures(m.strides, { curve: m.curve, relativeSd, histograms: m.trialHistograms }),
     cycle: cycleJson(m),
+    filaments: filamentsJson(m),
+    sl_histogram: slHistogramJson(m.trialHistograms?.stride),
   };
 }
 

@@ -6,7 +6,7 @@ import { breakpoints, curveFromGeometry, geometryProblems, regionAt, withFilamen
 import { normalCdf } from '../model/normal.ts';
 import { REGION_KEYS, type RegionKey } from '../model/regions.ts';
 import { isSpecies, SPECIES_GEOMETRY, type Species } from '../model/species.ts';
-import type { CycleJson, MuscleJson } from '../output/summary-json.ts';
+import type { CycleJson, MuscleJson, SlHistogramJson } from '../output/summary-json.ts';
 
 /** A point of the force–length curve. */
 export interface CurvePoint {
@@ -85,7 +85,7 @@ export interface LengthBin {
 export interface TimeAtLength {
   readonly bins: LengthBin[];
   /** How the histogram was made, for the plot's caption. */
-  readonly method: 'cycle' | 'regions' | 'none';
+  readonly method: 'measured' | 'cycle' | 'regions' | 'none';
 }
 
 /** Weight of each gait-cycle point in time: equal steps, the two ends (0% and 100%) half each (trapezoid rule). */
@@ -157,8 +157,34 @@ export function timeAtLengthFromRegions(m: Pick<MuscleJson, 'trial'>, curve: For
   return bins;
 }
 
-/** The best time-at-length histogram the summary allows: from the gait-cycle curve, else from the region fractions. */
-export function timeAtLength(m: Pick<MuscleJson, 'trial' | 'cycle'>, curve: ForceLengthCurve, binUm = 0.02): TimeAtLength {
+/**
+ * Time at each length measured by the pipeline (the summary's `sl_histogram`), regrouped into bins of
+ * `binUm` (a whole multiple of the summary's bin; otherwise the summary's own bins are kept).
+ */
+export function timeAtLengthFromHistogram(histogram: SlHistogramJson, curve: ForceLengthCurve, binUm = 0.02): LengthBin[] {
+  const group = Math.max(1, Math.round(binUm / histogram.bin_um));
+  const width = group * histogram.bin_um;
+  const total = histogram.seconds.reduce((a, b) => a + b, 0);
+  if (!(total > 0)) return [];
+  const bins: LengthBin[] = [];
+  for (let i = 0; i < histogram.seconds.length; i += group) {
+    let seconds = 0;
+    for (let j = i; j < Math.min(histogram.seconds.length, i + group); j++) seconds += histogram.seconds[j] as number;
+    const fromUm = histogram.start_um + i * histogram.bin_um;
+    bins.push({ fromUm, toUm: fromUm + width, percent: (100 * seconds) / total, region: regionAt(curve, fromUm + width / 2) });
+  }
+  return bins;
+}
+
+/**
+ * The best time-at-length histogram the summary allows: measured (`sl_histogram`), else estimated from the
+ * gait-cycle curve, else from the region fractions.
+ */
+export function timeAtLength(m: Pick<MuscleJson, 'trial' | 'cycle'> & { readonly sl_histogram?: SlHistogramJson | null }, curve: ForceLengthCurve, binUm = 0.02): TimeAtLength {
+  if (m.sl_histogram !== null && m.sl_histogram !== undefined) {
+    const bins = timeAtLengthFromHistogram(m.sl_histogram, curve, binUm);
+    if (bins.length > 0) return { bins, method: 'measured' };
+  }
   if (m.cycle !== null && m.cycle !== undefined) {
     const bins = timeAtLengthFromCycle(m.cycle, curve, binUm);
     if (bins.length > 0) return { bins, method: 'cycle' };

@@ -104,7 +104,9 @@ async function entrySection(e: Entry, warnings: string[]): Promise<string> {
     e.curve,
   );
   const timeCaption =
-    time.method === 'cycle'
+    time.method === 'measured'
+      ? 'Force–length curve (line, left axis) with the share of time spent at each length over the unflagged strides (bars, right axis); dashed: 5th percentile, mean, 95th percentile.'
+      : time.method === 'cycle'
       ? 'Force–length curve (line, left axis) with the share of time at each length (bars, right axis), estimated from the gait-cycle mean ± SD; dashed: 5th percentile, mean, 95th percentile.'
       : time.method === 'regions'
         ? "Force–length curve (line, left axis) with each region's exact share of time spread over the lengths it covered (bars, right axis; no gait-cycle curve in this summary)."

@@ -39,6 +39,7 @@ options:
   --summary FILE.json    write the per-stride and per-trial summary at the end
                          [default: beside the session log, LOG.summary.json]
   --strides FILE.csv     write one row per stride and muscle at the end
+  --report FILE.html     write the self-contained HTML report at the end
   --log FILE             the session log (every message received, valid or not; a replay file)
                          [default: sessions/<UTC date-time>Z.ndjson]
   --duration S           end by itself after S seconds
@@ -137,6 +138,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
         calibration: { type: 'string' },
         summary: { type: 'string' },
         strides: { type: 'string' },
+        report: { type: 'string' },
         log: { type: 'string' },
         duration: { type: 'string' },
         plain: { type: 'boolean', default: false },
@@ -236,7 +238,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   for (const hint of session.hints) io.err(`note: ${hint}`);
   // A live session cannot be run again: its summary is written even when not asked for, beside the log.
   const summary = values.summary ?? (log.complete ? summaryPathFor(log.path) : undefined);
-  const status = await finishTrial(final.state, { summary, strides: values.strides }, io);
+  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
   return status;
 }

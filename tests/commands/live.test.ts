@@ -141,7 +141,7 @@ describe('lengthwise live --listen', () => {
   it('ends on SIGTERM: writes the summary, closes the log and exits 0; the replay of its log gives the same summary', async () => {
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--report', join(dir, 'live.html')]);
     const port = await listeningPort(c);
     const header = JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side: 'left' } } });
     const a = await wsClient(`ws://127.0.0.1:${port}`);
@@ -161,6 +161,7 @@ describe('lengthwise live --listen', () => {
     expect(live.frames).toMatchObject({ accepted: 250, rejected: BAD_MESSAGES.length, headers: 1, gait_events: 2, markers: 1 });
     const replay = await replaySummary(log, dir, 'replay.json');
     expect(withoutSource(replay)).toEqual(withoutSource(live));
+    expect(await readFile(join(dir, 'live.html'), 'utf8')).toContain('<svg');
   });
 
   it('says loudly when the log cannot be written, goes on, and the summary says the log is incomplete', async () => {

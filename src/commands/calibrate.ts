@@ -1,6 +1,6 @@
 /** `lengthwise calibrate FILE`: a calibration from a quiet window of a trial (e.g. standing still). */
-import { parseArgs } from 'node:util';
 import type { CommandIo } from './io.ts';
+import { parseCommandArgs } from './parse-command-args.ts';
 import type { Batch } from '../records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
@@ -99,29 +99,15 @@ function mm(x: number): string {
 }
 
 export async function run(argv: string[], io: CommandIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: {
-        muscle: { type: 'string' },
-        window: { type: 'string' },
-        'sarcomere-length': { type: 'string' },
-        sd: { type: 'string' },
-        species: { type: 'string', default: DEFAULT_SPECIES },
-        help: { type: 'boolean', short: 'h', default: false },
-      },
-    });
-  } catch (error) {
-    io.err(`lengthwise calibrate: ${(error as Error).message}\n\n${HELP}`);
-    return 2;
-  }
+  const parsed = parseCommandArgs('calibrate', HELP, argv, {
+    muscle: { type: 'string' },
+    window: { type: 'string' },
+    'sarcomere-length': { type: 'string' },
+    sd: { type: 'string' },
+    species: { type: 'string', default: DEFAULT_SPECIES },
+  }, io);
+  if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
-  if (values.help) {
-    io.out(HELP);
-    return 0;
-  }
 
   const problems: string[] = [];
   if (positionals.length !== 1) problems.push(`give exactly one trial FILE (got ${positionals.length})`);

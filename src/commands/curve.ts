@@ -1,6 +1,6 @@
 /** `lengthwise curve`: the force–length model at given sarcomere lengths, or across its whole range. */
-import { parseArgs } from 'node:util';
 import type { CommandIo } from './io.ts';
+import { parseCommandArgs } from './parse-command-args.ts';
 import { breakpoints, type FilamentGeometry } from '../model/geometry.ts';
 import { CURVE_SHAPES, DEFAULT_SHAPE, isCurveShape, makeMuscleModel, muscleModelProblems, type MuscleModel, type MuscleModelOptions } from '../model/muscle-model.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
@@ -114,31 +114,17 @@ function textTable(points: readonly CurvePoint[]): string[] {
 }
 
 export async function run(argv: string[], io: CommandIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: false,
-      options: {
-        species: { type: 'string', default: DEFAULT_SPECIES },
-        filaments: { type: 'string' },
-        dispersion: { type: 'string', default: '0' },
-        shape: { type: 'string', default: DEFAULT_SHAPE },
-        sl: { type: 'string', multiple: true },
-        step: { type: 'string', default: '0.01' },
-        json: { type: 'boolean', default: false },
-        help: { type: 'boolean', short: 'h', default: false },
-      },
-    });
-  } catch (error) {
-    io.err(`lengthwise curve: ${(error as Error).message}\n\n${HELP}`);
-    return 2;
-  }
+  const parsed = parseCommandArgs('curve', HELP, argv, {
+    species: { type: 'string', default: DEFAULT_SPECIES },
+    filaments: { type: 'string' },
+    dispersion: { type: 'string', default: '0' },
+    shape: { type: 'string', default: DEFAULT_SHAPE },
+    sl: { type: 'string', multiple: true },
+    step: { type: 'string', default: '0.01' },
+    json: { type: 'boolean', default: false },
+  }, io, { allowPositionals: false });
+  if (typeof parsed === 'number') return parsed;
   const { values } = parsed;
-  if (values.help) {
-    io.out(HELP);
-    return 0;
-  }
 
   const problems: string[] = [];
   const species = values.species;

@@ -4,9 +4,9 @@
  * status lines, keep the session log, and write the summary when the session ends (q, Ctrl+C, SIGTERM
  * or --duration).
  */
-import { parseArgs } from 'node:util';
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from './io.ts';
+import { parseCommandArgs } from './parse-command-args.ts';
 import type { Batch, Frame } from '../records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialState } from '../state.ts';
@@ -125,35 +125,21 @@ export interface LiveRunOptions {
 }
 
 export async function run(argv: string[], io: CommandIo, options: LiveRunOptions = {}): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: false,
-      options: {
-        connect: { type: 'string' },
-        listen: { type: 'string' },
-        token: { type: 'string' },
-        mapping: { type: 'string' },
-        calibration: { type: 'string' },
-        summary: { type: 'string' },
-        strides: { type: 'string' },
-        report: { type: 'string' },
-        log: { type: 'string' },
-        duration: { type: 'string' },
-        plain: { type: 'boolean', default: false },
-        help: { type: 'boolean', short: 'h', default: false },
-      },
-    });
-  } catch (error) {
-    io.err(`lengthwise live: ${(error as Error).message}\n\n${HELP}`);
-    return 2;
-  }
+  const parsed = parseCommandArgs('live', HELP, argv, {
+    connect: { type: 'string' },
+    listen: { type: 'string' },
+    token: { type: 'string' },
+    mapping: { type: 'string' },
+    calibration: { type: 'string' },
+    summary: { type: 'string' },
+    strides: { type: 'string' },
+    report: { type: 'string' },
+    log: { type: 'string' },
+    duration: { type: 'string' },
+    plain: { type: 'boolean', default: false },
+  }, io, { allowPositionals: false });
+  if (typeof parsed === 'number') return parsed;
   const { values } = parsed;
-  if (values.help) {
-    io.out(HELP);
-    return 0;
-  }
   if ((values.connect === undefined) === (values.listen === undefined)) {
     io.err(`lengthwise live: give either --connect URL or --listen [HOST:]PORT (exactly one).\n\n${HELP}`);
     return 2;

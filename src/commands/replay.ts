@@ -1,7 +1,7 @@
 /** `lengthwise replay FILE`: play a recorded trial through the pipeline, with the dashboard or plain status lines. */
-import { parseArgs } from 'node:util';
 import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
 import type { CommandIo } from './io.ts';
+import { parseCommandArgs } from './parse-command-args.ts';
 import type { Batch } from '../records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
@@ -53,30 +53,16 @@ export function parseSpeed(text: string): { ok: true; speed: Speed } | { ok: fal
 }
 
 export async function run(argv: string[], io: CommandIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: {
-        speed: { type: 'string', default: '1' },
-        calibration: { type: 'string' },
-        summary: { type: 'string' },
-        strides: { type: 'string' },
-        report: { type: 'string' },
-        plain: { type: 'boolean', default: false },
-        help: { type: 'boolean', short: 'h', default: false },
-      },
-    });
-  } catch (error) {
-    io.err(`lengthwise replay: ${(error as Error).message}\n\n${HELP}`);
-    return 2;
-  }
+  const parsed = parseCommandArgs('replay', HELP, argv, {
+    speed: { type: 'string', default: '1' },
+    calibration: { type: 'string' },
+    summary: { type: 'string' },
+    strides: { type: 'string' },
+    report: { type: 'string' },
+    plain: { type: 'boolean', default: false },
+  }, io);
+  if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
-  if (values.help) {
-    io.out(HELP);
-    return 0;
-  }
   const [path, ...extra] = positionals;
   if (path === undefined || extra.length > 0) {
     io.err(`lengthwise replay: give exactly one trial file (got ${positionals.length}).\n\n${HELP}`);

@@ -1,6 +1,6 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
-import { parseArgs } from 'node:util';
 import type { CommandIo } from './io.ts';
+import { parseCommandArgs } from './parse-command-args.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
@@ -77,29 +77,15 @@ function progressReporter(io: CommandIo, bar: boolean): { readonly onEvent: (eve
 }
 
 export async function run(argv: string[], io: CommandIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: {
-        out: { type: 'string' },
-        report: { type: 'string' },
-        calibration: { type: 'string' },
-        jobs: { type: 'string' },
-        plain: { type: 'boolean', default: false },
-        help: { type: 'boolean', short: 'h', default: false },
-      },
-    });
-  } catch (error) {
-    io.err(`lengthwise summarize: ${(error as Error).message}\n\n${HELP}`);
-    return 2;
-  }
+  const parsed = parseCommandArgs('summarize', HELP, argv, {
+    out: { type: 'string' },
+    report: { type: 'string' },
+    calibration: { type: 'string' },
+    jobs: { type: 'string' },
+    plain: { type: 'boolean', default: false },
+  }, io);
+  if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
-  if (values.help) {
-    io.out(HELP);
-    return 0;
-  }
   if (positionals.length === 0) {
     io.err(`lengthwise summarize: give one or more trial files.\n\n${HELP}`);
     return 2;

@@ -45,7 +45,7 @@ export function lowQualityAlert(muscle: string, lowSinceS: number | null, nowS: 
     kind: 'low_quality',
     muscle,
     severity: 'warning',
-    text: `${muscle}: tracking quality low for ${fixed(nowS - lowSinceS, 1)} s — check probe contact, gel and strapping`,
+    text: `${muscle}: tracking quality low for ${fixed(nowS - lowSinceS, 1)} s — check probe contact, gel, strap`,
   };
 }
 
@@ -57,28 +57,34 @@ export function implausibleLengthAlert(muscle: string, sarcomereUm: number): Ale
     kind: 'implausible_length',
     muscle,
     severity: 'warning',
-    text: `${muscle}: sarcomere length ${fixed(sarcomereUm, 2)} µm is outside the plausible ${min}–${max} µm — check the calibration and the tracking`,
+    text: `${muscle}: SL ${fixed(sarcomereUm, 2)} µm, outside ${min}–${max} µm — check calibration, tracking`,
   };
 }
 
+/** A probe move stays on screen this many completed strides after the jump, so a glance every few seconds sees it. */
+export const BASELINE_SHIFT_HOLD_STRIDES = 3;
+
 /**
- * Compares the last two completed strides (`strides` oldest first). Under one calibration the stride-mean
- * sarcomere length is the stride-mean fascicle length times a constant, so their relative change is the
- * fascicle's.
+ * Compares consecutive completed strides (`strides` oldest first) among the last few. Under one
+ * calibration the stride-mean sarcomere length is the stride-mean fascicle length times a constant, so
+ * their relative change is the fascicle's. The newest jump is named.
  */
 export function baselineShiftAlert(muscle: string, strides: readonly StrideSummary[]): Alert | null {
-  const last = strides[strides.length - 1];
-  const before = strides[strides.length - 2];
-  if (last === undefined || before === undefined) return null;
-  if (!(before.slMeanUm > 0) || !Number.isFinite(last.slMeanUm)) return null;
-  const change = (last.slMeanUm - before.slMeanUm) / before.slMeanUm;
-  if (!(Math.abs(change) > BASELINE_SHIFT_FRACTION)) return null;
-  return {
-    kind: 'baseline_shift',
-    muscle,
-    severity: 'warning',
-    text: `${muscle}: stride-mean length ${change > 0 ? 'rose' : 'fell'} ${percent(Math.abs(change))} from stride ${before.index + 1} to ${last.index + 1} — the probe may have moved; check it, then recalibrate`,
-  };
+  for (let i = strides.length - 1; i >= 1 && i >= strides.length - BASELINE_SHIFT_HOLD_STRIDES; i--) {
+    const last = strides[i];
+    const before = strides[i - 1];
+    if (last === undefined || before === undefined) continue;
+    if (!(before.slMeanUm > 0) || !Number.isFinite(last.slMeanUm)) continue;
+    const change = (last.slMeanUm - before.slMeanUm) / before.slMeanUm;
+    if (!(Math.abs(change) > BASELINE_SHIFT_FRACTION)) continue;
+    return {
+      kind: 'baseline_shift',
+      muscle,
+      severity: 'warning',
+      text: `${muscle}: mean length ${change > 0 ? 'up' : 'down'} ${percent(Math.abs(change))} (stride ${before.index + 1}→${last.index + 1}): probe moved? check, recalibrate`,
+    };
+  }
+  return null;
 }
 
 /**
@@ -99,7 +105,7 @@ export function noSamplesAlerts(
       kind: 'no_samples' as const,
       muscle,
       severity: 'critical' as const,
-      text: `${muscle}: no samples for ${fixed(ageMs / 1000, 1)} s while other muscles arrive — check this probe and its tracking`,
+      text: `${muscle}: no samples for ${fixed(ageMs / 1000, 1)} s while others arrive — check this probe`,
     }));
   }
   if (connection !== undefined && connection.state !== 'connected') return [];
@@ -116,12 +122,12 @@ export function noSamplesAlerts(
 
 export function uncalibratedAlert(calibrated: boolean, muscleCount: number, canCalibrate: boolean): Alert | null {
   if (calibrated || muscleCount === 0) return null;
-  const how = canCalibrate ? 'give --calibration FILE, or press c at a known posture' : 'give --calibration FILE';
+  const how = canCalibrate ? 'give --calibration or press c' : 'give --calibration FILE';
   return {
     kind: 'uncalibrated',
     muscle: null,
     severity: 'critical',
-    text: `UNCALIBRATED — lengths assume each muscle's first 3 s sit at the plateau middle; ${how}`,
+    text: `UNCALIBRATED (first 3 s taken as mid-plateau): ${how}`,
   };
 }
 
@@ -133,7 +139,7 @@ export function connectionAlert(connection: ConnectionStatus | undefined): Alert
     kind: 'disconnected',
     muscle: null,
     severity: 'critical',
-    text: `DISCONNECTED — reconnecting ${when}${detail}; samples in the gap are lost, nothing is interpolated`,
+    text: `DISCONNECTED — reconnecting ${when}; the gap is not filled in${detail}`,
   };
 }
 

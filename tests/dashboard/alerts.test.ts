@@ -63,12 +63,18 @@ describe('baselineShiftAlert', () => {
   });
   it('raises a jump of more than 10% between consecutive strides, either way', () => {
     const up = baselineShiftAlert('calf', stridesWithMeans(2.5, 2.5, 2.8));
-    expect(up?.text).toContain('rose 12%');
-    expect(up?.text).toContain('stride 2 to 3');
-    expect(baselineShiftAlert('calf', stridesWithMeans(2.8, 2.4))?.text).toContain('fell 14%');
+    expect(up?.text).toContain('up 12%');
+    expect(up?.text).toContain('(stride 2→3)');
+    expect(baselineShiftAlert('calf', stridesWithMeans(2.8, 2.4))?.text).toContain('down 14%');
   });
-  it('clears itself once the next stride is like the one before it', () => {
-    expect(baselineShiftAlert('calf', stridesWithMeans(2.5, 2.8, 2.81))).toBeNull();
+  it('stays for three strides after the jump, then clears itself', () => {
+    expect(baselineShiftAlert('calf', stridesWithMeans(2.5, 2.8, 2.81))?.text).toContain('(stride 1→2)');
+    expect(baselineShiftAlert('calf', stridesWithMeans(2.5, 2.8, 2.81, 2.8))?.text).toContain('(stride 1→2)');
+    expect(baselineShiftAlert('calf', stridesWithMeans(2.5, 2.8, 2.81, 2.8, 2.79))).toBeNull();
+  });
+
+  it('names the newest of several jumps', () => {
+    expect(baselineShiftAlert('calf', stridesWithMeans(2.5, 2.8, 2.4))?.text).toContain('down 14% (stride 2→3)');
   });
   it('ignores strides without a mean', () => {
     expect(baselineShiftAlert('calf', stridesWithMeans(Number.NaN, 2.8))).toBeNull();
@@ -139,5 +145,23 @@ describe('streamErrorAlert and sortAlerts', () => {
     const d: Alert = { kind: 'uncalibrated', muscle: null, severity: 'critical', text: 'd' };
     expect(sortAlerts([a, b, c, d]).map((x) => x.text)).toEqual(['b', 'd', 'a', 'c']);
     expect(sortAlerts([])).toEqual([]);
+  });
+});
+
+describe('alert texts', () => {
+  it('fit an 80-column line (less the marks around them) for a short muscle name', () => {
+    const texts = [
+      lowQualityAlert('thigh', 1, 12.4),
+      implausibleLengthAlert('thigh', 4.92),
+      baselineShiftAlert('thigh', stridesWithMeans(2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.9)),
+      ...noSamplesAlerts(new Map([['thigh', 12_300], ['calf', 10]]), false, undefined),
+      ...noSamplesAlerts(new Map([['thigh', 12_300]]), false, undefined),
+      uncalibratedAlert(false, 2, true),
+      connectionAlert({ state: 'reconnecting', retryInS: 12 }),
+    ].map((a) => a?.text ?? '');
+    for (const text of texts) {
+      expect(text).not.toBe('');
+      expect([...text].length, text).toBeLessThanOrEqual(76);
+    }
   });
 });

@@ -226,7 +226,7 @@ describe('Dashboard', () => {
     await advance(300);
     const text = plain(screen.lastFrame());
     expect(text).toContain(' UNCALIBRATED ');
-    expect(text).toContain("! UNCALIBRATED — lengths assume each muscle's first 3 s");
+    expect(text).toContain('! UNCALIBRATED (first 3 s taken as mid-plateau): give --calibration or press c');
     expect(text).toContain('calf left · uncalibrated');
   });
 

@@ -7,6 +7,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { ALERT_TRIAL, writeAlertTrial } from './alert-trial.ts';
 import { COLOUR_SGR } from './terminal-double.ts';
 
 const HAS_TMUX = spawnSync('tmux', ['-V'], { encoding: 'utf8' }).status === 0;
@@ -130,6 +131,28 @@ describe.skipIf(!HAS_TMUX)(title, () => {
     await screenWhere('colour', (t) => t.includes('SL ') && t.includes('thigh'), 'the panels');
     expect(screen('colour', true)).toMatch(COLOUR_SGR);
     keys('colour', 'q');
+    expect((await fileWhere(status, 'the exit status')).trim()).toBe('0');
+  });
+
+  it('raises the alerts of a troubled trial as they happen and clears each when its cause is gone', { timeout: 90_000 }, async () => {
+    const trial = join(work, 'alerts.ndjson');
+    writeAlertTrial(trial);
+    const status = start('alerts', `node bin/lengthwise.js replay '${trial}' --speed 2`);
+    const lowQuality = 'calf: tracking quality low for';
+    const silent = 'thigh: no samples for';
+    const moved = 'calf: mean length up 15%';
+    // Tracking quality low from 5 s of trial time; raised after more than a second of it, gone when it recovers at 8 s.
+    await screenWhere('alerts', (t) => t.includes(lowQuality), 'the low-quality alert');
+    await screenWhere('alerts', (t) => !t.includes(lowQuality) && t.includes('SL '), 'the low-quality alert cleared');
+    // thigh silent from 10 s while calf goes on: raised after a second of wall time, gone when thigh is back.
+    await screenWhere('alerts', (t) => t.includes(silent), 'the no-samples alert');
+    await screenWhere('alerts', (t) => !t.includes(silent), 'the no-samples alert cleared');
+    // calf's fascicle baseline jumps 15% at a foot strike: raised when that stride closes.
+    const shifted = await screenWhere('alerts', (t) => t.includes(moved), 'the probe-moved alert');
+    expect(shifted).toContain('probe moved? check, recalibrate');
+    await screenWhere('alerts', (t) => !t.includes(moved) && t.includes('SL '), 'the probe-moved alert cleared', 20_000);
+    expect(ALERT_TRIAL.shiftFactor).toBeGreaterThan(1.1);
+    keys('alerts', 'q');
     expect((await fileWhere(status, 'the exit status')).trim()).toBe('0');
   });
 });

@@ -6,7 +6,7 @@ import type { TrialState } from '../../src/state.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import { startDashboard } from '../../src/dashboard/start-dashboard.tsx';
 import { MARKER_IN_BAND } from '../../src/dashboard/curve-drawing.ts';
-import { completeStride, makeMuscle, makeTrialState, pushSample, walkingState } from './fixtures.ts';
+import { completeStride, makeMuscle, makeTrialState, pushSample, startStride, walkingState } from './fixtures.ts';
 import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, tick, type Screen } from './terminal-double.ts';
 
 const screens: Screen[] = [];
@@ -142,6 +142,30 @@ describe('Dashboard', () => {
     await screen.press(KEY.tab);
     await frameWhere(screen, (f) => plain(f).split('\n').some((l) => /^\s+calf left\s+SL 2\.71 µm/.test(l)), 'calf as a line once thigh has the panel');
     await shows(screen, '▸ thigh');
+  });
+
+  it('shows a dash for values that are not numbers and never fails on them', async () => {
+    const state = makeTrialState([makeMuscle('calf', { calibrationSource: null })]);
+    pushSample(state, 'calf', { tS: 1, sarcomereUm: Number.NaN, velocityMmS: Number.NaN, pennationDeg: Number.NaN });
+    const calf = state.muscles.get('calf');
+    if (calf?.latest != null) calf.latest.region = null;
+    startStride(state, 'calf', { slMinUm: Number.POSITIVE_INFINITY, slMaxUm: Number.NEGATIVE_INFINITY });
+    const { screen, advance } = show(new BehaviorSubject(state));
+    await advance(300);
+    await shows(screen, 'SL – µm  –');
+    await shows(screen, 'velocity – mm/s');
+    await shows(screen, 'calibration pending');
+  });
+
+  it('says the pipeline stopped, keeping the last figures, when the state stream fails', async () => {
+    const state$ = new Subject<TrialState>();
+    const { screen, advance } = show(state$);
+    await advance(10);
+    state$.next(walkingState());
+    state$.error(new Error('the trial file could not be read: permission denied'));
+    await advance(300);
+    await shows(screen, '! the pipeline stopped: the trial file could not be read: permission denied');
+    await shows(screen, 'SL 2.71 µm');
   });
 
   it('moves the marker along the curve when the sarcomere length changes', async () => {

@@ -3,8 +3,8 @@
  * calibration, focus, help and replay speed. It reads the trial's state and never drives the pipeline.
  */
 import { Box, Text, useApp, useInput, type Key } from 'ink';
-import { useCallback, useMemo, useRef, useState } from 'react';
-import type { Observable, SchedulerLike } from 'rxjs';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { asyncScheduler, type Observable, type SchedulerLike } from 'rxjs';
 import type { TrialState } from '../state.ts';
 import AlertList from './alert-list.tsx';
 import CalibratePrompt from './calibrate-prompt.tsx';
@@ -54,7 +54,14 @@ export default function Dashboard(props: Props) {
   const theme = useMemo(() => createTheme(props.color ?? true), [props.color]);
   const ui = useRef<UiState>(INITIAL_UI);
   const [, setUiVersion] = useState(0);
-  const [flash, setFlash] = useState<{ readonly text: string; readonly untilMs: number } | null>(null);
+  const [flash, setFlash] = useState<{ readonly text: string; readonly id: number } | null>(null);
+  const scheduler = props.scheduler ?? asyncScheduler;
+  // A message clears itself after a while, frozen display or not.
+  useEffect(() => {
+    if (flash === null) return undefined;
+    const timer = scheduler.schedule(() => setFlash((f) => (f?.id === flash.id ? null : f)), FLASH_MS);
+    return () => timer.unsubscribe();
+  }, [flash, scheduler]);
   const { frozen, mode } = ui.current;
   const { exit } = useApp();
   const size = useTerminalSize({
@@ -110,7 +117,7 @@ export default function Dashboard(props: Props) {
           onSpeed?.(effect.direction);
           break;
         case 'say':
-          setFlash({ text: effect.text, untilMs: view.wallMs + FLASH_MS });
+          setFlash((f) => ({ text: effect.text, id: (f?.id ?? 0) + 1 }));
           break;
       }
     }
@@ -135,7 +142,7 @@ export default function Dashboard(props: Props) {
   const reserved = 2 + (status.replay === undefined ? 0 : 1) + alertRows + promptRows + 1;
   // One row short of the terminal: a frame as tall as the terminal makes Ink clear the screen each frame.
   const layout = chooseLayout(size.columns, size.rows - 1, muscleCount, reserved);
-  const flashText = flash !== null && view.wallMs < flash.untilMs ? flash.text : (status.message ?? null);
+  const flashText = flash?.text ?? status.message ?? null;
 
   return (
     <Box flexDirection="column" width={size.columns}>

@@ -56,7 +56,7 @@ const ROLE_COLOR: Readonly<Record<Role, TextStyle>> = {
   label: { color: 'gray' },
   key: { color: 'cyan', bold: true },
   title: { bold: true },
-  focus: { color: 'cyan', bold: true },
+  focus: { color: 'whiteBright', bold: true },
   flash: { color: 'cyan' },
 };
 
@@ -92,6 +92,6 @@ export function createTheme(color: boolean): Theme {
       }
     },
     role: (role) => (color ? ROLE_COLOR[role] : ROLE_PLAIN[role]),
-    border: (focused) => (color ? { borderColor: focused ? 'cyan' : 'gray' } : {}),
+    border: (focused) => (color ? { borderColor: focused ? 'whiteBright' : 'gray' } : {}),
   };
 }

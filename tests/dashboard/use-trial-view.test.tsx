@@ -6,7 +6,7 @@ import { useStatus } from '../../src/dashboard/use-status.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import type { TrialState } from '../../src/state.ts';
 import { pushSample, walkingState } from './fixtures.ts';
-import { renderScreen, tick, type Screen } from './terminal-double.ts';
+import { renderScreen, tick, waitFor, type Screen } from './terminal-double.ts';
 
 function Probe({ state$, scheduler, frozen = false }: { readonly state$: Observable<TrialState>; readonly scheduler: VirtualTimeScheduler; readonly frozen?: boolean }) {
   const view = useTrialView(state$, { scheduler, frameMs: 80, tickMs: 250, frozen });
@@ -48,6 +48,7 @@ describe('useTrialView', () => {
     const state$ = new Subject<TrialState>();
     const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
     screens.push(screen);
+    await waitFor(() => state$.observed, 'the hook subscribing');
     state$.next(walkingState());
     expect(screen.lastFrame()).toContain('muscles=0');
     await advance(80);
@@ -60,6 +61,7 @@ describe('useTrialView', () => {
     const state = walkingState();
     const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
     screens.push(screen);
+    await waitFor(() => state$.observed, 'the hook subscribing');
     for (let i = 0; i < 50; i++) {
       pushSample(state, 'calf', { tS: 6 + i / 100, sarcomereUm: 2 + i / 100 });
       state$.next(state);
@@ -73,6 +75,7 @@ describe('useTrialView', () => {
     const state$ = new Subject<TrialState>();
     const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
     screens.push(screen);
+    await waitFor(() => state$.observed, 'the hook subscribing');
     state$.next(walkingState());
     state$.error(new Error('trial file vanished'));
     await advance(300);
@@ -84,6 +87,7 @@ describe('useTrialView', () => {
     const { scheduler, advance } = setup();
     const state$ = new Subject<TrialState>();
     const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    await waitFor(() => state$.observed, 'the hook subscribing');
     state$.next(walkingState());
     await advance(40);
     expect(state$.observed).toBe(true);
@@ -98,6 +102,7 @@ describe('useTrialView', () => {
     const { scheduler } = setup();
     const state$ = new Subject<TrialState>();
     const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+    await waitFor(() => state$.observed, 'the hook subscribing');
     screen.instance.unmount();
     await tick(5);
     expect(state$.observed).toBe(false);
@@ -109,6 +114,7 @@ describe('useTrialView', () => {
     const state = walkingState();
     const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} frozen={false} />);
     screens.push(screen);
+    await waitFor(() => state$.observed, 'the hook subscribing');
     state$.next(state);
     await advance(100);
     screen.instance.rerender(<Probe state$={state$} scheduler={scheduler} frozen />);
@@ -118,8 +124,7 @@ describe('useTrialView', () => {
     expect(screen.lastFrame()).toContain('calf=2.71');
     expect(state$.observed).toBe(true);
     screen.instance.rerender(<Probe state$={state$} scheduler={scheduler} frozen={false} />);
-    await tick(5);
-    expect(screen.lastFrame()).toContain('calf=3.33');
+    await waitFor(() => screen.lastFrame().includes('calf=3.33'), 'the newest state once released');
   });
 });
 
@@ -128,6 +133,7 @@ describe('useStatus', () => {
     const { scheduler, advance } = setup();
     const status$ = new Subject<DashboardStatus>();
     const screen = renderScreen(<StatusProbe status$={status$} scheduler={scheduler} />);
+    await waitFor(() => status$.observed, 'the hook subscribing');
     await advance(100);
     expect(screen.lastFrame()).toContain('log=none conn=none');
     status$.next({ logPath: 'sessions/a.log' });
@@ -139,6 +145,21 @@ describe('useStatus', () => {
     expect(screen.lastFrame()).toContain('log=sessions/a.log conn=none');
     screen.instance.unmount();
     await tick(5);
+    expect(status$.observed).toBe(false);
+  });
+
+  it('keeps the status so far when the status stream fails', async () => {
+    const { scheduler, advance } = setup();
+    const status$ = new Subject<DashboardStatus>();
+    const screen = renderScreen(<StatusProbe status$={status$} scheduler={scheduler} />);
+    await waitFor(() => status$.observed, 'the hook subscribing');
+    screens.push(screen);
+    await advance(10);
+    status$.next({ logPath: 'sessions/b.log', connection: { state: 'listening' } });
+    await advance(100);
+    status$.error(new Error('status source gone'));
+    await advance(100);
+    expect(screen.lastFrame()).toContain('log=sessions/b.log conn=listening');
     expect(status$.observed).toBe(false);
   });
 });

@@ -11,6 +11,7 @@
  */
 import { makeSample, type Frame, type Header } from '../src/records.ts';
 import { FIELD_RULE, makeRejection } from './parse-record.ts';
+import type { LineReader } from './read-lines.ts';
 
 export const CSV_COLUMNS = ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg', 'quality', 'event', 'side'] as const;
 export type CsvColumn = (typeof CSV_COLUMNS)[number];
@@ -141,6 +142,45 @@ export function readPlainDecimal(text: string, start: number, end: number, out: 
   return true;
 }
 
+/** readPlainDecimal on bytes b[start, end) (ASCII): the same values, the same refusals. */
+export function readPlainDecimalBytes(b: Buffer, start: number, end: number, out: Float64Array): boolean {
+  let i = start;
+  let negative = false;
+  const first = i < end ? (b[i] as number) : -1;
+  if (first === 45) {
+    negative = true;
+    i++;
+  } else if (first === 43) i++;
+  let m = 0;
+  let digits = 0;
+  let fraction = 0;
+  let point = false;
+  for (; i < end; i++) {
+    const c = b[i] as number;
+    if (c >= 48 && c <= 57) {
+      m = m * 10 + (c - 48);
+      digits++;
+      if (point) fraction++;
+    } else if (c === 46 && !point) point = true;
+    else return false;
+  }
+  if (digits === 0 || digits > 15) return false;
+  const value = fraction === 0 ? m : m / (POW10[fraction] as number);
+  out[0] = negative ? -value : value;
+  return true;
+}
+
+function bytesAt(b: Buffer, at: number, piece: Buffer): boolean {
+  const n = piece.length;
+  for (let k = 0; k < n; k++) if (b[at + k] !== piece[k]) return false;
+  return true;
+}
+
+const FOOT_STRIKE = Buffer.from('foot_strike');
+const TOE_OFF = Buffer.from('toe_off');
+const LEFT = Buffer.from('left');
+const RIGHT = Buffer.from('right');
+
 /**
  * True when `piece` appears in `text` at index `at`: text.startsWith(piece, at), written out, because
  * the built-in with a start index costs several times more than this loop for the short pieces a
@@ -211,6 +251,14 @@ export interface CsvParserOptions {
  * Each call → one frame. Never throws. Until a valid header row is read, every line is rejected.
  */
 export function createCsvParser(options: CsvParserOptions = {}): (text: string, line: number) => Frame {
+  return createCsvReader(options).text;
+}
+
+/**
+ * createCsvParser's reading for the lines of one file, given as text or as UTF-8 bytes (see
+ * readLineBytes): the common rows are read from their bytes without decoding them, with the same frames.
+ */
+export function createCsvReader(options: CsvParserOptions = {}): LineReader {
   const quick = options.quick ?? true;
   let columns: CsvColumns | null = null;
   let headerTried = false;
@@ -314,6 +362,89 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
       if (!(quality >= 0 && quality <= 1)) return null;
     }
     return makeSample(tS, muscleAt(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
+  };
+
+  // The names seen by quickRowBytes, with their bytes.
+  const recentBytes: { readonly name: string; readonly bytes: Buffer }[] = [];
+  const muscleAtBytes = (b: Buffer, start: number, end: number): string => {
+    const length = end - start;
+    for (let k = 0; k < recentBytes.length; k++) {
+      const known = recentBytes[k] as { readonly name: string; readonly bytes: Buffer };
+      if (known.bytes.length === length && bytesAt(b, start, known.bytes)) return known.name;
+    }
+    // ASCII only (quickRowBytes checked), so latin1 gives the text UTF-8 would.
+    const name = intern(b.toString('latin1', start, end));
+    if (recentBytes.length < 16) recentBytes.push({ name, bytes: Buffer.from(name, 'latin1') });
+    return name;
+  };
+
+  /** quickRow on the row's bytes b[s, e), for rows of ASCII characters without quotes; null: read the text. */
+  const quickRowBytes = (b: Buffer, s: number, e: number, line: number, c: CsvColumns): Frame | null => {
+    const cellCount = c.cellCount;
+    let n = 0;
+    let pos = s;
+    let k = s;
+    for (;;) {
+      let ch = -1;
+      for (; k < e; k++) {
+        ch = b[k] as number;
+        if (ch === 44) break;
+        if (ch === 34 || ch >= 128) return null;
+      }
+      if (n === cellCount) return null;
+      starts[n] = pos;
+      ends[n] = k;
+      n++;
+      if (k >= e) break;
+      k++;
+      pos = k;
+    }
+    const index = c.index;
+    const tCol = index.time_s;
+    if (!readPlainDecimalBytes(b, at(starts, n, tCol), at(ends, n, tCol), num)) return null;
+    const tS = num[0] as number;
+    const mCol = index.muscle;
+    const fCol = index.fascicle_mm;
+    const pCol = index.pennation_deg;
+    const qCol = index.quality;
+    const evCol = index.event;
+    const mStart = at(starts, n, mCol);
+    const mEnd = at(ends, n, mCol);
+    if (evCol >= 0 && at(ends, n, evCol) > at(starts, n, evCol)) {
+      if (mEnd > mStart || at(ends, n, fCol) > at(starts, n, fCol) || at(ends, n, pCol) > at(starts, n, pCol) || at(ends, n, qCol) > at(starts, n, qCol)) return null;
+      const evStart = at(starts, n, evCol);
+      const evLength = at(ends, n, evCol) - evStart;
+      const event =
+        evLength === 11 && bytesAt(b, evStart, FOOT_STRIKE) ? 'foot_strike' : evLength === 7 && bytesAt(b, evStart, TOE_OFF) ? 'toe_off' : null;
+      const sideCol = index.side;
+      const sideStart = at(starts, n, sideCol);
+      const sideLength = at(ends, n, sideCol) - sideStart;
+      const side = sideLength === 4 && bytesAt(b, sideStart, LEFT) ? 'left' : sideLength === 5 && bytesAt(b, sideStart, RIGHT) ? 'right' : null;
+      if (event === null || side === null) return null;
+      return { kind: 'event', tS, event, side, line };
+    }
+    if (mEnd <= mStart) return null;
+    const m0 = b[mStart] as number;
+    const m1 = b[mEnd - 1] as number;
+    if (m0 === 32 || m0 === 9 || m1 === 32 || m1 === 9) return null;
+    const sideCol = index.side;
+    if (sideCol >= 0 && at(ends, n, sideCol) > at(starts, n, sideCol)) return null;
+    if (!readPlainDecimalBytes(b, at(starts, n, fCol), at(ends, n, fCol), num)) return null;
+    const fascicleMm = num[0] as number;
+    if (!(fascicleMm > 0)) return null;
+    let pennationDeg = Number.NaN;
+    if (at(ends, n, pCol) > at(starts, n, pCol)) {
+      if (!readPlainDecimalBytes(b, at(starts, n, pCol), at(ends, n, pCol), num)) return null;
+      pennationDeg = num[0] as number;
+      if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+    }
+    let quality = 1;
+    if (at(ends, n, qCol) > at(starts, n, qCol)) {
+      if (!readPlainDecimalBytes(b, at(starts, n, qCol), at(ends, n, qCol), num)) return null;
+      quality = num[0] as number;
+      if (!(quality >= 0 && quality <= 1)) return null;
+    }
+    return makeSample(tS, muscleAtBytes(b, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
   };
 
   const headerRow = (text: string, line: number): Frame => {
@@ -427,7 +558,7 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
     return makeSample(tS, intern(muscleCell), fascicleMm, pennationDeg, quality, line);
   };
 
-  return (text: string, line: number): Frame => {
+  const readText = (text: string, line: number): Frame => {
     if (columns === null) {
       if (headerTried && text.indexOf('time_s') < 0) {
         return makeRejection(
@@ -444,6 +575,16 @@ export function createCsvParser(options: CsvParserOptions = {}): (text: string, 
       if (frame !== null) return frame;
     }
     return carefulRow(text, line, columns);
+  };
+  return {
+    text: readText,
+    bytes: (b, start, end, line) => {
+      if (quick && columns !== null) {
+        const frame = quickRowBytes(b, start, end, line, columns);
+        if (frame !== null) return frame;
+      }
+      return readText(b.toString('utf8', start, end), line);
+    },
   };
 }
 

@@ -5,10 +5,10 @@
  */
 import { defer, map, type Observable } from 'rxjs';
 import type { Batch, Frame } from '../src/records.ts';
-import { createCsvParser, parseCsvHeaderRow } from './csv.ts';
-import { createNdjsonParser } from './ndjson.ts';
+import { createCsvReader, parseCsvHeaderRow } from './csv.ts';
+import { createNdjsonReader } from './ndjson.ts';
 import { tooLongRejection } from './parse-record.ts';
-import { DEFAULT_MAX_LINE_BYTES, readLines, type ReadLinesOptions } from './read-lines.ts';
+import { DEFAULT_MAX_LINE_BYTES, readLineBytes, type LineReader, type ReadLinesOptions } from './read-lines.ts';
 
 export type FileFormat = 'ndjson' | 'csv';
 
@@ -47,31 +47,40 @@ export function fileSource(path: string, options: FileSourceOptions = {}): Obser
   const maxLineBytes = options.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES;
   const format = options.format ?? 'auto';
   return defer(() => {
-    let parse: ((text: string, line: number) => Frame) | null = null;
+    let reader: LineReader | null = null;
 
-    const choose = (text: string, line: number): ((text: string, line: number) => Frame) => {
+    const choose = (text: string, line: number): LineReader => {
       const chosen = format === 'auto' ? detectFormat(path, text) : format;
-      if (chosen === 'ndjson') return createNdjsonParser();
+      if (chosen === 'ndjson') return createNdjsonReader();
       const header = parseCsvHeaderRow(text);
       if (!header.ok) throw new SourceFormatError(path, line, header.message);
-      return createCsvParser();
+      return createCsvReader();
     };
 
-    return readLines(path, options).pipe(
+    // Lines come as text, or (the common ones) as bytes the readers read without decoding.
+    return readLineBytes(path, options).pipe(
       map((lines): Batch => {
-        const { texts, lineNumbers, overLongBytes } = lines;
+        const { texts, lineNumbers, overLongBytes, buffers, starts, ends } = lines;
         const n = texts.length;
         const batch: Batch = new Array<Frame>(n);
         for (let i = 0; i < n; i++) {
-          const text = texts[i] as string;
           const line = lineNumbers[i] as number;
           const over = overLongBytes[i] as number;
+          const text = texts[i] as string | null;
           if (over > 0) {
-            batch[i] = tooLongRejection(line, over, maxLineBytes, text);
+            batch[i] = tooLongRejection(line, over, maxLineBytes, text as string);
             continue;
           }
-          if (parse === null) parse = choose(text, line);
-          batch[i] = parse(text, line);
+          if (text !== null) {
+            reader ??= choose(text, line);
+            batch[i] = reader.text(text, line);
+            continue;
+          }
+          const bytes = buffers[i] as Buffer;
+          const start = starts[i] as number;
+          const end = ends[i] as number;
+          reader ??= choose(bytes.toString('utf8', start, end), line);
+          batch[i] = reader.bytes(bytes, start, end, line);
         }
         return batch;
       }),

@@ -2,6 +2,7 @@
 import { makeSample, type Frame } from '../src/records.ts';
 import { textAt } from './csv.ts';
 import { parseJsonText } from './parse-record.ts';
+import type { LineReader } from './read-lines.ts';
 
 /** Muscle names are few: a parser keeps the names it has seen and matches them in place, without a substring. */
 const RECENT_NAMES = 16;
@@ -120,6 +121,116 @@ function quickSampleLine(text: string, line: number, names: string[] | null, num
   return makeSample(tS, muscle, fascicleMm, pennationDeg, quality, line);
 }
 
+/** A muscle name seen by a parser, with its bytes for matching in place. */
+interface KnownName {
+  readonly name: string;
+  readonly bytes: Buffer;
+}
+
+/** readJsonNumber on bytes: the same numbers, the same end, the same -1. */
+function readJsonNumberBytes(b: Buffer, i: number, end: number, out: Float64Array): number {
+  let j = i;
+  let c = j < end ? (b[j] as number) : -1;
+  const negative = c === 45;
+  if (negative) c = ++j < end ? (b[j] as number) : -1;
+  let m = 0;
+  let digits = 0;
+  if (c === 48) {
+    digits = 1;
+    c = ++j < end ? (b[j] as number) : -1;
+  } else if (c >= 49 && c <= 57) {
+    do {
+      m = m * 10 + (c - 48);
+      digits++;
+      c = ++j < end ? (b[j] as number) : -1;
+    } while (c >= 48 && c <= 57);
+  } else return -1;
+  let fraction = 0;
+  if (c === 46) {
+    c = ++j < end ? (b[j] as number) : -1;
+    while (c >= 48 && c <= 57) {
+      m = m * 10 + (c - 48);
+      fraction++;
+      c = ++j < end ? (b[j] as number) : -1;
+    }
+    if (fraction === 0) return -1;
+  }
+  if (digits + fraction > 15) return -1;
+  const value = fraction === 0 ? m : m / (POW10[fraction] as number);
+  out[0] = negative ? -value : value;
+  return j;
+}
+
+function bytesAt(b: Buffer, at: number, end: number, piece: Buffer): boolean {
+  const n = piece.length;
+  if (at + n > end) return false;
+  for (let k = 0; k < n; k++) if (b[at + k] !== piece[k]) return false;
+  return true;
+}
+
+const T_KEY = Buffer.from('{"t":');
+const MUSCLE_KEY = Buffer.from(',"muscle":"');
+const FASCICLE_KEY = Buffer.from(',"fascicle_mm":');
+const PENNATION_KEY = Buffer.from(',"pennation_deg":');
+const QUALITY_KEY = Buffer.from(',"quality":');
+
+/**
+ * quickSampleLine on the line's UTF-8 bytes b[start, end), for names of ASCII characters: the same
+ * frame quickSampleLine gives for the decoded line, or null (then decode and read the text).
+ */
+function quickSampleBytes(b: Buffer, start: number, end: number, line: number, names: KnownName[], num: Float64Array): Frame | null {
+  if (b[end - 1] !== 125 || !bytesAt(b, start, end, T_KEY)) return null;
+  let e = readJsonNumberBytes(b, start + 5, end, num);
+  if (e < 0 || !bytesAt(b, e, end, MUSCLE_KEY)) return null;
+  const tS = num[0] as number;
+  const nameStart = e + 11;
+  let k = nameStart;
+  for (; k < end; k++) {
+    const c = b[k] as number;
+    if (c === 34) break;
+    if (c === 92 || c < 32 || c > 127) return null;
+  }
+  if (k === nameStart || k >= end || !bytesAt(b, k + 1, end, FASCICLE_KEY)) return null;
+  let i = k + 16;
+  e = readJsonNumberBytes(b, i, end, num);
+  if (e < 0) return null;
+  const fascicleMm = num[0] as number;
+  if (!(fascicleMm > 0)) return null;
+  i = e;
+  let pennationDeg = Number.NaN;
+  if (bytesAt(b, i, end, PENNATION_KEY)) {
+    e = readJsonNumberBytes(b, i + 17, end, num);
+    if (e < 0) return null;
+    pennationDeg = num[0] as number;
+    if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+    i = e;
+  }
+  let quality = 1;
+  if (bytesAt(b, i, end, QUALITY_KEY)) {
+    e = readJsonNumberBytes(b, i + 11, end, num);
+    if (e < 0) return null;
+    quality = num[0] as number;
+    if (!(quality >= 0 && quality <= 1)) return null;
+    i = e;
+  }
+  if (i !== end - 1) return null;
+  const length = k - nameStart;
+  let muscle: string | null = null;
+  for (let r = 0; r < names.length; r++) {
+    const known = names[r] as KnownName;
+    if (known.bytes.length === length && bytesAt(b, nameStart, k, known.bytes)) {
+      muscle = known.name;
+      break;
+    }
+  }
+  if (muscle === null) {
+    // ASCII only (checked above), so latin1 and UTF-8 give the same text; toString makes a fresh string.
+    muscle = b.toString('latin1', nameStart, k);
+    if (names.length < RECENT_NAMES) names.push({ name: muscle, bytes: Buffer.from(muscle, 'latin1') });
+  }
+  return makeSample(tS, muscle, fascicleMm, pennationDeg, quality, line);
+}
+
 /**
  * One NDJSON line (line ending removed) → one frame: a record, or a Rejection that says what failed.
  * Never throws. Blank lines are the reader's business (readLines skips them); here a blank line is not_json.
@@ -129,11 +240,22 @@ export function parseNdjsonLine(text: string, line: number): Frame {
 }
 
 /**
- * A line parser like parseNdjsonLine for the lines of one file: the same frames, but it keeps the muscle
- * names it has seen, so samples of one muscle share one name string and no name is cut out per line.
+ * A line reader like parseNdjsonLine for the lines of one file: the same frames, but it keeps the muscle
+ * names it has seen, so samples of one muscle share one name string and no name is cut out per line,
+ * and it reads the common sample lines from their bytes without decoding them.
  */
-export function createNdjsonParser(): (text: string, line: number) => Frame {
+export function createNdjsonReader(): LineReader {
   const names: string[] = [];
+  const known: KnownName[] = [];
   const num = new Float64Array(1);
-  return (text, line) => quickSampleLine(text, line, names, num) ?? parseJsonText(text, line);
+  const text = (t: string, line: number): Frame => quickSampleLine(t, line, names, num) ?? parseJsonText(t, line);
+  return {
+    text,
+    bytes: (b, start, end, line) => quickSampleBytes(b, start, end, line, known, num) ?? text(b.toString('utf8', start, end), line),
+  };
+}
+
+/** createNdjsonReader's text reading, as a plain line parser. */
+export function createNdjsonParser(): (text: string, line: number) => Frame {
+  return createNdjsonReader().text;
 }

@@ -9,6 +9,7 @@
  */
 import { createReadStream } from 'node:fs';
 import { Observable } from 'rxjs';
+import type { Frame } from '../src/records.ts';
 
 export interface ReadLinesOptions {
   /** Longest line delivered whole, in bytes (line ending excluded). @default 1048576 (1 MiB) */
@@ -32,6 +33,28 @@ export interface LineBatch {
   readonly lineNumbers: readonly number[];
   /** Each line's length in bytes when it was over the cap (its text is then an excerpt), else 0. */
   readonly overLongBytes: readonly number[];
+}
+
+/**
+ * Like LineBatch, but a line may come as bytes instead of text: when texts[i] is null, the line is
+ * buffers[i] from starts[i] to ends[i] (line ending excluded). Only lines that are surely not blank, not
+ * over the cap and not the first line of the file come as bytes; decoding them as UTF-8 gives exactly
+ * the text readLines would give. A parser that can read such a line from its bytes skips decoding it.
+ */
+export interface LineBytesBatch {
+  readonly texts: readonly (string | null)[];
+  readonly lineNumbers: readonly number[];
+  readonly overLongBytes: readonly number[];
+  readonly buffers: readonly (Buffer | null)[];
+  readonly starts: readonly number[];
+  readonly ends: readonly number[];
+}
+
+/** Reads the lines of one file, given as text or as UTF-8 bytes (see readLineBytes). */
+export interface LineReader {
+  text(text: string, line: number): Frame;
+  /** The line b[start, end), line ending excluded: the same frame as text() of its UTF-8 decoding. */
+  bytes(b: Buffer, start: number, end: number, line: number): Frame;
 }
 
 /** The file could not be opened or read. */
@@ -85,11 +108,26 @@ function isBlank(text: string): boolean {
 
 /** Streams a file as batches of lines; errors with a LineReadError when the file cannot be read. */
 export function readLines(path: string, options: ReadLinesOptions = {}): Observable<LineBatch> {
+  return lineSource(path, options, false) as Observable<LineBatch>;
+}
+
+/**
+ * readLines, with the common lines left as bytes of the chunk they were read in (see LineBytesBatch):
+ * the same lines, line numbers and batches, without decoding the lines a byte parser reads.
+ */
+export function readLineBytes(path: string, options: ReadLinesOptions = {}): Observable<LineBytesBatch> {
+  return lineSource(path, options, true) as Observable<LineBytesBatch>;
+}
+
+function lineSource(path: string, options: ReadLinesOptions, keepBytes: boolean): Observable<LineBatch | LineBytesBatch> {
   const maxLineBytes = positiveInteger('maxLineBytes', options.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES);
   const batchLines = positiveInteger('batchLines', options.batchLines ?? DEFAULT_BATCH_LINES);
   const chunkBytes = positiveInteger('chunkBytes', options.chunkBytes ?? DEFAULT_CHUNK_BYTES);
 
-  return new Observable<LineBatch>((subscriber) => {
+  // A line kept as bytes must be short enough that its text could not be over the cap even if every
+  // byte decoded to a 3-byte replacement character (the text reading measures the decoded text).
+  const maxByteLine = Math.floor(maxLineBytes / 3);
+  return new Observable<LineBatch | LineBytesBatch>((subscriber) => {
     const stream = createReadStream(path, { highWaterMark: chunkBytes });
     let lineNumber = 0;
     // The unfinished last line of the chunks so far, as byte pieces (never more than maxLineBytes in all).
@@ -100,23 +138,63 @@ export function readLines(path: string, options: ReadLinesOptions = {}): Observa
     let skipExcerpt = '';
     let skipBytes = 0;
 
-    let texts: string[] = [];
+    let texts: (string | null)[] = [];
     let lineNumbers: number[] = [];
     let overLongBytes: number[] = [];
+    let buffers: (Buffer | null)[] = [];
+    let starts: number[] = [];
+    let ends: number[] = [];
 
     const flush = (): void => {
       if (texts.length === 0) return;
-      const batch: LineBatch = { texts, lineNumbers, overLongBytes };
+      const batch: LineBatch | LineBytesBatch = keepBytes
+        ? { texts, lineNumbers, overLongBytes, buffers, starts, ends }
+        : { texts: texts as string[], lineNumbers, overLongBytes };
       texts = [];
       lineNumbers = [];
       overLongBytes = [];
+      if (keepBytes) {
+        buffers = [];
+        starts = [];
+        ends = [];
+      }
       subscriber.next(batch);
     };
     const deliver = (text: string, bytes: number): void => {
       texts.push(text);
       lineNumbers.push(lineNumber);
       overLongBytes.push(bytes);
+      if (keepBytes) {
+        buffers.push(null);
+        starts.push(0);
+        ends.push(0);
+      }
       if (texts.length >= batchLines) flush();
+    };
+    const deliverRange = (chunk: Buffer, start: number, end: number): void => {
+      texts.push(null);
+      lineNumbers.push(lineNumber);
+      overLongBytes.push(0);
+      buffers.push(chunk);
+      starts.push(start);
+      ends.push(end);
+      if (texts.length >= batchLines) flush();
+    };
+    /** The lines of chunk[pos, last) (last is a line ending), the common ones kept as bytes. */
+    const deliverChunkLines = (chunk: Buffer, pos: number, last: number): void => {
+      let start = pos;
+      for (;;) {
+        const nl = start === last ? last : chunk.indexOf(10, start);
+        lineNumber++;
+        let end = nl;
+        if (end > start && chunk[end - 1] === 13) end--;
+        const first = chunk[start] as number;
+        // Printable ASCII first: not blank, not a byte-order mark; line 1 always goes the text way.
+        if (end > start && first > 32 && first < 127 && end - start <= maxByteLine && lineNumber > 1) deliverRange(chunk, start, end);
+        else deliverText(chunk.toString('utf8', start, nl));
+        if (nl === last) break;
+        start = nl + 1;
+      }
     };
     const deliverText = (text: string): void => {
       let t = text.charCodeAt(text.length - 1) === 13 ? text.slice(0, -1) : text;
@@ -179,7 +257,11 @@ export function readLines(path: string, options: ReadLinesOptions = {}): Observa
         if (subscriber.closed) return;
       }
       const last = chunk.lastIndexOf(10);
-      if (last >= pos) {
+      if (last >= pos && keepBytes) {
+        deliverChunkLines(chunk, pos, last);
+        pos = last + 1;
+        if (subscriber.closed) return;
+      } else if (last >= pos) {
         const text = chunk.toString('utf8', pos, last);
         let start = 0;
         for (;;) {

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { createNdjsonParser, parseNdjsonLine } from '../../adapters/ndjson.ts';
+import { createNdjsonParser, createNdjsonReader, parseNdjsonLine } from '../../adapters/ndjson.ts';
 import { parseJsonText } from '../../adapters/parse-record.ts';
 import type { Sample } from '../../src/records.ts';
 
@@ -32,6 +32,34 @@ describe('createNdjsonParser', () => {
       }),
       { numRuns: 5000 },
     );
+  });
+
+  it('reads a line from its UTF-8 bytes, anywhere in a buffer, exactly as from its text', () => {
+    const line = fc
+      .tuple(numberText, nameText, numberText, fc.option(numberText), fc.option(numberText), fc.constantFrom('', ' ', '}', ',"x":1'))
+      .map(([t, muscle, f, p, q, tail]) => {
+        let s = `{"t":${t},"muscle":"${muscle}","fascicle_mm":${f}`;
+        if (p !== null) s += `,"pennation_deg":${p}`;
+        if (q !== null) s += `,"quality":${q}`;
+        return `${s}${tail}}`;
+      });
+    fc.assert(
+      fc.property(fc.oneof(line, fc.string({ maxLength: 60 })), fc.string({ maxLength: 5 }), fc.string({ maxLength: 5 }), (text, before, after) => {
+        const head = Buffer.from(before);
+        const bytes = Buffer.concat([head, Buffer.from(text), Buffer.from(after)]);
+        const fromBytes = createNdjsonReader().bytes(bytes, head.length, head.length + Buffer.byteLength(text), 4);
+        expect(fromBytes).toEqual(createNdjsonReader().text(text, 4));
+      }),
+      { numRuns: 5000 },
+    );
+  });
+
+  it('gives the samples of one muscle read from bytes one shared name string', () => {
+    const reader = createNdjsonReader();
+    const a = reader.bytes(Buffer.from('{"t":0,"muscle":"calf","fascicle_mm":50}'), 0, 40, 1) as Sample;
+    const b = reader.bytes(Buffer.from('x{"t":1,"muscle":"calf","fascicle_mm":51}'), 1, 41, 2) as Sample;
+    expect([a.kind, b.kind, b.tS, b.fascicleMm]).toEqual(['sample', 'sample', 1, 51]);
+    expect(Object.is(a.muscle, b.muscle)).toBe(true);
   });
 
   it('gives the same frame as the careful reading for any text', () => {

@@ -8,6 +8,8 @@
  *   npm run bench -- --quick       # small sizes, under a minute
  *   npm run bench -- --only replay # or live, memory; several: --only replay,live
  */
+import { execFile } from 'node:child_process';
+import { promisify } from 'node:util';
 import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir, cpus, loadavg } from 'node:os';
 import { join, dirname } from 'node:path';
@@ -26,9 +28,14 @@ export interface ReplayResult {
   readonly bytes: number;
   readonly toolMs: readonly number[];
   readonly loopMs: readonly number[];
-  /** Each pair's tool ms / loop ms. */
+  /** Each pair's tool ms / loop ms (wall time). */
   readonly ratios: readonly number[];
   readonly ratioMedian: number;
+  /** Process CPU time of each run, ms: less moved by other programs on a shared machine than wall time. */
+  readonly toolCpuMs: readonly number[];
+  readonly loopCpuMs: readonly number[];
+  readonly cpuRatios: readonly number[];
+  readonly cpuRatioMedian: number;
   readonly toolSamplesPerS: number;
   readonly loopSamplesPerS: number;
   readonly figures: BenchFigures;
@@ -83,14 +90,24 @@ export async function measureReplay(trial: BenchTrial, pairs: number): Promise<R
   const toolMs: number[] = [];
   const loopMs: number[] = [];
   const ratios: number[] = [];
+  const toolCpuMs: number[] = [];
+  const loopCpuMs: number[] = [];
+  const cpuRatios: number[] = [];
   for (let i = 0; i < pairs; i++) {
+    let c0 = cpuMs();
     const tool = await runToolReplay(trial.path, trial.calibration);
+    const toolCpu = cpuMs() - c0;
+    c0 = cpuMs();
     const t0 = performance.now();
     await plainLoop(trial.path, loopOptions);
     const loop = performance.now() - t0;
+    const loopCpu = cpuMs() - c0;
     toolMs.push(tool.ms);
     loopMs.push(loop);
     ratios.push(tool.ms / loop);
+    toolCpuMs.push(toolCpu);
+    loopCpuMs.push(loopCpu);
+    cpuRatios.push(toolCpu / loopCpu);
   }
   return {
     format: trial.format,
@@ -100,11 +117,47 @@ export async function measureReplay(trial: BenchTrial, pairs: number): Promise<R
     loopMs,
     ratios,
     ratioMedian: median(ratios),
+    toolCpuMs,
+    loopCpuMs,
+    cpuRatios,
+    cpuRatioMedian: median(cpuRatios),
     toolSamplesPerS: trial.samples / (median(toolMs) / 1000),
     loopSamplesPerS: trial.samples / (median(loopMs) / 1000),
     figures,
     differences,
   };
+}
+
+const execFileAsync = promisify(execFile);
+
+/**
+ * One format's replay measurement in a fresh process (bench/run.ts --replay-child FORMAT SAMPLES PAIRS),
+ * so that what one format's run leaves in the JIT and the heap does not move the other's figures.
+ */
+async function replayInChild(format: BenchFormat, samples: number, pairs: number): Promise<ReplayResult> {
+  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+  const { stdout } = await execFileAsync(
+    process.execPath,
+    [join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--replay-child', format, String(samples), String(pairs)],
+    { maxBuffer: 16 * 1024 * 1024 },
+  );
+  return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as ReplayResult;
+}
+
+async function replayChild(format: BenchFormat, samples: number, pairs: number): Promise<void> {
+  const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
+  try {
+    const trial = await writeBenchTrial(dir, format, { samples });
+    const r = await measureReplay(trial, pairs);
+    process.stdout.write(`${JSON.stringify(r)}\n`);
+  } finally {
+    await rm(dir, { recursive: true, force: true });
+  }
+}
+
+function cpuMs(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1000;
 }
 
 function stamp(d: Date): string {
@@ -133,15 +186,13 @@ async function main(): Promise<void> {
     if (args.only.has('replay')) {
       const replay: ReplayResult[] = [];
       for (const format of ['csv', 'ndjson'] as const) {
-        console.error(`bench: writing a ${args.samples}-sample ${format} trial…`);
-        const trial = await writeBenchTrial(dir, format, { samples: args.samples });
-        console.error(`bench: replay ${format}, ${args.pairs} alternating pairs…`);
-        const r = await measureReplay(trial, args.pairs);
+        console.error(`bench: replay ${format}: a ${args.samples}-sample trial, ${args.pairs} alternating pairs, in a fresh process…`);
+        const r = await replayInChild(format, args.samples, args.pairs);
         replay.push(r);
-        await rm(trial.path, { force: true });
         lines.push(
           `replay ${format.padEnd(6)} tool ${fmtRate(r.toolSamplesPerS).padStart(10)}  loop ${fmtRate(r.loopSamplesPerS).padStart(10)}  ` +
-            `tool/loop ${r.ratioMedian.toFixed(2)}× (median of ${r.ratios.length}: ${r.ratios.map((x) => x.toFixed(2)).join(' ')})  ` +
+            `tool/loop ${r.ratioMedian.toFixed(2)}× wall (${r.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
+            `${r.cpuRatioMedian.toFixed(2)}× CPU (${r.cpuRatios.map((x) => x.toFixed(2)).join(' ')})  ` +
             `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}`,
         );
       }
@@ -176,4 +227,10 @@ async function main(): Promise<void> {
   console.log(`(${(out['seconds'] as number).toFixed(0)} s; load ${loadavg().map((x) => x.toFixed(1)).join(' ')}; written to ${file})`);
 }
 
-await main();
+const child = process.argv.indexOf('--replay-child');
+if (child >= 0) {
+  const [format, samples, pairs] = process.argv.slice(child + 1);
+  await replayChild(format === 'csv' ? 'csv' : 'ndjson', Number(samples), Number(pairs));
+} else {
+  await main();
+}

@@ -7,7 +7,7 @@
 import { geometricForce, regionAt, type ForceLengthCurve } from '../model/geometry.ts';
 import type { RegionKey } from '../model/regions.ts';
 
-export type Tone = RegionKey | 'empty' | 'marker' | 'band' | 'axis';
+export type Tone = RegionKey | 'empty' | 'marker' | 'band_current' | 'band_previous' | 'band_both' | 'axis';
 
 export interface Run {
   readonly text: string;
@@ -27,6 +27,11 @@ export interface CurveDrawingInput {
   readonly sarcomereUm: number;
   readonly current: LengthRange | null;
   readonly previous: LengthRange | null;
+  /**
+   * The character where both strides' ranges cover a column: a full block, or an upper half whose
+   * background (painted by the theme) shows the previous stride. @default '█'
+   */
+  readonly bothChar?: string;
 }
 
 export interface CurveDrawing {
@@ -146,7 +151,8 @@ export function drawCurve(input: CurveDrawingInput): CurveDrawing {
       const char = markerRaw < 0 ? MARKER_LEFT : markerRaw >= widthCols ? MARKER_RIGHT : MARKER_IN_BAND;
       band.push({ char, tone: 'marker' });
     } else if (inCurrent || inPrevious) {
-      band.push({ char: inCurrent && inPrevious ? '█' : inCurrent ? '▀' : '▄', tone: 'band' });
+      if (inCurrent && inPrevious) band.push({ char: input.bothChar ?? '█', tone: 'band_both' });
+      else band.push(inCurrent ? { char: '▀', tone: 'band_current' } : { char: '▄', tone: 'band_previous' });
     } else {
       band.push({ char: ' ', tone: 'empty' });
     }

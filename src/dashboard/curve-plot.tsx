@@ -16,7 +16,7 @@ export interface Props {
 }
 
 export default function CurvePlot({ curve, widthCols, heightRows, sarcomereUm, current, previous, theme }: Props) {
-  const drawing = drawCurve({ curve, widthCols, heightRows, sarcomereUm, current, previous });
+  const drawing = drawCurve({ curve, widthCols, heightRows, sarcomereUm, current, previous, bothChar: theme.color ? '▀' : '█' });
   return (
     <Box flexDirection="column">
       {drawing.rows.map((runs, row) => (

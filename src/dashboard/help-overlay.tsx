@@ -27,7 +27,14 @@ export default function HelpOverlay({ keys, theme, columns }: Props) {
         ))}
       <Text {...theme.role('title')}>reading a panel</Text>
       <Text wrap="truncate-end">{`${MARKER_STEM} ${MARKER_IN_BAND}  sarcomere length now (${MARKER_LEFT} ${MARKER_RIGHT}: off the axis)`}</Text>
-      <Text wrap="truncate-end">▀  this stride's range   ▄  the previous stride's   █  both</Text>
+      <Text wrap="truncate-end">
+        <Text {...theme.tone('band_current')}>▀</Text>
+        {"  this stride's range   "}
+        <Text {...theme.tone('band_previous')}>▄</Text>
+        {"  the previous stride's   "}
+        <Text {...theme.tone('band_both')}>{theme.color ? '▀' : '█'}</Text>
+        {'  both'}
+      </Text>
       <Text wrap="truncate-end">
         {'regions: '}
         {REGION_KEYS.slice(0, 3).map((r, i) => (

@@ -83,8 +83,13 @@ export function createTheme(color: boolean): Theme {
           return {};
         case 'marker':
           return color ? { color: 'whiteBright', bold: true } : { bold: true };
-        case 'band':
-          return color ? { color: 'white' } : {};
+        case 'band_current':
+          return color ? { color: 'whiteBright' } : {};
+        case 'band_previous':
+          return color ? { color: 'gray' } : {};
+        case 'band_both':
+          // Drawn as an upper half block: this stride bright above, the previous faint below.
+          return color ? { color: 'whiteBright', backgroundColor: 'gray' } : {};
         case 'axis':
           return color ? { color: 'gray' } : {};
         default:

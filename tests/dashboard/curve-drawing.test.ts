@@ -117,6 +117,21 @@ describe('drawCurve', () => {
     expect(at(3.6)).toBe(' ');
   });
 
+  it('draws both strides in one half block when asked, toned so the theme paints the previous one under it', () => {
+    const d = drawCurve({
+      curve: human,
+      widthCols: 60,
+      heightRows: 2,
+      sarcomereUm: Number.NaN,
+      current: { slMinUm: 2.5, slMaxUm: 3.0 },
+      previous: { slMinUm: 2.8, slMaxUm: 3.4 },
+      bothChar: '▀',
+    });
+    const tones = (d.rows[2] ?? []).map((r) => r.tone);
+    expect(tones).toEqual(['empty', 'band_current', 'band_both', 'band_previous', 'empty']);
+    expect((d.rows[2] ?? []).find((r) => r.tone === 'band_both')?.text).toMatch(/^▀+$/);
+  });
+
   it('leaves the band empty for a stride with no length yet', () => {
     const d = drawCurve({
       curve: human,

@@ -2,7 +2,7 @@
  * The whole screen: status, alerts, one panel per muscle, the footer; keys for quit, freeze, marker,
  * calibration, focus, help and replay speed. It reads the trial's state and never drives the pipeline.
  */
-import { Box, Text, useApp, useInput, type Key } from 'ink';
+import { Box, Text, useApp, useInput, useStdin, type Key } from 'ink';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { asyncScheduler, type Observable, type SchedulerLike } from 'rxjs';
 import type { TrialState } from '../state.ts';
@@ -64,6 +64,7 @@ export default function Dashboard(props: Props) {
   }, [flash, scheduler]);
   const { frozen, mode } = ui.current;
   const { exit } = useApp();
+  const { isRawModeSupported } = useStdin();
   const size = useTerminalSize({
     ...(props.columns === undefined ? {} : { columns: props.columns }),
     ...(props.rows === undefined ? {} : { rows: props.rows }),
@@ -135,6 +136,8 @@ export default function Dashboard(props: Props) {
         onKeyRef.current(input, key);
       }
     }, []),
+    // Keys need a terminal on standard input; without one the screen still shows, and the footer says so.
+    { isActive: isRawModeSupported === true },
   );
 
   const alertRows = Math.min(alerts.length, MAX_ALERT_ROWS);
@@ -188,7 +191,13 @@ export default function Dashboard(props: Props) {
           columns={size.columns}
         />
       ) : null}
-      <Footer keys={keys} theme={theme} columns={size.columns} flash={flashText} />
+      <Footer
+        keys={keys}
+        theme={theme}
+        columns={size.columns}
+        flash={flashText}
+        noKeys={isRawModeSupported !== true}
+      />
     </Box>
   );
 }

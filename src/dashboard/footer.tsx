@@ -9,9 +9,20 @@ export interface Props {
   readonly columns: number;
   /** @default null */
   readonly flash?: string | null;
+  /** Keys cannot be read here (standard input is not a terminal). @default false */
+  readonly noKeys?: boolean;
 }
 
-export default function Footer({ keys, theme, columns, flash = null }: Props) {
+export default function Footer({ keys, theme, columns, flash = null, noKeys = false }: Props) {
+  if (noKeys) {
+    return (
+      <Box width={columns}>
+        <Text wrap="truncate-end" {...theme.role('label')}>
+          no keys: standard input is not a terminal (Ctrl+C stops)
+        </Text>
+      </Box>
+    );
+  }
   if (flash !== null) {
     // A message for the person wins the line for a moment; help stays one key away.
     return (

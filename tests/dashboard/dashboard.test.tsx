@@ -438,6 +438,25 @@ describe('startDashboard', () => {
     expect(out.frames.join('')).toMatch(COLOUR_SGR);
   });
 
+  it('still shows the trial when standard input is not a terminal, and says keys are off', async () => {
+    const out = new ScreenOut(80, 24);
+    const keys = new KeysIn();
+    keys.isTTY = undefined;
+    const dashboard = startDashboard({
+      state$: new BehaviorSubject(walkingState()),
+      title: 'lengthwise',
+      stdout: out as unknown as NodeJS.WriteStream,
+      stdin: keys as unknown as NodeJS.ReadStream,
+      env: {},
+      onQuit: () => undefined,
+      frameMs: 10,
+    });
+    await waitFor(() => plain(out.lastFrame()).includes('SL 2.71 µm'), 'the panels');
+    expect(plain(out.lastFrame())).toContain('no keys: standard input is not a terminal');
+    dashboard.unmount();
+    await dashboard.waitUntilExit();
+  });
+
   it('calls onQuit on q and resolves waitUntilExit, unsubscribing from the state', async () => {
     const { out, keys } = terminal();
     const state$ = new BehaviorSubject(walkingState());

@@ -30,7 +30,9 @@ export class ScreenOut extends EventEmitter {
 }
 
 export class KeysIn extends EventEmitter {
-  isTTY = true;
+  constructor(public isTTY: boolean | undefined = true) {
+    super();
+  }
   /** Written but not yet read, as a terminal would buffer it. */
   private data: string | null = null;
   write(data: string): void {
@@ -66,9 +68,9 @@ export function tick(ms = 0): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, ms));
 }
 
-export function renderScreen(tree: ReactElement, columns = 80, rows = 24): Screen {
+export function renderScreen(tree: ReactElement, columns = 80, rows = 24, keysAreTerminal = true): Screen {
   const out = new ScreenOut(columns, rows);
-  const keys = new KeysIn();
+  const keys = new KeysIn(keysAreTerminal);
   const instance = render(tree, {
     stdout: out as unknown as NodeJS.WriteStream,
     stdin: keys as unknown as NodeJS.ReadStream,

@@ -66,8 +66,8 @@ export interface RegionFractionsWithInterval {
 
 const quantileCache = new Map<number, Float64Array>();
 
-/** z-values of M equal-probability points of the standard normal: Φ⁻¹((j + ½)/M). */
-function quantilePoints(m: number): Float64Array {
+/** z-values of M equal-probability points of the standard normal: Φ⁻¹((j + ½)/M), computed once per M. */
+export function quantilePoints(m: number): Float64Array {
   let z = quantileCache.get(m);
   if (z === undefined) {
     z = new Float64Array(m);

@@ -5,8 +5,7 @@
  */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
-import { DEFAULT_QUANTILE_POINTS, regionProbabilities } from '../model/region-probability.ts';
-import { normalQuantile } from '../model/normal.ts';
+import { DEFAULT_QUANTILE_POINTS, quantilePoints, regionProbabilities } from '../model/region-probability.ts';
 import { regionLowerBoundsUm } from '../model/geometry.ts';
 import {
   CYCLE_POINTS,
@@ -81,25 +80,12 @@ export function histogramQuantile(weights: Float64Array, q: number, lo = 0, hi =
   return (hi + 1) * HISTOGRAM_BIN_UM;
 }
 
-const quantileCache = new Map<number, Float64Array>();
-
 const scratch = {
   cumulative: new Float64Array(HISTOGRAM_BINS + 1),
   expected: new Float64Array(REGIONS),
   probability: new Float64Array(REGIONS),
   columns: new Float64Array(REGIONS * DEFAULT_QUANTILE_POINTS),
 };
-
-/** z of M equal-probability points of the standard normal, Φ⁻¹((j + ½)/M): the model's quantile points of N. */
-function quantilePoints(m: number): Float64Array {
-  let z = quantileCache.get(m);
-  if (z === undefined) {
-    z = new Float64Array(m);
-    for (let j = 0; j < m; j++) z[j] = normalQuantile((j + 0.5) / m);
-    quantileCache.set(m, z);
-  }
-  return z;
-}
 
 /** Moves the k-th smallest value to index k, smaller ones before it, larger after (Hoare's selection). */
 function selectKth(a: Float64Array, k: number): void {

@@ -4,10 +4,11 @@
  * with ping/pong, and says each disconnection in the data's own path: a `[link] disconnected` marker
  * (kept in the session log) and a `disconnected` Gap, so filters restart. Timers run on a scheduler.
  */
-import { Observable, asyncScheduler, interval, timer, type SchedulerLike, type Subscription } from 'rxjs';
+import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, type RawData } from 'ws';
 import type { Batch, Frame, Gap, Marker } from '../src/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
+import { closeGently, keepAlive } from './socket-care.ts';
 import { linkMarkerText } from '../src/link-marker.ts';
 
 export { LINK_MARKER_PREFIX, linkMarkerText } from '../src/link-marker.ts';
@@ -169,28 +170,15 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
       socket = ws;
       const peer = newPeerTrack();
       let opened = false;
-      let alive = true;
       let lastError = '';
       ws.on('open', () => {
         opened = true;
         attempt = 0;
         connection++;
         onLink({ kind: 'connected', connection, peer: options.url });
-        ping = interval(pingMs, scheduler).subscribe(() => {
-          if (!alive) {
-            lastError = `no answer to ping within ${pingMs} ms`;
-            ws.terminate();
-            return;
-          }
-          alive = false;
-          ws.ping();
-        });
+        ping = keepAlive(ws, pingMs, scheduler, (why) => (lastError = why));
       });
-      ws.on('pong', () => (alive = true));
-      ws.on('message', (data: RawData) => {
-        alive = true;
-        subscriber.next(ingest.message(data, peer));
-      });
+      ws.on('message', (data: RawData) => subscriber.next(ingest.message(data, peer)));
       ws.on('error', (error: Error & { code?: string }) => {
         if (error.code === 'WS_ERR_UNSUPPORTED_MESSAGE_LENGTH') subscriber.next(ingest.oversize());
         lastError = error.code !== undefined && error.code.startsWith('WS_') ? error.message : `${error.message}`;
@@ -219,16 +207,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
       ping?.unsubscribe();
       const ws = socket;
       socket = null;
-      if (ws !== null) {
-        ws.on('error', () => undefined);
-        if (ws.readyState === WebSocket.OPEN) {
-          ws.close(1000, 'receiver stopping');
-          // A peer that does not answer the closing handshake is cut off, so the process can end.
-          const cut = setTimeout(() => ws.terminate(), 1000);
-          cut.unref();
-          ws.on('close', () => clearTimeout(cut));
-        } else ws.terminate();
-      }
+      if (ws !== null) closeGently(ws, 1000, 'receiver stopping');
     };
   });
 }

@@ -8,10 +8,11 @@
 import { timingSafeEqual } from 'node:crypto';
 import type { IncomingMessage } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { Observable, asyncScheduler, interval, type SchedulerLike, type Subscription } from 'rxjs';
+import { Observable, asyncScheduler, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, WebSocketServer, type RawData } from 'ws';
 import type { Batch } from '../src/records.ts';
 import { closeDetail, Ingest, newPeerTrack, type IngestOptions, type LinkEvent } from './websocket-client.ts';
+import { closeGently, keepAlive } from './socket-care.ts';
 
 /** Largest message a pushing device may send, bytes. */
 export const SERVER_MAX_PAYLOAD_BYTES = 256 * 1024;
@@ -113,24 +114,11 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
       const number = ++connection;
       const peer = newPeerTrack();
       const name = peerName(request);
-      let alive = true;
       let lastError = '';
       onLink({ kind: 'connected', connection: number, peer: name });
-      const ping = interval(pingMs, scheduler).subscribe(() => {
-        if (!alive) {
-          lastError = `no answer to ping within ${pingMs} ms`;
-          ws.terminate();
-          return;
-        }
-        alive = false;
-        ws.ping();
-      });
+      const ping = keepAlive(ws, pingMs, scheduler, (why) => (lastError = why));
       pings.add(ping);
-      ws.on('pong', () => (alive = true));
-      ws.on('message', (data: RawData) => {
-        alive = true;
-        subscriber.next(ingest.message(data, peer));
-      });
+      ws.on('message', (data: RawData) => subscriber.next(ingest.message(data, peer)));
       ws.on('error', (error: Error & { code?: string }) => {
         if (error.code === 'WS_ERR_UNSUPPORTED_MESSAGE_LENGTH') subscriber.next(ingest.oversize());
         lastError = error.message;
@@ -149,14 +137,7 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
       stopped = true;
       for (const p of pings) p.unsubscribe();
       pings.clear();
-      for (const ws of server.clients) {
-        ws.on('error', () => undefined);
-        ws.close(1001, 'receiver stopping');
-        // A device that does not answer the closing handshake is cut off.
-        const cut = setTimeout(() => ws.terminate(), 1000);
-        cut.unref();
-        ws.on('close', () => clearTimeout(cut));
-      }
+      for (const ws of server.clients) closeGently(ws, 1001, 'receiver stopping');
       server.close();
     };
   });

@@ -1,4 +1,5 @@
-import { Observable, type OperatorFunction } from 'rxjs';
+import type { OperatorFunction } from 'rxjs';
+import { holdingStage } from './holding-stage.ts';
 import type { Batch, CalibrationApplied, Frame, Sample } from '../records.ts';
 import {
   sarcomereUmFromFascicle,
@@ -48,133 +49,127 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
   const skipBelow = options.skipBelow ?? DEFAULT_SKIP_BELOW;
   const fileSpec = options.calibration;
 
-  return (source) =>
-    new Observable<Batch>((subscriber) => {
-      /** Sarcomeres in series of each muscle whose calibration is known. */
-      const ready = new Map<string, number>();
-      const collecting = new Map<string, Collecting>();
-      let headerSpec: CalibrationSpec | undefined;
-      let held: Frame[] = [];
-      /** Calibrations decided from a baseline; they go out ahead of the held frames. */
-      let decided: Frame[] = [];
+  return holdingStage(() => {
+    /** Sarcomeres in series of each muscle whose calibration is known. */
+    const ready = new Map<string, number>();
+    const collecting = new Map<string, Collecting>();
+    let headerSpec: CalibrationSpec | undefined;
+    let held: Frame[] = [];
+    /** Calibrations decided from a baseline; they go out ahead of the held frames. */
+    let decided: Frame[] = [];
 
-      const convert = (s: Sample): void => {
-        const n = ready.get(s.muscle);
-        if (n !== undefined) s.sarcomereUm = sarcomereUmFromFascicle(s.smoothMm, n);
+    const convert = (s: Sample): void => {
+      const n = ready.get(s.muscle);
+      if (n !== undefined) s.sarcomereUm = sarcomereUmFromFascicle(s.smoothMm, n);
+    };
+
+    const finishBaseline = (muscle: string, state: Collecting): void => {
+      const fascicleMm = median(state.fascicleMm);
+      const calibration: MuscleCalibration = { species: DEFAULT_SPECIES, method: 'optimal_length', optimalFascicleMm: fascicleMm };
+      const n = (fascicleMm * 1000) / plateauMiddleUm(curveForCalibration(calibration));
+      collecting.delete(muscle);
+      ready.set(muscle, n);
+      decided.push(
+        { kind: 'calibration', muscle, calibration, sarcomeresInSeries: n, source: 'baseline' },
+        {
+          kind: 'notice',
+          muscle,
+          text: Number.isFinite(n)
+            ? `${muscle}: UNCALIBRATED — its median fascicle length over the first ${baselineS} s (${fascicleMm.toFixed(1)} mm) is assumed to sit at the plateau middle; give a calibration for real estimates`
+            : `${muscle}: UNCALIBRATED, and its first ${baselineS} s hold no usable sample to assume a baseline from; no sarcomere lengths are estimated for it`,
+        },
+      );
+    };
+
+    const flushInto = (out: Frame[]): void => {
+      for (const f of held) if (f.kind === 'sample') convert(f);
+      for (const f of decided) out.push(f);
+      for (const f of held) out.push(f);
+      held = [];
+      decided = [];
+    };
+
+    /** First sample of a muscle: take its calibration (file, then header) or start its baseline window. */
+    const start = (s: Sample, out: Frame[]): void => {
+      const fromFile = fileSpec?.muscles[s.muscle];
+      const calibration = fromFile ?? headerSpec?.muscles[s.muscle];
+      if (calibration === undefined) {
+        collecting.set(s.muscle, { startS: s.tS, fascicleMm: [] });
+        return;
+      }
+      const n = sarcomeresInSeries(calibration, curveForCalibration(calibration));
+      ready.set(s.muscle, n);
+      const frame: CalibrationApplied = {
+        kind: 'calibration',
+        muscle: s.muscle,
+        calibration,
+        sarcomeresInSeries: n,
+        source: fromFile !== undefined ? 'file' : 'header',
       };
+      (collecting.size > 0 ? held : out).push(frame);
+    };
 
-      const finishBaseline = (muscle: string, state: Collecting): void => {
-        const fascicleMm = median(state.fascicleMm);
-        const calibration: MuscleCalibration = { species: DEFAULT_SPECIES, method: 'optimal_length', optimalFascicleMm: fascicleMm };
-        const n = (fascicleMm * 1000) / plateauMiddleUm(curveForCalibration(calibration));
-        collecting.delete(muscle);
-        ready.set(muscle, n);
-        decided.push(
-          { kind: 'calibration', muscle, calibration, sarcomeresInSeries: n, source: 'baseline' },
-          {
-            kind: 'notice',
-            muscle,
-            text: Number.isFinite(n)
-              ? `${muscle}: UNCALIBRATED — its median fascicle length over the first ${baselineS} s (${fascicleMm.toFixed(1)} mm) is assumed to sit at the plateau middle; give a calibration for real estimates`
-              : `${muscle}: UNCALIBRATED, and its first ${baselineS} s hold no usable sample to assume a baseline from; no sarcomere lengths are estimated for it`,
-          },
-        );
-      };
-
-      const flushInto = (out: Frame[]): void => {
-        for (const f of held) if (f.kind === 'sample') convert(f);
-        for (const f of decided) out.push(f);
-        for (const f of held) out.push(f);
-        held = [];
-        decided = [];
-      };
-
-      /** First sample of a muscle: take its calibration (file, then header) or start its baseline window. */
-      const start = (s: Sample, out: Frame[]): void => {
-        const fromFile = fileSpec?.muscles[s.muscle];
-        const calibration = fromFile ?? headerSpec?.muscles[s.muscle];
-        if (calibration === undefined) {
-          collecting.set(s.muscle, { startS: s.tS, fascicleMm: [] });
+    /** The general path for one frame; `out` receives what can go now. */
+    const step = (f: Frame, out: Frame[]): void => {
+      if (f.kind === 'header' && f.calibration !== undefined) headerSpec = f.calibration;
+      if (f.kind === 'calibration' && f.source === 'runtime') {
+        // Captured while running (e.g. from the dashboard): replaces the muscle's calibration from here on.
+        collecting.delete(f.muscle);
+        ready.set(f.muscle, f.sarcomeresInSeries);
+      }
+      if (f.kind === 'sample') {
+        if (!ready.has(f.muscle) && !collecting.has(f.muscle)) start(f, out);
+        const window = collecting.get(f.muscle);
+        if (window !== undefined && f.quality >= skipBelow && Number.isFinite(f.fascicleMm)) window.fascicleMm.push(f.fascicleMm);
+        // A window closes by the stream's time, not only its own muscle's: a muscle that falls silent
+        // inside its window must not hold every other muscle back.
+        for (const [muscle, w] of collecting) if (f.tS - w.startS >= baselineS) finishBaseline(muscle, w);
+        if (window !== undefined || collecting.size > 0 || decided.length > 0) {
+          held.push(f);
+          if (collecting.size === 0) flushInto(out);
           return;
         }
-        const n = sarcomeresInSeries(calibration, curveForCalibration(calibration));
-        ready.set(s.muscle, n);
-        const frame: CalibrationApplied = {
-          kind: 'calibration',
-          muscle: s.muscle,
-          calibration,
-          sarcomeresInSeries: n,
-          source: fromFile !== undefined ? 'file' : 'header',
-        };
-        (collecting.size > 0 ? held : out).push(frame);
-      };
+      }
+      if (collecting.size > 0) held.push(f);
+      else {
+        if (f.kind === 'sample') convert(f);
+        out.push(f);
+      }
+    };
 
-      /** The general path for one frame; `out` receives what can go now. */
-      const step = (f: Frame, out: Frame[]): void => {
-        if (f.kind === 'header' && f.calibration !== undefined) headerSpec = f.calibration;
-        if (f.kind === 'calibration' && f.source === 'runtime') {
-          // Captured while running (e.g. from the dashboard): replaces the muscle's calibration from here on.
-          collecting.delete(f.muscle);
-          ready.set(f.muscle, f.sarcomeresInSeries);
-        }
-        if (f.kind === 'sample') {
-          if (!ready.has(f.muscle) && !collecting.has(f.muscle)) start(f, out);
-          const window = collecting.get(f.muscle);
-          if (window !== undefined && f.quality >= skipBelow && Number.isFinite(f.fascicleMm)) window.fascicleMm.push(f.fascicleMm);
-          // A window closes by the stream's time, not only its own muscle's: a muscle that falls silent
-          // inside its window must not hold every other muscle back.
-          for (const [muscle, w] of collecting) if (f.tS - w.startS >= baselineS) finishBaseline(muscle, w);
-          if (window !== undefined || collecting.size > 0 || decided.length > 0) {
-            held.push(f);
-            if (collecting.size === 0) flushInto(out);
-            return;
+    const process = (batch: Batch): Batch => {
+      // Fast path: convert in place while nothing is held and nothing new is decided.
+      if (collecting.size === 0) {
+        let i = 0;
+        for (; i < batch.length; i++) {
+          const f = batch[i] as Frame;
+          if (f.kind === 'sample') {
+            const n = ready.get(f.muscle);
+            if (n === undefined) break;
+            f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, n);
+          } else if (f.kind === 'header' || f.kind === 'calibration') {
+            step(f, []);
           }
         }
-        if (collecting.size > 0) held.push(f);
-        else {
-          if (f.kind === 'sample') convert(f);
-          out.push(f);
-        }
-      };
-
-      const process = (batch: Batch): Batch => {
-        // Fast path: convert in place while nothing is held and nothing new is decided.
-        if (collecting.size === 0) {
-          let i = 0;
-          for (; i < batch.length; i++) {
-            const f = batch[i] as Frame;
-            if (f.kind === 'sample') {
-              const n = ready.get(f.muscle);
-              if (n === undefined) break;
-              f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, n);
-            } else if (f.kind === 'header' || f.kind === 'calibration') {
-              step(f, []);
-            }
-          }
-          if (i === batch.length) return batch;
-          const out = batch.slice(0, i);
-          for (; i < batch.length; i++) step(batch[i] as Frame, out);
-          return out;
-        }
-        const out: Frame[] = [];
-        for (const f of batch) step(f, out);
+        if (i === batch.length) return batch;
+        const out = batch.slice(0, i);
+        for (; i < batch.length; i++) step(batch[i] as Frame, out);
         return out;
-      };
+      }
+      const out: Frame[] = [];
+      for (const f of batch) step(f, out);
+      return out;
+    };
 
-      return source.subscribe({
-        next: (batch) => {
-          const out = process(batch);
-          if (out.length > 0) subscriber.next(out);
-        },
-        error: (error: unknown) => subscriber.error(error),
-        complete: () => {
-          // The input ended inside a baseline window: decide from what the window holds.
-          for (const [muscle, window] of [...collecting]) finishBaseline(muscle, window);
-          const out: Frame[] = [];
-          flushInto(out);
-          if (out.length > 0) subscriber.next(out);
-          subscriber.complete();
-        },
-      });
-    });
+    return {
+      process,
+      finish: () => {
+        // The input ended inside a baseline window: decide from what the window holds.
+        for (const [muscle, window] of [...collecting]) finishBaseline(muscle, window);
+        const out: Frame[] = [];
+        flushInto(out);
+        return out;
+      },
+    };
+  });
 }

@@ -1,4 +1,5 @@
-import { Observable, type OperatorFunction } from 'rxjs';
+import type { OperatorFunction } from 'rxjs';
+import { holdingStage } from './holding-stage.ts';
 import type { Batch, Frame, Sample, Side, StrideBoundary } from '../records.ts';
 import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from './stride-period.ts';
 
@@ -71,249 +72,243 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
   const minPeriodS = options.minPeriodS ?? DEFAULT_MIN_PERIOD_S;
   const maxPeriodS = options.maxPeriodS ?? DEFAULT_MAX_PERIOD_S;
 
-  return (source) =>
-    new Observable<Batch>((subscriber) => {
-      const muscles = new Map<string, MuscleStrides>();
-      const declared = new Map<string, Side>();
-      let undecided = 0;
-      let estimated = 0;
-      /** Frames not yet released, in order, from `head`. */
-      let held: Frame[] = [];
-      let head = 0;
+  return holdingStage(() => {
+    const muscles = new Map<string, MuscleStrides>();
+    const declared = new Map<string, Side>();
+    let undecided = 0;
+    let estimated = 0;
+    /** Frames not yet released, in order, from `head`. */
+    let held: Frame[] = [];
+    let head = 0;
 
-      const notice = (muscle: string, text: string): void => {
-        held.push({ kind: 'notice', muscle, text });
+    const notice = (muscle: string, text: string): void => {
+      held.push({ kind: 'notice', muscle, text });
+    };
+
+    /** The time before which an estimated muscle's samples know their stride. */
+    const horizon = (m: MuscleStrides): number => {
+      const d = m.detector;
+      if (d === null) return Number.POSITIVE_INFINITY;
+      return d.candidate !== null ? d.candidate.tS : d.searchFromS;
+    };
+
+    const commit = (name: string, m: MuscleStrides, d: Detector): void => {
+      const at = d.candidate as Sample;
+      if (Number.isFinite(d.lastBoundaryS)) {
+        const durationS = at.tS - d.lastBoundaryS;
+        if (durationS > 0.6 * d.periodS && durationS < 1.6 * d.periodS) d.periodS += PERIOD_ADAPT * (durationS - d.periodS);
+      }
+      m.index++;
+      const boundary: StrideBoundary = {
+        kind: 'stride',
+        muscle: name,
+        side: declared.get(name) ?? 'left',
+        index: m.index,
+        tS: at.tS,
+        segmentation: 'estimated',
       };
+      const position = held.lastIndexOf(at);
+      held.splice(position < head ? held.length : position, 0, boundary);
+      d.lastBoundaryS = at.tS;
+      d.searchFromS = at.tS + 0.5 * d.periodS;
+      d.candidate = null;
+      d.runningMaxMm = Number.NEGATIVE_INFINITY;
+      d.peakBeforeMm = Number.NEGATIVE_INFINITY;
+    };
 
-      /** The time before which an estimated muscle's samples know their stride. */
-      const horizon = (m: MuscleStrides): number => {
-        const d = m.detector;
-        if (d === null) return Number.POSITIVE_INFINITY;
-        return d.candidate !== null ? d.candidate.tS : d.searchFromS;
-      };
+    const feed = (name: string, m: MuscleStrides, s: Sample): void => {
+      const d = m.detector;
+      if (d === null || !Number.isFinite(s.smoothMm) || s.tS < d.searchFromS) return;
+      const mm = s.smoothMm;
+      if (d.candidate === null) {
+        d.candidate = s;
+        d.peakBeforeMm = mm;
+      } else if (mm < d.candidate.smoothMm) {
+        d.candidate = s;
+        d.peakBeforeMm = d.runningMaxMm;
+      }
+      if (mm > d.runningMaxMm) d.runningMaxMm = mm;
+      const c = d.candidate;
+      if (s.tS - c.tS < 0.5 * d.periodS) return;
+      if (d.peakBeforeMm - c.smoothMm >= d.depthMm) {
+        commit(name, m, d);
+        feed(name, m, s);
+      } else {
+        // The candidate sat at the start of a rise, not at a cycle's minimum: look again from here.
+        d.candidate = s;
+        d.peakBeforeMm = mm;
+        d.runningMaxMm = mm;
+      }
+    };
 
-      const commit = (name: string, m: MuscleStrides, d: Detector): void => {
-        const at = d.candidate as Sample;
-        if (Number.isFinite(d.lastBoundaryS)) {
-          const durationS = at.tS - d.lastBoundaryS;
-          if (durationS > 0.6 * d.periodS && durationS < 1.6 * d.periodS) d.periodS += PERIOD_ADAPT * (durationS - d.periodS);
-        }
-        m.index++;
-        const boundary: StrideBoundary = {
-          kind: 'stride',
-          muscle: name,
-          side: declared.get(name) ?? 'left',
-          index: m.index,
-          tS: at.tS,
-          segmentation: 'estimated',
-        };
-        const position = held.lastIndexOf(at);
-        held.splice(position < head ? held.length : position, 0, boundary);
-        d.lastBoundaryS = at.tS;
-        d.searchFromS = at.tS + 0.5 * d.periodS;
-        d.candidate = null;
-        d.runningMaxMm = Number.NEGATIVE_INFINITY;
-        d.peakBeforeMm = Number.NEGATIVE_INFINITY;
-      };
-
-      const feed = (name: string, m: MuscleStrides, s: Sample): void => {
-        const d = m.detector;
-        if (d === null || !Number.isFinite(s.smoothMm) || s.tS < d.searchFromS) return;
-        const mm = s.smoothMm;
-        if (d.candidate === null) {
-          d.candidate = s;
-          d.peakBeforeMm = mm;
-        } else if (mm < d.candidate.smoothMm) {
-          d.candidate = s;
-          d.peakBeforeMm = d.runningMaxMm;
-        }
-        if (mm > d.runningMaxMm) d.runningMaxMm = mm;
-        const c = d.candidate;
-        if (s.tS - c.tS < 0.5 * d.periodS) return;
-        if (d.peakBeforeMm - c.smoothMm >= d.depthMm) {
-          commit(name, m, d);
-          feed(name, m, s);
-        } else {
-          // The candidate sat at the start of a rise, not at a cycle's minimum: look again from here.
-          d.candidate = s;
-          d.peakBeforeMm = mm;
-          d.runningMaxMm = mm;
-        }
-      };
-
-      const decide = (name: string, m: MuscleStrides): void => {
-        undecided--;
-        const n = m.windowTS.length;
-        const period = dominantPeriod(m.windowTS, m.windowMm, n, { minPeriodS, maxPeriodS });
-        m.windowTS = [];
-        m.windowMm = [];
-        if (period === null) {
-          m.mode = 'none';
-          notice(
-            name,
-            `${name}: no foot strikes of its side, and its fascicle length shows no steady stride period of ${minPeriodS}–${maxPeriodS} s in its first ${windowS} s; no strides are counted for it. Give gait events (foot_strike, toe_off) for strides`,
-          );
-          return;
-        }
-        m.mode = 'estimated';
-        estimated++;
-        m.detector = {
-          periodS: period.periodS,
-          depthMm: MIN_DEPTH_SHARE * period.rangeP5P95,
-          searchFromS: m.firstS,
-          lastBoundaryS: Number.NaN,
-          candidate: null,
-          peakBeforeMm: Number.NEGATIVE_INFINITY,
-          runningMaxMm: Number.NEGATIVE_INFINITY,
-        };
+    const decide = (name: string, m: MuscleStrides): void => {
+      undecided--;
+      const n = m.windowTS.length;
+      const period = dominantPeriod(m.windowTS, m.windowMm, n, { minPeriodS, maxPeriodS });
+      m.windowTS = [];
+      m.windowMm = [];
+      if (period === null) {
+        m.mode = 'none';
         notice(
           name,
-          `${name}: no foot strikes of its side in its first ${windowS} s, so its strides are ESTIMATED from its fascicle length (period ${period.periodS.toFixed(2)} s, one stride per cycle from each cycle's shortest length; no stance/swing phases). Give gait events (foot_strike, toe_off) for strides from foot strike to foot strike`,
+          `${name}: no foot strikes of its side, and its fascicle length shows no steady stride period of ${minPeriodS}–${maxPeriodS} s in its first ${windowS} s; no strides are counted for it. Give gait events (foot_strike, toe_off) for strides`,
         );
-        // The window's samples, held in order, go through the detector now.
-        const mine: Sample[] = [];
-        for (let i = head; i < held.length; i++) {
-          const f = held[i] as Frame;
-          if (f.kind === 'sample' && f.muscle === name) mine.push(f);
-        }
-        for (const s of mine) feed(name, m, s);
+        return;
+      }
+      m.mode = 'estimated';
+      estimated++;
+      m.detector = {
+        periodS: period.periodS,
+        depthMm: MIN_DEPTH_SHARE * period.rangeP5P95,
+        searchFromS: m.firstS,
+        lastBoundaryS: Number.NaN,
+        candidate: null,
+        peakBeforeMm: Number.NEGATIVE_INFINITY,
+        runningMaxMm: Number.NEGATIVE_INFINITY,
       };
+      notice(
+        name,
+        `${name}: no foot strikes of its side in its first ${windowS} s, so its strides are ESTIMATED from its fascicle length (period ${period.periodS.toFixed(2)} s, one stride per cycle from each cycle's shortest length; no stance/swing phases). Give gait events (foot_strike, toe_off) for strides from foot strike to foot strike`,
+      );
+      // The window's samples, held in order, go through the detector now.
+      const mine: Sample[] = [];
+      for (let i = head; i < held.length; i++) {
+        const f = held[i] as Frame;
+        if (f.kind === 'sample' && f.muscle === name) mine.push(f);
+      }
+      for (const s of mine) feed(name, m, s);
+    };
 
-      /**
-       * A muscle that falls silent must not hold the others back: once the stream's time (any muscle's
-       * sample) is a window past its first sample, it is decided; once it is half a period and a gap past
-       * a pending candidate, the candidate is settled as if a sample had come.
-       */
-      const settleOthers = (own: MuscleStrides, tS: number): void => {
-        for (const [name, m] of muscles) {
-          if (m === own) continue;
-          if (m.mode === 'undecided' && tS - m.firstS >= windowS) decide(name, m);
-          else if (m.mode === 'estimated') {
-            const d = m.detector;
-            const c = d?.candidate ?? null;
-            if (d === null || c === null || tS - c.tS < 0.5 * d.periodS + SILENCE_S) continue;
-            if (d.peakBeforeMm - c.smoothMm >= d.depthMm) commit(name, m, d);
-            else {
-              d.candidate = null;
-              d.searchFromS = tS;
-              d.runningMaxMm = Number.NEGATIVE_INFINITY;
-            }
+    /**
+     * A muscle that falls silent must not hold the others back: once the stream's time (any muscle's
+     * sample) is a window past its first sample, it is decided; once it is half a period and a gap past
+     * a pending candidate, the candidate is settled as if a sample had come.
+     */
+    const settleOthers = (own: MuscleStrides, tS: number): void => {
+      for (const [name, m] of muscles) {
+        if (m === own) continue;
+        if (m.mode === 'undecided' && tS - m.firstS >= windowS) decide(name, m);
+        else if (m.mode === 'estimated') {
+          const d = m.detector;
+          const c = d?.candidate ?? null;
+          if (d === null || c === null || tS - c.tS < 0.5 * d.periodS + SILENCE_S) continue;
+          if (d.peakBeforeMm - c.smoothMm >= d.depthMm) commit(name, m, d);
+          else {
+            d.candidate = null;
+            d.searchFromS = tS;
+            d.runningMaxMm = Number.NEGATIVE_INFINITY;
           }
         }
-      };
+      }
+    };
 
-      const muscleOf = (name: string, tS: number): MuscleStrides => {
-        let m = muscles.get(name);
-        if (m === undefined) {
-          m = { mode: 'undecided', firstS: tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false };
-          muscles.set(name, m);
-          undecided++;
-        }
-        return m;
-      };
+    const muscleOf = (name: string, tS: number): MuscleStrides => {
+      let m = muscles.get(name);
+      if (m === undefined) {
+        m = { mode: 'undecided', firstS: tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false };
+        muscles.set(name, m);
+        undecided++;
+      }
+      return m;
+    };
 
-      /** Takes one frame in; it waits in `held` until release. */
-      const step = (f: Frame): void => {
-        if (f.kind === 'header') {
-          for (const [name, decl] of Object.entries(f.muscles)) if (decl.side !== undefined) declared.set(name, decl.side);
-        } else if (f.kind === 'stride' && f.segmentation !== 'estimated') {
-          const m = muscles.get(f.muscle);
-          if (m !== undefined && m.mode === 'estimated') {
-            if (!m.toldLateEvents) {
-              m.toldLateEvents = true;
-              notice(f.muscle, `${f.muscle}: foot strikes of its side arrived after its strides were estimated from its fascicle length; they are not used for ${f.muscle}`);
-            }
-            return;
-          }
-          if (m === undefined) muscles.set(f.muscle, { mode: 'events', firstS: f.tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false });
-          else if (m.mode === 'undecided' || m.mode === 'none') {
-            if (m.mode === 'undecided') undecided--;
-            m.mode = 'events';
-            m.windowTS = [];
-            m.windowMm = [];
-          }
-        } else if (f.kind === 'sample') {
-          const m = muscleOf(f.muscle, f.tS);
-          if (undecided > 0 || estimated > 0) settleOthers(m, f.tS);
-          held.push(f);
-          if (m.mode === 'undecided') {
-            if (Number.isFinite(f.smoothMm)) {
-              m.windowTS.push(f.tS);
-              m.windowMm.push(f.smoothMm);
-            }
-            if (f.tS - m.firstS >= windowS) decide(f.muscle, m);
-          } else if (m.mode === 'estimated') {
-            feed(f.muscle, m, f);
+    /** Takes one frame in; it waits in `held` until release. */
+    const step = (f: Frame): void => {
+      if (f.kind === 'header') {
+        for (const [name, decl] of Object.entries(f.muscles)) if (decl.side !== undefined) declared.set(name, decl.side);
+      } else if (f.kind === 'stride' && f.segmentation !== 'estimated') {
+        const m = muscles.get(f.muscle);
+        if (m !== undefined && m.mode === 'estimated') {
+          if (!m.toldLateEvents) {
+            m.toldLateEvents = true;
+            notice(f.muscle, `${f.muscle}: foot strikes of its side arrived after its strides were estimated from its fascicle length; they are not used for ${f.muscle}`);
           }
           return;
         }
+        if (m === undefined) muscles.set(f.muscle, { mode: 'events', firstS: f.tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false });
+        else if (m.mode === 'undecided' || m.mode === 'none') {
+          if (m.mode === 'undecided') undecided--;
+          m.mode = 'events';
+          m.windowTS = [];
+          m.windowMm = [];
+        }
+      } else if (f.kind === 'sample') {
+        const m = muscleOf(f.muscle, f.tS);
+        if (undecided > 0 || estimated > 0) settleOthers(m, f.tS);
         held.push(f);
-      };
-
-      /** Releases the frames whose stride is known, in order, into `out`. */
-      const release = (out: Frame[]): void => {
-        if (undecided > 0) return;
-        for (; head < held.length; head++) {
-          const f = held[head] as Frame;
-          if (f.kind === 'sample') {
-            const m = muscles.get(f.muscle);
-            if (m !== undefined && m.mode === 'estimated') {
-              if (!(f.tS < horizon(m))) break;
-              f.strideIndex = m.releasedIndex;
-            }
-          } else if (f.kind === 'stride' && f.segmentation === 'estimated') {
-            const m = muscles.get(f.muscle);
-            if (m !== undefined) m.releasedIndex = f.index;
+        if (m.mode === 'undecided') {
+          if (Number.isFinite(f.smoothMm)) {
+            m.windowTS.push(f.tS);
+            m.windowMm.push(f.smoothMm);
           }
-          out.push(f);
+          if (f.tS - m.firstS >= windowS) decide(f.muscle, m);
+        } else if (m.mode === 'estimated') {
+          feed(f.muscle, m, f);
         }
-        if (head === held.length) {
-          held = [];
-          head = 0;
-        } else if (head > 4096 && head > held.length / 2) {
-          held = held.slice(head);
-          head = 0;
-        }
-      };
+        return;
+      }
+      held.push(f);
+    };
 
-      const process = (batch: Batch): Batch => {
-        // Fast path: nothing held, nothing estimated, every muscle decided.
-        if (held.length === 0 && estimated === 0 && undecided === 0) {
-          let i = 0;
-          for (; i < batch.length; i++) {
-            const f = batch[i] as Frame;
-            if (f.kind === 'sample' || f.kind === 'stride') {
-              if (!muscles.has(f.muscle)) break;
-            } else if (f.kind === 'header') break;
+    /** Releases the frames whose stride is known, in order, into `out`. */
+    const release = (out: Frame[]): void => {
+      if (undecided > 0) return;
+      for (; head < held.length; head++) {
+        const f = held[head] as Frame;
+        if (f.kind === 'sample') {
+          const m = muscles.get(f.muscle);
+          if (m !== undefined && m.mode === 'estimated') {
+            if (!(f.tS < horizon(m))) break;
+            f.strideIndex = m.releasedIndex;
           }
-          if (i === batch.length) return batch;
-          const out = batch.slice(0, i);
-          for (; i < batch.length; i++) step(batch[i] as Frame);
-          release(out);
-          return out;
+        } else if (f.kind === 'stride' && f.segmentation === 'estimated') {
+          const m = muscles.get(f.muscle);
+          if (m !== undefined) m.releasedIndex = f.index;
         }
-        for (const f of batch) step(f);
+        out.push(f);
+      }
+      if (head === held.length) {
+        held = [];
+        head = 0;
+      } else if (head > 4096 && head > held.length / 2) {
+        held = held.slice(head);
+        head = 0;
+      }
+    };
+
+    const process = (batch: Batch): Batch => {
+      // Fast path: nothing held, nothing estimated, every muscle decided.
+      if (held.length === 0 && estimated === 0 && undecided === 0) {
+        let i = 0;
+        for (; i < batch.length; i++) {
+          const f = batch[i] as Frame;
+          if (f.kind === 'sample' || f.kind === 'stride') {
+            if (!muscles.has(f.muscle)) break;
+          } else if (f.kind === 'header') break;
+        }
+        if (i === batch.length) return batch;
+        const out = batch.slice(0, i);
+        for (; i < batch.length; i++) step(batch[i] as Frame);
+        release(out);
+        return out;
+      }
+      for (const f of batch) step(f);
+      const out: Frame[] = [];
+      release(out);
+      return out;
+    };
+
+    return {
+      process,
+      finish: () => {
+        // The input ended inside a window: decide from what it holds; then everything still held goes,
+        // the samples after the last boundary staying in the unfinished stride.
+        for (const [name, m] of muscles) if (m.mode === 'undecided') decide(name, m);
+        for (const m of muscles.values()) if (m.detector !== null) m.detector = null;
         const out: Frame[] = [];
         release(out);
         return out;
-      };
-
-      return source.subscribe({
-        next: (batch) => {
-          const out = process(batch);
-          if (out.length > 0) subscriber.next(out);
-        },
-        error: (error: unknown) => subscriber.error(error),
-        complete: () => {
-          // The input ended inside a window: decide from what it holds; then everything still held goes,
-          // the samples after the last boundary staying in the unfinished stride.
-          for (const [name, m] of muscles) if (m.mode === 'undecided') decide(name, m);
-          for (const m of muscles.values()) if (m.detector !== null) m.detector = null;
-          const out: Frame[] = [];
-          release(out);
-          if (out.length > 0) subscriber.next(out);
-          subscriber.complete();
-        },
-      });
-    });
+      },
+    };
+  });
 }

@@ -175,10 +175,12 @@ const PENNATION_KEY = Buffer.from(',"pennation_deg":');
 const QUALITY_KEY = Buffer.from(',"quality":');
 
 /**
- * quickSampleLine on the line's UTF-8 bytes b[start, end), for names of ASCII characters: the same
- * frame quickSampleLine gives for the decoded line, or null (then decode and read the text).
+ * quickSampleLine on the line's UTF-8 bytes b[start, end), for names of ASCII characters: the sample
+ * quickSampleLine gives for the decoded line, as its muscle name with its time, fascicle length,
+ * pennation and quality in num[1..4]; or null (then decode and read the text). The caller makes the
+ * Sample: kept out of this long function, makeSample stays small enough to be inlined where it is called.
  */
-function quickSampleBytes(b: Buffer, start: number, end: number, line: number, names: KnownName[], num: Float64Array): Frame | null {
+function quickSampleBytes(b: Buffer, start: number, end: number, names: KnownName[], num: Float64Array): string | null {
   if (b[end - 1] !== 125 || !bytesAt(b, start, end, T_KEY)) return null;
   let e = readJsonNumberBytes(b, start + 5, end, num);
   if (e < 0 || !bytesAt(b, e, end, MUSCLE_KEY)) return null;
@@ -228,7 +230,11 @@ function quickSampleBytes(b: Buffer, start: number, end: number, line: number, n
     muscle = b.toString('latin1', nameStart, k);
     if (names.length < RECENT_NAMES) names.push({ name: muscle, bytes: Buffer.from(muscle, 'latin1') });
   }
-  return makeSample(tS, muscle, fascicleMm, pennationDeg, quality, line);
+  num[1] = tS;
+  num[2] = fascicleMm;
+  num[3] = pennationDeg;
+  num[4] = quality;
+  return muscle;
 }
 
 /**
@@ -247,11 +253,15 @@ export function parseNdjsonLine(text: string, line: number): Frame {
 export function createNdjsonReader(): LineReader {
   const names: string[] = [];
   const known: KnownName[] = [];
-  const num = new Float64Array(1);
+  const num = new Float64Array(5);
   const text = (t: string, line: number): Frame => quickSampleLine(t, line, names, num) ?? parseJsonText(t, line);
   return {
     text,
-    bytes: (b, start, end, line) => quickSampleBytes(b, start, end, line, known, num) ?? text(b.toString('utf8', start, end), line),
+    bytes: (b, start, end, line) => {
+      const muscle = quickSampleBytes(b, start, end, known, num);
+      if (muscle === null) return text(b.toString('utf8', start, end), line);
+      return makeSample(num[1] as number, muscle, num[2] as number, num[3] as number, num[4] as number, line);
+    },
   };
 }
 

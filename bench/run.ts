@@ -9,6 +9,7 @@
  *   npm run bench -- --only replay # or live, memory; several: --only replay,live
  */
 import { execFile } from 'node:child_process';
+import { PerformanceObserver, constants } from 'node:perf_hooks';
 import { promisify } from 'node:util';
 import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir, cpus, loadavg } from 'node:os';
@@ -36,6 +37,8 @@ export interface ReplayResult {
   readonly loopCpuMs: readonly number[];
   readonly cpuRatios: readonly number[];
   readonly cpuRatioMedian: number;
+  /** Full (mark-compact) collections during the timed runs; many of them mean objects went to the old space. */
+  readonly majorGcs: number;
   readonly toolSamplesPerS: number;
   readonly loopSamplesPerS: number;
   readonly figures: BenchFigures;
@@ -93,6 +96,11 @@ export async function measureReplay(trial: BenchTrial, pairs: number): Promise<R
   const toolCpuMs: number[] = [];
   const loopCpuMs: number[] = [];
   const cpuRatios: number[] = [];
+  let majorGcs = 0;
+  const observer = new PerformanceObserver((list) => {
+    for (const entry of list.getEntries()) if ((entry as PerformanceEntry & { detail?: { kind?: number } }).detail?.kind === constants.NODE_PERFORMANCE_GC_MAJOR) majorGcs++;
+  });
+  observer.observe({ entryTypes: ['gc'] });
   for (let i = 0; i < pairs; i++) {
     let c0 = cpuMs();
     const tool = await runToolReplay(trial.path, trial.calibration);
@@ -109,6 +117,9 @@ export async function measureReplay(trial: BenchTrial, pairs: number): Promise<R
     loopCpuMs.push(loopCpu);
     cpuRatios.push(toolCpu / loopCpu);
   }
+  // Entries are delivered asynchronously: give them a turn before counting.
+  await new Promise((resolve) => setTimeout(resolve, 50));
+  observer.disconnect();
   return {
     format: trial.format,
     samples: trial.samples,
@@ -121,6 +132,7 @@ export async function measureReplay(trial: BenchTrial, pairs: number): Promise<R
     loopCpuMs,
     cpuRatios,
     cpuRatioMedian: median(cpuRatios),
+    majorGcs,
     toolSamplesPerS: trial.samples / (median(toolMs) / 1000),
     loopSamplesPerS: trial.samples / (median(loopMs) / 1000),
     figures,
@@ -193,7 +205,7 @@ async function main(): Promise<void> {
           `replay ${format.padEnd(6)} tool ${fmtRate(r.toolSamplesPerS).padStart(10)}  loop ${fmtRate(r.loopSamplesPerS).padStart(10)}  ` +
             `tool/loop ${r.ratioMedian.toFixed(2)}× wall (${r.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
             `${r.cpuRatioMedian.toFixed(2)}× CPU (${r.cpuRatios.map((x) => x.toFixed(2)).join(' ')})  ` +
-            `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}`,
+            `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}; ${r.majorGcs} full collections`,
         );
       }
       out['replay'] = replay;

@@ -9,7 +9,7 @@
  *   npm run bench -- --only replay # or live, memory; several: --only replay,live
  */
 import { execFile } from 'node:child_process';
-import { PerformanceObserver, constants } from 'node:perf_hooks';
+import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
 import { promisify } from 'node:util';
 import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir, cpus, loadavg } from 'node:os';

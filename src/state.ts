@@ -2,6 +2,7 @@
  * The running state of one trial: what the dashboard reads and what the summary is written from.
  * Built by the accumulateSummary stage, mutated in place once per batch, never copied per sample.
  */
+import type { StrideListView } from './stride-list.ts';
 import type { RegionKey } from './model/regions.ts';
 import type { ForceLengthCurve } from './model/geometry.ts';
 import type { Species } from './model/species.ts';
@@ -136,7 +137,8 @@ export interface MuscleState {
   /** Running figures of the stride in progress (null before the first foot strike). */
   current: { readonly index: number; readonly startS: number; slMinUm: number; slMaxUm: number } | null;
   /** Completed strides, in order. */
-  readonly strides: StrideSummary[];
+  /** Completed strides, in order: compact columns (see src/stride-list.ts); a plain array in hand-made states. */
+  readonly strides: StrideListView;
   /** How the strides were found; null (or absent) while none has started. */
   segmentation?: Segmentation | null;
   /** SD of the sarcomere count relative to the count, from the calibration; 0 when it states none. */

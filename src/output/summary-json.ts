@@ -1,6 +1,7 @@
 /** The `--summary FILE.json` contract (lengthwise-summary, version 1), built from a TrialState. */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
+import type { StrideListView } from '../stride-list.ts';
 import { CYCLE_POINTS, HISTOGRAM_BIN_UM, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../state.ts';
 import { cycleSd, histogramQuantile, histogramRegionProbability } from '../pipeline/stride-figures.ts';
 
@@ -271,7 +272,8 @@ function aggregate(stretches: readonly Stretch[], histogram: Float64Array | unde
  * much gap time) are counted but left out. Percentiles and region probabilities need the muscle's
  * histograms (`context`); without them they are null.
  */
-export function trialFigures(strides: readonly StrideSummary[], context?: TrialContext): TrialFiguresJson {
+export function trialFigures(list: StrideListView, context?: TrialContext): TrialFiguresJson {
+  const strides = Array.isArray(list) ? (list as readonly StrideSummary[]) : [...list];
   const used = strides.filter((s) => s.flagged !== true);
   const stance: SegmentFigures[] = [];
   const swing: SegmentFigures[] = [];
@@ -356,7 +358,7 @@ function muscleJson(m: MuscleState): MuscleJson {
     sarcomeres_in_series_relative_sd: relativeSd,
     calibration_source: m.calibrationSource,
     segmentation: m.segmentation ?? null,
-    strides: m.strides.map(strideJson),
+    strides: Array.from(m.strides, strideJson),
     trial: trialFigures(m.strides, { curve: m.curve, relativeSd, histograms: m.trialHistograms }),
     cycle: cycleJson(m),
     filaments: filamentsJson(m),

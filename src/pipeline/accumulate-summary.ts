@@ -1,3 +1,4 @@
+import { StrideList } from '../stride-list.ts';
 import { Observable, type OperatorFunction } from 'rxjs';
 import type { Batch, CalibrationApplied, Frame, GaitEvent, Sample, StrideBoundary } from '../records.ts';
 import {
@@ -38,6 +39,8 @@ const SWING = 2;
 
 interface MuscleAccumulator {
   readonly state: MuscleState;
+  /** The same list as state.strides, writable here. */
+  readonly strides: StrideList;
   /** Index of the stride in progress; -1 before the first boundary. */
   strideIndex: number;
   segmentation: Segmentation;
@@ -85,7 +88,9 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
       const muscle = (name: string): MuscleAccumulator => {
         let acc = accumulators.get(name);
         if (acc === undefined) {
+          const strides = new StrideList();
           acc = {
+            strides,
             state: {
               name,
               side: null,
@@ -96,7 +101,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
               calibrationSource: null,
               latest: null,
               current: null,
-              strides: [],
+              strides,
               segmentation: null,
               relativeSd: 0,
               regionProbability: null,
@@ -185,7 +190,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
           stance: phased ? acc.stance.finish(acc.toeOffS, m.curve, relativeSd) : null,
           swing: phased ? acc.swing.finish(endS, m.curve, relativeSd) : null,
         };
-        m.strides.push(summary);
+        acc.strides.push(summary);
         if (flagged) return;
         const histograms = (m.trialHistograms ??= {
           stride: new Float64Array(HISTOGRAM_BINS),

@@ -108,7 +108,7 @@ describe('summaryJson: flags, phases and the cycle curve', () => {
     const s = state();
     const m = s.muscles.get('calf, medial');
     if (m === undefined) throw new Error('fixture');
-    m.strides.push({ ...stride(2, 3, 4, 1.9, 3.9, 2.0, 0, 0.5), flagged: true });
+    (m.strides as StrideSummary[]).push({ ...stride(2, 3, 4, 1.9, 3.9, 2.0, 0, 0.5), flagged: true });
     const t = summaryJson(s).muscles['calf, medial']?.trial;
     expect(t).toMatchObject({ stride_count: 3, flagged_count: 1, strides_used: 2, sl_min_um: 2.5, sl_max_um: 3.2 });
     expect(t?.sl_mean_um).toBeCloseTo((2.7 * 1 + 2.9 * 2) / 3, 12);

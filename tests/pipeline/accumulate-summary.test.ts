@@ -104,7 +104,7 @@ describe('accumulateSummary', () => {
     const frames: Frame[] = [enriched(0, 2.0, 'shallow_ascending', -1), boundary(0, 0.5), enriched(0.5, 2.7, 'plateau', 0), boundary(1, 1), enriched(1, 3.5, 'descending', 1)];
     const m = (await final([frames])).muscles.get('calf');
     expect(m?.strides).toHaveLength(1);
-    expect(m?.strides[0]?.slMinUm).toBe(2.7);
+    expect(m?.strides.at(0)?.slMinUm).toBe(2.7);
     expect(m?.current).toMatchObject({ index: 1, startS: 1, slMinUm: 3.5, slMaxUm: 3.5 });
   });
 
@@ -211,7 +211,7 @@ describe('accumulateSummary: phases, percentiles, capacity, flags', () => {
     for (let i = 0; i <= 5; i++) frames.push(full(1 + i / 10, 2.9, 1));
     frames.push(boundary(2, 2));
     const m = (await final([frames])).muscles.get('calf');
-    expect(m?.strides.map((s) => s.flagged)).toEqual([false, true]);
+    expect(m?.strides.slice().map((s) => s.flagged)).toEqual([false, true]);
     expect(m?.cycle?.strideCount).toBe(1);
     expect(m?.cycle?.slMeanUm[50]).toBeCloseTo(2.7, 12);
   });
@@ -251,7 +251,7 @@ describe('accumulateSummary: region probabilities under calibration uncertainty'
     // (Abramowitz & Stegun 1964, Handbook of Mathematical Functions, Table 26.1: Φ(1.00) = 0.8413 — from memory).
     const descending = (m?.regionProbability?.descending ?? 0) + (m?.regionProbability?.no_overlap ?? 0);
     expect(descending).toBeCloseTo(0.84, 2);
-    const p = m?.strides[0]?.regionProbability;
+    const p = m?.strides.at(0)?.regionProbability;
     expect((p?.expected.descending ?? 0) + (p?.expected.no_overlap ?? 0)).toBeCloseTo(0.84, 2);
     expect(p?.low.descending).toBe(0);
     expect(p?.high.descending).toBe(1);
@@ -261,7 +261,7 @@ describe('accumulateSummary: region probabilities under calibration uncertainty'
     const { sarcomeresInSeriesSd: _, ...noSd } = withSd;
     const m = (await final([[calibration(noSd), boundary(0, 0), enriched(0, 2.7, 'plateau', 0), boundary(1, 1)]])).muscles.get('calf');
     expect(m?.regionProbability).toBeNull();
-    expect(m?.strides[0]?.regionProbability).toBeNull();
+    expect(m?.strides.at(0)?.regionProbability).toBeNull();
   });
 });
 
@@ -272,6 +272,6 @@ describe('accumulateSummary: estimated strides', () => {
     const m = (await final([frames])).muscles.get('calf');
     expect(m?.side).toBeNull();
     expect(m?.segmentation).toBe('estimated');
-    expect(m?.strides[0]).toMatchObject({ segmentation: 'estimated', stance: null, swing: null });
+    expect(m?.strides.at(0)).toMatchObject({ segmentation: 'estimated', stance: null, swing: null });
   });
 });

@@ -52,7 +52,7 @@ describe.each([
       expect(muscle?.sarcomeresInSeries).toBe(m.sarcomeresInSeries);
       expect(muscle?.side).toBe(m.side);
       const trueStrides = truth.strides(m.name);
-      const strides = muscle?.strides ?? [];
+      const strides = muscle?.strides.slice() ?? [];
       expect(strides.map((s) => s.startS)).toEqual(trueStrides.map((s) => s.startS));
       strides.forEach((s, i) => {
         const t = trueStrides[i];

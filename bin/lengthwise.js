@@ -1,6 +1,13 @@
 #!/usr/bin/env node
 // Runs the TypeScript sources through tsx's loader, so a fresh `npm install` needs no build step.
+import { setFlagsFromString } from 'node:v8';
 import { register } from 'tsx/esm/api';
+
+// React's development build costs the dashboard about 1.7 times the CPU; users get the production one.
+process.env.NODE_ENV ??= 'production';
+// In some processes V8 starts allocating the replay's short-lived objects as long-lived (allocation-site
+// pretenuring), which makes a replay some 25% slower; see bench/README.md.
+setFlagsFromString('--no-allocation-site-pretenuring');
 
 register();
 const { main } = await import('../src/cli.ts');

@@ -7,6 +7,7 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from './io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
+import { applyCapture } from './apply-capture.ts';
 import type { Batch, Frame } from '../records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialState } from '../state.ts';
@@ -356,6 +357,13 @@ class LiveSession {
         env: this.io.env,
         onQuit: stop,
         onMarker: (text) => this.marker(text),
+        onCalibrate: (muscle, sarcomereUm) => {
+          void applyCapture(trial, muscle, sarcomereUm).then((text) => {
+            this.status({ message: text });
+            // The log keeps a note of it; a replay of the log takes the saved file with --calibration.
+            this.marker(`calibration captured: ${text}`);
+          });
+        },
       });
     }
     let final: Final;

@@ -9,8 +9,7 @@ import { fileSource } from '../../adapters/file-source.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
 import type { DashboardStatus } from '../dashboard/status.ts';
 import { countLines } from './count-lines.ts';
-import { captureCalibration } from '../capture-calibration.ts';
-import { writeFileAtomic } from '../output/write-file.ts';
+import { applyCapture } from './apply-capture.ts';
 import { runTrial, type TrialRun } from '../run-trial.ts';
 import type { TrialState } from '../state.ts';
 import { finishTrial, plainReport } from './finish-trial.ts';
@@ -173,18 +172,4 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
   // At the end of a replay the dashboard stays up until the user quits, so the last figures can be read.
   await dashboard.waitUntilExit();
   return final;
-}
-
-/** Captures a reference calibration from the last 3 s, applies it to the running trial and saves it. */
-export async function applyCapture(trial: TrialRun, muscle: string, sarcomereUm: number, folder = 'sessions'): Promise<string> {
-  const species = trial.latest().muscles.get(muscle)?.species ?? 'human';
-  const result = captureCalibration(muscle, species, trial.recent.window(muscle, 3), sarcomereUm);
-  if (!result.ok) return result.message;
-  trial.inject([result.frame]);
-  const stamp = new Date().toISOString().replaceAll(':', '-').replace(/\..*/, '');
-  const written = await writeFileAtomic(`${folder}/calibration-${muscle.replace(/[^A-Za-z0-9_-]+/g, '_')}-${stamp}.json`, `${JSON.stringify(result.json, null, 2)}\n`);
-  const spread = result.spreadPercent > 5 ? ` (posture not quiet: fascicle length varied ${result.spreadPercent.toFixed(0)}%)` : '';
-  return written.ok
-    ? `${muscle}: calibrated at ${sarcomereUm} µm from ${result.fascicleMm.toFixed(1)} mm${spread}; saved to ${written.path}`
-    : `${muscle}: calibrated at ${sarcomereUm} µm${spread}, but not saved: ${written.message}`;
 }

@@ -110,54 +110,162 @@ function axisRow(minUm: number, maxUm: number, widthCols: number): Run[] {
   return [{ text: chars.join(''), tone: 'axis' }];
 }
 
-export function drawCurve(input: CurveDrawingInput): CurveDrawing {
-  const widthCols = Math.max(1, Math.floor(input.widthCols));
-  const heightRows = Math.max(1, Math.floor(input.heightRows));
-  const { minUm, maxUm } = drawingRange(input.curve);
-  const markerRaw = Number.isFinite(input.sarcomereUm) ? columnOf(input.sarcomereUm, minUm, maxUm, widthCols) : null;
-  const markerCol = markerRaw === null ? null : Math.min(widthCols - 1, Math.max(0, markerRaw));
+/**
+ * What depends only on the curve and the drawing's size: the filled level of each cell, each column's
+ * region, the curve rows without a marker, the axis row. Drawn once per curve and size (see curveLayers).
+ */
+export interface CurveLayers {
+  readonly widthCols: number;
+  readonly heightRows: number;
+  readonly minUm: number;
+  readonly maxUm: number;
+  /** Filled eighths (0–8) of each cell, row by row from the top. */
+  readonly levels: readonly Uint8Array[];
+  readonly regions: readonly RegionKey[];
+  /** The curve rows with no marker, top to bottom. */
+  readonly body: readonly (readonly Run[])[];
+  readonly axis: readonly Run[];
+  /** The marker's characters down the curve rows at `col` (a stem over empty cells, a heavy line in the area), top to bottom. */
+  markerColumn(col: number): readonly string[];
+}
 
+function buildLayers(curve: ForceLengthCurve, widthCols: number, heightRows: number): CurveLayers {
+  const { minUm, maxUm } = drawingRange(curve);
   const eighths: number[] = [];
   const regions: RegionKey[] = [];
   for (let col = 0; col < widthCols; col++) {
     const um = centreUm(col, minUm, maxUm, widthCols);
-    eighths.push(Math.round(geometricForce(input.curve, um) * heightRows * 8));
-    regions.push(regionAt(input.curve, um));
+    eighths.push(Math.round(geometricForce(curve, um) * heightRows * 8));
+    regions.push(regionAt(curve, um));
   }
-
-  const rows: Run[][] = [];
+  const levels: Uint8Array[] = [];
+  const body: Run[][] = [];
   for (let row = 0; row < heightRows; row++) {
     const floor = (heightRows - 1 - row) * 8;
+    const rowLevels = new Uint8Array(widthCols);
     const cells: { char: string; tone: Tone }[] = [];
     for (let col = 0; col < widthCols; col++) {
       const level = Math.min(8, Math.max(0, (eighths[col] ?? 0) - floor));
-      const region = regions[col] ?? 'no_overlap';
-      if (col === markerCol && markerRaw === markerCol) {
-        cells.push({ char: level === 0 ? MARKER_STEM : MARKER_IN_AREA, tone: 'marker' });
-      } else {
-        cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: EIGHTHS[level] ?? '█', tone: region });
-      }
+      rowLevels[col] = level;
+      cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: EIGHTHS[level] ?? '█', tone: regions[col] ?? 'no_overlap' });
     }
-    rows.push(toRuns(cells));
+    levels.push(rowLevels);
+    body.push(toRuns(cells));
   }
+  const columns = new Map<number, readonly string[]>();
+  return {
+    widthCols,
+    heightRows,
+    minUm,
+    maxUm,
+    levels,
+    regions,
+    body,
+    axis: axisRow(minUm, maxUm, widthCols),
+    markerColumn(col: number): readonly string[] {
+      let column = columns.get(col);
+      if (column === undefined) {
+        column = levels.map((rowLevels) => ((rowLevels[col] ?? 0) === 0 ? MARKER_STEM : MARKER_IN_AREA));
+        columns.set(col, column);
+      }
+      return column;
+    },
+  };
+}
 
-  const current = spanCols(input.current, minUm, maxUm, widthCols);
-  const previous = spanCols(input.previous, minUm, maxUm, widthCols);
+const layersByCurve = new WeakMap<ForceLengthCurve, Map<string, CurveLayers>>();
+
+/**
+ * The layers of `curve` at this size, drawn on first request and then kept: the same object for the
+ * same curve object and size, so screens can skip repainting what did not change. Curves are few and
+ * immutable; a curve no longer referenced takes its drawings with it.
+ */
+export function curveLayers(curve: ForceLengthCurve, widthCols: number, heightRows: number): CurveLayers {
+  const width = Math.max(1, Math.floor(widthCols));
+  const height = Math.max(1, Math.floor(heightRows));
+  let bySize = layersByCurve.get(curve);
+  if (bySize === undefined) {
+    bySize = new Map();
+    layersByCurve.set(curve, bySize);
+  }
+  const key = `${width}x${height}`;
+  let layers = bySize.get(key);
+  if (layers === undefined) {
+    layers = buildLayers(curve, width, height);
+    bySize.set(key, layers);
+  }
+  return layers;
+}
+
+/** The marker's column unclamped (-1 left of the axis, widthCols right of it), null without a length. */
+export function markerRawCol(sarcomereUm: number, layers: Pick<CurveLayers, 'minUm' | 'maxUm' | 'widthCols'>): number | null {
+  return Number.isFinite(sarcomereUm) ? columnOf(sarcomereUm, layers.minUm, layers.maxUm, layers.widthCols) : null;
+}
+
+/** The band row: this stride's range (upper halves), the previous one's (lower halves), and the marker or an arrow at the edge. */
+export function bandRow(
+  layers: Pick<CurveLayers, 'minUm' | 'maxUm' | 'widthCols'>,
+  markerRaw: number | null,
+  current: LengthRange | null,
+  previous: LengthRange | null,
+  bothChar = '█',
+): Run[] {
+  const { minUm, maxUm, widthCols } = layers;
+  const markerCol = markerRaw === null ? null : Math.min(widthCols - 1, Math.max(0, markerRaw));
+  const currentSpan = spanCols(current, minUm, maxUm, widthCols);
+  const previousSpan = spanCols(previous, minUm, maxUm, widthCols);
   const band: { char: string; tone: Tone }[] = [];
   for (let col = 0; col < widthCols; col++) {
-    const inCurrent = current !== null && col >= current[0] && col <= current[1];
-    const inPrevious = previous !== null && col >= previous[0] && col <= previous[1];
+    const inCurrent = currentSpan !== null && col >= currentSpan[0] && col <= currentSpan[1];
+    const inPrevious = previousSpan !== null && col >= previousSpan[0] && col <= previousSpan[1];
     if (col === markerCol && markerRaw !== null) {
       const char = markerRaw < 0 ? MARKER_LEFT : markerRaw >= widthCols ? MARKER_RIGHT : MARKER_IN_BAND;
       band.push({ char, tone: 'marker' });
     } else if (inCurrent || inPrevious) {
-      if (inCurrent && inPrevious) band.push({ char: input.bothChar ?? '█', tone: 'band_both' });
+      if (inCurrent && inPrevious) band.push({ char: bothChar, tone: 'band_both' });
       else band.push(inCurrent ? { char: '▀', tone: 'band_current' } : { char: '▄', tone: 'band_previous' });
     } else {
       band.push({ char: ' ', tone: 'empty' });
     }
   }
-  rows.push(toRuns(band));
-  rows.push(axisRow(minUm, maxUm, widthCols));
+  return toRuns(band);
+}
+
+/** The columns a band row covers, as a short key: rows with the same key are drawn alike. */
+export function bandKey(
+  layers: Pick<CurveLayers, 'minUm' | 'maxUm' | 'widthCols'>,
+  markerRaw: number | null,
+  current: LengthRange | null,
+  previous: LengthRange | null,
+): string {
+  const { minUm, maxUm, widthCols } = layers;
+  const c = spanCols(current, minUm, maxUm, widthCols);
+  const p = spanCols(previous, minUm, maxUm, widthCols);
+  return `${markerRaw ?? ''}|${c?.[0] ?? ''}-${c?.[1] ?? ''}|${p?.[0] ?? ''}-${p?.[1] ?? ''}`;
+}
+
+/** The whole drawing as rows of runs (the curve rows with the marker in them, the band, the axis). */
+export function drawCurve(input: CurveDrawingInput): CurveDrawing {
+  const layers = curveLayers(input.curve, input.widthCols, input.heightRows);
+  const { widthCols, minUm, maxUm } = layers;
+  const markerRaw = markerRawCol(input.sarcomereUm, layers);
+  const markerCol = markerRaw === null ? null : Math.min(widthCols - 1, Math.max(0, markerRaw));
+  const rows: (readonly Run[])[] = [];
+  for (let row = 0; row < layers.heightRows; row++) {
+    const rowLevels = layers.levels[row] ?? new Uint8Array(widthCols);
+    if (markerCol === null || markerRaw !== markerCol) {
+      rows.push(layers.body[row] ?? []);
+      continue;
+    }
+    const cells: { char: string; tone: Tone }[] = [];
+    for (let col = 0; col < widthCols; col++) {
+      const level = rowLevels[col] ?? 0;
+      if (col === markerCol) cells.push({ char: level === 0 ? MARKER_STEM : MARKER_IN_AREA, tone: 'marker' });
+      else cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: EIGHTHS[level] ?? '█', tone: layers.regions[col] ?? 'no_overlap' });
+    }
+    rows.push(toRuns(cells));
+  }
+  rows.push(bandRow(layers, markerRaw, input.current, input.previous, input.bothChar));
+  rows.push(layers.axis);
   return { rows, minUm, maxUm, markerCol };
 }

@@ -1,7 +1,13 @@
-/** Paints a curve drawing (see curve-drawing.ts): regions in their colours, the marker bright. */
+/**
+ * Paints a curve drawing (see curve-drawing.ts): regions in their colours, the marker bright. The curve
+ * rows and the axis are drawn once per curve and size and never repainted; the marker's column is laid
+ * over them, and the band row is drawn again only when the columns it covers change.
+ */
 import { Box, Text } from 'ink';
-import { drawCurve, type LengthRange } from './curve-drawing.ts';
+import { useRef } from 'react';
+import { bandKey, bandRow, curveLayers, markerRawCol, type LengthRange, type Run } from './curve-drawing.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
+import RunsLine from './runs-line.tsx';
 import type { Theme } from './theme.ts';
 
 export interface Props {
@@ -16,18 +22,28 @@ export interface Props {
 }
 
 export default function CurvePlot({ curve, widthCols, heightRows, sarcomereUm, current, previous, theme }: Props) {
-  const drawing = drawCurve({ curve, widthCols, heightRows, sarcomereUm, current, previous, bothChar: theme.color ? '▀' : '█' });
+  const layers = curveLayers(curve, widthCols, heightRows);
+  const markerRaw = markerRawCol(sarcomereUm, layers);
+  const bothChar = theme.color ? '▀' : '█';
+  const key = `${bandKey(layers, markerRaw, current, previous)}|${bothChar}`;
+  const band = useRef<{ readonly layers: object; readonly key: string; readonly runs: readonly Run[] } | null>(null);
+  if (band.current?.layers !== layers || band.current.key !== key) {
+    band.current = { layers, key, runs: bandRow(layers, markerRaw, current, previous, bothChar) };
+  }
+  const inArea = markerRaw !== null && markerRaw >= 0 && markerRaw < layers.widthCols;
   return (
     <Box flexDirection="column">
-      {drawing.rows.map((runs, row) => (
-        <Text key={row}>
-          {runs.map((run, i) => (
-            <Text key={i} {...theme.tone(run.tone)}>
-              {run.text}
-            </Text>
-          ))}
-        </Text>
+      {layers.body.map((runs, row) => (
+        <RunsLine key={row} runs={runs} theme={theme} />
       ))}
+      {inArea ? (
+        // Laid over the curve rows at the marker's column: the rows themselves stay as drawn.
+        <Box position="absolute" marginLeft={markerRaw} width={1} flexDirection="column">
+          <Text {...theme.tone('marker')}>{layers.markerColumn(markerRaw).join('\n')}</Text>
+        </Box>
+      ) : null}
+      <RunsLine runs={band.current.runs} theme={theme} />
+      <RunsLine runs={layers.axis} theme={theme} />
     </Box>
   );
 }

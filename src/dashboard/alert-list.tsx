@@ -1,5 +1,6 @@
 /** The alerts, one line each, critical first; lines beyond `maxRows` are counted, not shown. */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import type { Alert } from './alerts.ts';
 import type { Theme } from './theme.ts';
 
@@ -11,7 +12,7 @@ export interface Props {
   readonly maxRows?: number;
 }
 
-export default function AlertList({ alerts, theme, columns, maxRows = 3 }: Props) {
+function AlertList({ alerts, theme, columns, maxRows = 3 }: Props) {
   if (alerts.length === 0) return null;
   const overflow = alerts.length > maxRows;
   const shown = overflow ? alerts.slice(0, maxRows - 1) : alerts;
@@ -26,3 +27,6 @@ export default function AlertList({ alerts, theme, columns, maxRows = 3 }: Props
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(AlertList);

@@ -157,3 +157,15 @@ export function sortAlerts(alerts: readonly Alert[]): Alert[] {
     .sort((a, b) => SEVERITY_ORDER[a.alert.severity] - SEVERITY_ORDER[b.alert.severity] || a.order - b.order)
     .map(({ alert }) => alert);
 }
+
+/** True when both lists say the same alerts in the same order (kind, muscle, severity and text). */
+export function sameAlerts(a: readonly Alert[], b: readonly Alert[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    const y = b[i];
+    if (x === undefined || y === undefined) return false;
+    if (x.kind !== y.kind || x.muscle !== y.muscle || x.severity !== y.severity || x.text !== y.text) return false;
+  }
+  return true;
+}

@@ -19,10 +19,10 @@ import ReplayBar from './replay-bar.tsx';
 import type { DashboardStatus } from './status.ts';
 import StatusBar from './status-bar.tsx';
 import { createTheme } from './theme.ts';
-import { useStatus } from './use-status.ts';
 import { useTerminalSize } from './use-terminal-size.ts';
-import { useTrialView } from './use-trial-view.ts';
+import { useTrialFrame } from './use-trial-frame.ts';
 import { detectAlerts } from './view-model.ts';
+import { sameAlerts, type Alert } from './alerts.ts';
 
 export interface Props {
   readonly state$: Observable<TrialState>;
@@ -69,26 +69,39 @@ export default function Dashboard(props: Props) {
     ...(props.columns === undefined ? {} : { columns: props.columns }),
     ...(props.rows === undefined ? {} : { rows: props.rows }),
   });
-  const view = useTrialView(props.state$, {
+  // The trial's view and the status arrive together, one frame at a time.
+  const { view, status } = useTrialFrame(props.state$, props.status$, {
     ...(props.scheduler === undefined ? {} : { scheduler: props.scheduler }),
     ...(props.frameMs === undefined ? {} : { frameMs: props.frameMs }),
     frozen,
   });
-  const status = useStatus(props.status$, props.scheduler, props.frameMs);
-  const alerts = useMemo(() => detectAlerts(view, status, onCalibrate !== undefined), [view, status, onCalibrate]);
+  // The same alerts as the frame before keep their array, so the list is not drawn again.
+  const shownAlerts = useRef<readonly Alert[]>([]);
+  const alerts = useMemo(() => {
+    const found = detectAlerts(view, status, onCalibrate !== undefined);
+    if (!sameAlerts(found, shownAlerts.current)) shownAlerts.current = found;
+    return shownAlerts.current;
+  }, [view, status, onCalibrate]);
 
   const muscleCount = view.muscles.length;
   const focus = muscleCount === 0 ? 0 : Math.min(ui.current.focus, muscleCount - 1);
-  const keys: KeyHelp[] = KEY_HELP.filter((k) => {
-    switch (k.needs) {
-      case undefined:
-        return true;
-      case 'manyMuscles':
-        return muscleCount > 1;
-      default:
-        return props[k.needs] !== undefined;
-    }
-  });
+  const manyMuscles = muscleCount > 1;
+  const can = { onMarker: onMarker !== undefined, onSpeed: onSpeed !== undefined, onCalibrate: onCalibrate !== undefined };
+  const keys: readonly KeyHelp[] = useMemo(
+    () =>
+      KEY_HELP.filter((k) => {
+        switch (k.needs) {
+          case undefined:
+            return true;
+          case 'manyMuscles':
+            return manyMuscles;
+          default:
+            return can[k.needs];
+        }
+      }),
+    // The flags, not the callbacks: a new callback each render keeps the same keys.
+    [manyMuscles, can.onMarker, can.onSpeed, can.onCalibrate],
+  );
   const onKey = (input: string, key: Key): void => {
     const step = handleKey(ui.current, input, key, {
       muscles: view.muscles.map((m) => m.name),

@@ -1,5 +1,6 @@
 /** The keys that work here, and the last short message (marker dropped, calibration asked…). */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import type { KeyHelp } from './keys.ts';
 import type { Theme } from './theme.ts';
 
@@ -13,7 +14,7 @@ export interface Props {
   readonly noKeys?: boolean;
 }
 
-export default function Footer({ keys, theme, columns, flash = null, noKeys = false }: Props) {
+function Footer({ keys, theme, columns, flash = null, noKeys = false }: Props) {
   if (noKeys) {
     return (
       <Box width={columns}>
@@ -50,3 +51,6 @@ export default function Footer({ keys, theme, columns, flash = null, noKeys = fa
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(Footer);

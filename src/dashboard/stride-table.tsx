@@ -1,5 +1,6 @@
 /** The last completed strides of one muscle, newest first: SL range, main region and its share. */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import { REGION_KEYS, REGION_LABEL, type RegionKey } from '../model/regions.ts';
 import type { StrideSummary } from '../state.ts';
 import { fixed, percent } from './format.ts';
@@ -26,7 +27,7 @@ export function mainRegion(stride: StrideSummary): { readonly region: RegionKey;
   return best;
 }
 
-export default function StrideTable({ strides, rows, theme, estimated = false, wide = false }: Props) {
+function StrideTable({ strides, rows, theme, estimated = false, wide = false }: Props) {
   if (rows <= 0) return null;
   const shown = strides.slice(-rows).reverse();
   return (
@@ -49,3 +50,6 @@ export default function StrideTable({ strides, rows, theme, estimated = false, w
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(StrideTable);

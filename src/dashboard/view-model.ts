@@ -8,8 +8,9 @@ import type { RegionKey } from '../model/regions.ts';
 import type { Species } from '../model/species.ts';
 import type { RejectReason } from '../reasons.ts';
 import type { Side } from '../records.ts';
-import type { StrideSummary, TrialState } from '../state.ts';
+import type { MuscleState, StrideSummary, TrialState } from '../state.ts';
 import {
+  BASELINE_SHIFT_HOLD_STRIDES,
   baselineShiftAlert,
   connectionAlert,
   implausibleLengthAlert,
@@ -63,7 +64,7 @@ export interface MuscleView {
   readonly current: RangeView | null;
   /** The last completed stride. */
   readonly previous: RangeView | null;
-  /** The last completed strides, oldest first (at most STRIDES_KEPT). */
+  /** The last completed strides, oldest first (at most STRIDES_KEPT); the same array until a stride completes. */
   readonly strides: readonly StrideSummary[];
   readonly strideCount: number;
   /** Recent sarcomere lengths, oldest first, one per displayed frame with a new sample. */
@@ -108,6 +109,12 @@ interface MuscleMemory {
   readonly history: Float64Array;
   head: number;
   count: number;
+  /** The strides the kept ones were read from, and how many there were: strides are only ever appended. */
+  stridesOf: unknown;
+  strideCount: number;
+  /** The last STRIDES_KEPT strides, read once per completed stride (so the same array while none completes). */
+  kept: readonly StrideSummary[];
+  previous: RangeView | null;
 }
 
 /** The dashboard's own memory across frames. One per mounted dashboard. */
@@ -123,10 +130,27 @@ export function createTracker(): Tracker {
 function memoryOf(tracker: Tracker, name: string, nowMs: number): MuscleMemory {
   let memory = tracker.muscles.get(name);
   if (memory === undefined) {
-    memory = { lastTS: Number.NaN, lastSampleMs: nowMs, lowSinceS: null, history: new Float64Array(HISTORY_SIZE), head: 0, count: 0 };
+    memory = { lastTS: Number.NaN, lastSampleMs: nowMs, lowSinceS: null, history: new Float64Array(HISTORY_SIZE),
+      head: 0,
+      count: 0,
+      stridesOf: null,
+      strideCount: 0,
+      kept: [],
+      previous: null,
+    };
     tracker.muscles.set(name, memory);
   }
   return memory;
+}
+
+/** The muscle's last strides, read again only when one has completed since the last frame. */
+function keptStrides(memory: MuscleMemory, strides: MuscleState['strides']): void {
+  if (strides === memory.stridesOf && strides.length === memory.strideCount) return;
+  memory.stridesOf = strides;
+  memory.strideCount = strides.length;
+  memory.kept = strides.slice(-STRIDES_KEPT);
+  const last = memory.kept.at(-1);
+  memory.previous = last === undefined ? null : { index: last.index, slMinUm: last.slMinUm, slMaxUm: last.slMaxUm };
 }
 
 function historyOf(memory: MuscleMemory): number[] {
@@ -185,6 +209,7 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
   const muscles: MuscleView[] = [];
   for (const m of state.muscles.values()) {
     const memory = memoryOf(tracker, m.name, nowMs);
+    keptStrides(memory, m.strides);
     const s = m.latest;
     let latest: SampleView | null = null;
     if (s !== null) {
@@ -214,7 +239,6 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
         strideIndex: s.strideIndex,
       };
     }
-    const last = m.strides[m.strides.length - 1];
     muscles.push({
       name: m.name,
       side: m.side,
@@ -224,9 +248,9 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
       calibrationSource: m.calibrationSource,
       latest,
       current: m.current === null ? null : { index: m.current.index, slMinUm: m.current.slMinUm, slMaxUm: m.current.slMaxUm },
-      previous: last === undefined ? null : { index: last.index, slMinUm: last.slMinUm, slMaxUm: last.slMaxUm },
-      strides: m.strides.slice(-STRIDES_KEPT),
-      strideCount: m.strides.length,
+      previous: memory.previous,
+      strides: memory.kept,
+      strideCount: memory.strideCount,
       history: historyOf(memory),
       lowSinceS: memory.lowSinceS,
       lastSampleAgeMs: nowMs - memory.lastSampleMs,
@@ -267,7 +291,7 @@ export function detectAlerts(view: TrialView, status: DashboardStatus, canCalibr
   for (const m of view.muscles) {
     found.push(lowQualityAlert(m.name, m.lowSinceS, m.latest?.tS ?? Number.NaN));
     found.push(implausibleLengthAlert(m.name, m.latest?.sarcomereUm ?? Number.NaN));
-    found.push(baselineShiftAlert(m.name, m.strides));
+    found.push(baselineShiftAlert(m.name, m.strides.slice(-(BASELINE_SHIFT_HOLD_STRIDES + 1))));
   }
   return sortAlerts(found.filter((a): a is Alert => a !== null));
 }

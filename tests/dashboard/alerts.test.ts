@@ -16,7 +16,7 @@ import { completeStride, makeMuscle, makeTrialState } from './fixtures.ts';
 function stridesWithMeans(...means: number[]) {
   const state = makeTrialState([makeMuscle('calf')]);
   for (const mean of means) completeStride(state, 'calf', { slMinUm: mean - 0.2, slMaxUm: mean + 0.2, slMeanUm: mean });
-  return state.muscles.get('calf')?.strides ?? [];
+  return state.muscles.get('calf')?.strides.slice() ?? [];
 }
 
 describe('lowQualityAlert', () => {

@@ -99,7 +99,7 @@ export function completeStride(state: TrialState, muscle: string, options: Strid
   const m = state.muscles.get(muscle);
   if (m === undefined) throw new Error(`fixture: no muscle "${muscle}" in the state; add it with makeMuscle first`);
   const index = m.strides.length;
-  const last = m.strides[m.strides.length - 1];
+  const last = m.strides.at(m.strides.length - 1);
   const startS = last === undefined ? 0 : last.endS;
   const endS = startS + (options.durationS ?? 1.1);
   const stride: StrideSummary = {
@@ -114,7 +114,10 @@ export function completeStride(state: TrialState, muscle: string, options: Strid
     gapS: 0,
     sampleCount: 110,
   };
-  m.strides.push(stride);
+  // Hand-made states hold their strides in a plain array (makeMuscle).
+  const strides = m.strides;
+  if (!Array.isArray(strides)) throw new Error(`fixture: the strides of "${muscle}" are not a plain array; make the muscle with makeMuscle`);
+  strides.push(stride);
   m.current = { index: index + 1, startS: endS, slMinUm: Number.POSITIVE_INFINITY, slMaxUm: Number.NEGATIVE_INFINITY };
   return stride;
 }

@@ -1,8 +1,8 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { Text } from 'ink';
-import { Subject, VirtualTimeScheduler, type Observable } from 'rxjs';
+import { NEVER, Subject, VirtualTimeScheduler, type Observable } from 'rxjs';
 import { useTrialView } from '../../src/dashboard/use-trial-view.ts';
-import { useStatus } from '../../src/dashboard/use-status.ts';
+import { useTrialFrame } from '../../src/dashboard/use-trial-frame.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import type { TrialState } from '../../src/state.ts';
 import { pushSample, walkingState } from './fixtures.ts';
@@ -14,9 +14,21 @@ function Probe({ state$, scheduler, frozen = false }: { readonly state$: Observa
   return <Text>{`muscles=${view.muscles.length} calf=${calf ?? 'none'} error=${view.error ?? 'none'}`}</Text>;
 }
 
-function StatusProbe({ status$, scheduler }: { readonly status$: Observable<DashboardStatus>; readonly scheduler: VirtualTimeScheduler }) {
-  const status = useStatus(status$, scheduler, 80);
-  return <Text>{`log=${status.logPath ?? 'none'} conn=${status.connection?.state ?? 'none'}`}</Text>;
+function StatusProbe({
+  status$,
+  scheduler,
+  state$ = NEVER,
+  onFrame,
+}: {
+  readonly status$: Observable<DashboardStatus>;
+  readonly scheduler: VirtualTimeScheduler;
+  readonly state$?: Observable<TrialState>;
+  readonly onFrame?: () => void;
+}) {
+  const { view, status } = useTrialFrame(state$, status$, { scheduler, frameMs: 80, tickMs: 250 });
+  onFrame?.();
+  const calf = view.muscles[0]?.latest?.sarcomereUm;
+  return <Text>{`log=${status.logPath ?? 'none'} conn=${status.connection?.state ?? 'none'} calf=${calf ?? 'none'}`}</Text>;
 }
 
 const screens: Screen[] = [];
@@ -128,7 +140,7 @@ describe('useTrialView', () => {
   });
 });
 
-describe('useStatus', () => {
+describe('useTrialFrame with a status stream', () => {
   it('merges the fields of each emission into the status so far and unsubscribes on unmount', async () => {
     const { scheduler, advance } = setup();
     const status$ = new Subject<DashboardStatus>();
@@ -161,5 +173,61 @@ describe('useStatus', () => {
     await advance(100);
     expect(screen.lastFrame()).toContain('log=sessions/b.log conn=listening');
     expect(status$.observed).toBe(false);
+  });
+
+  it('draws the state and the status arriving in one frame interval as one frame', async () => {
+    const { scheduler } = setup();
+    const status$ = new Subject<DashboardStatus>();
+    const state$ = new Subject<TrialState>();
+    let renders = 0;
+    const screen = renderScreen(<StatusProbe status$={status$} state$={state$} scheduler={scheduler} onFrame={() => renders++} />);
+    screens.push(screen);
+    await waitFor(() => status$.observed && state$.observed, 'the hook subscribing');
+    const before = renders;
+    const state = walkingState();
+    // The status first, the state 40 ms later, both inside one frame interval: drawn once. (The virtual
+    // clock moves only as far as the actions it runs, so the emissions are timed from a clock of their own.)
+    const startMs = scheduler.frame;
+    for (let ms = 0; ms <= 200; ms += 10) {
+      if (ms < 40) status$.next({ logPath: `sessions/${ms}.log` });
+      else if (ms < 80) {
+        pushSample(state, 'calf', { tS: 6 + ms / 1000, sarcomereUm: 2.5 + ms / 1000 });
+        state$.next(state);
+      }
+      scheduler.maxFrames = startMs + ms;
+      scheduler.flush();
+      await tick(1);
+    }
+    await tick(5);
+    expect(screen.lastFrame()).toContain('log=sessions/30.log conn=none calf=2.57');
+    expect(renders - before).toBe(1);
+  });
+
+  it('publishes a frame every tick while nothing arrives, and none between frames while data flows', async () => {
+    const { scheduler, advance } = setup();
+    const status$ = new Subject<DashboardStatus>();
+    const state$ = new Subject<TrialState>();
+    let renders = 0;
+    const screen = renderScreen(<StatusProbe status$={status$} state$={state$} scheduler={scheduler} onFrame={() => renders++} />);
+    screens.push(screen);
+    await waitFor(() => status$.observed && state$.observed, 'the hook subscribing');
+    let before = renders;
+    for (let i = 0; i < 4; i++) await advance(250);
+    // Quiet: the tick alone, four times a second.
+    expect(renders - before).toBe(4);
+    const state = walkingState();
+    before = renders;
+    // The virtual clock moves only as far as the actions it runs, so the batches are timed from a clock of their own.
+    const startMs = scheduler.frame;
+    for (let ms = 10; ms <= 1000; ms += 10) {
+      pushSample(state, 'calf', { tS: 6 + ms / 1000, sarcomereUm: 2.5 });
+      state$.next(state);
+      scheduler.maxFrames = startMs + ms;
+      scheduler.flush();
+      await tick(1);
+    }
+    // Flowing every 10 ms: one frame per 80 ms and no tick frames between them.
+    expect(renders - before).toBeGreaterThanOrEqual(11);
+    expect(renders - before).toBeLessThanOrEqual(13);
   });
 });

@@ -1,0 +1,114 @@
+/**
+ * Subscribes to the pipeline's TrialState (one object, mutated in place, emitted after each batch) and to
+ * the optional status stream, and publishes both together as one frame: at most one per frameMs however
+ * many batches and status emissions arrive, so the screen is drawn once per frame. When nothing arrives
+ * for tickMs, a frame is published anyway, so time-based alerts and the rate keep moving. Unsubscribes on
+ * cleanup. It only reads the state: the pipeline's pace never waits on the screen.
+ */
+import { useEffect, useRef, useState } from 'react';
+import { asyncScheduler, interval, Subscription, type Observable, type SchedulerLike } from 'rxjs';
+import type { TrialState } from '../state.ts';
+import { mergeStatus, type DashboardStatus } from './status.ts';
+import { createTracker, observeTrial, type TrialView } from './view-model.ts';
+
+export interface TrialFrameOptions {
+  /** Clock and timers; a virtual-time scheduler in tests. @default asyncScheduler */
+  readonly scheduler?: SchedulerLike;
+  /** At most one frame per this many milliseconds (about 12 frames/s). @default 80 */
+  readonly frameMs?: number;
+  /** With nothing new for this long, a frame is published anyway (time-based alerts, the rate). @default 250 */
+  readonly tickMs?: number;
+  /** While true the shown frame stays as it is; the subscriptions, history and rates go on. @default false */
+  readonly frozen?: boolean;
+}
+
+export interface TrialFrame {
+  readonly view: TrialView;
+  readonly status: DashboardStatus;
+}
+
+function messageOf(error: unknown): string {
+  return error instanceof Error ? error.message : String(error);
+}
+
+const NO_STATUS: DashboardStatus = {};
+
+export function useTrialFrame(
+  state$: Observable<TrialState>,
+  status$: Observable<DashboardStatus> | undefined,
+  options: TrialFrameOptions = {},
+): TrialFrame {
+  const scheduler = options.scheduler ?? asyncScheduler;
+  const frameMs = options.frameMs ?? 80;
+  const tickMs = options.tickMs ?? 250;
+  const [frame, setFrame] = useState<TrialFrame>(() => ({ view: observeTrial(createTracker(), null, scheduler.now()), status: NO_STATUS }));
+  const frozenNow = options.frozen ?? false;
+  // Read by the subscription at each frame, so it is set as the screen renders, not an effect later.
+  const frozen = useRef(frozenNow);
+  frozen.current = frozenNow;
+  const publishNow = useRef<() => void>(() => undefined);
+
+  useEffect(() => {
+    if (!frozenNow) publishNow.current();
+  }, [frozenNow]);
+
+  useEffect(() => {
+    const tracker = createTracker();
+    let latest: TrialState | null = null;
+    let error: string | null = null;
+    let status = NO_STATUS;
+    let lastPublishMs = Number.NEGATIVE_INFINITY;
+    const subscription = new Subscription();
+    let pending: Subscription | null = null;
+    const publish = (): void => {
+      pending?.unsubscribe();
+      pending = null;
+      lastPublishMs = scheduler.now();
+      const view = observeTrial(tracker, latest, lastPublishMs, error);
+      if (!frozen.current) setFrame({ view, status });
+    };
+    // Like auditTime: the first news after a frame waits frameMs, and everything arriving meanwhile joins it.
+    const soon = (): void => {
+      if (pending !== null) return;
+      pending = scheduler.schedule(publish, frameMs);
+    };
+    publishNow.current = publish;
+    subscription.add(
+      state$.subscribe({
+        next: (state) => {
+          latest = state;
+          soon();
+        },
+        error: (e: unknown) => {
+          error = messageOf(e);
+          publish();
+        },
+        complete: publish,
+      }),
+    );
+    if (status$ !== undefined) {
+      subscription.add(
+        status$.subscribe({
+          next: (next) => {
+            status = mergeStatus(status, next);
+            soon();
+          },
+          // A failing status stream leaves the status as it was; the trial goes on.
+          error: () => undefined,
+        }),
+      );
+    }
+    subscription.add(
+      interval(tickMs, scheduler).subscribe(() => {
+        if (pending === null && scheduler.now() - lastPublishMs >= tickMs) publish();
+      }),
+    );
+    return () => {
+      publishNow.current = () => undefined;
+      pending?.unsubscribe();
+      subscription.unsubscribe();
+    };
+  }, [state$, status$, scheduler, frameMs, tickMs]);
+
+  return frame;
+}

@@ -1,14 +1,22 @@
 /** A terminal that is not there: Ink renders into it as into a real one, and the frames are counted, not kept. */
 import { EventEmitter } from 'node:events';
 
+/** Ink brackets each frame on a terminal with these (synchronized output), as writes of their own. */
+const BEGIN_SYNC = '\u001B[?2026h';
+const END_SYNC = '\u001B[?2026l';
+
 export class FakeStdout extends EventEmitter {
   readonly isTTY = true;
   columns = 120;
   rows = 40;
+  /** Screen updates: writes other than the synchronized-output brackets alone. */
   frames = 0;
+  /** Every write, the brackets included. */
+  writes = 0;
   bytes = 0;
   write = (chunk: string | Uint8Array): boolean => {
-    this.frames++;
+    this.writes++;
+    if (chunk !== BEGIN_SYNC && chunk !== END_SYNC) this.frames++;
     this.bytes += chunk.length;
     return true;
   };

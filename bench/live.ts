@@ -30,6 +30,10 @@ export interface LatencyFigures {
   readonly pipelineP99Ms: number;
   /** Dashboard frames written (0 without the dashboard). */
   readonly frames: number;
+  /** Frames per second of streaming. */
+  readonly framesPerS: number;
+  /** Writes to the terminal: each frame is one, between the synchronized-output brackets (two more). */
+  readonly writes: number;
   /** Receiving process CPU time per second of streaming (ms/s): what the pipeline (and dashboard) cost. */
   readonly cpuMsPerS: number;
   /** Event-loop delay p99 (ms): how long the loop was kept from answering (renders, collections). */
@@ -143,6 +147,8 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
     pipelineP50Ms: quantile(pipeline, 0.5),
     pipelineP99Ms: quantile(pipeline, 0.99),
     frames: stdout.frames,
+    framesPerS: stdout.frames / options.durationS,
+    writes: stdout.writes,
     cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.durationS,
     loopDelayP99Ms: delay.percentile(99) / 1e6,
   };
@@ -153,7 +159,7 @@ function line(name: string, f: LatencyFigures): string {
     `live ${name.padEnd(10)} ${f.samplesPerS.toFixed(0)} samples/s in ${f.messages} messages: send → state p50 ${f.sendToStateP50Ms.toFixed(2)} ms, ` +
     `p99 ${f.sendToStateP99Ms.toFixed(2)} ms (max ${f.sendToStateMaxMs.toFixed(1)}); pipeline p50 ${f.pipelineP50Ms.toFixed(3)} ms, p99 ${f.pipelineP99Ms.toFixed(3)} ms` +
     `; CPU ${f.cpuMsPerS.toFixed(0)} ms/s, event-loop delay p99 ${f.loopDelayP99Ms.toFixed(1)} ms` +
-    (f.frames > 0 ? `; ${f.frames} screen writes` : '')
+    (f.frames > 0 ? `; ${f.frames} frames (${f.framesPerS.toFixed(1)}/s) in ${f.writes} writes` : '')
   );
 }
 

@@ -60,17 +60,40 @@ export function useTrialFrame(
     let lastPublishMs = Number.NEGATIVE_INFINITY;
     const subscription = new Subscription();
     let pending: Subscription | null = null;
+    let lastNewsMs = Number.NEGATIVE_INFINITY;
+    /** The frame interval has passed while news was still arriving: the next news is drawn at once. */
+    let due = false;
     const publish = (): void => {
       pending?.unsubscribe();
       pending = null;
+      due = false;
       lastPublishMs = scheduler.now();
       const view = observeTrial(tracker, latest, lastPublishMs, error);
       if (!frozen.current) setFrame({ view, status });
     };
-    // Like auditTime: the first news after a frame waits frameMs, and everything arriving meanwhile joins it.
+    // The first news after a frame waits frameMs, and everything arriving meanwhile joins it. While news
+    // keeps coming, the frame is drawn just after the next one, in the quiet before the one after (a
+    // frame drawn at a random moment would make the news arriving during it wait); without news for
+    // quietMs it is drawn anyway.
+    const quietMs = frameMs / 4;
+    const deadline = (): void => {
+      pending = null;
+      if (scheduler.now() - lastNewsMs >= quietMs) {
+        publish();
+        return;
+      }
+      due = true;
+      pending = scheduler.schedule(deadline, quietMs);
+    };
     const soon = (): void => {
-      if (pending !== null) return;
-      pending = scheduler.schedule(publish, frameMs);
+      lastNewsMs = scheduler.now();
+      if (due) {
+        pending?.unsubscribe();
+        due = false;
+        pending = scheduler.schedule(publish, 0);
+      } else if (pending === null) {
+        pending = scheduler.schedule(deadline, frameMs);
+      }
     };
     publishNow.current = publish;
     subscription.add(

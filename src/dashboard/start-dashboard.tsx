@@ -4,7 +4,8 @@
  * q (or Ctrl+C) calls onQuit and then unmounts the dashboard, so waitUntilExit() resolves.
  */
 import { render } from 'ink';
-import type { Observable, SchedulerLike } from 'rxjs';
+import { performance } from 'node:perf_hooks';
+import { asyncScheduler, interval, type Observable, type SchedulerLike } from 'rxjs';
 import type { TrialState } from '../state.ts';
 import Dashboard from './dashboard.tsx';
 import type { DashboardStatus } from './status.ts';
@@ -34,6 +35,21 @@ export interface DashboardOptions {
   readonly frameMs?: number;
 }
 
+/** How often the development build's timing entries are dropped (see dropReactTimings). */
+export const REACT_TIMINGS_DROP_MS = 1000;
+
+/**
+ * React's development build (NODE_ENV not "production") records a performance measure, with a diff of
+ * the props, for each component it draws again, and Node keeps every one: some 3 MB a second at 4 muscles (measured),
+ * so a long session would run out of memory. Its entries are named with a leading zero-width space;
+ * only those are dropped.
+ */
+export function dropReactTimings(): void {
+  const names = new Set<string>();
+  for (const entry of performance.getEntriesByType('measure')) if (entry.name.startsWith('\u200B')) names.add(entry.name);
+  for (const name of names) performance.clearMeasures(name);
+}
+
 export function startDashboard(options: DashboardOptions): { unmount(): void; waitUntilExit(): Promise<void> } {
   const instance = render(
     <Dashboard
@@ -50,11 +66,16 @@ export function startDashboard(options: DashboardOptions): { unmount(): void; wa
     />,
     { stdout: options.stdout, stdin: options.stdin, exitOnCtrlC: false, patchConsole: false, maxFps: 15 },
   );
+  const timings = interval(REACT_TIMINGS_DROP_MS, options.scheduler ?? asyncScheduler).subscribe(dropReactTimings);
   // Asked for now: Ink makes this promise on first request, and one first asked after the exit never settles.
   const exited = instance.waitUntilExit().then(() => undefined);
+  exited.finally(() => timings.unsubscribe()).catch(() => undefined);
   exited.catch(() => undefined);
   return {
-    unmount: () => instance.unmount(),
+    unmount: () => {
+      timings.unsubscribe();
+      instance.unmount();
+    },
     waitUntilExit: () => exited,
   };
 }

@@ -1,10 +1,11 @@
 import './force-color.ts';
+import { performance } from 'node:perf_hooks';
 import { afterEach, describe, expect, it } from 'vitest';
 import { BehaviorSubject, Observable, Subject, VirtualTimeScheduler } from 'rxjs';
 import Dashboard, { type Props } from '../../src/dashboard/dashboard.tsx';
 import type { TrialState } from '../../src/state.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
-import { startDashboard } from '../../src/dashboard/start-dashboard.tsx';
+import { REACT_TIMINGS_DROP_MS, startDashboard } from '../../src/dashboard/start-dashboard.tsx';
 import { MARKER_IN_BAND } from '../../src/dashboard/curve-drawing.ts';
 import { completeStride, makeMuscle, makeTrialState, pushSample, startStride, walkingState } from './fixtures.ts';
 import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, tick, type Screen } from './terminal-double.ts';
@@ -401,6 +402,45 @@ describe('startDashboard', () => {
   function terminal() {
     return { out: new ScreenOut(80, 24), keys: new KeysIn() };
   }
+
+  it('drops the timing entries React’s development build records as it draws, and only those', async () => {
+    const { out, keys } = terminal();
+    const scheduler = new VirtualTimeScheduler(undefined, 0);
+    // React names its entries after the component, behind a zero-width space; under the test runner it
+    // records none (its console has no timeStamp), so entries of that form stand in for them.
+    const reactLike = ['\u200BMusclePanel', '\u200BCurvePlot'];
+    const reactTimings = (): number => performance.getEntriesByType('measure').filter((e) => e.name.startsWith('\u200B')).length;
+    const dashboard = startDashboard({
+      state$: new BehaviorSubject(walkingState()),
+      title: 'lengthwise',
+      stdout: out as unknown as NodeJS.WriteStream,
+      stdin: keys as unknown as NodeJS.ReadStream,
+      env: {},
+      onQuit: () => undefined,
+      scheduler,
+    });
+    performance.mark('lengthwise-own-start');
+    performance.measure('lengthwise-own', 'lengthwise-own-start');
+    for (let i = 0; i < 50; i++) for (const name of reactLike) performance.measure(name, { start: 0, end: 1, detail: { properties: [['Changed Props', '']] } });
+    expect(reactTimings()).toBe(100);
+    scheduler.maxFrames = REACT_TIMINGS_DROP_MS - 1;
+    scheduler.flush();
+    expect(reactTimings()).toBe(100);
+    scheduler.maxFrames = REACT_TIMINGS_DROP_MS;
+    scheduler.flush();
+    expect(reactTimings()).toBe(0);
+    expect(performance.getEntriesByName('lengthwise-own')).toHaveLength(1);
+    performance.clearMeasures('lengthwise-own');
+    performance.clearMarks('lengthwise-own-start');
+    dashboard.unmount();
+    await dashboard.waitUntilExit();
+    // Stopped with the dashboard.
+    performance.measure(reactLike[0] ?? '', { start: 0, end: 1 });
+    scheduler.maxFrames = 3 * REACT_TIMINGS_DROP_MS;
+    scheduler.flush();
+    expect(reactTimings()).toBe(1);
+    performance.clearMeasures(reactLike[0]);
+  });
 
   it('renders without any colour code when NO_COLOR is set', async () => {
     const { out, keys } = terminal();

@@ -350,6 +350,8 @@ function cycleJson(m: MuscleState): CycleJson | null {
 
 function muscleJson(m: MuscleState): MuscleJson {
   const relativeSd = m.relativeSd ?? 0;
+  // Rebuilt from the compact list once, for both the stride list and the trial figures.
+  const strides = m.strides.slice();
   return {
     species: m.species,
     side: m.side,
@@ -358,8 +360,8 @@ function muscleJson(m: MuscleState): MuscleJson {
     sarcomeres_in_series_relative_sd: relativeSd,
     calibration_source: m.calibrationSource,
     segmentation: m.segmentation ?? null,
-    strides: Array.from(m.strides, strideJson),
-    trial: trialFigures(m.strides, { curve: m.curve, relativeSd, histograms: m.trialHistograms }),
+    strides: strides.map(strideJson),
+    trial: trialFigures(strides, { curve: m.curve, relativeSd, histograms: m.trialHistograms }),
     cycle: cycleJson(m),
     filaments: filamentsJson(m),
     sl_histogram: slHistogramJson(m.trialHistograms?.stride),

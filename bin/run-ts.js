@@ -4,6 +4,9 @@ import { register } from 'tsx/esm/api';
 import { pathToFileURL } from 'node:url';
 import { resolve } from 'node:path';
 
+// Scripts (benchmarks above all) measure what users run: React's production build, as bin/lengthwise.js.
+process.env.NODE_ENV ??= 'production';
+
 register();
 const [script, ...rest] = process.argv.slice(2);
 if (script === undefined) {

@@ -1,31 +1,16 @@
+import { captureIo } from '../helpers/capture-io.ts';
 import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { PassThrough } from 'node:stream';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseWindow, run } from '../../src/commands/calibrate.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
-import type { CommandIo } from '../../src/commands/io.ts';
 
-/** A CommandIo that keeps what the command says; the streams are real PassThrough streams. */
-function captureIo(): { io: CommandIo; out: () => string; err: () => string } {
-  const out: string[] = [];
-  const err: string[] = [];
-  const io: CommandIo = {
-    out: (text) => out.push(text.endsWith('\n') ? text : `${text}\n`),
-    err: (text) => err.push(text.endsWith('\n') ? text : `${text}\n`),
-    stdout: new PassThrough() as unknown as NodeJS.WriteStream,
-    stderr: new PassThrough() as unknown as NodeJS.WriteStream,
-    stdin: new PassThrough() as unknown as NodeJS.ReadStream,
-    env: {},
-  };
-  return { io, out: () => out.join(''), err: () => err.join('') };
-}
 
 async function calibrate(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
   const c = captureIo();
   const code = await run(argv, c.io);
-  return { code, out: c.out(), err: c.err() };
+  return { code, out: c.outText(), err: c.errText() };
 }
 
 /**

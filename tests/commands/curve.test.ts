@@ -1,34 +1,14 @@
-import { PassThrough } from 'node:stream';
+import { captureIo } from '../helpers/capture-io.ts';
 import { describe, expect, it } from 'vitest';
 import { parseFilaments, parseSarcomereLengths, run } from '../../src/commands/curve.ts';
 import { REGION_KEYS } from '../../src/model/regions.ts';
-import type { CommandIo } from '../../src/commands/io.ts';
 
 /** A CommandIo that keeps what the command says; the streams are real PassThrough streams. */
-interface CapturedIo {
-  readonly io: CommandIo;
-  readonly out: () => string;
-  readonly err: () => string;
-}
-
-function captureIo(): CapturedIo {
-  const out: string[] = [];
-  const err: string[] = [];
-  const io: CommandIo = {
-    out: (text) => out.push(text.endsWith('\n') ? text : `${text}\n`),
-    err: (text) => err.push(text.endsWith('\n') ? text : `${text}\n`),
-    stdout: new PassThrough() as unknown as NodeJS.WriteStream,
-    stderr: new PassThrough() as unknown as NodeJS.WriteStream,
-    stdin: new PassThrough() as unknown as NodeJS.ReadStream,
-    env: {},
-  };
-  return { io, out: () => out.join(''), err: () => err.join('') };
-}
 
 async function curve(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
   const c = captureIo();
   const code = await run(argv, c.io);
-  return { code, out: c.out(), err: c.err() };
+  return { code, out: c.outText(), err: c.errText() };
 }
 
 interface Point {

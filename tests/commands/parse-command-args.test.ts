@@ -1,20 +1,13 @@
+import { captureIo } from '../helpers/capture-io.ts';
 import { describe, expect, it } from 'vitest';
-import { PassThrough } from 'node:stream';
 import { parseCommandArgs } from '../../src/commands/parse-command-args.ts';
-import type { CommandIo } from '../../src/commands/io.ts';
 
-function io(): { io: CommandIo; out: string[]; err: string[] } {
-  const out: string[] = [];
-  const err: string[] = [];
-  const stream = new PassThrough() as unknown as NodeJS.WriteStream;
-  return { out, err, io: { out: (t) => out.push(t), err: (t) => err.push(t), stdout: stream, stderr: stream, stdin: new PassThrough() as unknown as NodeJS.ReadStream, env: {} } };
-}
 
 const OPTIONS = { speed: { type: 'string', default: '1' }, plain: { type: 'boolean', default: false } } as const;
 
 describe('parseCommandArgs', () => {
   it('gives the values and positionals', () => {
-    const c = io();
+    const c = captureIo();
     const parsed = parseCommandArgs('replay', 'usage: x', ['a.ndjson', '--speed', '4'], OPTIONS, c.io);
     if (typeof parsed === 'number') throw new Error('expected values');
     expect(parsed.values.speed).toBe('4');
@@ -24,17 +17,17 @@ describe('parseCommandArgs', () => {
 
   it('prints the help and ends with 0 on -h or --help', () => {
     for (const flag of ['-h', '--help']) {
-      const c = io();
+      const c = captureIo();
       expect(parseCommandArgs('replay', 'usage: x', [flag], OPTIONS, c.io)).toBe(0);
       expect(c.out).toEqual(['usage: x']);
     }
   });
 
   it('says what was wrong, then the help, and ends with 2 on an unknown option or a refused positional', () => {
-    const c = io();
+    const c = captureIo();
     expect(parseCommandArgs('replay', 'usage: x', ['--sped', '2'], OPTIONS, c.io)).toBe(2);
     expect(c.err[0]).toMatch(/^lengthwise replay: .*--sped[\s\S]*usage: x$/);
-    const d = io();
+    const d = captureIo();
     expect(parseCommandArgs('curve', 'usage: y', ['stray'], OPTIONS, d.io, { allowPositionals: false })).toBe(2);
     expect(d.err[0]).toContain('stray');
   });

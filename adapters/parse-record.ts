@@ -122,9 +122,15 @@ function isPlainObject(value: unknown): value is Record<string, unknown> {
 }
 
 /** Fast check for a sample with only sample keys; null when the schema must decide. */
+/**
+ * The receive time a session log adds to every record it writes. Like any unknown key the schemas ignore
+ * it; the quick checks take it too, so replaying a log stays on the quick path.
+ */
+const RECEIVE_TIME_KEY = 'rx';
+
 function quickSample(o: Record<string, unknown>, line: number): Frame | null {
   for (const key in o) {
-    if (key !== 't' && key !== 'muscle' && key !== 'fascicle_mm' && key !== 'pennation_deg' && key !== 'quality') return null;
+    if (key !== 't' && key !== 'muscle' && key !== 'fascicle_mm' && key !== 'pennation_deg' && key !== 'quality' && key !== RECEIVE_TIME_KEY) return null;
   }
   const t = o['t'];
   const muscle = o['muscle'];
@@ -148,7 +154,7 @@ function quickSample(o: Record<string, unknown>, line: number): Frame | null {
 }
 
 function quickEvent(o: Record<string, unknown>, line: number): Frame | null {
-  for (const key in o) if (key !== 't' && key !== 'event' && key !== 'side') return null;
+  for (const key in o) if (key !== 't' && key !== 'event' && key !== 'side' && key !== RECEIVE_TIME_KEY) return null;
   const t = o['t'];
   const event = o['event'];
   const side = o['side'];
@@ -159,7 +165,7 @@ function quickEvent(o: Record<string, unknown>, line: number): Frame | null {
 }
 
 function quickMarker(o: Record<string, unknown>, line: number): Frame | null {
-  for (const key in o) if (key !== 't' && key !== 'marker') return null;
+  for (const key in o) if (key !== 't' && key !== 'marker' && key !== RECEIVE_TIME_KEY) return null;
   const t = o['t'];
   const marker = o['marker'];
   if (typeof t !== 'number' || t - t !== 0 || typeof marker !== 'string') return null;

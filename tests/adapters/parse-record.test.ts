@@ -324,3 +324,17 @@ describe('fuzz: never throws, one frame per input', () => {
     );
   });
 });
+
+describe('records with a session log’s receive time (rx)', () => {
+  it('reads them as the schema does, the receive time ignored', () => {
+    for (const text of [
+      '{"t":1.5,"muscle":"calf","fascicle_mm":50.25,"pennation_deg":20,"quality":0.9,"rx":1733090000.123}',
+      '{"t":1.5,"event":"foot_strike","side":"left","rx":1733090000.2}',
+      '{"t":1.5,"marker":"belt on","rx":1733090000.3}',
+    ]) {
+      const value: unknown = JSON.parse(text);
+      expect(parseRecordValue(value, 7, text)).toEqual(parseRecordValueBySchema(value, 7, text));
+      expect(parseRecordValue(value, 7, text).kind).not.toBe('rejection');
+    }
+  });
+});

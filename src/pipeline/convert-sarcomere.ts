@@ -9,6 +9,7 @@ import {
 } from '../model/calibration.ts';
 import { DEFAULT_SPECIES } from '../model/species.ts';
 import { plateauMiddleUm } from '../model/geometry.ts';
+import { percentileOfSorted } from '../model/quiet-window.ts';
 import { curveForCalibration } from './muscle-model.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
 
@@ -32,10 +33,7 @@ interface Collecting {
 }
 
 function median(values: readonly number[]): number {
-  if (values.length === 0) return Number.NaN;
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 === 1 ? (sorted[mid] as number) : ((sorted[mid - 1] as number) + (sorted[mid] as number)) / 2;
+  return percentileOfSorted([...values].sort((a, b) => a - b), 0.5);
 }
 
 /**

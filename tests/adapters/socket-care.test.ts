@@ -24,8 +24,8 @@ describe('keepAlive', () => {
     const { client, server } = await pair();
     const dead: string[] = [];
     const before = server.listenerCount('pong');
-    const care = keepAlive(server, 30, asyncScheduler, (why) => dead.push(why));
-    await new Promise((r) => setTimeout(r, 200));
+    const care = keepAlive(server, 100, asyncScheduler, (why) => dead.push(why));
+    await new Promise((r) => setTimeout(r, 500));
     expect(dead).toEqual([]);
     expect(server.readyState).toBe(WebSocket.OPEN);
     care.unsubscribe();

@@ -127,7 +127,7 @@ describe('websocketClient', () => {
     await killServer(first.server);
     await until(() => client.links.some((e) => e.kind === 'disconnected'), 4000, 'the disconnection');
     // Nothing listens for a while: the client keeps retrying.
-    await new Promise((r) => setTimeout(r, 700));
+    await until(() => client.links.filter((e) => e.kind === 'retrying').length >= 2, 5000, 'two retries');
     const retries = client.links.filter((e) => e.kind === 'retrying');
     expect(retries.length).toBeGreaterThanOrEqual(2);
     expect(retries[0]?.kind === 'retrying' && retries[0].inMs).toBeLessThan(500);

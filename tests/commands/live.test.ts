@@ -53,6 +53,18 @@ async function listeningPort(c: Child): Promise<number> {
   return Number(/listening on ws:\/\/127\.0\.0\.1:(\d+)/.exec(c.stderr)?.[1]);
 }
 
+/** Waits until the session log on disk holds this many sample lines and rejected lines (it is flushed every second). */
+async function logHolds(path: string, samples: number, rejected = 0): Promise<void> {
+  const counts = (): { samples: number; rejected: number } => {
+    const lines = existsSync(path) ? readFileSync(path, 'utf8').split('\n') : [];
+    return {
+      samples: lines.filter((l) => l.startsWith('{"t"') && l.includes('"fascicle_mm"')).length,
+      rejected: lines.filter((l) => l.startsWith('{"rejected"')).length,
+    };
+  };
+  await until(() => counts().samples >= samples && counts().rejected >= rejected, 15_000, `the log to hold ${samples} samples and ${rejected} rejected lines`);
+}
+
 async function json(path: string): Promise<Record<string, unknown> & { frames: Record<string, unknown> }> {
   return JSON.parse(await readFile(path, 'utf8'));
 }
@@ -123,8 +135,8 @@ describe('lengthwise live --listen', () => {
     const messages: string[] = [];
     for (let i = 0; i < 300; i += 30) messages.push(`[${texts.slice(i, i + 30).join(',')}]`);
     await sendAll(ws, [...messages, ...BAD_MESSAGES.map(([m]) => m)]);
-    // The log is flushed at least every second.
-    await new Promise((r) => setTimeout(r, 1600));
+    // The log is flushed at least every second: what is on disk is all there is after a kill.
+    await logHolds(log, 300, BAD_MESSAGES.length);
     c.child.kill('SIGKILL');
     expect((await c.exited).signal).toBe('SIGKILL');
     const summary = await replaySummary(log, dir, 'replay.json');
@@ -153,7 +165,7 @@ describe('lengthwise live --listen', () => {
     a.close();
     await until(() => /DISCONNECTED/.test(c.stderr), 5000, 'the disconnection');
     await sendAll(b, [...sampleTexts(20, 'shin', 1), ...BAD_MESSAGES.map(([m]) => m)]);
-    await new Promise((r) => setTimeout(r, 300));
+    await logHolds(log, 250, BAD_MESSAGES.length);
     c.child.kill('SIGTERM');
     expect((await c.exited).code).toBe(0);
     expect(c.stderr).toContain(`session log: ${log}`);
@@ -315,8 +327,7 @@ describe('lengthwise live in-process, on virtual time', () => {
     const ws = await wsClient(`ws://127.0.0.1:${port}`);
     stops.push(() => ws.terminate());
     await sendAll(ws, sampleTexts(25));
-    await until(() => err.length > 0 && ws.readyState === ws.OPEN, 2000, 'the device');
-    await new Promise((r) => setTimeout(r, 200));
+    await logHolds(join(dir, 'l.ndjson'), 25);
     // Thirty virtual seconds pass at once: status lines every 3 s, then the end.
     scheduler.flush();
     expect(await ran).toBe(0);

@@ -153,7 +153,7 @@ describe('lengthwise simulate', () => {
       const url = `ws://127.0.0.1:${(wss.address() as { port: number }).port}`;
       const t = testIo();
       expect(await run(['--connect', url, '--duration', '0.8', '--scenario', 'run', '--muscles', 'left_calf'], t.io)).toBe(0);
-      await new Promise((resolve) => setTimeout(resolve, 50));
+      await until(() => (collector.received.headers > 0 && collector.received.timesByMuscle.size > 0 ? true : undefined));
       expect(collector.received.headers).toBe(1);
       expect([...collector.received.timesByMuscle.keys()]).toEqual(['left_calf']);
       expect(t.err.some((l) => l.includes(`connected to ${url}`))).toBe(true);

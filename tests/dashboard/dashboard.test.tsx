@@ -8,7 +8,7 @@ import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import { REACT_TIMINGS_DROP_MS, startDashboard } from '../../src/dashboard/start-dashboard.tsx';
 import { MARKER_IN_BAND } from '../../src/dashboard/curve-drawing.ts';
 import { completeStride, makeMuscle, makeTrialState, pushSample, startStride, walkingState } from './fixtures.ts';
-import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, tick, type Screen } from './terminal-double.ts';
+import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, tick, WAIT_LIMIT_MS, type Screen } from './terminal-double.ts';
 
 const screens: Screen[] = [];
 afterEach(() => {
@@ -453,7 +453,7 @@ describe('startDashboard', () => {
       onQuit: () => undefined,
       frameMs: 10,
     });
-    await tick(150);
+    await waitFor(() => plain(out.frames.join('')).includes('SL 2.71 µm'), 'the panels');
     dashboard.unmount();
     await dashboard.waitUntilExit();
     const all = out.frames.join('');
@@ -472,7 +472,7 @@ describe('startDashboard', () => {
       onQuit: () => undefined,
       frameMs: 10,
     });
-    await tick(150);
+    await waitFor(() => plain(out.frames.join('')).includes('SL 2.71 µm'), 'the panels');
     dashboard.unmount();
     await dashboard.waitUntilExit();
     expect(out.frames.join('')).toMatch(COLOUR_SGR);
@@ -491,8 +491,9 @@ describe('startDashboard', () => {
       onQuit: () => undefined,
       frameMs: 10,
     });
-    await waitFor(() => plain(out.lastFrame()).includes('SL 2.71 µm'), 'the panels');
-    expect(plain(out.lastFrame())).toContain('no keys: standard input is not a terminal');
+    const panels = (): string | undefined => out.frames.map(plain).find((f) => f.includes('SL 2.71 µm'));
+    await waitFor(() => panels() !== undefined, 'the panels');
+    expect(panels()).toContain('no keys: standard input is not a terminal');
     dashboard.unmount();
     await dashboard.waitUntilExit();
   });
@@ -529,6 +530,6 @@ describe('startDashboard', () => {
     await waitFor(() => keys.listenerCount('readable') > 0, 'the dashboard listening to keys');
     keys.write('q');
     await tick(50);
-    await expect(Promise.race([dashboard.waitUntilExit().then(() => 'exited'), tick(1000).then(() => 'still waiting')])).resolves.toBe('exited');
+    await expect(Promise.race([dashboard.waitUntilExit().then(() => 'exited'), tick(WAIT_LIMIT_MS).then(() => 'still waiting')])).resolves.toBe('exited');
   });
 });

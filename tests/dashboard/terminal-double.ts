@@ -94,8 +94,14 @@ export function renderScreen(tree: ReactElement, columns = 80, rows = 24, keysAr
   };
 }
 
+/**
+ * How long a wait may last before the test fails. Waits end as soon as their condition holds, so this
+ * only bounds a hang; it is generous because CI runs the test files in parallel on two cores.
+ */
+export const WAIT_LIMIT_MS = 15_000;
+
 /** Waits (real time, bounded) until the last frame satisfies `ok`; returns that frame or throws with it. */
-export async function frameWhere(screen: Screen, ok: (frame: string) => boolean, what: string, timeoutMs = 2000): Promise<string> {
+export async function frameWhere(screen: Screen, ok: (frame: string) => boolean, what: string, timeoutMs = WAIT_LIMIT_MS): Promise<string> {
   const until = Date.now() + timeoutMs;
   for (;;) {
     const frame = screen.lastFrame();
@@ -130,7 +136,7 @@ export async function hides(screen: Screen, text: string): Promise<void> {
 }
 
 /** Waits (real time, bounded) until `ok()` holds. */
-export async function waitFor(ok: () => boolean, what: string, timeoutMs = 2000): Promise<void> {
+export async function waitFor(ok: () => boolean, what: string, timeoutMs = WAIT_LIMIT_MS): Promise<void> {
   const until = Date.now() + timeoutMs;
   while (!ok()) {
     if (Date.now() > until) throw new Error(`${what} did not happen within ${timeoutMs} ms`);

@@ -22,7 +22,8 @@ describe('watchLag', () => {
     const sub = watchLag({ periodMs: 20, thresholdMs: 300, onLag: (l) => lags.push(l) });
     await new Promise((r) => setTimeout(r, 50));
     busy(500);
-    await new Promise((r) => setTimeout(r, 150));
+    // The all-clear comes at the next look after the loop is free; a loaded machine may take longer.
+    for (const end = Date.now() + 5000; lags.length < 2 && Date.now() < end; ) await new Promise((r) => setTimeout(r, 20));
     sub.unsubscribe();
     expect(lags).toHaveLength(2);
     expect(lags[0]).toBeGreaterThan(300);

@@ -8,6 +8,7 @@ import type { Batch } from '../../src/records.ts';
 import { REJECT_REASONS } from '../../src/reasons.ts';
 import { pushSimulator, SimulatorError, startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
 import { createCollector, type Collector } from './ws-collector.ts';
+import { until } from '../adapters/ws-peers.ts';
 
 const started: RunningSimulator[] = [];
 const servers: WebSocketServer[] = [];
@@ -218,7 +219,7 @@ describe('pushSimulator', () => {
     const sim = await pushSimulator({ url, durationS: 1, scenario: 'run' });
     started.push(sim);
     await sim.done;
-    await new Promise((resolve) => setTimeout(resolve, 50));
+    await until(() => collector.received.samples >= sim.sentSamples, 10_000, 'every sample sent to arrive');
     expect(collector.received.headers).toBe(1);
     expect(collector.received.bad).toEqual([]);
     expect(collector.received.samples).toBe(sim.sentSamples);
@@ -232,7 +233,7 @@ describe('pushSimulator', () => {
     started.push(sim);
     setTimeout(dropFirst, 400);
     await sim.done;
-    await new Promise((resolve) => setTimeout(resolve, 50));
+    await until(() => collector.received.samples >= sim.sentSamples, 10_000, 'every sample sent to arrive');
     expect(sim.stats.connections).toBe(2);
     expect(collector.received.headers).toBe(2);
     expect(collector.received.samples).toBe(sim.sentSamples);

@@ -93,8 +93,9 @@ describe('runStudy', () => {
     const outcomes = await pending;
     expect(outcomes).toHaveLength(3);
     expect(outcomes.some((o) => !o.ok && /was not summarised: the study was stopped first/.test(o.message))).toBe(true);
-    await new Promise((resolve) => setTimeout(resolve, 200));
     expect(during).toBeGreaterThan(before);
+    // Workers end asynchronously once terminated.
+    for (const end = Date.now() + 10_000; workerCount() > before && Date.now() < end; ) await new Promise((resolve) => setTimeout(resolve, 20));
     expect(workerCount()).toBeLessThanOrEqual(before);
   });
 

@@ -4,7 +4,7 @@
  */
 import { Box, Text, useApp, useInput, useStdin, type Key } from 'ink';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
-import { asyncScheduler, type Observable, type SchedulerLike } from 'rxjs';
+import { asyncScheduler, NEVER, type Observable, type SchedulerLike } from 'rxjs';
 import type { TrialState } from '../state.ts';
 import AlertList from './alert-list.tsx';
 import CalibratePrompt from './calibrate-prompt.tsx';
@@ -20,13 +20,17 @@ import type { DashboardStatus } from './status.ts';
 import StatusBar from './status-bar.tsx';
 import { createTheme } from './theme.ts';
 import { useTerminalSize } from './use-terminal-size.ts';
-import { useTrialFrame } from './use-trial-frame.ts';
+import { firstFrame, trialFrames, type TrialFrame } from './trial-frames.ts';
+import { useFrames } from './use-trial-frame.ts';
 import { detectAlerts } from './view-model.ts';
 import { sameAlerts, type Alert } from './alerts.ts';
 
 export interface Props {
-  readonly state$: Observable<TrialState>;
+  /** The pipeline's state, turned into frames on this thread (with status$). */
+  readonly state$?: Observable<TrialState> | undefined;
   readonly status$?: Observable<DashboardStatus> | undefined;
+  /** Frames made elsewhere (another thread); when given, state$ and status$ are not read. */
+  readonly frames$?: Observable<TrialFrame> | undefined;
   readonly title: string;
   /** false when NO_COLOR is set. @default true */
   readonly color?: boolean;
@@ -70,11 +74,12 @@ export default function Dashboard(props: Props) {
     ...(props.rows === undefined ? {} : { rows: props.rows }),
   });
   // The trial's view and the status arrive together, one frame at a time.
-  const { view, status } = useTrialFrame(props.state$, props.status$, {
-    ...(props.scheduler === undefined ? {} : { scheduler: props.scheduler }),
-    ...(props.frameMs === undefined ? {} : { frameMs: props.frameMs }),
-    frozen,
-  });
+  const { state$, status$, frameMs } = props;
+  const frames$ = useMemo(
+    () => props.frames$ ?? trialFrames(state$ ?? NEVER, status$, { scheduler, ...(frameMs === undefined ? {} : { frameMs }) }),
+    [props.frames$, state$, status$, scheduler, frameMs],
+  );
+  const { view, status } = useFrames(frames$, frozen, () => firstFrame(scheduler.now()));
   // The same alerts as the frame before keep their array, so the list is not drawn again.
   const shownAlerts = useRef<readonly Alert[]>([]);
   const alerts = useMemo(() => {

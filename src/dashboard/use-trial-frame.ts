@@ -1,37 +1,42 @@
 /**
- * Subscribes to the pipeline's TrialState (one object, mutated in place, emitted after each batch) and to
- * the optional status stream, and publishes both together as one frame: at most one per frameMs however
- * many batches and status emissions arrive, so the screen is drawn once per frame. When nothing arrives
- * for tickMs, a frame is published anyway, so time-based alerts and the rate keep moving. Unsubscribes on
- * cleanup. It only reads the state: the pipeline's pace never waits on the screen.
+ * The frame on screen: subscribes to a stream of frames (see trial-frames.ts) and shows the newest one,
+ * except while frozen, when the shown frame stays as it is and the newest is kept for the release.
+ * Unsubscribes on cleanup. `useTrialFrame` builds the frames from the pipeline's state on this thread.
  */
-import { useEffect, useRef, useState } from 'react';
-import { asyncScheduler, interval, Subscription, type Observable, type SchedulerLike } from 'rxjs';
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { asyncScheduler, type Observable } from 'rxjs';
 import type { TrialState } from '../state.ts';
-import { mergeStatus, type DashboardStatus } from './status.ts';
-import { createTracker, observeTrial, type TrialView } from './view-model.ts';
+import type { DashboardStatus } from './status.ts';
+import { firstFrame, trialFrames, type TrialFrame, type TrialFramesOptions } from './trial-frames.ts';
 
-export interface TrialFrameOptions {
-  /** Clock and timers; a virtual-time scheduler in tests. @default asyncScheduler */
-  readonly scheduler?: SchedulerLike;
-  /** At most one frame per this many milliseconds (about 12 frames/s). @default 80 */
-  readonly frameMs?: number;
-  /** With nothing new for this long, a frame is published anyway (time-based alerts, the rate). @default 250 */
-  readonly tickMs?: number;
+export type { TrialFrame } from './trial-frames.ts';
+
+export interface TrialFrameOptions extends TrialFramesOptions {
   /** While true the shown frame stays as it is; the subscriptions, history and rates go on. @default false */
   readonly frozen?: boolean;
 }
 
-export interface TrialFrame {
-  readonly view: TrialView;
-  readonly status: DashboardStatus;
-}
+export function useFrames(frames$: Observable<TrialFrame>, frozen: boolean, initial: () => TrialFrame): TrialFrame {
+  const [shown, setShown] = useState<TrialFrame>(initial);
+  // Read by the subscription at each frame, so it is set as the screen renders, not an effect later.
+  const frozenRef = useRef(frozen);
+  frozenRef.current = frozen;
+  const newest = useRef<TrialFrame | null>(null);
 
-function messageOf(error: unknown): string {
-  return error instanceof Error ? error.message : String(error);
-}
+  useEffect(() => {
+    if (!frozen && newest.current !== null) setShown(newest.current);
+  }, [frozen]);
 
-const NO_STATUS: DashboardStatus = {};
+  useEffect(() => {
+    const subscription = frames$.subscribe((frame) => {
+      newest.current = frame;
+      if (!frozenRef.current) setShown(frame);
+    });
+    return () => subscription.unsubscribe();
+  }, [frames$]);
+
+  return shown;
+}
 
 export function useTrialFrame(
   state$: Observable<TrialState>,
@@ -39,99 +44,15 @@ export function useTrialFrame(
   options: TrialFrameOptions = {},
 ): TrialFrame {
   const scheduler = options.scheduler ?? asyncScheduler;
-  const frameMs = options.frameMs ?? 80;
-  const tickMs = options.tickMs ?? 250;
-  const [frame, setFrame] = useState<TrialFrame>(() => ({ view: observeTrial(createTracker(), null, scheduler.now()), status: NO_STATUS }));
-  const frozenNow = options.frozen ?? false;
-  // Read by the subscription at each frame, so it is set as the screen renders, not an effect later.
-  const frozen = useRef(frozenNow);
-  frozen.current = frozenNow;
-  const publishNow = useRef<() => void>(() => undefined);
-
-  useEffect(() => {
-    if (!frozenNow) publishNow.current();
-  }, [frozenNow]);
-
-  useEffect(() => {
-    const tracker = createTracker();
-    let latest: TrialState | null = null;
-    let error: string | null = null;
-    let status = NO_STATUS;
-    let lastPublishMs = Number.NEGATIVE_INFINITY;
-    const subscription = new Subscription();
-    let pending: Subscription | null = null;
-    let lastNewsMs = Number.NEGATIVE_INFINITY;
-    /** The frame interval has passed while news was still arriving: the next news is drawn at once. */
-    let due = false;
-    const publish = (): void => {
-      pending?.unsubscribe();
-      pending = null;
-      due = false;
-      lastPublishMs = scheduler.now();
-      const view = observeTrial(tracker, latest, lastPublishMs, error);
-      if (!frozen.current) setFrame({ view, status });
-    };
-    // The first news after a frame waits frameMs, and everything arriving meanwhile joins it. While news
-    // keeps coming, the frame is drawn just after the next one, in the quiet before the one after (a
-    // frame drawn at a random moment would make the news arriving during it wait); without news for
-    // quietMs it is drawn anyway.
-    const quietMs = frameMs / 4;
-    const deadline = (): void => {
-      pending = null;
-      if (scheduler.now() - lastNewsMs >= quietMs) {
-        publish();
-        return;
-      }
-      due = true;
-      pending = scheduler.schedule(deadline, quietMs);
-    };
-    const soon = (): void => {
-      lastNewsMs = scheduler.now();
-      if (due) {
-        pending?.unsubscribe();
-        due = false;
-        pending = scheduler.schedule(publish, 0);
-      } else if (pending === null) {
-        pending = scheduler.schedule(deadline, frameMs);
-      }
-    };
-    publishNow.current = publish;
-    subscription.add(
-      state$.subscribe({
-        next: (state) => {
-          latest = state;
-          soon();
-        },
-        error: (e: unknown) => {
-          error = messageOf(e);
-          publish();
-        },
-        complete: publish,
+  const { frameMs, tickMs } = options;
+  const frames$ = useMemo(
+    () =>
+      trialFrames(state$, status$, {
+        scheduler,
+        ...(frameMs === undefined ? {} : { frameMs }),
+        ...(tickMs === undefined ? {} : { tickMs }),
       }),
-    );
-    if (status$ !== undefined) {
-      subscription.add(
-        status$.subscribe({
-          next: (next) => {
-            status = mergeStatus(status, next);
-            soon();
-          },
-          // A failing status stream leaves the status as it was; the trial goes on.
-          error: () => undefined,
-        }),
-      );
-    }
-    subscription.add(
-      interval(tickMs, scheduler).subscribe(() => {
-        if (pending === null && scheduler.now() - lastPublishMs >= tickMs) publish();
-      }),
-    );
-    return () => {
-      publishNow.current = () => undefined;
-      pending?.unsubscribe();
-      subscription.unsubscribe();
-    };
-  }, [state$, status$, scheduler, frameMs, tickMs]);
-
-  return frame;
+    [state$, status$, scheduler, frameMs, tickMs],
+  );
+  return useFrames(frames$, options.frozen ?? false, () => firstFrame(scheduler.now()));
 }

@@ -27,7 +27,7 @@ function watched<T>(source$: Observable<T>): { readonly stream$: Observable<T>; 
 }
 
 /** Renders the dashboard on a virtual clock; `advance(ms)` moves the clock and runs what is due. */
-function show(state$: Props['state$'], more: Partial<Props> = {}, columns = 80, rows = 24) {
+function show(state$: Observable<TrialState>, more: Partial<Props> = {}, columns = 80, rows = 24) {
   const scheduler = new VirtualTimeScheduler(undefined, 0);
   const state = watched(state$);
   const status = more.status$ === undefined ? null : watched(more.status$);

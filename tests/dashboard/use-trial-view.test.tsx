@@ -6,7 +6,7 @@ import { useTrialFrame } from '../../src/dashboard/use-trial-frame.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import type { TrialState } from '../../src/state.ts';
 import { pushSample, walkingState } from './fixtures.ts';
-import { renderScreen, tick, waitFor, type Screen } from './terminal-double.ts';
+import { renderScreen, shows, tick, waitFor, type Screen } from './terminal-double.ts';
 
 function Probe({ state$, scheduler, frozen = false }: { readonly state$: Observable<TrialState>; readonly scheduler: VirtualTimeScheduler; readonly frozen?: boolean }) {
   const view = useTrialView(state$, { scheduler, frameMs: 80, tickMs: 250, frozen });
@@ -64,7 +64,7 @@ describe('useTrialView', () => {
     state$.next(walkingState());
     expect(screen.lastFrame()).toContain('muscles=0');
     await advance(80);
-    expect(screen.lastFrame()).toContain('calf=2.71');
+    await shows(screen, 'calf=2.71');
   });
 
   it('shows the newest of many emissions of the same mutated object', async () => {
@@ -79,7 +79,7 @@ describe('useTrialView', () => {
       state$.next(state);
     }
     await advance(80);
-    expect(screen.lastFrame()).toContain('calf=2.49');
+    await shows(screen, 'calf=2.49');
   });
 
   it('keeps the last state and says why when the source errors', async () => {
@@ -91,8 +91,8 @@ describe('useTrialView', () => {
     state$.next(walkingState());
     state$.error(new Error('trial file vanished'));
     await advance(300);
-    expect(screen.lastFrame()).toContain('calf=2.71');
-    expect(screen.lastFrame()).toContain('error=trial file vanished');
+    await shows(screen, 'calf=2.71');
+    await shows(screen, 'error=trial file vanished');
   });
 
   it('unsubscribes from the source and stops its timers on unmount', async () => {
@@ -151,10 +151,10 @@ describe('useTrialFrame with a status stream', () => {
     status$.next({ logPath: 'sessions/a.log' });
     status$.next({ connection: { state: 'connected' } });
     await advance(100);
-    expect(screen.lastFrame()).toContain('log=sessions/a.log conn=connected');
+    await shows(screen, 'log=sessions/a.log conn=connected');
     status$.next({ connection: undefined });
     await advance(100);
-    expect(screen.lastFrame()).toContain('log=sessions/a.log conn=none');
+    await shows(screen, 'log=sessions/a.log conn=none');
     screen.instance.unmount();
     await tick(5);
     expect(status$.observed).toBe(false);
@@ -171,7 +171,7 @@ describe('useTrialFrame with a status stream', () => {
     await advance(100);
     status$.error(new Error('status source gone'));
     await advance(100);
-    expect(screen.lastFrame()).toContain('log=sessions/b.log conn=listening');
+    await shows(screen, 'log=sessions/b.log conn=listening');
     expect(status$.observed).toBe(false);
   });
 
@@ -199,7 +199,7 @@ describe('useTrialFrame with a status stream', () => {
       await tick(1);
     }
     await tick(5);
-    expect(screen.lastFrame()).toContain('log=sessions/30.log conn=none calf=2.57');
+    await shows(screen, 'log=sessions/30.log conn=none calf=2.57');
     expect(renders - before).toBe(1);
   });
 

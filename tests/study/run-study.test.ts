@@ -19,6 +19,18 @@ function workerCount(): number {
   return process.getActiveResourcesInfo().filter((r) => r === 'Worker' || r === 'MessagePort').length;
 }
 
+/** The count once workers of earlier tests have finished ending (unchanged over a few looks). */
+async function settledWorkerCount(): Promise<number> {
+  let count = workerCount();
+  for (let same = 0, end = Date.now() + 10_000; same < 4 && Date.now() < end; ) {
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    const now = workerCount();
+    same = now === count ? same + 1 : 0;
+    count = now;
+  }
+  return count;
+}
+
 describe('runStudy', () => {
   it('resolves with no outcomes and starts no worker for no files', async () => {
     const events: StudyEvent[] = [];
@@ -77,7 +89,7 @@ describe('runStudy', () => {
   });
 
   it('stops its workers when aborted and says which trials were not summarised', async () => {
-    const before = workerCount();
+    const before = await settledWorkerCount();
     let during = 0;
     const controller = new AbortController();
     const pending = runStudy([files[3]!, files[3]!, files[3]!], {

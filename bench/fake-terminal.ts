@@ -2,11 +2,13 @@
 import { EventEmitter } from 'node:events';
 
 /** Ink brackets each frame on a terminal with these (synchronized output), as writes of their own. */
-const BEGIN_SYNC = '\u001B[?2026h';
+export const BEGIN_SYNC = '\u001B[?2026h';
 const END_SYNC = '\u001B[?2026l';
 
 export class FakeStdout extends EventEmitter {
   readonly isTTY = true;
+  /** Set to a file's descriptor, the dashboard draws on its own thread into that file. */
+  fd: number | undefined = undefined;
   columns = 120;
   rows = 40;
   /** Screen updates: writes other than the synchronized-output brackets alone. */

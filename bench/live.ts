@@ -4,10 +4,13 @@
  * runTrial (the same pipeline as replays). For every message: the time from its send (just before
  * ws.send in the device process) to the updated state, an upper bound of receipt → state since it
  * also holds the loopback and the WebSocket framing; and the time from the adapter's output to the
- * updated state (decoding excluded). Measured without and with the dashboard rendering into a fake
- * terminal at its own frame rate.
+ * updated state (decoding excluded). Measured without the dashboard, with it drawn on the main thread
+ * into a fake terminal, and with it on its own thread (as the commands run it) writing a file in
+ * place of the terminal, each at its own frame rate.
  */
 import { execFile } from 'node:child_process';
+import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
@@ -15,7 +18,10 @@ import { tap } from 'rxjs';
 import { websocketServer } from '../adapters/websocket-server.ts';
 import { runTrial } from '../src/run-trial.ts';
 import { quantile } from './stats.ts';
-import { FakeStdin, FakeStdout } from './fake-terminal.ts';
+import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
+
+/** Where the dashboard is drawn: nowhere, on the main thread, or on a thread of its own. */
+export type DashboardMode = 'none' | 'main' | 'own';
 
 export interface LatencyFigures {
   readonly messages: number;
@@ -46,9 +52,14 @@ export interface LiveResult {
   readonly messageMs: number;
   readonly durationS: number;
   readonly plain: LatencyFigures;
+  /** The dashboard on the main thread. */
   readonly dashboard: LatencyFigures;
-  /** p99 with the dashboard / p99 without (send → state). */
+  /** The dashboard on its own thread, as the commands run it. */
+  readonly dashboardThread: LatencyFigures;
+  /** p99 with the dashboard on the main thread / p99 without (send → state). */
   readonly dashboardP99Ratio: number;
+  /** p99 with the dashboard on its own thread / p99 without. */
+  readonly dashboardThreadP99Ratio: number;
   readonly lines: readonly string[];
 }
 
@@ -57,7 +68,7 @@ interface SessionOptions {
   readonly muscles: number;
   readonly durationS: number;
   readonly messageMs: number;
-  readonly dashboard: boolean;
+  readonly dashboard: DashboardMode;
   /** Messages of the first second are left out (warm-up). */
   readonly warmupS: number;
 }
@@ -85,9 +96,13 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
     const now = process.hrtime.bigint();
     if (!Number.isNaN(state.lastTS) && !seen.has(state.lastTS)) seen.set(state.lastTS, { ns: now, pipelineNs: now - enteredNs });
   });
-  let dashboard: { unmount(): void } | null = null;
+  let dashboard: { unmount(): void; waitUntilExit(): Promise<void> } | null = null;
   const stdout = new FakeStdout();
-  if (options.dashboard) {
+  // The thread writes to a file descriptor: a file here, which costs this process nothing to read.
+  const screenDir = options.dashboard === 'own' ? mkdtempSync(join(tmpdir(), 'lengthwise-bench-screen-')) : null;
+  const screenPath = screenDir === null ? null : join(screenDir, 'screen');
+  if (screenPath !== null) stdout.fd = openSync(screenPath, 'w');
+  if (options.dashboard !== 'none') {
     const { startDashboard } = await import('../src/dashboard/start-dashboard.tsx');
     dashboard = startDashboard({
       state$: run.state$,
@@ -96,6 +111,7 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
       stdin: new FakeStdin() as unknown as NodeJS.ReadStream,
       env: {},
       onQuit: () => run.stop(),
+      thread: options.dashboard === 'own' ? 'own' : 'main',
     });
   }
   await ready;
@@ -124,9 +140,17 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
   const cpu = process.cpuUsage(cpu0);
   delay.disable();
   dashboard?.unmount();
+  await dashboard?.waitUntilExit();
   run.stop();
   await run.done;
   subscription.unsubscribe();
+  if (screenPath !== null && screenDir !== null && stdout.fd !== undefined) {
+    closeSync(stdout.fd);
+    // Each frame on a terminal begins with the synchronized-output bracket.
+    stdout.frames = readFileSync(screenPath, 'utf8').split(BEGIN_SYNC).length - 1;
+    stdout.writes = Number.NaN;
+    rmSync(screenDir, { recursive: true, force: true });
+  }
   const sendToState: number[] = [];
   const pipeline: number[] = [];
   const first = sent.sends[0]?.[0] ?? 0;
@@ -159,20 +183,30 @@ function line(name: string, f: LatencyFigures): string {
     `live ${name.padEnd(10)} ${f.samplesPerS.toFixed(0)} samples/s in ${f.messages} messages: send → state p50 ${f.sendToStateP50Ms.toFixed(2)} ms, ` +
     `p99 ${f.sendToStateP99Ms.toFixed(2)} ms (max ${f.sendToStateMaxMs.toFixed(1)}); pipeline p50 ${f.pipelineP50Ms.toFixed(3)} ms, p99 ${f.pipelineP99Ms.toFixed(3)} ms` +
     `; CPU ${f.cpuMsPerS.toFixed(0)} ms/s, event-loop delay p99 ${f.loopDelayP99Ms.toFixed(1)} ms` +
-    (f.frames > 0 ? `; ${f.frames} frames (${f.framesPerS.toFixed(1)}/s) in ${f.writes} writes` : '')
+    (f.frames > 0 ? `; ${f.frames} frames (${f.framesPerS.toFixed(1)}/s)${Number.isNaN(f.writes) ? '' : ` in ${f.writes} writes`}` : '')
   );
 }
 
 export async function measureLive(options: { readonly quick: boolean }): Promise<LiveResult> {
   const base = { rateHz: 500, muscles: 4, messageMs: 10, durationS: options.quick ? 6 : 20, warmupS: 1 };
-  const plain = await session({ ...base, dashboard: false });
-  const dashboard = await session({ ...base, dashboard: true });
+  const plain = await session({ ...base, dashboard: 'none' });
+  const dashboard = await session({ ...base, dashboard: 'main' });
+  const dashboardThread = await session({ ...base, dashboard: 'own' });
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
+  const threadRatio = dashboardThread.sendToStateP99Ms / plain.sendToStateP99Ms;
+  const adds = (r: number): string => `${((r - 1) * 100).toFixed(0)}%`;
   return {
     ...base,
     plain,
     dashboard,
+    dashboardThread,
     dashboardP99Ratio: ratio,
-    lines: [line('plain', plain), line('dashboard', dashboard), `live dashboard adds ${((ratio - 1) * 100).toFixed(0)}% to the p99`],
+    dashboardThreadP99Ratio: threadRatio,
+    lines: [
+      line('plain', plain),
+      line('dash main', dashboard),
+      line('dash own', dashboardThread),
+      `live dashboard adds ${adds(threadRatio)} to the p99 on its own thread (as the commands run it), ${adds(ratio)} on the main thread`,
+    ],
   };
 }

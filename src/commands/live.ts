@@ -352,6 +352,7 @@ class LiveSession {
         state$: trial.state$,
         status$: this.status$,
         title: `live ${label}`,
+        thread: 'own',
         stdout: this.io.stdout,
         stdin: this.io.stdin,
         env: this.io.env,

@@ -158,6 +158,7 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
     state$: trial.state$,
     status$,
     title: 'lengthwise replay',
+    thread: 'own',
     stdout: io.stdout,
     stdin: io.stdin,
     env: io.env,

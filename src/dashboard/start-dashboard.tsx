@@ -9,6 +9,7 @@ import { asyncScheduler, interval, type Observable, type SchedulerLike } from 'r
 import type { TrialState } from '../state.ts';
 import Dashboard from './dashboard.tsx';
 import type { DashboardStatus } from './status.ts';
+import { startDashboardThread, type DashboardHandle } from './start-dashboard-thread.ts';
 import { colorEnabled } from './theme.ts';
 
 export type { DashboardStatus } from './status.ts';
@@ -33,6 +34,11 @@ export interface DashboardOptions {
   readonly scheduler?: SchedulerLike;
   /** At most one frame per this many milliseconds. @default 80 */
   readonly frameMs?: number;
+  /**
+   * 'own' draws on a thread of its own, so the screen takes no time from the pipeline; it needs a real
+   * terminal (a file descriptor) and falls back to 'main' without one. @default 'main'
+   */
+  readonly thread?: 'main' | 'own';
 }
 
 /** How often the development build's timing entries are dropped (see dropReactTimings). */
@@ -50,7 +56,9 @@ export function dropReactTimings(): void {
   for (const name of names) performance.clearMeasures(name);
 }
 
-export function startDashboard(options: DashboardOptions): { unmount(): void; waitUntilExit(): Promise<void> } {
+export function startDashboard(options: DashboardOptions): DashboardHandle {
+  const fd = (options.stdout as { fd?: unknown }).fd;
+  if (options.thread === 'own' && typeof fd === 'number' && options.stdout.isTTY === true) return startDashboardThread(options, fd);
   const instance = render(
     <Dashboard
       state$={options.state$}

@@ -1,0 +1,62 @@
+/**
+ * The dashboard's own thread: draws the frames the main thread sends (see thread-messages.ts) with Ink
+ * on the terminal's file descriptor, and sends back what the keys ask for.
+ */
+import { render } from 'ink';
+import { parentPort, workerData } from 'node:worker_threads';
+import { Subject } from 'rxjs';
+import Dashboard from './dashboard.tsx';
+import type { DashboardThreadSetup, FromDashboard, ToDashboard } from './thread-messages.ts';
+import type { TrialFrame } from './trial-frames.ts';
+import { ForwardedKeys, FdScreen } from './worker-terminal.ts';
+
+const port = parentPort;
+if (port === null) throw new Error('dashboard-worker.tsx runs as a worker thread only');
+const setup = workerData as DashboardThreadSetup;
+const say = (message: FromDashboard): void => port.postMessage(message);
+
+const screen = new FdScreen(setup.fd, setup.columns, setup.rows);
+const keys = new ForwardedKeys(setup.keys);
+const frames$ = new Subject<TrialFrame>();
+
+const instance = render(
+  <Dashboard
+    frames$={frames$}
+    title={setup.title}
+    color={setup.color}
+    onQuit={() => say({ type: 'quit' })}
+    onMarker={setup.can.marker ? (text) => say({ type: 'marker', text }) : undefined}
+    onSpeed={setup.can.speed ? (direction) => say({ type: 'speed', direction }) : undefined}
+    onCalibrate={setup.can.calibrate ? (muscle, sarcomereUm) => say({ type: 'calibrate', muscle, sarcomereUm }) : undefined}
+  />,
+  {
+    stdout: screen as unknown as NodeJS.WriteStream,
+    stdin: keys as unknown as NodeJS.ReadStream,
+    exitOnCtrlC: false,
+    patchConsole: false,
+    maxFps: 15,
+  },
+);
+
+port.on('message', (message: ToDashboard) => {
+  switch (message.type) {
+    case 'frame':
+      frames$.next(message.frame);
+      say({ type: 'took' });
+      break;
+    case 'keys':
+      keys.push(message.data);
+      break;
+    case 'resize':
+      screen.resize(message.columns, message.rows);
+      break;
+    case 'unmount':
+      instance.unmount();
+      break;
+  }
+});
+
+void instance.waitUntilExit().finally(() => {
+  say({ type: 'exited' });
+  port.close();
+});

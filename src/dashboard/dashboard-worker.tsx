@@ -8,6 +8,7 @@ import { Subject } from 'rxjs';
 import Dashboard from './dashboard.tsx';
 import type { DashboardThreadSetup, FromDashboard, ToDashboard } from './thread-messages.ts';
 import type { TrialFrame } from './trial-frames.ts';
+import { shareFrame } from './share-frame.ts';
 import { ForwardedKeys, FdScreen } from './worker-terminal.ts';
 
 const port = parentPort;
@@ -38,10 +39,12 @@ const instance = render(
   },
 );
 
+let shown: TrialFrame | null = null;
 port.on('message', (message: ToDashboard) => {
   switch (message.type) {
     case 'frame':
-      frames$.next(message.frame);
+      shown = shareFrame(shown, message.frame);
+      frames$.next(shown);
       say({ type: 'took' });
       break;
     case 'keys':

@@ -533,6 +533,8 @@ export async function pushSimulator(options: PushOptions): Promise<RunningSimula
       engine.sendHeader(socket);
     });
     socket.on('error', (error) => {
+      // Ending while a connection is being made closes it early on purpose: not a problem to report.
+      if (engine.isStopping()) return;
       if (error.message !== lastError) log(`${engine.stamp()} connection problem: ${error.message}`);
       lastError = error.message;
     });

@@ -51,6 +51,8 @@ export interface LiveResult {
   readonly muscles: number;
   readonly messageMs: number;
   readonly durationS: number;
+  /** A bare WebSocket server that only parses each message: the floor of send → receipt here. */
+  readonly bare: LatencyFigures;
   readonly plain: LatencyFigures;
   /** The dashboard on the main thread. */
   readonly dashboard: LatencyFigures;
@@ -60,6 +62,8 @@ export interface LiveResult {
   readonly dashboardP99Ratio: number;
   /** p99 with the dashboard on its own thread / p99 without. */
   readonly dashboardThreadP99Ratio: number;
+  /** The tool's p99 without the dashboard / the bare server's. */
+  readonly plainToBareP99Ratio: number;
   readonly lines: readonly string[];
 }
 
@@ -74,6 +78,75 @@ interface SessionOptions {
 }
 
 const here = dirname(fileURLToPath(import.meta.url));
+
+/**
+ * The floor of send → receipt on this machine: a bare `ws` server that only parses each message to find
+ * its last device time, with no adapter, pipeline or state. The tool's p99 is read against it.
+ */
+async function bareSession(options: SessionOptions): Promise<LatencyFigures> {
+  const { WebSocketServer } = await import('ws');
+  const server = new WebSocketServer({ host: '127.0.0.1', port: 0 });
+  await new Promise<void>((resolve) => server.once('listening', () => resolve()));
+  const port = (server.address() as { port: number }).port;
+  const seen = new Map<number, bigint>();
+  server.on('connection', (ws) =>
+    ws.on('message', (data) => {
+      const now = process.hrtime.bigint();
+      const records = JSON.parse(String(data)) as unknown;
+      const last = Array.isArray(records) ? (records.at(-1) as { t?: unknown } | undefined) : undefined;
+      if (typeof last?.t === 'number' && !seen.has(last.t)) seen.set(last.t, now);
+    }),
+  );
+  const cpu0 = process.cpuUsage();
+  const sent = await sendFromDevice(port, options);
+  const cpu = process.cpuUsage(cpu0);
+  await new Promise<void>((resolve) => server.close(() => resolve()));
+  const latencies: number[] = [];
+  const first = sent.sends[0]?.[0] ?? 0;
+  for (const [t, ns] of sent.sends) {
+    if (t - first < options.warmupS) continue;
+    const got = seen.get(t);
+    if (got !== undefined) latencies.push(Number(got - BigInt(ns)) / 1e6);
+  }
+  return {
+    messages: latencies.length,
+    samples: sent.samples,
+    samplesPerS: sent.samples / options.durationS,
+    sendToStateP50Ms: quantile(latencies, 0.5),
+    sendToStateP99Ms: quantile(latencies, 0.99),
+    sendToStateMaxMs: quantile(latencies, 1),
+    pipelineP50Ms: 0,
+    pipelineP99Ms: 0,
+    frames: 0,
+    framesPerS: 0,
+    writes: 0,
+    cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.durationS,
+    loopDelayP99Ms: Number.NaN,
+  };
+}
+
+/** Runs the simulated device against a server on `port` until it has sent its stream. */
+function sendFromDevice(port: number, options: SessionOptions): Promise<{ samples: number; sends: [number, string][] }> {
+  return new Promise((resolve, reject) => {
+    execFile(
+      process.execPath,
+      [
+        join(here, '../bin/run-ts.js'),
+        join(here, 'live-sender.ts'),
+        `ws://127.0.0.1:${port}`,
+        String(options.rateHz),
+        String(options.muscles),
+        String(options.durationS),
+        String(options.messageMs),
+      ],
+      { maxBuffer: 64 * 1024 * 1024 },
+      (error, stdoutText) => {
+        if (error !== null) reject(error);
+        else resolve(JSON.parse(stdoutText.trim().split('\n').pop() ?? '{}') as { samples: number; sends: [number, string][] });
+      },
+    );
+  });
+}
 
 async function session(options: SessionOptions): Promise<LatencyFigures> {
   let port = 0;
@@ -118,25 +191,7 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
   const delay = monitorEventLoopDelay({ resolution: 1 });
   delay.enable();
   const cpu0 = process.cpuUsage();
-  const sent = await new Promise<{ samples: number; sends: [number, string][] }>((resolve, reject) => {
-    execFile(
-      process.execPath,
-      [
-        join(here, '../bin/run-ts.js'),
-        join(here, 'live-sender.ts'),
-        `ws://127.0.0.1:${port}`,
-        String(options.rateHz),
-        String(options.muscles),
-        String(options.durationS),
-        String(options.messageMs),
-      ],
-      { maxBuffer: 64 * 1024 * 1024 },
-      (error, stdoutText) => {
-        if (error !== null) reject(error);
-        else resolve(JSON.parse(stdoutText.trim().split('\n').pop() ?? '{}') as { samples: number; sends: [number, string][] });
-      },
-    );
-  });
+  const sent = await sendFromDevice(port, options);
   const cpu = process.cpuUsage(cpu0);
   delay.disable();
   dashboard?.unmount();
@@ -189,23 +244,29 @@ function line(name: string, f: LatencyFigures): string {
 
 export async function measureLive(options: { readonly quick: boolean }): Promise<LiveResult> {
   const base = { rateHz: 500, muscles: 4, messageMs: 10, durationS: options.quick ? 6 : 20, warmupS: 1 };
+  const bare = await bareSession({ ...base, dashboard: 'none' });
   const plain = await session({ ...base, dashboard: 'none' });
   const dashboard = await session({ ...base, dashboard: 'main' });
   const dashboardThread = await session({ ...base, dashboard: 'own' });
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
   const threadRatio = dashboardThread.sendToStateP99Ms / plain.sendToStateP99Ms;
   const adds = (r: number): string => `${((r - 1) * 100).toFixed(0)}%`;
+  const toBare = plain.sendToStateP99Ms / bare.sendToStateP99Ms;
   return {
     ...base,
+    bare,
     plain,
+    plainToBareP99Ratio: toBare,
     dashboard,
     dashboardThread,
     dashboardP99Ratio: ratio,
     dashboardThreadP99Ratio: threadRatio,
     lines: [
+      `live bare       ${bare.samplesPerS.toFixed(0)} samples/s in ${bare.messages} messages: send → receipt and parse, p50 ${bare.sendToStateP50Ms.toFixed(2)} ms, p99 ${bare.sendToStateP99Ms.toFixed(2)} ms (max ${bare.sendToStateMaxMs.toFixed(1)}); CPU ${bare.cpuMsPerS.toFixed(0)} ms/s`,
       line('plain', plain),
       line('dash main', dashboard),
       line('dash own', dashboardThread),
+      `live the tool's p99 is ${toBare.toFixed(2)}× a bare WebSocket server's`,
       `live dashboard adds ${adds(threadRatio)} to the p99 on its own thread (as the commands run it), ${adds(ratio)} on the main thread`,
     ],
   };

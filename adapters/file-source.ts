@@ -6,6 +6,8 @@
 import { defer, map, type Observable } from 'rxjs';
 import type { Batch, Frame } from '../src/records.ts';
 import { createCsvReader, parseCsvHeaderRow } from './csv.ts';
+import type { DeviceMapping } from './device-mapping.ts';
+import { createMappedNdjsonReader } from './mapped-ndjson.ts';
 import { createNdjsonReader } from './ndjson.ts';
 import { tooLongRejection } from './parse-record.ts';
 import { DEFAULT_MAX_LINE_BYTES, readLineBytes, type LineReader, type ReadLinesOptions } from './read-lines.ts';
@@ -18,6 +20,8 @@ export interface FileSourceOptions extends ReadLinesOptions {
    * @default 'auto'
    */
   readonly format?: FileFormat | 'auto';
+  /** NDJSON lines in a device's own names and units; a CSV file with a mapping is refused. */
+  readonly mapping?: DeviceMapping | null;
 }
 
 /** The file as a whole cannot be read as its format (e.g. a CSV header row without a required column). */
@@ -46,12 +50,16 @@ export function detectFormat(path: string, firstLine: string): FileFormat {
 export function fileSource(path: string, options: FileSourceOptions = {}): Observable<Batch> {
   const maxLineBytes = options.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES;
   const format = options.format ?? 'auto';
+  const mapping = options.mapping ?? null;
   return defer(() => {
     let reader: LineReader | null = null;
 
     const choose = (text: string, line: number): LineReader => {
       const chosen = format === 'auto' ? detectFormat(path, text) : format;
-      if (chosen === 'ndjson') return createNdjsonReader();
+      if (chosen === 'ndjson') return mapping === null ? createNdjsonReader() : createMappedNdjsonReader(mapping);
+      if (mapping !== null) {
+        throw new SourceFormatError(path, line, 'a device mapping applies to NDJSON files, and this file is CSV (lengthwise-stream columns): replay it without --mapping');
+      }
       const header = parseCsvHeaderRow(text);
       if (!header.ok) throw new SourceFormatError(path, line, header.message);
       return createCsvReader();

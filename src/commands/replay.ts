@@ -6,6 +6,7 @@ import type { Batch } from '../records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
 import { fileSource } from '../../adapters/file-source.ts';
+import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
 import type { DashboardStatus } from '../dashboard/status.ts';
 import { countLines } from './count-lines.ts';
@@ -21,6 +22,7 @@ Plays a recorded trial (lengthwise-stream NDJSON, its CSV variant, or a session 
 options:
   --speed N|max          play at N times recorded time (1 = real time), or as fast as possible  [default: 1]
   --calibration FILE     calibration JSON; wins over the stream header's calibration
+  --mapping FILE         an NDJSON file in a device's own field names and units (lengthwise-mapping JSON; see adapters/mappings/)
   --summary FILE.json    write the per-stride and per-trial summary
   --strides FILE.csv     write one row per stride and muscle
   --report FILE.html     write a self-contained HTML report with plots of the trial
@@ -55,6 +57,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('replay', HELP, argv, {
     speed: { type: 'string', default: '1' },
     calibration: { type: 'string' },
+    mapping: { type: 'string' },
     summary: { type: 'string' },
     strides: { type: 'string' },
     report: { type: 'string' },
@@ -81,11 +84,20 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }
     calibration = result.spec;
   }
+  let mapping: DeviceMapping | null = null;
+  if (values.mapping !== undefined) {
+    const result = await readDeviceMapping(values.mapping);
+    if (!result.ok) {
+      io.err(`lengthwise replay: the device mapping was not accepted:\n  ${result.problems.join('\n  ')}`);
+      return 2;
+    }
+    mapping = result.mapping;
+  }
 
   const speed$ = new BehaviorSubject<Speed>(speed.speed);
   const valve = readAheadValve();
   let lastLine = 0;
-  const records$: Observable<Batch> = fileSource(path, { pause$: valve.pause$ }).pipe(
+  const records$: Observable<Batch> = fileSource(path, { pause$: valve.pause$, mapping }).pipe(
     paceReplayWith(speed$, undefined, { onBacklog: valve.report }),
     tap((batch) => {
       const last = batch.at(-1);

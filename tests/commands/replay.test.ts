@@ -125,6 +125,86 @@ describe('lengthwise replay', () => {
   });
 });
 
+describe('lengthwise replay --mapping', () => {
+  const MAPPING = join(import.meta.dirname, '..', '..', 'adapters', 'mappings', 'bench-probe-cm.json');
+
+  /** The demo's records as the invented bench-probe-cm device would write them (ms from its own zero, cm, channels). */
+  async function deviceCopy(dir: string): Promise<{ ours: string; device: string }> {
+    const channel: Record<string, string> = { calf: 'ch1', thigh: 'ch2' };
+    const ours: string[] = [];
+    const device: string[] = [];
+    for (const line of (await readFile(DEMO, 'utf8')).split('\n')) {
+      let r: Record<string, unknown>;
+      try {
+        r = JSON.parse(line) as Record<string, unknown>;
+      } catch {
+        continue;
+      }
+      if (r['format'] === 'lengthwise-stream') {
+        ours.push(line);
+        device.push(line);
+        continue;
+      }
+      if (typeof r['t'] !== 'number') continue;
+      // time_s = time_ms / 1000 - 12.5 (the mapping's offset), so time_ms = (t + 12.5) × 1000.
+      const timeMs = { time_ms: Math.round((r['t'] + 12.5) * 1e6) / 1e3 };
+      if (typeof r['muscle'] === 'string' && typeof r['fascicle_mm'] === 'number' && channel[r['muscle']] !== undefined) {
+        ours.push(line);
+        device.push(
+          JSON.stringify({
+            ...timeMs,
+            channel: channel[r['muscle']],
+            fl_cm: r['fascicle_mm'] / 10,
+            ...(r['pennation_deg'] === undefined ? {} : { pa: r['pennation_deg'] }),
+            ...(r['quality'] === undefined ? {} : { q: r['quality'] }),
+          }),
+        );
+      } else if (typeof r['event'] === 'string') {
+        ours.push(line);
+        device.push(JSON.stringify({ ...timeMs, event: r['event'], side: r['side'] }));
+      }
+    }
+    const paths = { ours: join(dir, 'ours.ndjson'), device: join(dir, 'device.ndjson') };
+    await writeFile(paths.ours, `${ours.join('\n')}\n`);
+    await writeFile(paths.device, `${device.join('\n')}\n`);
+    return paths;
+  }
+
+  it('replays a file in a device\'s own names and units as the same trial in ours', async () => {
+    const dir = await tmp();
+    const files = await deviceCopy(dir);
+    const [a, b] = await Promise.all([
+      lengthwise(['replay', files.ours, '--speed', 'max', '--summary', join(dir, 'ours.json')]),
+      lengthwise(['replay', files.device, '--mapping', MAPPING, '--speed', 'max', '--summary', join(dir, 'device.json')]),
+    ]);
+    expect([a.code, b.code]).toEqual([0, 0]);
+    const ours = JSON.parse(await readFile(join(dir, 'ours.json'), 'utf8'));
+    const device = JSON.parse(await readFile(join(dir, 'device.json'), 'utf8'));
+    expect(device.frames).toEqual(ours.frames);
+    expect(device.frames.accepted).toBeGreaterThan(1000);
+    for (const name of ['calf', 'thigh']) {
+      const [x, y] = [ours.muscles[name].trial, device.muscles[name].trial];
+      expect(y.stride_count).toBe(x.stride_count);
+      expect(y.stride_count).toBeGreaterThan(40);
+      // Millisecond times and centimetres round-trip to the last bits only.
+      for (const key of ['sl_min_um', 'sl_max_um', 'sl_mean_um', 'force_mean', 'duration_s']) expect(y[key]).toBeCloseTo(x[key], 6);
+    }
+  });
+
+  it('refuses a CSV file with a mapping, saying why, and a mapping that is not one', async () => {
+    const csv = await lengthwise(['replay', DEMO_CSV, '--mapping', MAPPING, '--speed', 'max', '--plain']);
+    expect(csv.code).toBe(1);
+    expect(csv.stderr).toContain('a device mapping applies to NDJSON files, and this file is CSV');
+    const dir = await tmp();
+    const bad = join(dir, 'bad-mapping.json');
+    await writeFile(bad, JSON.stringify({ format: 'lengthwise-mapping', version: 1, fields: { t: 3 } }));
+    const refused = await lengthwise(['replay', DEMO, '--mapping', bad, '--speed', 'max']);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toContain('the device mapping was not accepted');
+    expect(refused.stderr).not.toMatch(/\n\s+at /);
+  });
+});
+
 describe('parseSpeed', () => {
   it('takes a positive number or max', () => {
     expect(parseSpeed('4')).toEqual({ ok: true, speed: 4 });

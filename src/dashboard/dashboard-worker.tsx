@@ -3,6 +3,8 @@
  * on the terminal's file descriptor, and sends back what the keys ask for.
  */
 import { render } from 'ink';
+import { readlinkSync } from 'node:fs';
+import { setPriority } from 'node:os';
 import { parentPort, workerData } from 'node:worker_threads';
 import { Subject } from 'rxjs';
 import Dashboard from './dashboard.tsx';
@@ -11,6 +13,24 @@ import type { TrialFrame } from './trial-frames.ts';
 import { shareFrame } from './share-frame.ts';
 import { ForwardedKeys, FdScreen } from './worker-terminal.ts';
 
+/**
+ * Lowers this thread's scheduling priority (Linux: a thread is a task of its own, found by
+ * /proc/thread-self), so that on a busy machine the screen waits and ingestion does not. Elsewhere,
+ * or when not allowed, the thread keeps the process's priority.
+ */
+function yieldToIngestion(): void {
+  try {
+    const tid = Number(readlinkSync('/proc/thread-self').split('/').pop());
+    if (Number.isInteger(tid) && tid > 0) setPriority(tid, SCREEN_NICENESS);
+  } catch {
+    // No /proc, or no permission: the screen shares the process's priority.
+  }
+}
+
+/** Niceness of the dashboard's thread (0 normal, 19 lowest): under contention it gets about a tenth of a normal thread's share. */
+const SCREEN_NICENESS = 10;
+
+yieldToIngestion();
 const port = parentPort;
 if (port === null) throw new Error('dashboard-worker.tsx runs as a worker thread only');
 const setup = workerData as DashboardThreadSetup;

@@ -3,6 +3,7 @@ import type { CommandIo } from './io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
+import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -20,6 +21,7 @@ options:
   --out FILE.csv         write the study table here  [default: standard output]
   --report FILE.html     write one self-contained HTML report with plots of every trial and muscle
   --calibration FILE     calibration JSON for every trial; wins over each trial's header calibration
+  --mapping FILE         NDJSON trials in a device's own field names and units (lengthwise-mapping JSON)
   --jobs N               trials summarised at once, one worker thread each  [default: ${defaultJobs()}, the cores]
   --plain                plain progress lines instead of a progress bar, even on a terminal
   -h, --help             this text
@@ -81,6 +83,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     out: { type: 'string' },
     report: { type: 'string' },
     calibration: { type: 'string' },
+    mapping: { type: 'string' },
     jobs: { type: 'string' },
     plain: { type: 'boolean', default: false },
   }, io);
@@ -108,12 +111,22 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }
     calibration = result.spec;
   }
+  let mapping: DeviceMapping | undefined;
+  if (values.mapping !== undefined) {
+    const result = await readDeviceMapping(values.mapping);
+    if (!result.ok) {
+      io.err(`lengthwise summarize: the device mapping was not accepted:\n  ${result.problems.join('\n  ')}`);
+      return 2;
+    }
+    mapping = result.mapping;
+  }
 
   const started = performance.now();
   const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);
   const outcomes = await runStudy(positionals, {
     jobs,
     ...(calibration !== undefined ? { calibration } : {}),
+    ...(mapping !== undefined ? { mapping } : {}),
     onEvent: reporter.onEvent,
     drawReport: values.report !== undefined,
   });

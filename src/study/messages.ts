@@ -1,9 +1,12 @@
 /** What the study runner and its worker threads say to each other (structured-clone data only). */
+import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
 
 export interface WorkerSetup {
   readonly calibration?: CalibrationSpec;
+  /** NDJSON trials in a device's own names and units. */
+  readonly mapping?: DeviceMapping;
   /** Samples between two progress messages of one trial. */
   readonly progressEverySamples: number;
   /** Draw each trial's report sections too, keyed by the job's place in the study (id + 1). */

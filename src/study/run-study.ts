@@ -6,6 +6,7 @@
 import { stat } from 'node:fs/promises';
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
+import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
@@ -30,6 +31,7 @@ export interface StudyOptions {
   /** Worker threads; never more than the files. @default os.availableParallelism() */
   readonly jobs?: number;
   readonly calibration?: CalibrationSpec;
+  readonly mapping?: DeviceMapping;
   readonly onEvent?: (event: StudyEvent) => void;
   /** Stops the workers; trials not finished come back as failures saying so. */
   readonly signal?: AbortSignal;
@@ -85,6 +87,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
 
   const setup: WorkerSetup = {
     ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
+    ...(options.mapping !== undefined ? { mapping: options.mapping } : {}),
     progressEverySamples: options.progressEverySamples ?? 20_000,
     drawReport: options.drawReport ?? false,
   };

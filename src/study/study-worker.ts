@@ -28,6 +28,7 @@ port.on('message', (job: JobMessage) => {
   let posted = 0;
   void summarizeTrial(job.path, {
     ...(setup.calibration !== undefined ? { calibration: setup.calibration } : {}),
+    ...(setup.mapping !== undefined ? { mapping: setup.mapping } : {}),
     onProgress: ({ bytesRead, samples }) => {
       if (samples - posted < setup.progressEverySamples) return;
       posted = samples;

@@ -5,6 +5,7 @@
 import { open, stat } from 'node:fs/promises';
 import { tap } from 'rxjs';
 import { fileSource } from '../../adapters/file-source.ts';
+import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import { REASON_TEXT, type RejectReason } from '../reasons.ts';
 import { runTrial } from '../run-trial.ts';
@@ -34,6 +35,8 @@ export interface TrialProgress {
 export interface SummarizeTrialOptions {
   /** Wins over each trial's header calibration, as in `replay --calibration`. */
   readonly calibration?: CalibrationSpec;
+  /** NDJSON trials in a device's own names and units, as in `replay --mapping`. */
+  readonly mapping?: DeviceMapping;
   /** Called after each batch of input. */
   readonly onProgress?: (progress: TrialProgress) => void;
 }
@@ -90,7 +93,7 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
   let samples = 0;
   let lastLine = 0;
   const onProgress = options.onProgress;
-  const records$ = fileSource(path).pipe(
+  const records$ = fileSource(path, { mapping: options.mapping ?? null }).pipe(
     tap((batch) => {
       for (const frame of batch) {
         if (frame.kind === 'sample') samples++;

@@ -4,6 +4,7 @@ import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parseSpeed } from '../../src/commands/replay.ts';
+import { deviceCopy, DEVICE_MAPPING as MAPPING } from '../helpers/device-copy.ts';
 
 const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
 const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
@@ -126,53 +127,10 @@ describe('lengthwise replay', () => {
 });
 
 describe('lengthwise replay --mapping', () => {
-  const MAPPING = join(import.meta.dirname, '..', '..', 'adapters', 'mappings', 'bench-probe-cm.json');
-
-  /** The demo's records as the invented bench-probe-cm device would write them (ms from its own zero, cm, channels). */
-  async function deviceCopy(dir: string): Promise<{ ours: string; device: string }> {
-    const channel: Record<string, string> = { calf: 'ch1', thigh: 'ch2' };
-    const ours: string[] = [];
-    const device: string[] = [];
-    for (const line of (await readFile(DEMO, 'utf8')).split('\n')) {
-      let r: Record<string, unknown>;
-      try {
-        r = JSON.parse(line) as Record<string, unknown>;
-      } catch {
-        continue;
-      }
-      if (r['format'] === 'lengthwise-stream') {
-        ours.push(line);
-        device.push(line);
-        continue;
-      }
-      if (typeof r['t'] !== 'number') continue;
-      // time_s = time_ms / 1000 - 12.5 (the mapping's offset), so time_ms = (t + 12.5) × 1000.
-      const timeMs = { time_ms: Math.round((r['t'] + 12.5) * 1e6) / 1e3 };
-      if (typeof r['muscle'] === 'string' && typeof r['fascicle_mm'] === 'number' && channel[r['muscle']] !== undefined) {
-        ours.push(line);
-        device.push(
-          JSON.stringify({
-            ...timeMs,
-            channel: channel[r['muscle']],
-            fl_cm: r['fascicle_mm'] / 10,
-            ...(r['pennation_deg'] === undefined ? {} : { pa: r['pennation_deg'] }),
-            ...(r['quality'] === undefined ? {} : { q: r['quality'] }),
-          }),
-        );
-      } else if (typeof r['event'] === 'string') {
-        ours.push(line);
-        device.push(JSON.stringify({ ...timeMs, event: r['event'], side: r['side'] }));
-      }
-    }
-    const paths = { ours: join(dir, 'ours.ndjson'), device: join(dir, 'device.ndjson') };
-    await writeFile(paths.ours, `${ours.join('\n')}\n`);
-    await writeFile(paths.device, `${device.join('\n')}\n`);
-    return paths;
-  }
 
   it('replays a file in a device\'s own names and units as the same trial in ours', async () => {
     const dir = await tmp();
-    const files = await deviceCopy(dir);
+    const files = await deviceCopy(DEMO, dir);
     const [a, b] = await Promise.all([
       lengthwise(['replay', files.ours, '--speed', 'max', '--summary', join(dir, 'ours.json')]),
       lengthwise(['replay', files.device, '--mapping', MAPPING, '--speed', 'max', '--summary', join(dir, 'device.json')]),

@@ -8,6 +8,7 @@ import { REGION_KEYS } from '../../src/model/regions.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import { parseJobs } from '../../src/commands/summarize.ts';
 import { csvRecords, trialFolder, type TrialFolder } from '../study/generated-trials.ts';
+import { deviceCopy, DEVICE_MAPPING } from '../helpers/device-copy.ts';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
@@ -47,6 +48,32 @@ beforeAll(async () => {
 afterAll(() => folder.remove());
 
 describe('lengthwise summarize', () => {
+  it('reads NDJSON trials in a device\'s own names and units through --mapping, to the same table as ours', async () => {
+    const files = await deviceCopy(join(ROOT, 'replays', 'demo-walk.ndjson'), folder.dir);
+    const [ours, device] = await Promise.all([
+      lengthwise(['summarize', files.ours, '--jobs', '1', '--plain']),
+      lengthwise(['summarize', files.device, '--mapping', DEVICE_MAPPING, '--jobs', '1', '--plain']),
+    ]);
+    expect([ours.code, device.code]).toEqual([0, 0]);
+    const [a, b] = [csvRecords(ours.stdout), csvRecords(device.stdout)];
+    expect(b).toHaveLength(2);
+    expect(b.map((r) => r['muscle'])).toEqual(a.map((r) => r['muscle']));
+    for (let row = 0; row < a.length; row++) {
+      const [x, y] = [a[row]!, b[row]!];
+      expect(Object.keys(y)).toEqual(Object.keys(x));
+      for (const [column, value] of Object.entries(x)) {
+        if (column === 'source_file') continue;
+        const u = Number(value);
+        // Millisecond times and centimetres round-trip to the last bits only.
+        if (value !== '' && Number.isFinite(u)) expect(Number(y[column]), column).toBeCloseTo(u, 5);
+        else expect(y[column], column).toBe(value);
+      }
+    }
+    const refused = await lengthwise(['summarize', files.device, '--mapping', join(folder.dir, 'no-such-mapping.json')]);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toContain('the device mapping was not accepted');
+  });
+
   it('prints its options for --help and exits 0', async () => {
     const ran = await lengthwise(['summarize', '--help']);
     expect(ran.code).toBe(0);

@@ -7,13 +7,12 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from './io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
+import { calibrationOption, mappingOption } from './option-files.ts';
 import { applyCapture } from './apply-capture.ts';
 import type { Batch, Frame } from '../records.ts';
-import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialState } from '../state.ts';
 import type { ConnectionStatus, DashboardStatus } from '../dashboard/status.ts';
-import { readCalibrationFile } from '../../adapters/calibration-file.ts';
-import { readDeviceMapping, unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { LINK_MARKER_PREFIX, websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
@@ -158,24 +157,12 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     io.err('lengthwise live: --token is empty: give the token the devices send');
     return 2;
   }
-  let calibration: CalibrationSpec | undefined;
-  if (values.calibration !== undefined) {
-    const result = await readCalibrationFile(values.calibration);
-    if (!result.ok) {
-      io.err(`lengthwise live: the calibration was not accepted:\n  ${result.problems.join('\n  ')}`);
-      return 2;
-    }
-    calibration = result.spec;
-  }
-  let mapping: DeviceMapping | null = null;
-  if (values.mapping !== undefined) {
-    const result = await readDeviceMapping(values.mapping);
-    if (!result.ok) {
-      io.err(`lengthwise live: the device mapping was not accepted:\n  ${result.problems.join('\n  ')}`);
-      return 2;
-    }
-    mapping = result.mapping;
-  }
+  const calibrationFile = await calibrationOption('live', values.calibration, io);
+  if (!calibrationFile.ok) return 2;
+  const calibration = calibrationFile.value;
+  const mappingFile = await mappingOption('live', values.mapping, io);
+  if (!mappingFile.ok) return 2;
+  const mapping = mappingFile.value ?? null;
 
   const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
   const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());

@@ -2,11 +2,9 @@
 import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
 import type { CommandIo } from './io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
+import { calibrationOption, mappingOption } from './option-files.ts';
 import type { Batch } from '../records.ts';
-import type { CalibrationSpec } from '../model/calibration.ts';
-import { readCalibrationFile } from '../../adapters/calibration-file.ts';
 import { fileSource } from '../../adapters/file-source.ts';
-import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
 import type { DashboardStatus } from '../dashboard/status.ts';
 import { countLines } from './count-lines.ts';
@@ -75,24 +73,12 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise replay: ${speed.message}`);
     return 2;
   }
-  let calibration: CalibrationSpec | undefined;
-  if (values.calibration !== undefined) {
-    const result = await readCalibrationFile(values.calibration);
-    if (!result.ok) {
-      io.err(`lengthwise replay: the calibration was not accepted:\n  ${result.problems.join('\n  ')}`);
-      return 2;
-    }
-    calibration = result.spec;
-  }
-  let mapping: DeviceMapping | null = null;
-  if (values.mapping !== undefined) {
-    const result = await readDeviceMapping(values.mapping);
-    if (!result.ok) {
-      io.err(`lengthwise replay: the device mapping was not accepted:\n  ${result.problems.join('\n  ')}`);
-      return 2;
-    }
-    mapping = result.mapping;
-  }
+  const calibrationFile = await calibrationOption('replay', values.calibration, io);
+  if (!calibrationFile.ok) return 2;
+  const calibration = calibrationFile.value;
+  const mappingFile = await mappingOption('replay', values.mapping, io);
+  if (!mappingFile.ok) return 2;
+  const mapping = mappingFile.value ?? null;
 
   const speed$ = new BehaviorSubject<Speed>(speed.speed);
   const valve = readAheadValve();

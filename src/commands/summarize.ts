@@ -1,9 +1,7 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
 import type { CommandIo } from './io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import type { CalibrationSpec } from '../model/calibration.ts';
-import { readCalibrationFile } from '../../adapters/calibration-file.ts';
-import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { calibrationOption, mappingOption } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -102,24 +100,12 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }
     jobs = parsedJobs.jobs;
   }
-  let calibration: CalibrationSpec | undefined;
-  if (values.calibration !== undefined) {
-    const result = await readCalibrationFile(values.calibration);
-    if (!result.ok) {
-      io.err(`lengthwise summarize: the calibration was not accepted:\n  ${result.problems.join('\n  ')}`);
-      return 2;
-    }
-    calibration = result.spec;
-  }
-  let mapping: DeviceMapping | undefined;
-  if (values.mapping !== undefined) {
-    const result = await readDeviceMapping(values.mapping);
-    if (!result.ok) {
-      io.err(`lengthwise summarize: the device mapping was not accepted:\n  ${result.problems.join('\n  ')}`);
-      return 2;
-    }
-    mapping = result.mapping;
-  }
+  const calibrationFile = await calibrationOption('summarize', values.calibration, io);
+  if (!calibrationFile.ok) return 2;
+  const calibration = calibrationFile.value;
+  const mappingFile = await mappingOption('summarize', values.mapping, io);
+  if (!mappingFile.ok) return 2;
+  const mapping = mappingFile.value;
 
   const started = performance.now();
   const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);

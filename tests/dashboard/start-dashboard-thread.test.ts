@@ -65,6 +65,25 @@ function terminal(): { out: FileTerminal; keys: ReturnType<typeof rawKeys> } {
   return { out, keys: rawKeys() };
 }
 
+/** The walking fixture on its own thread, with what the test gives. */
+function startOnThread(
+  stdout: object,
+  stdin: object,
+  more: Partial<Parameters<typeof startDashboard>[0]> = {},
+): ReturnType<typeof startDashboard> {
+  return startDashboard({
+    state$: new BehaviorSubject(walkingState()),
+    title: 'lengthwise',
+    stdout: stdout as NodeJS.WriteStream,
+    stdin: stdin as NodeJS.ReadStream,
+    env: {},
+    onQuit: () => undefined,
+    frameMs: 20,
+    thread: 'own',
+    ...more,
+  });
+}
+
 describe('startDashboard on its own thread', () => {
   it('draws the trial on the terminal, takes keys in raw mode, and q quits, unmounts and gives the terminal back', async () => {
     const { out, keys } = terminal();
@@ -108,16 +127,7 @@ describe('startDashboard on its own thread', () => {
 
   it('follows a resize of the terminal', async () => {
     const { out, keys } = terminal();
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: { NO_COLOR: '1' },
-      onQuit: () => undefined,
-      frameMs: 20,
-      thread: 'own',
-    });
+    const dashboard = startOnThread(out, keys, { env: { NO_COLOR: '1' } });
     await waitFor(() => plain(out.screen()).includes('SL 2.71 µm'), 'the panels');
     expect(out.screen()).not.toMatch(COLOUR_SGR);
     const wide = Math.max(...plain(out.screen()).split('\n').map((l) => l.length));
@@ -137,16 +147,7 @@ describe('startDashboard on its own thread', () => {
   it('shows the trial without keys when standard input is not a terminal, and unmount ends it', async () => {
     const { out } = terminal();
     const keys = rawKeys(false);
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => undefined,
-      frameMs: 20,
-      thread: 'own',
-    });
+    const dashboard = startOnThread(out, keys);
     await waitFor(() => plain(out.screen()).includes('no keys: standard input is not a terminal'), 'the footer saying so');
     expect(keys.rawMode).toEqual([]);
     dashboard.unmount();
@@ -157,16 +158,7 @@ describe('startDashboard on its own thread', () => {
     const { keys } = terminal();
     const frames: string[] = [];
     const out = Object.assign(new EventEmitter(), { isTTY: true, columns: 80, rows: 24, write: (f: string) => frames.push(f) > 0 });
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => undefined,
-      frameMs: 20,
-      thread: 'own',
-    });
+    const dashboard = startOnThread(out, keys);
     await waitFor(() => plain(frames.join('')).includes('SL 2.71 µm'), 'the panels written here');
     dashboard.unmount();
     await dashboard.waitUntilExit();

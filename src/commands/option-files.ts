@@ -1,0 +1,28 @@
+/**
+ * The files that options name (--calibration, --mapping), read and checked the same way by every
+ * command: a file that is not accepted is said with each problem, and the command exits 2 (usage).
+ */
+import { readCalibrationFile } from '../../adapters/calibration-file.ts';
+import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import type { CalibrationSpec } from '../model/calibration.ts';
+import type { CommandIo } from './io.ts';
+
+/** The file's content; undefined when the option was not given; `refused` when it was said why not. */
+export type OptionFile<T> = { readonly ok: true; readonly value: T | undefined } | { readonly ok: false };
+
+function refuse(command: string, what: string, problems: readonly string[], io: CommandIo): { ok: false } {
+  io.err(`lengthwise ${command}: the ${what} was not accepted:\n  ${problems.join('\n  ')}`);
+  return { ok: false };
+}
+
+export async function calibrationOption(command: string, path: string | undefined, io: CommandIo): Promise<OptionFile<CalibrationSpec>> {
+  if (path === undefined) return { ok: true, value: undefined };
+  const result = await readCalibrationFile(path);
+  return result.ok ? { ok: true, value: result.spec } : refuse(command, 'calibration', result.problems, io);
+}
+
+export async function mappingOption(command: string, path: string | undefined, io: CommandIo): Promise<OptionFile<DeviceMapping>> {
+  if (path === undefined) return { ok: true, value: undefined };
+  const result = await readDeviceMapping(path);
+  return result.ok ? { ok: true, value: result.mapping } : refuse(command, 'device mapping', result.problems, io);
+}

@@ -1,13 +1,15 @@
 #!/usr/bin/env node
 // Runs a repository script written in TypeScript (generators, benchmarks) through tsx's loader.
 import { register } from 'tsx/esm/api';
-import { pathToFileURL } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { resolve } from 'node:path';
 
 // Scripts (benchmarks above all) measure what users run: React's production build, as bin/lengthwise.js.
 process.env.NODE_ENV ??= 'production';
 
-register();
+// The project's own compiler settings (JSX above all), wherever the command is run from: tsx would
+// otherwise look for a tsconfig.json in the working folder.
+register({ tsconfig: fileURLToPath(new URL('../tsconfig.json', import.meta.url)) });
 const [script, ...rest] = process.argv.slice(2);
 if (script === undefined) {
   console.error('run-ts: give the script to run, e.g. node bin/run-ts.js replays/make-replays.ts');

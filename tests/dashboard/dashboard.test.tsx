@@ -26,6 +26,19 @@ function watched<T>(source$: Observable<T>): { readonly stream$: Observable<T>; 
   return { stream$, subscribed: () => subscribed };
 }
 
+/**
+ * Waits until Ink has written what the last clock step asked for: no new frame over a few looks. React
+ * may split a render into slices, so on a loaded machine one short wait can read the frame before.
+ */
+async function settled(screen: Screen): Promise<void> {
+  for (let count = -1, same = 0; same < 4; ) {
+    await tick(15);
+    const now = screen.out.frames.length;
+    same = now === count ? same + 1 : 0;
+    count = now;
+  }
+}
+
 /** Renders the dashboard on a virtual clock; `advance(ms)` moves the clock and runs what is due. */
 function show(state$: Observable<TrialState>, more: Partial<Props> = {}, columns = 80, rows = 24) {
   const scheduler = new VirtualTimeScheduler(undefined, 0);
@@ -35,7 +48,7 @@ function show(state$: Observable<TrialState>, more: Partial<Props> = {}, columns
     await waitFor(() => state.subscribed() && (status === null || status.subscribed()), 'the dashboard subscribing');
     scheduler.maxFrames = scheduler.frame + ms;
     scheduler.flush();
-    await tick(5);
+    await settled(screen);
   };
   const screen = renderScreen(
     <Dashboard

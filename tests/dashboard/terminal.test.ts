@@ -24,13 +24,13 @@ function sleep(ms: number): Promise<void> {
 }
 
 /** Starts `command` in a new session of `columns`×`rows`; its exit status lands in `<name>.status`. */
-function start(name: string, command: string, columns = 80, rows = 24, env: Record<string, string> = {}): string {
+function start(name: string, command: string, columns = 80, rows = 24, env: Record<string, string> = {}, cwd = REPO): string {
   const status = join(work, `${name}.status`);
   const exports = Object.entries(env)
     .map(([k, v]) => `export ${k}='${v}'; `)
     .join('');
   // CI makes Ink print only the last frame; a person's terminal has no CI.
-  const script = `cd '${REPO}' && unset CI; ${exports}${command}; echo $? > '${status}'; sleep 60`;
+  const script = `cd '${cwd}' && unset CI; ${exports}${command}; echo $? > '${status}'; sleep 60`;
   tmux('new-session', '-d', '-s', name, '-x', String(columns), '-y', String(rows), script);
   return status;
 }
@@ -114,6 +114,14 @@ describe.skipIf(!HAS_TMUX)(title, () => {
     tmux('resize-window', '-t', 'resize', '-x', '100', '-y', '40');
     await screenWhere('resize', (t) => sideBySide(t), 'the panels side by side again');
     keys('resize', 'q');
+    expect((await fileWhere(status, 'the exit status')).trim()).toBe('0');
+  });
+
+  it('draws the dashboard when run from another folder, away from the project\'s own settings', { timeout: 60_000 }, async () => {
+    const status = start('elsewhere', `node '${join(REPO, 'bin', 'lengthwise.js')}' replay '${join(REPO, 'replays', 'demo-walk.ndjson')}'`, 80, 24, {}, work);
+    await screenWhere('elsewhere', (t) => t.includes('SL ') && t.includes('thigh'), 'the panels');
+    expect(screen('elsewhere')).not.toContain('the dashboard stopped');
+    keys('elsewhere', 'q');
     expect((await fileWhere(status, 'the exit status')).trim()).toBe('0');
   });
 

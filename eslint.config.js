@@ -15,7 +15,8 @@ export default tseslint.config(
     },
   },
   {
-    files: ['bin/*.js'],
-    languageOptions: { globals: { process: 'readonly', console: 'readonly' } },
+    // Plain-JavaScript entry points (the binaries and the worker threads' loaders) run on Node.
+    files: ['bin/*.js', 'src/**/*.js'],
+    languageOptions: { globals: { process: 'readonly', console: 'readonly', URL: 'readonly' } },
   },
 );

@@ -241,10 +241,11 @@ describe('lengthwise live --connect', () => {
   }
 
   it('accepts exactly the valid samples the simulator sent, and the replay of its log gives the same summary', async () => {
-    const sim = await simulator();
+    // The device ends its stream (closing cleanly) before the session ends, so everything it sent was received.
+    const sim = await simulator({ durationS: 2 });
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '3']);
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '3.5']);
     expect((await c.exited).code, c.stderr).toBe(0);
     await sim.stop();
     const live = await json(join(dir, 'live.json'));
@@ -256,14 +257,16 @@ describe('lengthwise live --connect', () => {
   });
 
   it('through faults (malformed messages, disconnections, restarts) loses no valid sample received, and the log with its gaps restored replays the same', async () => {
-    const sim = await simulator({ faults: { everyS: 0.8, kinds: ['malformed', 'disconnect', 'resent_header', 'malformed', 'device_restart'] } });
+    // Faults at 0.6, 1.2, … s; the device ends its stream at 3.6 s, before the session ends, so what it sent was received.
+    const sim = await simulator({ durationS: 3.6, faults: { everyS: 0.6, kinds: ['malformed', 'disconnect', 'resent_header', 'malformed', 'device_restart'] } });
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '4.5']);
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '5.5']);
     expect((await c.exited).code, c.stderr).toBe(0);
     await sim.stop();
     const live = await json(join(dir, 'live.json'));
     expect(sim.stats.faults['disconnect'] ?? 0).toBeGreaterThanOrEqual(1);
+    expect(sim.stats.faults['device_restart'] ?? 0).toBe(1);
     // Every valid sample sent was accepted, through the drop-outs; every malformed one rejected for its reason.
     expect(live.frames['accepted']).toBe(sim.stats.samplesSent);
     const badSent = Object.fromEntries(Object.entries(sim.stats.badSent).filter(([, n]) => (n ?? 0) > 0));

@@ -119,6 +119,9 @@ function linkText(event: LinkEvent): string | null {
   }
 }
 
+/** How long the end of a session waits for the dashboard to give the terminal back. */
+const SCREEN_EXIT_WAIT_MS = 1000;
+
 export interface LiveRunOptions {
   /** Clock of --duration and the plain status lines. @default asyncScheduler */
   readonly scheduler?: SchedulerLike;
@@ -364,7 +367,12 @@ class LiveSession {
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
     for (const s of subscriptions) s.unsubscribe();
-    if (dashboard !== null) dashboard.unmount();
+    if (dashboard !== null) {
+      dashboard.unmount();
+      // The screen is given back before the closing lines are written under it; a screen thread that does
+      // not answer within a second is not waited for.
+      await Promise.race([dashboard.waitUntilExit(), new Promise((resolve) => setTimeout(resolve, SCREEN_EXIT_WAIT_MS).unref())]);
+    }
     this.extra$.complete();
     return final;
   }

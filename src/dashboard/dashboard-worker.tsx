@@ -27,8 +27,8 @@ function yieldToIngestion(): void {
   }
 }
 
-/** Niceness of the dashboard's thread (0 normal, 19 lowest): under contention it gets about a tenth of a normal thread's share. */
-const SCREEN_NICENESS = 10;
+/** Niceness of the dashboard's thread (0 normal, 19 lowest): under contention the pipeline comes first, and the screen may lag. */
+const SCREEN_NICENESS = 19;
 
 yieldToIngestion();
 const port = parentPort;

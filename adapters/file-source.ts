@@ -58,7 +58,7 @@ export function fileSource(path: string, options: FileSourceOptions = {}): Obser
       const chosen = format === 'auto' ? detectFormat(path, text) : format;
       if (chosen === 'ndjson') return mapping === null ? createNdjsonReader() : createMappedNdjsonReader(mapping);
       if (mapping !== null) {
-        throw new SourceFormatError(path, line, 'a device mapping applies to NDJSON files, and this file is CSV (lengthwise-stream columns): replay it without --mapping');
+        throw new SourceFormatError(path, line, 'a device mapping applies to NDJSON files, and this file is CSV (lengthwise-stream columns): read it without --mapping');
       }
       const header = parseCsvHeaderRow(text);
       if (!header.ok) throw new SourceFormatError(path, line, header.message);

@@ -5,10 +5,10 @@ import { BehaviorSubject, Observable, Subject, VirtualTimeScheduler } from 'rxjs
 import Dashboard, { type Props } from '../../src/dashboard/dashboard.tsx';
 import type { TrialState } from '../../src/state.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
-import { REACT_TIMINGS_DROP_MS, startDashboard } from '../../src/dashboard/start-dashboard.tsx';
+import { REACT_TIMINGS_DROP_MS } from '../../src/dashboard/start-dashboard.tsx';
 import { MARKER_IN_BAND } from '../../src/dashboard/curve-drawing.ts';
 import { completeStride, makeMuscle, makeTrialState, pushSample, startStride, walkingState } from './fixtures.ts';
-import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, tick, WAIT_LIMIT_MS, type Screen } from './terminal-double.ts';
+import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, startWalking, tick, WAIT_LIMIT_MS, type Screen } from './terminal-double.ts';
 
 const screens: Screen[] = [];
 afterEach(() => {
@@ -423,15 +423,7 @@ describe('startDashboard', () => {
     // records none (its console has no timeStamp), so entries of that form stand in for them.
     const reactLike = ['\u200BMusclePanel', '\u200BCurvePlot'];
     const reactTimings = (): number => performance.getEntriesByType('measure').filter((e) => e.name.startsWith('\u200B')).length;
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => undefined,
-      scheduler,
-    });
+    const dashboard = startWalking(out, keys, { scheduler });
     performance.mark('lengthwise-own-start');
     performance.measure('lengthwise-own', 'lengthwise-own-start');
     for (let i = 0; i < 50; i++) for (const name of reactLike) performance.measure(name, { start: 0, end: 1, detail: { properties: [['Changed Props', '']] } });
@@ -457,15 +449,7 @@ describe('startDashboard', () => {
 
   it('renders without any colour code when NO_COLOR is set', async () => {
     const { out, keys } = terminal();
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: { NO_COLOR: '1' },
-      onQuit: () => undefined,
-      frameMs: 10,
-    });
+    const dashboard = startWalking(out, keys, { env: { NO_COLOR: '1' }, frameMs: 10 });
     await waitFor(() => plain(out.frames.join('')).includes('SL 2.71 µm'), 'the panels');
     dashboard.unmount();
     await dashboard.waitUntilExit();
@@ -476,15 +460,7 @@ describe('startDashboard', () => {
 
   it('uses colour when NO_COLOR is empty or absent', async () => {
     const { out, keys } = terminal();
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: { NO_COLOR: '' },
-      onQuit: () => undefined,
-      frameMs: 10,
-    });
+    const dashboard = startWalking(out, keys, { env: { NO_COLOR: '' }, frameMs: 10 });
     await waitFor(() => plain(out.frames.join('')).includes('SL 2.71 µm'), 'the panels');
     dashboard.unmount();
     await dashboard.waitUntilExit();
@@ -495,15 +471,7 @@ describe('startDashboard', () => {
     const out = new ScreenOut(80, 24);
     const keys = new KeysIn();
     keys.isTTY = undefined;
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => undefined,
-      frameMs: 10,
-    });
+    const dashboard = startWalking(out, keys, { frameMs: 10 });
     const panels = (): string | undefined => out.frames.map(plain).find((f) => f.includes('SL 2.71 µm'));
     await waitFor(() => panels() !== undefined, 'the panels');
     expect(panels()).toContain('no keys: standard input is not a terminal');
@@ -515,14 +483,7 @@ describe('startDashboard', () => {
     const { out, keys } = terminal();
     const state$ = new BehaviorSubject(walkingState());
     let quits = 0;
-    const dashboard = startDashboard({
-      state$,
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => (quits += 1),
-    });
+    const dashboard = startWalking(out, keys, { state$, onQuit: () => (quits += 1) });
     await waitFor(() => keys.listenerCount('readable') > 0, 'the dashboard listening to keys');
     keys.write('q');
     await dashboard.waitUntilExit();
@@ -532,14 +493,7 @@ describe('startDashboard', () => {
 
   it('resolves waitUntilExit even when first asked after the dashboard has gone', async () => {
     const { out, keys } = terminal();
-    const dashboard = startDashboard({
-      state$: new BehaviorSubject(walkingState()),
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => undefined,
-    });
+    const dashboard = startWalking(out, keys);
     await waitFor(() => keys.listenerCount('readable') > 0, 'the dashboard listening to keys');
     keys.write('q');
     await tick(50);

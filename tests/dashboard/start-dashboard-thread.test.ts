@@ -10,9 +10,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { BehaviorSubject } from 'rxjs';
-import { startDashboard } from '../../src/dashboard/start-dashboard.tsx';
+import { startDashboard, type DashboardOptions } from '../../src/dashboard/start-dashboard.tsx';
 import { pushSample, walkingState } from './fixtures.ts';
-import { COLOUR_SGR, KeysIn, plain, waitFor } from './terminal-double.ts';
+import { COLOUR_SGR, KeysIn, plain, startWalking, waitFor } from './terminal-double.ts';
 
 /** A terminal's standard output as the commands get it: a descriptor, a size, resize events. */
 class FileTerminal extends EventEmitter {
@@ -66,22 +66,8 @@ function terminal(): { out: FileTerminal; keys: ReturnType<typeof rawKeys> } {
 }
 
 /** The walking fixture on its own thread, with what the test gives. */
-function startOnThread(
-  stdout: object,
-  stdin: object,
-  more: Partial<Parameters<typeof startDashboard>[0]> = {},
-): ReturnType<typeof startDashboard> {
-  return startDashboard({
-    state$: new BehaviorSubject(walkingState()),
-    title: 'lengthwise',
-    stdout: stdout as NodeJS.WriteStream,
-    stdin: stdin as NodeJS.ReadStream,
-    env: {},
-    onQuit: () => undefined,
-    frameMs: 20,
-    thread: 'own',
-    ...more,
-  });
+function startOnThread(stdout: object, stdin: object, more: Partial<DashboardOptions> = {}): ReturnType<typeof startDashboard> {
+  return startWalking(stdout, stdin, { frameMs: 20, thread: 'own', ...more });
 }
 
 describe('startDashboard on its own thread', () => {
@@ -90,17 +76,11 @@ describe('startDashboard on its own thread', () => {
     const state = walkingState();
     const state$ = new BehaviorSubject(state);
     const asked: string[] = [];
-    const dashboard = startDashboard({
+    const dashboard = startOnThread(out, keys, {
       state$,
-      title: 'lengthwise',
-      stdout: out as unknown as NodeJS.WriteStream,
-      stdin: keys as unknown as NodeJS.ReadStream,
-      env: {},
       onQuit: () => asked.push('quit'),
       onMarker: (text) => asked.push(`marker ${text}`),
       onSpeed: (direction) => asked.push(`speed ${direction}`),
-      frameMs: 20,
-      thread: 'own',
     });
     await waitFor(() => plain(out.screen()).includes('SL 2.71 µm'), 'the panels on the terminal');
     expect(out.screen()).toMatch(COLOUR_SGR);

@@ -4,6 +4,9 @@
  */
 import { EventEmitter } from 'node:events';
 import { render, type Instance } from 'ink';
+import { BehaviorSubject } from 'rxjs';
+import { startDashboard, type DashboardOptions } from '../../src/dashboard/start-dashboard.tsx';
+import { walkingState } from './fixtures.ts';
 import type { ReactElement } from 'react';
 
 export class ScreenOut extends EventEmitter {
@@ -142,4 +145,17 @@ export async function waitFor(ok: () => boolean, what: string, timeoutMs = WAIT_
     if (Date.now() > until) throw new Error(`${what} did not happen within ${timeoutMs} ms`);
     await tick(10);
   }
+}
+
+/** startDashboard on the given stand-in terminal, showing the walking fixture unless told otherwise. */
+export function startWalking(stdout: object, stdin: object, more: Partial<DashboardOptions> = {}): ReturnType<typeof startDashboard> {
+  return startDashboard({
+    state$: new BehaviorSubject(walkingState()),
+    title: 'lengthwise',
+    stdout: stdout as NodeJS.WriteStream,
+    stdin: stdin as NodeJS.ReadStream,
+    env: {},
+    onQuit: () => undefined,
+    ...more,
+  });
 }

@@ -23,13 +23,16 @@ export interface DashboardHandle {
 }
 
 /**
- * The colours the terminal takes, told to the other thread: its colour library reads them from its own
- * standard output, which on a worker thread is not the terminal.
+ * The environment of the screen's thread. Its colour library reads the colours from its own standard
+ * output, which on a worker thread is not the terminal, so they are told to it. And Ink, when it sees a
+ * CI variable, holds every frame back until the end for the sake of CI logs: the screen is started only
+ * on a terminal, so a CI variable left in a person's shell must not blank the live view.
  */
-function colourEnv(stdout: NodeJS.WriteStream, env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
-  if (typeof stdout.getColorDepth !== 'function') return process.env;
+export function screenEnv(stdout: NodeJS.WriteStream, env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
+  const { CI: _ci, CONTINUOUS_INTEGRATION: _continuous, ...rest } = process.env;
+  if (typeof stdout.getColorDepth !== 'function') return rest;
   const depth = stdout.getColorDepth(env);
-  return { ...process.env, FORCE_COLOR: depth >= 24 ? '3' : depth >= 8 ? '2' : depth >= 4 ? '1' : '0' };
+  return { ...rest, FORCE_COLOR: depth >= 24 ? '3' : depth >= 8 ? '2' : depth >= 4 ? '1' : '0' };
 }
 
 export function startDashboardThread(options: DashboardOptions, fd: number): DashboardHandle {
@@ -44,7 +47,7 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
     keys,
     can: { marker: options.onMarker !== undefined, speed: options.onSpeed !== undefined, calibrate: options.onCalibrate !== undefined },
   };
-  const worker = new Worker(WORKER_ENTRY, { workerData: setup, env: colourEnv(stdout, options.env) });
+  const worker = new Worker(WORKER_ENTRY, { workerData: setup, env: screenEnv(stdout, options.env) });
   const send = (message: ToDashboard): void => worker.postMessage(message);
 
   let waiting: TrialFrame | null = null;

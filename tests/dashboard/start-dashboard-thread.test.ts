@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { BehaviorSubject } from 'rxjs';
 import { startDashboard, type DashboardOptions } from '../../src/dashboard/start-dashboard.tsx';
+import { screenEnv } from '../../src/dashboard/start-dashboard-thread.ts';
 import { pushSample, walkingState } from './fixtures.ts';
 import { COLOUR_SGR, KeysIn, plain, startWalking, waitFor } from './terminal-double.ts';
 
@@ -132,6 +133,40 @@ describe('startDashboard on its own thread', () => {
     expect(keys.rawMode).toEqual([]);
     dashboard.unmount();
     await dashboard.waitUntilExit();
+  });
+
+  it('draws every frame as it comes even when a CI variable is set in the shell', async () => {
+    const { out, keys } = terminal();
+    const state = walkingState();
+    const state$ = new BehaviorSubject(state);
+    process.env['CI'] = 'true';
+    cleanups.push(() => delete process.env['CI']);
+    const dashboard = startOnThread(out, keys, { state$ });
+    await waitFor(() => plain(out.screen()).includes('SL 2.71 µm'), 'the first frame');
+    pushSample(state, 'calf', { tS: 6, sarcomereUm: 3.04 });
+    state$.next(state);
+    await waitFor(() => plain(out.screen()).includes('SL 3.04 µm'), 'the next frame, before the end');
+    dashboard.unmount();
+    await dashboard.waitUntilExit();
+  });
+
+  it('gives its thread the colours of the terminal and no CI variable', () => {
+    const saved = { ...process.env };
+    cleanups.push(() => {
+      for (const key of Object.keys(process.env)) if (!(key in saved)) delete process.env[key];
+      Object.assign(process.env, saved);
+    });
+    Object.assign(process.env, { CI: 'true', CONTINUOUS_INTEGRATION: '1', LENGTHWISE_PROBE: 'kept' });
+    const colours = (depth: number) => ({ getColorDepth: () => depth }) as unknown as NodeJS.WriteStream;
+    const env = screenEnv(colours(8), {});
+    expect(env['CI']).toBeUndefined();
+    expect(env['CONTINUOUS_INTEGRATION']).toBeUndefined();
+    expect(env['LENGTHWISE_PROBE']).toBe('kept');
+    expect(env['FORCE_COLOR']).toBe('2');
+    expect(screenEnv(colours(24), {})['FORCE_COLOR']).toBe('3');
+    expect(screenEnv(colours(1), {})['FORCE_COLOR']).toBe('0');
+    // The main thread's own environment is left as it was.
+    expect(process.env['CI']).toBe('true');
   });
 
   it('draws on this thread when standard output has no descriptor', async () => {

@@ -17,7 +17,7 @@ import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { tap } from 'rxjs';
 import { websocketServer } from '../adapters/websocket-server.ts';
 import { runTrial } from '../src/run-trial.ts';
-import { quantile } from './stats.ts';
+import { median, quantile } from './stats.ts';
 import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
 
 /** Where the dashboard is drawn: nowhere, on the main thread, or on a thread of its own. */
@@ -58,12 +58,10 @@ export interface LiveResult {
   readonly plain: LatencyFigures;
   /** The dashboard on the main thread. */
   readonly dashboard: LatencyFigures;
-  /** The dashboard on its own thread, as the commands run it. */
-  readonly dashboardThread: LatencyFigures;
-  /** p99 with the dashboard on the main thread / p99 without (send → state). */
+  /** p99 with the dashboard on the main thread / p99 without (send → state), from separate sessions. */
   readonly dashboardP99Ratio: number;
-  /** p99 with the dashboard on its own thread / p99 without. */
-  readonly dashboardThreadP99Ratio: number;
+  /** The dashboard on its own thread, as the commands run it, switched on and off within one session. */
+  readonly switching: SwitchingFigures;
   /** The tool's p99 without the dashboard / the bare server's. */
   readonly plainToBareP99Ratio: number;
   readonly lines: readonly string[];
@@ -154,7 +152,14 @@ function sendFromDevice(port: number, options: SessionOptions): Promise<{ sample
   });
 }
 
-async function session(options: SessionOptions): Promise<LatencyFigures> {
+/** The tool's own server feeding runTrial, noting when each device time first shows in the state. */
+async function startReceiver(): Promise<{
+  readonly port: number;
+  readonly run: ReturnType<typeof runTrial>;
+  /** Device time of the newest record → the first moment a state showed it, with the pipeline time. */
+  readonly seen: ReadonlyMap<number, { readonly ns: bigint; readonly pipelineNs: bigint }>;
+  stop(): Promise<void>;
+}> {
   let port = 0;
   let listening!: () => void;
   const ready = new Promise<void>((resolve) => (listening = resolve));
@@ -169,48 +174,79 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
     },
   }).pipe(tap(() => (enteredNs = process.hrtime.bigint())));
   const run = runTrial(source$, { source: 'bench-live' });
-  /** Device time of the newest record → the first moment a state showed it, with the pipeline time. */
   const seen = new Map<number, { ns: bigint; pipelineNs: bigint }>();
   const subscription = run.state$.subscribe((state) => {
     const now = process.hrtime.bigint();
     if (!Number.isNaN(state.lastTS) && !seen.has(state.lastTS)) seen.set(state.lastTS, { ns: now, pipelineNs: now - enteredNs });
   });
-  let dashboard: { unmount(): void; waitUntilExit(): Promise<void> } | null = null;
-  const stdout = new FakeStdout();
-  // The thread writes to a file descriptor: a file here, which costs this process nothing to read.
-  const screenDir = options.dashboard === 'own' ? mkdtempSync(join(tmpdir(), 'lengthwise-bench-screen-')) : null;
-  const screenPath = screenDir === null ? null : join(screenDir, 'screen');
-  if (screenPath !== null) stdout.fd = openSync(screenPath, 'w');
-  if (options.dashboard !== 'none') {
-    const { startDashboard } = await import('../src/dashboard/start-dashboard.tsx');
-    dashboard = startDashboard({
-      state$: run.state$,
-      title: 'live bench',
-      stdout: stdout as unknown as NodeJS.WriteStream,
-      stdin: new FakeStdin() as unknown as NodeJS.ReadStream,
-      env: {},
-      onQuit: () => run.stop(),
-      thread: options.dashboard === 'own' ? 'own' : 'main',
-    });
-  }
   await ready;
+  return {
+    port,
+    run,
+    seen,
+    async stop() {
+      run.stop();
+      await run.done;
+      subscription.unsubscribe();
+    },
+  };
+}
+
+/** A stand-in terminal whose descriptor is a file, for the dashboard on its own thread; counts frames when closed. */
+function fileTerminal(): { readonly stdout: FakeStdout; close(): number } {
+  const stdout = new FakeStdout();
+  const dir = mkdtempSync(join(tmpdir(), 'lengthwise-bench-screen-'));
+  const path = join(dir, 'screen');
+  stdout.fd = openSync(path, 'w');
+  return {
+    stdout,
+    close() {
+      if (stdout.fd !== undefined) closeSync(stdout.fd);
+      // Each frame on a terminal begins with the synchronized-output bracket.
+      const frames = readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
+      rmSync(dir, { recursive: true, force: true });
+      return frames;
+    },
+  };
+}
+
+async function openDashboard(
+  run: ReturnType<typeof runTrial>,
+  stdout: FakeStdout,
+  thread: 'main' | 'own',
+): Promise<{ unmount(): void; waitUntilExit(): Promise<void> }> {
+  const { startDashboard } = await import('../src/dashboard/start-dashboard.tsx');
+  return startDashboard({
+    state$: run.state$,
+    title: 'live bench',
+    stdout: stdout as unknown as NodeJS.WriteStream,
+    stdin: new FakeStdin() as unknown as NodeJS.ReadStream,
+    env: {},
+    onQuit: () => run.stop(),
+    thread,
+  });
+}
+
+async function session(options: SessionOptions): Promise<LatencyFigures> {
+  const receiver = await startReceiver();
+  const { run, seen } = receiver;
+  let dashboard: { unmount(): void; waitUntilExit(): Promise<void> } | null = null;
+  // The thread writes to a file descriptor: a file here, which costs this process nothing to read.
+  const screen = options.dashboard === 'own' ? fileTerminal() : null;
+  const stdout = screen?.stdout ?? new FakeStdout();
+  if (options.dashboard !== 'none') dashboard = await openDashboard(run, stdout, options.dashboard);
   const delay = monitorEventLoopDelay({ resolution: 1 });
   delay.enable();
   const cpu0 = process.cpuUsage();
-  const sent = await sendFromDevice(port, options);
+  const sent = await sendFromDevice(receiver.port, options);
   const cpu = process.cpuUsage(cpu0);
   delay.disable();
   dashboard?.unmount();
   await dashboard?.waitUntilExit();
-  run.stop();
-  await run.done;
-  subscription.unsubscribe();
-  if (screenPath !== null && screenDir !== null && stdout.fd !== undefined) {
-    closeSync(stdout.fd);
-    // Each frame on a terminal begins with the synchronized-output bracket.
-    stdout.frames = readFileSync(screenPath, 'utf8').split(BEGIN_SYNC).length - 1;
+  await receiver.stop();
+  if (screen !== null) {
+    stdout.frames = screen.close();
     stdout.writes = Number.NaN;
-    rmSync(screenDir, { recursive: true, force: true });
   }
   const sendToState: number[] = [];
   const pipeline: number[] = [];
@@ -244,6 +280,92 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
   };
 }
 
+export interface SwitchingFigures {
+  readonly windowS: number;
+  readonly settleS: number;
+  /** p99 (ms) of each window in order, off first: off, on, off, …, off. */
+  readonly windowP99Ms: readonly number[];
+  /** Messages counted in each window (those of its first settleS seconds left out). */
+  readonly windowMessages: readonly number[];
+  /** Each on window's p99 over the mean of its two neighbouring off windows' p99. */
+  readonly onOffRatios: readonly number[];
+  readonly onOffRatioMedian: number;
+  /** Median over the on windows, and over the off windows, of their p99 (ms). */
+  readonly onP99Ms: number;
+  readonly offP99Ms: number;
+  readonly framesPerOnS: number;
+}
+
+/**
+ * The dashboard's effect on the p99 read in one session, so the machine's drift between sessions does
+ * not swamp it: after the warm-up, windows of windowS alternate without the dashboard and with it on
+ * its own thread (started at the window's start, unmounted at its end, as the commands run it),
+ * beginning and ending without. Each window's first settleS seconds are left out: they hold the
+ * thread's start (loading Ink and React) or its exit, which a session pays once. Each on window is read
+ * against the mean of the off windows either side of it.
+ */
+async function switchingSession(options: SessionOptions & { readonly onWindows: number; readonly windowS: number; readonly settleS: number }): Promise<SwitchingFigures> {
+  const windows = 2 * options.onWindows + 1;
+  const receiver = await startReceiver();
+  const screen = fileTerminal();
+  const shown: { current: { unmount(): void; waitUntilExit(): Promise<void> } | null } = { current: null };
+  const close = async (): Promise<void> => {
+    const d = shown.current;
+    shown.current = null;
+    d?.unmount();
+    await d?.waitUntilExit();
+  };
+  let switching = Promise.resolve();
+  const timers: NodeJS.Timeout[] = [];
+  let baseSet = false;
+  const arm = receiver.run.state$.subscribe((state) => {
+    if (baseSet || Number.isNaN(state.lastTS)) return;
+    baseSet = true;
+    for (let k = 1; k < windows; k++) {
+      const on = k % 2 === 1;
+      timers.push(
+        setTimeout(() => {
+          switching = switching.then(async () => {
+            if (on) shown.current = await openDashboard(receiver.run, screen.stdout, 'own');
+            else await close();
+          });
+        }, (options.warmupS + k * options.windowS) * 1000),
+      );
+    }
+  });
+  const sent = await sendFromDevice(receiver.port, { ...options, durationS: options.warmupS + windows * options.windowS });
+  for (const t of timers) clearTimeout(t);
+  arm.unsubscribe();
+  await switching;
+  await close();
+  await receiver.stop();
+  const frames = screen.close();
+  const byWindow: number[][] = Array.from({ length: windows }, () => []);
+  const first = sent.sends[0]?.[0] ?? 0;
+  for (const [t, ns] of sent.sends) {
+    const got = receiver.seen.get(t);
+    const sinceS = t - first - options.warmupS;
+    if (got === undefined || sinceS < 0) continue;
+    const k = Math.floor(sinceS / options.windowS);
+    if (k >= windows || sinceS - k * options.windowS < options.settleS) continue;
+    byWindow[k]?.push(Number(got.ns - BigInt(ns)) / 1e6);
+  }
+  const p99 = byWindow.map((w) => quantile(w, 0.99));
+  const ratios: number[] = [];
+  for (let k = 1; k < windows; k += 2) ratios.push((p99[k] as number) / (((p99[k - 1] as number) + (p99[k + 1] as number)) / 2));
+  return {
+    windowS: options.windowS,
+    settleS: options.settleS,
+    windowP99Ms: p99,
+    windowMessages: byWindow.map((w) => w.length),
+    onOffRatios: ratios,
+    onOffRatioMedian: median(ratios),
+    onP99Ms: median(p99.filter((_, k) => k % 2 === 1)),
+    offP99Ms: median(p99.filter((_, k) => k % 2 === 0)),
+    framesPerOnS: frames / (options.onWindows * options.windowS),
+  };
+}
+
 function line(name: string, f: LatencyFigures): string {
   return (
     `live ${name.padEnd(10)} ${f.samplesPerS.toFixed(0)} samples/s in ${f.messages} messages: send → state p50 ${f.sendToStateP50Ms.toFixed(2)} ms, ` +
@@ -257,28 +379,34 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
   const base = { rateHz: 500, muscles: 4, messageMs: 10, durationS: options.quick ? 6 : 60, warmupS: options.quick ? 1 : 10 };
   const bare = await bareSession({ ...base, dashboard: 'none' });
   const plain = await session({ ...base, dashboard: 'none' });
-  const dashboard = await session({ ...base, dashboard: 'main' });
-  const dashboardThread = await session({ ...base, dashboard: 'own' });
+  const dashboard = await session({ ...base, durationS: options.quick ? 6 : 30, dashboard: 'main' });
+  const switching = await switchingSession({
+    ...base,
+    dashboard: 'own',
+    onWindows: options.quick ? 2 : 5,
+    windowS: options.quick ? 3 : 12,
+    settleS: options.quick ? 1 : 2,
+  });
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
-  const threadRatio = dashboardThread.sendToStateP99Ms / plain.sendToStateP99Ms;
   const adds = (r: number): string => `${((r - 1) * 100).toFixed(0)}%`;
   const toBare = plain.sendToStateP99Ms / bare.sendToStateP99Ms;
+  const ms = (xs: readonly number[]): string => xs.map((x) => x.toFixed(2)).join(' ');
   return {
     ...base,
     bare,
     plain,
     plainToBareP99Ratio: toBare,
     dashboard,
-    dashboardThread,
     dashboardP99Ratio: ratio,
-    dashboardThreadP99Ratio: threadRatio,
+    switching,
     lines: [
       `live bare       ${bare.samplesPerS.toFixed(0)} samples/s in ${bare.messages} messages: send → receipt and parse, p50 ${bare.sendToStateP50Ms.toFixed(2)} ms, p99 ${bare.sendToStateP99Ms.toFixed(2)} ms (max ${bare.sendToStateMaxMs.toFixed(1)}; warm-up p99 ${bare.warmupP99Ms.toFixed(2)}); CPU ${bare.cpuMsPerS.toFixed(0)} ms/s`,
       line('plain', plain),
       line('dash main', dashboard),
-      line('dash own', dashboardThread),
-      `live the tool's p99 is ${toBare.toFixed(2)}× a bare WebSocket server's`,
-      `live dashboard adds ${adds(threadRatio)} to the p99 on its own thread (as the commands run it), ${adds(ratio)} on the main thread`,
+      `live the tool's p99 is ${toBare.toFixed(2)}× a bare WebSocket server's; the dashboard on the main thread adds ${adds(ratio)} to it (separate sessions)`,
+      `live dash own   ${switching.windowS} s windows without/with the dashboard on its own thread (${switching.framesPerOnS.toFixed(1)} frames/s), ` +
+        `first ${switching.settleS} s of each left out: p99 ${ms(switching.windowP99Ms)} ms`,
+      `live dashboard on its own thread adds ${adds(switching.onOffRatioMedian)} to the p99 (median of ${switching.onOffRatios.length} windows against their neighbours: ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')}); p99 with ${switching.onP99Ms.toFixed(2)} ms, without ${switching.offP99Ms.toFixed(2)} ms`,
     ],
   };
 }

@@ -18,6 +18,7 @@ import { tap } from 'rxjs';
 import { websocketServer } from '../adapters/websocket-server.ts';
 import { runTrial } from '../src/run-trial.ts';
 import { median, quantile } from './stats.ts';
+import { createPrng } from '../src/sim/prng.ts';
 import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
 
 /** Where the dashboard is drawn: nowhere, on the main thread, or on a thread of its own. */
@@ -293,6 +294,13 @@ export interface SwitchingFigures {
   /** Median over the on windows, and over the off windows, of their p99 (ms). */
   readonly onP99Ms: number;
   readonly offP99Ms: number;
+  /** p99 (ms) of all the on windows' messages together, and of all the off windows'. */
+  readonly pooledOnP99Ms: number;
+  readonly pooledOffP99Ms: number;
+  /** pooledOnP99Ms / pooledOffP99Ms: the figure read against the target. */
+  readonly pooledRatio: number;
+  /** 95% interval of pooledRatio, from resampling whole windows (seeded bootstrap, 1000 draws). */
+  readonly pooledRatioInterval: readonly [number, number];
   readonly framesPerOnS: number;
 }
 
@@ -353,6 +361,15 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
   const p99 = byWindow.map((w) => quantile(w, 0.99));
   const ratios: number[] = [];
   for (let k = 1; k < windows; k += 2) ratios.push((p99[k] as number) / (((p99[k - 1] as number) + (p99[k + 1] as number)) / 2));
+  const on = byWindow.filter((_, k) => k % 2 === 1);
+  const off = byWindow.filter((_, k) => k % 2 === 0);
+  const pooledP99 = (ws: readonly (readonly number[])[]): number => quantile(ws.flat(), 0.99);
+  const pooledRatio = pooledP99(on) / pooledP99(off);
+  // Windows, not messages, are resampled: messages close in time share the machine's moment.
+  const prng = createPrng(2026);
+  const draw = (ws: readonly (readonly number[])[]): (readonly number[])[] => ws.map(() => ws[Math.floor(prng.next() * ws.length)] ?? []);
+  const draws: number[] = [];
+  for (let i = 0; i < 1000; i++) draws.push(pooledP99(draw(on)) / pooledP99(draw(off)));
   return {
     windowS: options.windowS,
     settleS: options.settleS,
@@ -363,6 +380,10 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
     onP99Ms: median(p99.filter((_, k) => k % 2 === 1)),
     offP99Ms: median(p99.filter((_, k) => k % 2 === 0)),
     framesPerOnS: frames / (options.onWindows * options.windowS),
+    pooledOnP99Ms: pooledP99(on),
+    pooledOffP99Ms: pooledP99(off),
+    pooledRatio,
+    pooledRatioInterval: [quantile(draws, 0.025), quantile(draws, 0.975)],
   };
 }
 
@@ -383,8 +404,8 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
   const switching = await switchingSession({
     ...base,
     dashboard: 'own',
-    onWindows: options.quick ? 2 : 5,
-    windowS: options.quick ? 3 : 12,
+    onWindows: options.quick ? 2 : 10,
+    windowS: options.quick ? 3 : 10,
     settleS: options.quick ? 1 : 2,
   });
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
@@ -406,7 +427,9 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
       `live the tool's p99 is ${toBare.toFixed(2)}× a bare WebSocket server's; the dashboard on the main thread adds ${adds(ratio)} to it (separate sessions)`,
       `live dash own   ${switching.windowS} s windows without/with the dashboard on its own thread (${switching.framesPerOnS.toFixed(1)} frames/s), ` +
         `first ${switching.settleS} s of each left out: p99 ${ms(switching.windowP99Ms)} ms`,
-      `live dashboard on its own thread adds ${adds(switching.onOffRatioMedian)} to the p99 (median of ${switching.onOffRatios.length} windows against their neighbours: ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')}); p99 with ${switching.onP99Ms.toFixed(2)} ms, without ${switching.offP99Ms.toFixed(2)} ms`,
+      `live dashboard on its own thread adds ${adds(switching.pooledRatio)} to the p99 (95% interval ${adds(switching.pooledRatioInterval[0])} to ${adds(switching.pooledRatioInterval[1])}): ` +
+        `p99 ${switching.pooledOnP99Ms.toFixed(2)} ms with it, ${switching.pooledOffP99Ms.toFixed(2)} ms without, over all windows of each; ` +
+        `window by window against its neighbours ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')} (median ${switching.onOffRatioMedian.toFixed(2)})`,
     ],
   };
 }

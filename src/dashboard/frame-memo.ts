@@ -8,17 +8,17 @@
  */
 
 /**
- * `compute` memoized over at most about `limit` recent keys: when the young generation fills, it becomes
- * the old one and the oldest is dropped, so keys in use every frame stay, and a stream of keys seen
- * once (changing numbers) cannot grow it without bound.
+ * A cache of at most about `limit` recent keys: when the young generation fills, it becomes the old one
+ * and the oldest is dropped, so keys in use every frame stay, and a stream of keys seen once (changing
+ * numbers) cannot grow it without bound. `compute` runs on a miss.
  */
-export function generationMemo<K, V>(compute: (key: K) => V, limit: number): (key: K) => V {
+export function generationCache<K, V>(limit: number): (key: K, compute: () => V) => V {
   const half = Math.max(1, Math.floor(limit / 2));
   let young = new Map<K, V>();
   let old = new Map<K, V>();
-  return (key: K): V => {
+  return (key: K, compute: () => V): V => {
     if (young.has(key)) return young.get(key) as V;
-    const value = old.has(key) ? (old.get(key) as V) : compute(key);
+    const value = old.has(key) ? (old.get(key) as V) : compute();
     young.set(key, value);
     if (young.size >= half) {
       old = young;
@@ -26,6 +26,12 @@ export function generationMemo<K, V>(compute: (key: K) => V, limit: number): (ke
     }
     return value;
   };
+}
+
+/** `compute` memoized over a generationCache of `limit` keys. */
+export function generationMemo<K, V>(compute: (key: K) => V, limit: number): (key: K) => V {
+  const cache = generationCache<K, V>(limit);
+  return (key: K): V => cache(key, () => compute(key));
 }
 
 type StringWidth = (text: string, options?: object) => number;
@@ -38,9 +44,10 @@ export interface MemoCounts {
 }
 
 /** How the memos of this thread have done (diagnostics: tests and the benchmark read them). */
-export const frameMemoCounts: { readonly width: MemoCounts; readonly tokens: MemoCounts } = {
+export const frameMemoCounts: { readonly width: MemoCounts; readonly tokens: MemoCounts; readonly styles: MemoCounts } = {
   width: { calls: 0, computed: 0 },
   tokens: { calls: 0, computed: 0 },
+  styles: { calls: 0, computed: 0 },
 };
 
 function counted<K, V>(counts: MemoCounts, compute: (key: K) => V): (key: K) => V {
@@ -89,5 +96,68 @@ export function memoizeTokens<Token, StyledChar>(real: TokenizeModule<Token, Sty
       }
       return chars;
     },
+  };
+}
+
+interface Code {
+  readonly code: string;
+  readonly endCode: string;
+}
+
+interface StylesModule<C extends Code> {
+  diffAnsiCodes(from: C[], to: C[]): C[];
+  ansiCodesToString(codes: C[]): string;
+}
+
+/**
+ * styledCharsToString (@alcalzone/ansi-tokenize), which Ink runs on every row of every frame, with the
+ * escape codes between two neighbouring cells memoized by the two cells' styles. It is the library's
+ * own loop, calling the library's diffAnsiCodes and ansiCodesToString; only their result for a pair of
+ * styles already seen is reused. Styles are told apart by their codes, so an empty style (every blank
+ * cell has a fresh one) is the same as any other.
+ */
+export function memoizeStyledString<C extends Code>(real: StylesModule<C>, limit = 4096): (chars: readonly { readonly value: string; readonly styles: C[] }[]) => string {
+  const counts = frameMemoCounts.styles;
+  const keys = new WeakMap<C[], string>();
+  const keyOf = (styles: C[]): string => {
+    if (styles.length === 0) return '';
+    let key = keys.get(styles);
+    if (key === undefined) {
+      key = styles.map((c) => `${c.code}\u0000${c.endCode}`).join('\u0001');
+      keys.set(styles, key);
+    }
+    return key;
+  };
+  const NONE: C[] = [];
+  const cache = generationCache<string, string>(limit);
+  const computed = (text: () => string) => (): string => {
+    counts.computed++;
+    return text();
+  };
+  const transition = (from: C[], to: C[]): string => {
+    counts.calls++;
+    const a = keyOf(from);
+    const b = keyOf(to);
+    // From a style to the same style takes no codes (diffAnsiCodes gives none): most neighbours.
+    if (a === b) return '';
+    return cache(`${a}\u0002${b}`, computed(() => real.ansiCodesToString(real.diffAnsiCodes(from, to))));
+  };
+  const opening = (styles: C[]): string => {
+    counts.calls++;
+    return cache(`\u0003${keyOf(styles)}`, computed(() => real.ansiCodesToString(styles)));
+  };
+  return (chars) => {
+    let text = '';
+    for (let i = 0; i < chars.length; i++) {
+      const char = chars[i] as (typeof chars)[number];
+      if (i === 0) {
+        text += opening(char.styles);
+      } else {
+        text += transition((chars[i - 1] as (typeof chars)[number]).styles, char.styles);
+      }
+      text += char.value;
+      if (i === chars.length - 1) text += transition(char.styles, NONE);
+    }
+    return text;
   };
 }

@@ -11,7 +11,7 @@ import * as tokenizeLib from '@alcalzone/ansi-tokenize';
 import fc from 'fast-check';
 import stringWidth from 'string-width';
 import { describe, expect, it } from 'vitest';
-import { generationMemo, memoizeTokens, memoizeWidth } from '../../src/dashboard/frame-memo.ts';
+import { generationMemo, memoizeStyledString, memoizeTokens, memoizeWidth } from '../../src/dashboard/frame-memo.ts';
 // @ts-expect-error a plain-JavaScript module of Node's module hooks, with no declarations
 import { resolve } from '../../src/dashboard/frame-memo-hooks.js';
 
@@ -98,6 +98,33 @@ describe('memoizeTokens', () => {
   });
 });
 
+describe('memoizeStyledString', () => {
+  /** A row of Ink's grid: the styled characters of some lines, with blank cells (a fresh empty style each) between. */
+  const row = fc.array(fc.oneof(line, fc.integer({ min: 1, max: 6 })), { maxLength: 8 }).map((parts) =>
+    parts.flatMap((part) =>
+      typeof part === 'number'
+        ? Array.from({ length: part }, () => ({ type: 'char' as const, value: ' ', fullWidth: false, styles: [] }))
+        : tokenizeLib.styledCharsFromTokens(tokenizeLib.tokenize(part)),
+    ),
+  );
+
+  it('turns every row back into the string @alcalzone/ansi-tokenize makes of it, the first time and every time after', () => {
+    const toString = memoizeStyledString(tokenizeLib, 16);
+    fc.assert(
+      fc.property(fc.array(row, { maxLength: 10 }), (rows) => {
+        for (const r of [...rows, ...rows]) expect(toString(r)).toBe(tokenizeLib.styledCharsToString(r));
+      }),
+    );
+  });
+
+  it('gives the empty string for an empty row and a lone character with its codes around it', () => {
+    const toString = memoizeStyledString(tokenizeLib);
+    expect(toString([])).toBe('');
+    const one = tokenizeLib.styledCharsFromTokens(tokenizeLib.tokenize('\u001B[1m\u001B[31m█\u001B[39m\u001B[22m'));
+    expect(toString(one)).toBe(tokenizeLib.styledCharsToString(one));
+  });
+});
+
 describe('the screen thread module hooks', () => {
   const inside = pathToFileURL(join(REPO, 'node_modules', 'ink', 'build', 'output.js')).href;
   const real = (url: string) => async () => ({ url, format: 'module' });
@@ -130,7 +157,7 @@ describe('the screen thread module hooks', () => {
           .trim()
           .split('\n')
           .pop() ?? '{}',
-      ) as { digest: string; writes: number; counts: { width: { calls: number; computed: number }; tokens: { calls: number; computed: number } } };
+      ) as { digest: string; writes: number; counts: Record<'width' | 'tokens' | 'styles', { calls: number; computed: number }> };
     const plain = draw('30');
     const memo = draw('memo', '30');
     expect(plain.writes).toBeGreaterThan(30);
@@ -139,5 +166,6 @@ describe('the screen thread module hooks', () => {
     expect(plain.counts.width.calls).toBe(0);
     expect(memo.counts.width.computed).toBeLessThan(memo.counts.width.calls / 4);
     expect(memo.counts.tokens.computed).toBeLessThan(memo.counts.tokens.calls / 2);
+    expect(memo.counts.styles.computed).toBeLessThan(memo.counts.styles.calls / 100);
   });
 });

@@ -302,6 +302,9 @@ export interface SwitchingFigures {
   /** 95% interval of pooledRatio, from resampling whole windows (seeded bootstrap, 1000 draws). */
   readonly pooledRatioInterval: readonly [number, number];
   readonly framesPerOnS: number;
+  /** Median over the on windows, and over the off windows, of the process's CPU per second (ms/s), settled part only. */
+  readonly onCpuMsPerS: number;
+  readonly offCpuMsPerS: number;
 }
 
 /**
@@ -326,9 +329,18 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
   let switching = Promise.resolve();
   const timers: NodeJS.Timeout[] = [];
   let baseSet = false;
+  /** Process CPU at each window's settled start and at its end (all threads: the screen's included). */
+  const cpuFrom: NodeJS.CpuUsage[] = [];
+  const cpuTo: NodeJS.CpuUsage[] = [];
   const arm = receiver.run.state$.subscribe((state) => {
     if (baseSet || Number.isNaN(state.lastTS)) return;
     baseSet = true;
+    for (let k = 0; k < windows; k++) {
+      const startMs = (options.warmupS + k * options.windowS) * 1000;
+      timers.push(setTimeout(() => (cpuFrom[k] = process.cpuUsage()), startMs + options.settleS * 1000));
+      // Set before the switch due at the same moment, so it fires first.
+      timers.push(setTimeout(() => (cpuTo[k] = process.cpuUsage()), startMs + options.windowS * 1000));
+    }
     for (let k = 1; k < windows; k++) {
       const on = k % 2 === 1;
       timers.push(
@@ -359,6 +371,12 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
     byWindow[k]?.push(Number(got.ns - BigInt(ns)) / 1e6);
   }
   const p99 = byWindow.map((w) => quantile(w, 0.99));
+  const cpuMsPerS = byWindow.map((_, k) => {
+    const from = cpuFrom[k];
+    const to = cpuTo[k];
+    if (from === undefined || to === undefined) return Number.NaN;
+    return (to.user - from.user + to.system - from.system) / 1000 / (options.windowS - options.settleS);
+  });
   const ratios: number[] = [];
   for (let k = 1; k < windows; k += 2) ratios.push((p99[k] as number) / (((p99[k - 1] as number) + (p99[k + 1] as number)) / 2));
   const on = byWindow.filter((_, k) => k % 2 === 1);
@@ -380,6 +398,8 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
     onP99Ms: median(p99.filter((_, k) => k % 2 === 1)),
     offP99Ms: median(p99.filter((_, k) => k % 2 === 0)),
     framesPerOnS: frames / (options.onWindows * options.windowS),
+    onCpuMsPerS: median(cpuMsPerS.filter((_, k) => k % 2 === 1)),
+    offCpuMsPerS: median(cpuMsPerS.filter((_, k) => k % 2 === 0)),
     pooledOnP99Ms: pooledP99(on),
     pooledOffP99Ms: pooledP99(off),
     pooledRatio,
@@ -426,7 +446,7 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
       line('dash main', dashboard),
       `live the tool's p99 is ${toBare.toFixed(2)}× a bare WebSocket server's; the dashboard on the main thread adds ${adds(ratio)} to it (separate sessions)`,
       `live dash own   ${switching.windowS} s windows without/with the dashboard on its own thread (${switching.framesPerOnS.toFixed(1)} frames/s), ` +
-        `first ${switching.settleS} s of each left out: p99 ${ms(switching.windowP99Ms)} ms`,
+        `first ${switching.settleS} s of each left out: p99 ${ms(switching.windowP99Ms)} ms; CPU ${switching.onCpuMsPerS.toFixed(0)} ms/s with it, ${switching.offCpuMsPerS.toFixed(0)} without`,
       `live dashboard on its own thread adds ${adds(switching.pooledRatio)} to the p99 (95% interval ${adds(switching.pooledRatioInterval[0])} to ${adds(switching.pooledRatioInterval[1])}): ` +
         `p99 ${switching.pooledOnP99Ms.toFixed(2)} ms with it, ${switching.pooledOffP99Ms.toFixed(2)} ms without, over all windows of each; ` +
         `window by window against its neighbours ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')} (median ${switching.onOffRatioMedian.toFixed(2)})`,

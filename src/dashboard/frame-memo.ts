@@ -7,31 +7,50 @@
  * (frame-memo-hooks.js); the results are the same values, computed once.
  */
 
+export interface GenerationCache<K, V> {
+  get(key: K): V | undefined;
+  set(key: K, value: V): void;
+}
+
 /**
  * A cache of at most about `limit` recent keys: when the young generation fills, it becomes the old one
- * and the oldest is dropped, so keys in use every frame stay, and a stream of keys seen once (changing
- * numbers) cannot grow it without bound. `compute` runs on a miss.
+ * and the oldest is dropped, so keys in use every frame stay (a hit in the old one moves it back to the
+ * young), and a stream of keys seen once (changing numbers) cannot grow it without bound.
  */
-export function generationCache<K, V>(limit: number): (key: K, compute: () => V) => V {
+export function generationCache<K, V>(limit: number): GenerationCache<K, V> {
   const half = Math.max(1, Math.floor(limit / 2));
   let young = new Map<K, V>();
   let old = new Map<K, V>();
-  return (key: K, compute: () => V): V => {
-    if (young.has(key)) return young.get(key) as V;
-    const value = old.has(key) ? (old.get(key) as V) : compute();
+  const set = (key: K, value: V): void => {
     young.set(key, value);
     if (young.size >= half) {
       old = young;
       young = new Map();
     }
-    return value;
+  };
+  return {
+    get(key: K): V | undefined {
+      const value = young.get(key);
+      if (value !== undefined) return value;
+      const kept = old.get(key);
+      if (kept !== undefined) set(key, kept);
+      return kept;
+    },
+    set,
   };
 }
 
-/** `compute` memoized over a generationCache of `limit` keys. */
+/** `compute` memoized over a generationCache of `limit` keys (a value undefined is computed again). */
 export function generationMemo<K, V>(compute: (key: K) => V, limit: number): (key: K) => V {
   const cache = generationCache<K, V>(limit);
-  return (key: K): V => cache(key, () => compute(key));
+  return (key: K): V => {
+    let value = cache.get(key);
+    if (value === undefined) {
+      value = compute(key);
+      cache.set(key, value);
+    }
+    return value;
+  };
 }
 
 type StringWidth = (text: string, options?: object) => number;
@@ -130,21 +149,31 @@ export function memoizeStyledString<C extends Code>(real: StylesModule<C>, limit
   };
   const NONE: C[] = [];
   const cache = generationCache<string, string>(limit);
-  const computed = (text: () => string) => (): string => {
-    counts.computed++;
-    return text();
-  };
   const transition = (from: C[], to: C[]): string => {
     counts.calls++;
     const a = keyOf(from);
     const b = keyOf(to);
     // From a style to the same style takes no codes (diffAnsiCodes gives none): most neighbours.
     if (a === b) return '';
-    return cache(`${a}\u0002${b}`, computed(() => real.ansiCodesToString(real.diffAnsiCodes(from, to))));
+    const key = `${a}\u0002${b}`;
+    let codes = cache.get(key);
+    if (codes === undefined) {
+      counts.computed++;
+      codes = real.ansiCodesToString(real.diffAnsiCodes(from, to));
+      cache.set(key, codes);
+    }
+    return codes;
   };
   const opening = (styles: C[]): string => {
     counts.calls++;
-    return cache(`\u0003${keyOf(styles)}`, computed(() => real.ansiCodesToString(styles)));
+    const key = `\u0003${keyOf(styles)}`;
+    let codes = cache.get(key);
+    if (codes === undefined) {
+      counts.computed++;
+      codes = real.ansiCodesToString(styles);
+      cache.set(key, codes);
+    }
+    return codes;
   };
   return (chars) => {
     let text = '';

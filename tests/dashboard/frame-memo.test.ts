@@ -48,7 +48,7 @@ describe('generationMemo', () => {
     expect(computed).toBe(before + 1);
   });
 
-  it('handles empty, one and many keys, and keys whose value is undefined', () => {
+  it('handles empty, one and many keys, and values that are undefined (computed again, never wrong)', () => {
     const memo = generationMemo((key: string) => (key === '' ? undefined : key), 4);
     expect(memo('')).toBeUndefined();
     expect(memo('')).toBeUndefined();

@@ -44,20 +44,31 @@ for (const n of names) startStride(state, n, { slMinUm: 2.5, slMaxUm: 2.6 });
 for (let k = 0; k < 6; k++) for (const n of names) completeStride(state, n, { slMinUm: 2.3, slMaxUm: 3.1, regionFraction: { plateau: 0.6, descending: 0.4 } });
 const tracker = createTracker();
 const frames$ = new Subject<TrialFrame>();
+let rendered = 0;
 const instance = render(<Dashboard frames$={frames$} title="memo check" color={true} onQuit={() => {}} />, {
   stdout: stdout as unknown as NodeJS.WriteStream,
   stdin: stdin as unknown as NodeJS.ReadStream,
   exitOnCtrlC: false,
   patchConsole: false,
   maxFps: 1000,
+  onRender: () => void rendered++,
 });
 const turn = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
+/** Each frame is drawn before the next is given, however busy the machine: the same renders every run. */
+async function drawn(count: number): Promise<void> {
+  const until = Date.now() + 20_000;
+  while (rendered < count) {
+    if (Date.now() > until) throw new Error(`render ${count} did not happen within 20 s`);
+    await turn();
+  }
+}
+await drawn(1);
 let tS = 0;
 for (let i = 0; i < frameCount; i++) {
   for (let k = 0; k < 20; k++) for (const n of names) pushSample(state, n, { tS: (tS += 0.0005), sarcomereUm: 2.7 + 0.4 * Math.sin(tS * 6) });
+  const before = rendered;
   frames$.next({ view: observeTrial(tracker, state, i * 80), status: {} });
-  await turn();
-  await turn();
+  await drawn(before + 1);
 }
 instance.unmount();
 await instance.waitUntilExit();

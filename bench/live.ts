@@ -5,8 +5,8 @@
  * ws.send in the device process) to the updated state, an upper bound of receipt → state since it
  * also holds the loopback and the WebSocket framing; and the time from the adapter's output to the
  * updated state (decoding excluded). Measured without the dashboard, with it drawn on the main thread
- * into a fake terminal, and with it on its own thread (as the commands run it) writing a file in
- * place of the terminal, each at its own frame rate.
+ * into a fake terminal, and, in one session of alternating windows, without it and with it on its own
+ * thread (as the commands run it) writing a file in place of the terminal.
  */
 import { execFile } from 'node:child_process';
 import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';

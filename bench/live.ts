@@ -83,6 +83,50 @@ interface SessionOptions {
 
 const here = dirname(fileURLToPath(import.meta.url));
 
+/** When a message's device time first showed on the receiving side, and its pipeline time (0 where none). */
+type Seen = ReadonlyMap<number, { readonly ns: bigint; readonly pipelineNs: bigint }>;
+
+/** Each sent message that was seen: seconds since the first send, send → seen (ms), pipeline time (ms). */
+function perMessage(sent: { readonly sends: readonly [number, string][] }, seen: Seen): { sinceS: number; ms: number; pipelineMs: number }[] {
+  const first = sent.sends[0]?.[0] ?? 0;
+  const out: { sinceS: number; ms: number; pipelineMs: number }[] = [];
+  for (const [t, ns] of sent.sends) {
+    const got = seen.get(t);
+    if (got !== undefined) out.push({ sinceS: t - first, ms: Number(got.ns - BigInt(ns)) / 1e6, pipelineMs: Number(got.pipelineNs) / 1e6 });
+  }
+  return out;
+}
+
+/** A session's latency figures: its messages after the warm-up, the warm-up's p99 apart. */
+function latencyFigures(
+  sent: { readonly samples: number; readonly sends: readonly [number, string][] },
+  seen: Seen,
+  options: SessionOptions,
+  rest: Pick<LatencyFigures, 'frames' | 'writes' | 'loopDelayP99Ms'> & { readonly cpu: NodeJS.CpuUsage },
+): LatencyFigures {
+  const messages = perMessage(sent, seen);
+  const after = messages.filter((m) => m.sinceS >= options.warmupS);
+  const sendToState = after.map((m) => m.ms);
+  const pipeline = after.map((m) => m.pipelineMs);
+  const warmup = messages.filter((m) => m.sinceS < options.warmupS).map((m) => m.ms);
+  return {
+    messages: sendToState.length,
+    samples: sent.samples,
+    samplesPerS: sent.samples / options.durationS,
+    sendToStateP50Ms: quantile(sendToState, 0.5),
+    sendToStateP99Ms: quantile(sendToState, 0.99),
+    warmupP99Ms: quantile(warmup, 0.99),
+    sendToStateMaxMs: quantile(sendToState, 1),
+    pipelineP50Ms: quantile(pipeline, 0.5),
+    pipelineP99Ms: quantile(pipeline, 0.99),
+    frames: rest.frames,
+    framesPerS: rest.frames / options.durationS,
+    writes: rest.writes,
+    cpuMsPerS: (rest.cpu.user + rest.cpu.system) / 1000 / options.durationS,
+    loopDelayP99Ms: rest.loopDelayP99Ms,
+  };
+}
+
 /**
  * The floor of send → receipt on this machine: a bare `ws` server that only parses each message to find
  * its last device time, with no adapter, pipeline or state. The tool's p99 is read against it.
@@ -92,42 +136,20 @@ async function bareSession(options: SessionOptions): Promise<LatencyFigures> {
   const server = new WebSocketServer({ host: '127.0.0.1', port: 0 });
   await new Promise<void>((resolve) => server.once('listening', () => resolve()));
   const port = (server.address() as { port: number }).port;
-  const seen = new Map<number, bigint>();
+  const seen = new Map<number, { ns: bigint; pipelineNs: bigint }>();
   server.on('connection', (ws) =>
     ws.on('message', (data) => {
       const now = process.hrtime.bigint();
       const records = JSON.parse(String(data)) as unknown;
       const last = Array.isArray(records) ? (records.at(-1) as { t?: unknown } | undefined) : undefined;
-      if (typeof last?.t === 'number' && !seen.has(last.t)) seen.set(last.t, now);
+      if (typeof last?.t === 'number' && !seen.has(last.t)) seen.set(last.t, { ns: now, pipelineNs: 0n });
     }),
   );
   const cpu0 = process.cpuUsage();
   const sent = await sendFromDevice(port, options);
   const cpu = process.cpuUsage(cpu0);
   await new Promise<void>((resolve) => server.close(() => resolve()));
-  const latencies: number[] = [];
-  const warmup: number[] = [];
-  const first = sent.sends[0]?.[0] ?? 0;
-  for (const [t, ns] of sent.sends) {
-    const got = seen.get(t);
-    if (got !== undefined) (t - first < options.warmupS ? warmup : latencies).push(Number(got - BigInt(ns)) / 1e6);
-  }
-  return {
-    messages: latencies.length,
-    samples: sent.samples,
-    samplesPerS: sent.samples / options.durationS,
-    sendToStateP50Ms: quantile(latencies, 0.5),
-    sendToStateP99Ms: quantile(latencies, 0.99),
-    warmupP99Ms: quantile(warmup, 0.99),
-    sendToStateMaxMs: quantile(latencies, 1),
-    pipelineP50Ms: 0,
-    pipelineP99Ms: 0,
-    frames: 0,
-    framesPerS: 0,
-    writes: 0,
-    cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.durationS,
-    loopDelayP99Ms: Number.NaN,
-  };
+  return latencyFigures(sent, seen, options, { frames: 0, writes: 0, loopDelayP99Ms: Number.NaN, cpu });
 }
 
 /** Runs the simulated device against a server on `port` until it has sent its stream. */
@@ -249,36 +271,7 @@ async function session(options: SessionOptions): Promise<LatencyFigures> {
     stdout.frames = screen.close();
     stdout.writes = Number.NaN;
   }
-  const sendToState: number[] = [];
-  const pipeline: number[] = [];
-  const first = sent.sends[0]?.[0] ?? 0;
-  const warmup: number[] = [];
-  for (const [t, ns] of sent.sends) {
-    const got = seen.get(t);
-    if (got === undefined) continue;
-    if (t - first < options.warmupS) {
-      warmup.push(Number(got.ns - BigInt(ns)) / 1e6);
-      continue;
-    }
-    sendToState.push(Number(got.ns - BigInt(ns)) / 1e6);
-    pipeline.push(Number(got.pipelineNs) / 1e6);
-  }
-  return {
-    messages: sendToState.length,
-    samples: sent.samples,
-    samplesPerS: sent.samples / options.durationS,
-    sendToStateP50Ms: quantile(sendToState, 0.5),
-    sendToStateP99Ms: quantile(sendToState, 0.99),
-    warmupP99Ms: quantile(warmup, 0.99),
-    sendToStateMaxMs: quantile(sendToState, 1),
-    pipelineP50Ms: quantile(pipeline, 0.5),
-    pipelineP99Ms: quantile(pipeline, 0.99),
-    frames: stdout.frames,
-    framesPerS: stdout.frames / options.durationS,
-    writes: stdout.writes,
-    cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.durationS,
-    loopDelayP99Ms: delay.percentile(99) / 1e6,
-  };
+  return latencyFigures(sent, seen, options, { frames: stdout.frames, writes: stdout.writes, loopDelayP99Ms: delay.percentile(99) / 1e6, cpu });
 }
 
 export interface SwitchingFigures {
@@ -361,14 +354,12 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
   await receiver.stop();
   const frames = screen.close();
   const byWindow: number[][] = Array.from({ length: windows }, () => []);
-  const first = sent.sends[0]?.[0] ?? 0;
-  for (const [t, ns] of sent.sends) {
-    const got = receiver.seen.get(t);
-    const sinceS = t - first - options.warmupS;
-    if (got === undefined || sinceS < 0) continue;
+  for (const m of perMessage(sent, receiver.seen)) {
+    const sinceS = m.sinceS - options.warmupS;
+    if (sinceS < 0) continue;
     const k = Math.floor(sinceS / options.windowS);
     if (k >= windows || sinceS - k * options.windowS < options.settleS) continue;
-    byWindow[k]?.push(Number(got.ns - BigInt(ns)) / 1e6);
+    byWindow[k]?.push(m.ms);
   }
   const p99 = byWindow.map((w) => quantile(w, 0.99));
   const cpuMsPerS = byWindow.map((_, k) => {

@@ -21,7 +21,7 @@ import StatusBar from './status-bar.tsx';
 import { createTheme } from './theme.ts';
 import { useTerminalSize } from './use-terminal-size.ts';
 import { firstFrame, trialFrames, type TrialFrame } from './trial-frames.ts';
-import { useFrames } from './use-trial-frame.ts';
+import { useFrames } from './use-frames.ts';
 import { detectAlerts } from './view-model.ts';
 import { sameAlerts, type Alert } from './alerts.ts';
 
@@ -188,7 +188,6 @@ export default function Dashboard(props: Props) {
                 layout={layout}
                 theme={theme}
                 focused={i === focus && muscleCount > 1}
-                probability={status.regionProbability?.[m.name]}
               />
             ),
           )}

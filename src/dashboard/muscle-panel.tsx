@@ -3,7 +3,7 @@
  * recent sarcomere lengths, and its last strides.
  */
 import { Box, Text } from 'ink';
-import { REGION_LABEL, type RegionKey } from '../model/regions.ts';
+import { REGION_LABEL } from '../model/regions.ts';
 import CurvePlot from './curve-plot.tsx';
 import { fixed, percent, signed } from './format.ts';
 import type { Layout } from './layout.ts';
@@ -18,8 +18,6 @@ export interface Props {
   readonly theme: Theme;
   /** The muscle keys such as c act on. @default false */
   readonly focused?: boolean;
-  /** Region probabilities from the status stream; the trial state's own, when present, win. */
-  readonly probability?: Partial<Readonly<Record<RegionKey, number>>> | undefined;
 }
 
 /** Inner width of a panel: its columns less border and padding. */
@@ -41,13 +39,13 @@ function calibrationText(source: string | null): { readonly full: string; readon
   }
 }
 
-export default function MusclePanel({ muscle, layout, theme, focused = false, probability }: Props) {
+export default function MusclePanel({ muscle, layout, theme, focused = false }: Props) {
   const width = innerCols(layout.panelCols);
   const s = muscle.latest;
   const sl = s?.sarcomereUm ?? Number.NaN;
   const region = s?.region ?? null;
   const side = muscle.side === null ? 'side unknown' : muscle.sideSource === 'assumed' ? `${muscle.side}?` : muscle.side;
-  const probabilities = muscle.regionProbability ?? probability;
+  const probabilities = muscle.regionProbability;
   const regionP = region === null ? undefined : probabilities?.[region];
   const spark = layout.showSparkline ? sparkline(muscle.history, Math.max(0, width - 18)) : null;
   const calibrated = muscle.calibrationSource !== null && muscle.calibrationSource !== 'baseline';

@@ -4,7 +4,6 @@
  * Fed as an Observable; each emission is merged field by field into the previous one, so several
  * producers can each send only their own fields. Send a field as `undefined` to clear it.
  */
-import type { RegionKey } from '../model/regions.ts';
 
 export type ConnectionState = 'connected' | 'reconnecting' | 'ended' | 'listening';
 
@@ -30,8 +29,6 @@ export interface DashboardStatus {
   /** Where the session log is being written. */
   readonly logPath?: string | undefined;
   readonly replay?: ReplayStatus | undefined;
-  /** Per muscle, the probability of each region of the force–length curve (0–1), when the model gives them. */
-  readonly regionProbability?: Readonly<Record<string, Partial<Readonly<Record<RegionKey, number>>>>> | undefined;
   /** A short message for the person at the screen (e.g. "calibration applied to calf"). */
   readonly message?: string | undefined;
 }

@@ -4,17 +4,10 @@ import type { Batch } from '../records.ts';
 export interface GateQualityOptions {
   /** Below this tracking quality a sample is weighed down by the filter. @default 0.5 */
   readonly weighBelow?: number;
-  /** Below this a sample is skipped: it gets no estimate and counts as dropout time. @default 0.2 */
-  readonly skipBelow?: number;
 }
 
 export const DEFAULT_WEIGH_BELOW = 0.5;
 export const DEFAULT_SKIP_BELOW = 0.2;
-
-/** True when a sample of this quality is skipped; the smoothing stage asks the same question. */
-export function isSkipped(quality: number, skipBelow: number = DEFAULT_SKIP_BELOW): boolean {
-  return quality < skipBelow;
-}
 
 /** Flags samples whose tracking quality is low; they stay accepted (and counted) but weigh less or not at all. */
 export function gateQuality(options: GateQualityOptions = {}): OperatorFunction<Batch, Batch> {

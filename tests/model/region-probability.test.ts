@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { makeStrideRegionAccumulator, regionProbabilities, regionProbabilityRecord, strideRegionFractions } from '../../src/model/region-probability.ts';
+import { regionProbabilities, regionProbabilityRecord, strideRegionFractions } from '../../src/model/region-probability.ts';
 import { regionAt } from '../../src/model/geometry.ts';
 import { REGION_KEYS, regionIndex } from '../../src/model/regions.ts';
 import { SPECIES, speciesCurve } from '../../src/model/species.ts';
@@ -123,45 +123,5 @@ describe('strideRegionFractions', () => {
     const r = strideRegionFractions(human, [2.7, 3.5], [0.03, 0.01], 0);
     expect(r.expected.plateau).toBeCloseTo(0.75, 12);
     expect(r.expected.descending).toBeCloseTo(0.25, 12);
-  });
-});
-
-describe('makeStrideRegionAccumulator', () => {
-  const stride = Array.from({ length: 300 }, (_, i) => 2.2 + 1.1 * Math.sin((i / 300) * 2 * Math.PI));
-  const durations = stride.map((_, i) => 0.01 + 0.002 * (i % 3));
-
-  it('gives the same expected fractions as strideRegionFractions and an interval within a bin of it', () => {
-    const acc = makeStrideRegionAccumulator(human, 0.05);
-    stride.forEach((sl, i) => acc.add(sl, durations[i] as number));
-    const streamed = acc.result();
-    const whole = strideRegionFractions(human, stride, durations, 0.05);
-    for (const k of REGION_KEYS) {
-      expect(streamed.expected[k]).toBeCloseTo(whole.expected[k], 12);
-      expect(Math.abs(streamed.low[k] - whole.low[k])).toBeLessThan(0.02);
-      expect(Math.abs(streamed.high[k] - whole.high[k])).toBeLessThan(0.02);
-    }
-  });
-
-  it('starts empty (NaN fractions), skips NaN lengths, and resets between strides', () => {
-    const acc = makeStrideRegionAccumulator(human, 0.01);
-    expect(Number.isNaN(acc.result().expected.plateau)).toBe(true);
-    acc.add(Number.NaN, 0.01);
-    acc.add(3.5, 0);
-    expect(Number.isNaN(acc.result().expected.plateau)).toBe(true);
-    acc.add(3.5, 0.01);
-    expect(acc.result().expected.descending).toBeGreaterThan(0.99);
-    acc.reset();
-    acc.add(2.7, 0.01);
-    expect(acc.result().expected.descending).toBeLessThan(0.01);
-    expect(acc.result().expected.plateau).toBeGreaterThan(0.5);
-  });
-
-  it('clamps lengths outside its histogram to the end bins', () => {
-    const acc = makeStrideRegionAccumulator(human, 0.01);
-    acc.add(0.1, 0.01);
-    acc.add(9, 0.01);
-    const r = acc.result();
-    expect(r.expected.too_short).toBeCloseTo(0.5, 9);
-    expect(r.expected.no_overlap).toBeCloseTo(0.5, 9);
   });
 });

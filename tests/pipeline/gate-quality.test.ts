@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { gateQuality, isSkipped } from '../../src/pipeline/gate-quality.ts';
+import { gateQuality } from '../../src/pipeline/gate-quality.ts';
 import { runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
 import type { Sample } from '../../src/records.ts';
@@ -17,10 +17,5 @@ describe('gateQuality', () => {
   it('treats a sample with no quality (1) as good', async () => {
     const [s] = (await runFrames(gateQuality(), [[sample(0, 'calf', 50)]])) as Sample[];
     expect(s?.lowQuality).toBe(false);
-  });
-
-  it('skips only below the skip threshold', () => {
-    expect(isSkipped(0.19, 0.2)).toBe(true);
-    expect(isSkipped(0.2, 0.2)).toBe(false);
   });
 });

@@ -1,15 +1,30 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { Text } from 'ink';
+import { useMemo } from 'react';
 import { NEVER, Subject, VirtualTimeScheduler, type Observable } from 'rxjs';
-import { useTrialView } from '../../src/dashboard/use-trial-view.ts';
-import { useTrialFrame } from '../../src/dashboard/use-trial-frame.ts';
+import { useFrames } from '../../src/dashboard/use-frames.ts';
+import { firstFrame, trialFrames, type TrialFrame, type TrialFramesOptions } from '../../src/dashboard/trial-frames.ts';
 import type { DashboardStatus } from '../../src/dashboard/status.ts';
 import type { TrialState } from '../../src/state.ts';
 import { pushSample, walkingState } from './fixtures.ts';
 import { renderScreen, shows, tick, waitFor, type Screen } from './terminal-double.ts';
 
+/** The frames of a trial's state and status, shown through useFrames (frozen: the shown frame stays). */
+function useTrialFrame(
+  state$: Observable<TrialState>,
+  status$: Observable<DashboardStatus> | undefined,
+  options: TrialFramesOptions & { readonly scheduler: VirtualTimeScheduler; readonly frozen?: boolean },
+): TrialFrame {
+  const { scheduler, frameMs, tickMs } = options;
+  const frames$ = useMemo(
+    () => trialFrames(state$, status$, { scheduler, ...(frameMs === undefined ? {} : { frameMs }), ...(tickMs === undefined ? {} : { tickMs }) }),
+    [state$, status$, scheduler, frameMs, tickMs],
+  );
+  return useFrames(frames$, options.frozen ?? false, () => firstFrame(scheduler.now()));
+}
+
 function Probe({ state$, scheduler, frozen = false }: { readonly state$: Observable<TrialState>; readonly scheduler: VirtualTimeScheduler; readonly frozen?: boolean }) {
-  const view = useTrialView(state$, { scheduler, frameMs: 80, tickMs: 250, frozen });
+  const { view } = useTrialFrame(state$, undefined, { scheduler, frameMs: 80, tickMs: 250, frozen });
   const calf = view.muscles[0]?.latest?.sarcomereUm;
   return <Text>{`muscles=${view.muscles.length} calf=${calf ?? 'none'} error=${view.error ?? 'none'}`}</Text>;
 }
@@ -46,7 +61,7 @@ function setup() {
   return { scheduler, advance };
 }
 
-describe('useTrialView', () => {
+describe('useFrames', () => {
   it('shows nothing from a source that never emits', async () => {
     const { scheduler, advance } = setup();
     const screen = renderScreen(<Probe state$={new Subject<TrialState>()} scheduler={scheduler} />);
@@ -140,7 +155,7 @@ describe('useTrialView', () => {
   });
 });
 
-describe('useTrialFrame with a status stream', () => {
+describe('useFrames with a status stream', () => {
   it('merges the fields of each emission into the status so far and unsubscribes on unmount', async () => {
     const { scheduler, advance } = setup();
     const status$ = new Subject<DashboardStatus>();

@@ -9,7 +9,7 @@
  * fewer cells than the header has its missing cells empty. The header row gives a Header frame (no
  * muscles declared); a header row seen again later (files joined end to end) gives another Header frame.
  */
-import { makeSample, type Frame, type Header } from '../src/records.ts';
+import { makeSample, type Frame, type Header } from '../src/trial/records.ts';
 import { FIELD_RULE, makeRejection } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';
 

@@ -9,7 +9,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
-import type { Frame, Rejection, Sample } from '../src/records.ts';
+import type { Frame, Rejection, Sample } from '../src/trial/records.ts';
 import { EXCERPT_CHARS, makeRejection, MAX_MESSAGE_CHARS, notJsonRejection, parseMessage, parseRecordValue } from './parse-record.ts';
 
 export const LENGTH_UNITS = ['m', 'cm', 'mm'] as const;

@@ -4,7 +4,7 @@
  * skipped and not counted; line numbers still count them). Nothing is paced here: see paceReplay.
  */
 import { defer, map, type Observable } from 'rxjs';
-import type { Batch, Frame } from '../src/records.ts';
+import type { Batch, Frame } from '../src/trial/records.ts';
 import { createCsvReader, parseCsvHeaderRow } from './csv.ts';
 import type { DeviceMapping } from './device-mapping.ts';
 import { createMappedNdjsonReader } from './mapped-ndjson.ts';

@@ -3,7 +3,7 @@
  * device-mapping.ts): a recorded device file replays as the live stream it came from would. Each line
  * is parsed, mapped, then judged by the same record parser as any line, so the reasons are the same.
  */
-import type { Frame } from '../src/records.ts';
+import type { Frame } from '../src/trial/records.ts';
 import { applyMapping, type DeviceMapping } from './device-mapping.ts';
 import { EXCERPT_CHARS, notJsonRejection, parseRecordValue } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';

@@ -1,5 +1,5 @@
 /** NDJSON lines of the lengthwise-stream format → frames: one JSON object a line, each line one frame. */
-import { makeSample, type Frame } from '../src/records.ts';
+import { makeSample, type Frame } from '../src/trial/records.ts';
 import { textAt } from './csv.ts';
 import { parseJsonText } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';

@@ -16,8 +16,8 @@ import {
   type MuscleDeclaration,
   type Rejection,
   type Side,
-} from '../src/records.ts';
-import type { RejectReason } from '../src/reasons.ts';
+} from '../src/trial/records.ts';
+import type { RejectReason } from '../src/trial/reasons.ts';
 import { parseCalibration } from './calibration-file.ts';
 
 /** Deepest nesting accepted (the top-level object is level 1; a header's calibration needs 4). */

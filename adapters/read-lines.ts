@@ -9,7 +9,7 @@
  */
 import { createReadStream } from 'node:fs';
 import { Observable } from 'rxjs';
-import type { Frame } from '../src/records.ts';
+import type { Frame } from '../src/trial/records.ts';
 
 export interface ReadLinesOptions {
   /** Longest line delivered whole, in bytes (line ending excluded). @default 1048576 (1 MiB) */

@@ -6,12 +6,12 @@
  */
 import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, type RawData } from 'ws';
-import type { Batch, Frame, Gap, Marker } from '../src/records.ts';
+import type { Batch, Frame, Gap, Marker } from '../src/trial/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
-import { linkMarkerText } from '../src/link-marker.ts';
+import { linkMarkerText } from '../src/trial/link-marker.ts';
 
-export { LINK_MARKER_PREFIX, linkMarkerText } from '../src/link-marker.ts';
+export { LINK_MARKER_PREFIX, linkMarkerText } from '../src/trial/link-marker.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =

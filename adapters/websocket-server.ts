@@ -10,7 +10,7 @@ import type { IncomingMessage } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { Observable, asyncScheduler, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, WebSocketServer, type RawData } from 'ws';
-import type { Batch } from '../src/records.ts';
+import type { Batch } from '../src/trial/records.ts';
 import { closeDetail, Ingest, newPeerTrack, type IngestOptions, type LinkEvent } from './websocket-client.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
 

@@ -45,7 +45,7 @@ export function figuresFromSummary(summary: SummaryJson): BenchFigures {
 
 /**
  * Where two sets of figures differ (relative tolerance for the means); empty when they agree. The tool
- * keeps completed strides' lengths and forces to about 7 significant digits (src/stride-list.ts), so
+ * keeps completed strides' lengths and forces to about 7 significant digits (src/trial/stride-list.ts), so
  * its trial means agree with the plain loop's to about 1e-7.
  */
 export function figureDifferences(a: BenchFigures, b: BenchFigures, relativeTolerance = 1e-6): string[] {

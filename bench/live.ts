@@ -16,7 +16,7 @@ import { fileURLToPath } from 'node:url';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { tap } from 'rxjs';
 import { websocketServer } from '../adapters/websocket-server.ts';
-import { runTrial } from '../src/run-trial.ts';
+import { runTrial } from '../src/run/run-trial.ts';
 import { median, quantile } from './stats.ts';
 import { createPrng } from '../src/sim/prng.ts';
 import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
@@ -238,7 +238,7 @@ async function openDashboard(
   stdout: FakeStdout,
   thread: 'main' | 'own',
 ): Promise<{ unmount(): void; waitUntilExit(): Promise<void> }> {
-  const { startDashboard } = await import('../src/dashboard/start-dashboard.tsx');
+  const { startDashboard } = await import('../src/dashboard/thread/start-dashboard.tsx');
   return startDashboard({
     state$: run.state$,
     title: 'live bench',

@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { fileSource } from '../adapters/file-source.ts';
 import { parseCalibration } from '../adapters/calibration-file.ts';
-import { runTrial } from '../src/run-trial.ts';
+import { runTrial } from '../src/run/run-trial.ts';
 import { summaryJson } from '../src/output/summary-json.ts';
 
 export interface MemoryPoint {

@@ -1,7 +1,7 @@
 /** The tool's whole replay path, as `lengthwise replay FILE --speed max --summary …` runs it. */
 import { fileSource } from '../adapters/file-source.ts';
 import { paceReplay } from '../src/pipeline/pace-replay.ts';
-import { runTrial } from '../src/run-trial.ts';
+import { runTrial } from '../src/run/run-trial.ts';
 import { summaryJson, type SummaryJson } from '../src/output/summary-json.ts';
 import type { CalibrationSpec } from '../src/model/calibration.ts';
 

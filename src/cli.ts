@@ -1,5 +1,5 @@
 /** The `lengthwise` command: dispatches to one file per sub-command in src/commands/. */
-import type { CommandIo } from './commands/io.ts';
+import type { CommandIo } from './run/io.ts';
 
 const COMMANDS = {
   replay: { summary: 'play a recorded trial (NDJSON or CSV) through the pipeline', load: () => import('./commands/replay.ts') },

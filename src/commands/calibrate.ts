@@ -1,7 +1,7 @@
 /** `lengthwise calibrate FILE`: a calibration from a quiet window of a trial (e.g. standing still). */
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';

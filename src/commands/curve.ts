@@ -1,5 +1,5 @@
 /** `lengthwise curve`: the force–length model at given sarcomere lengths, or across its whole range. */
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { breakpoints, type FilamentGeometry } from '../model/geometry.ts';
 import { CURVE_SHAPES, DEFAULT_SHAPE, isCurveShape, makeMuscleModel, muscleModelProblems, type MuscleModel, type MuscleModelOptions } from '../model/muscle-model.ts';

@@ -5,21 +5,21 @@
  * or --duration).
  */
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { calibrationOption, mappingOption } from './option-files.ts';
-import { applyCapture } from './apply-capture.ts';
-import type { Batch, Frame } from '../records.ts';
-import type { TrialState } from '../state.ts';
-import type { ConnectionStatus, DashboardStatus } from '../dashboard/status.ts';
+import { applyCapture } from '../run/apply-capture.ts';
+import type { Batch, Frame } from '../trial/records.ts';
+import type { TrialState } from '../trial/state.ts';
+import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
 import { unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { LINK_MARKER_PREFIX, websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
 import { writeSessionLog } from '../session-log/write-session-log.ts';
 import { watchLag } from '../session-log/watch-lag.ts';
-import { runTrial, type TrialRun } from '../run-trial.ts';
-import { finishTrial, plainReport } from './finish-trial.ts';
+import { runTrial, type TrialRun } from '../run/run-trial.ts';
+import { finishTrial, plainReport } from '../run/finish-trial.ts';
 
 const HELP = `usage: lengthwise live --connect ws://HOST:PORT/PATH [options]
        lengthwise live --listen [HOST:]PORT [options]
@@ -232,7 +232,7 @@ class LiveSession {
   readonly extra$ = new Subject<Batch>();
   readonly stop$ = new Subject<void>();
   readonly hints: string[] = [];
-  private readonly status$ = new BehaviorSubject<DashboardStatus>({});
+  private readonly status$ = new BehaviorSubject<RunStatus>({});
   private readonly hinted = new Set<string>();
   private open = 0;
   private logNoticeSent = false;
@@ -246,7 +246,7 @@ class LiveSession {
     private readonly scheduler: SchedulerLike,
   ) {}
 
-  status(next: DashboardStatus): void {
+  status(next: RunStatus): void {
     this.status$.next({ ...this.status$.getValue(), ...next });
   }
 
@@ -330,14 +330,14 @@ class LiveSession {
     );
     let dashboard: { unmount(): void; waitUntilExit(): Promise<void> } | null = null;
     if (this.plain) {
-      const { statusLine } = await import('../dashboard/status-line.ts');
+      const { statusLine } = await import('../output/status-line.ts');
       subscriptions.push(
         timer(3000, 3000, this.scheduler).subscribe(() => {
           if (this.latest !== null) this.io.err(statusLine(this.latest, this.status$.getValue()));
         }),
       );
     } else {
-      const { startDashboard } = await import('../dashboard/start-dashboard.tsx');
+      const { startDashboard } = await import('../dashboard/thread/start-dashboard.tsx');
       dashboard = startDashboard({
         state$: trial.state$,
         status$: this.status$,

@@ -5,7 +5,7 @@
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
 import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 
 /** The file's content; undefined when the option was not given; `refused` when it was said why not. */
 export type OptionFile<T> = { readonly ok: true; readonly value: T | undefined } | { readonly ok: false };

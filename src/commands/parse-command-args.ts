@@ -1,6 +1,6 @@
 /** Every command's option parsing, said once: node:util parseArgs with -h/--help, and the messages on failure. */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 
 type Options = NonNullable<ParseArgsConfig['options']>;
 const HELP_OPTION = { help: { type: 'boolean', short: 'h', default: false } } as const;

@@ -1,17 +1,17 @@
 /** `lengthwise replay FILE`: play a recorded trial through the pipeline, with the dashboard or plain status lines. */
 import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { calibrationOption, mappingOption } from './option-files.ts';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
-import type { DashboardStatus } from '../dashboard/status.ts';
+import type { RunStatus } from '../trial/run-status.ts';
 import { countLines } from './count-lines.ts';
-import { applyCapture } from './apply-capture.ts';
-import { runTrial, type TrialRun } from '../run-trial.ts';
-import type { TrialState } from '../state.ts';
-import { finishTrial, plainReport } from './finish-trial.ts';
+import { applyCapture } from '../run/apply-capture.ts';
+import { runTrial, type TrialRun } from '../run/run-trial.ts';
+import type { TrialState } from '../trial/state.ts';
+import { finishTrial, plainReport } from '../run/finish-trial.ts';
 
 const HELP = `usage: lengthwise replay FILE [options]
 
@@ -121,7 +121,7 @@ async function settle(trial: TrialRun): Promise<Final> {
 }
 
 async function withStatusLines(trial: TrialRun, io: CommandIo): Promise<Final> {
-  const { statusLine } = await import('../dashboard/status-line.ts');
+  const { statusLine } = await import('../output/status-line.ts');
   let latest: TrialState | null = null;
   const stateSub = trial.state$.subscribe((s) => (latest = s));
   const tick = interval(3000).subscribe(() => {
@@ -140,9 +140,9 @@ interface ReplayControls {
 }
 
 async function withDashboard(trial: TrialRun, path: string, io: CommandIo, controls: ReplayControls): Promise<Final> {
-  const { startDashboard } = await import('../dashboard/start-dashboard.tsx');
+  const { startDashboard } = await import('../dashboard/thread/start-dashboard.tsx');
   const message$ = new BehaviorSubject<string | undefined>(undefined);
-  const status$: Observable<DashboardStatus> = interval(250).pipe(
+  const status$: Observable<RunStatus> = interval(250).pipe(
     map(() => {
       const progress = controls.progress();
       return {

@@ -3,7 +3,7 @@
  * pushes (--connect) the synthetic gait stream of src/sim/ in real time, optionally with faults.
  */
 import { parseArgs } from 'node:util';
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 import { SCENARIOS, type Scenario } from '../sim/gait-generator.ts';
 import {
   pushSimulator,

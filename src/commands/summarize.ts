@@ -1,5 +1,5 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
-import type { CommandIo } from './io.ts';
+import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { calibrationOption, mappingOption } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';

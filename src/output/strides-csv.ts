@@ -3,7 +3,7 @@
  * The first columns are the original ones, in their original order; later figures follow them.
  */
 import { REGION_KEYS } from '../model/regions.ts';
-import type { SegmentFigures, StrideSummary, TrialState } from '../state.ts';
+import type { SegmentFigures, StrideSummary, TrialState } from '../trial/state.ts';
 
 /** Figures a stride and each of its phases have, in column order (names without the phase prefix). */
 const PHASE_FIELDS = [

@@ -1,9 +1,9 @@
 /** The `--summary FILE.json` contract (lengthwise-summary, version 1), built from a TrialState. */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
-import type { StrideListView } from '../stride-list.ts';
-import { CYCLE_POINTS, HISTOGRAM_BIN_UM, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../state.ts';
-import { cycleSd, histogramQuantile, histogramRegionProbability } from '../pipeline/stride-figures.ts';
+import type { StrideListView } from '../trial/stride-list.ts';
+import { CYCLE_POINTS, HISTOGRAM_BIN_UM, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../trial/state.ts';
+import { cycleSd, histogramQuantile, histogramRegionProbability } from '../trial/stride-figures.ts';
 
 /** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
 export type RegionIntervalJson = Record<RegionKey, [number | null, number | null]>;

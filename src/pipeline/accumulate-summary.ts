@@ -1,6 +1,6 @@
-import { StrideList } from '../stride-list.ts';
+import { StrideList } from '../trial/stride-list.ts';
 import { Observable, type OperatorFunction } from 'rxjs';
-import type { Batch, CalibrationApplied, Frame, GaitEvent, Sample, StrideBoundary } from '../records.ts';
+import type { Batch, CalibrationApplied, Frame, GaitEvent, Sample, StrideBoundary } from '../trial/records.ts';
 import {
   CYCLE_POINTS,
   HISTOGRAM_BINS,
@@ -9,14 +9,14 @@ import {
   type Segmentation,
   type StrideSummary,
   type TrialState,
-} from '../state.ts';
+} from '../trial/state.ts';
 import { REGION_KEYS, regionIndex, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import { DEFAULT_SPECIES, speciesCurve } from '../model/species.ts';
 import { sarcomereCountSpread } from '../model/calibration.ts';
 import { regionProbabilities } from '../model/region-probability.ts';
-import { curveForCalibration } from './muscle-model.ts';
+import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_GAP_S } from './mark-gaps.ts';
-import { CycleBuffer, SegmentAccumulator, emptyCycleCurve, foldCycle, resampleCycle, type Held } from './stride-figures.ts';
+import { CycleBuffer, SegmentAccumulator, emptyCycleCurve, foldCycle, resampleCycle, type Held } from '../trial/stride-figures.ts';
 
 export interface AccumulateSummaryOptions {
   /** Where the trial came from (file path or URL), for the summary. */

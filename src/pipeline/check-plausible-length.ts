@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame } from '../records.ts';
+import type { Batch, Frame } from '../trial/records.ts';
 import { PLAUSIBLE_SL_UM } from '../model/calibration.ts';
 
 /**

@@ -1,6 +1,6 @@
 import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
-import type { Batch, CalibrationApplied, Frame, Sample } from '../records.ts';
+import type { Batch, CalibrationApplied, Frame, Sample } from '../trial/records.ts';
 import {
   sarcomereUmFromFascicle,
   sarcomeresInSeries,
@@ -10,7 +10,7 @@ import {
 import { DEFAULT_SPECIES } from '../model/species.ts';
 import { plateauMiddleUm } from '../model/geometry.ts';
 import { percentileOfSorted } from '../model/quiet-window.ts';
-import { curveForCalibration } from './muscle-model.ts';
+import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
 
 export interface ConvertSarcomereOptions {

@@ -1,7 +1,7 @@
 import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
-import type { Batch, Frame, Sample, Side, StrideBoundary } from '../records.ts';
-import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from './stride-period.ts';
+import type { Batch, Frame, Sample, Side, StrideBoundary } from '../trial/records.ts';
+import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from '../model/stride-period.ts';
 
 export interface EstimateStridesOptions {
   /**

@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 
 interface Last {
   tS: number;

@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import { plateauMiddleUm } from '../model/geometry.ts';
 import {
   DEFAULT_VMAX_L0_PER_S,
@@ -8,7 +8,7 @@ import {
   normalizedVelocity,
   type ForceVelocityOptions,
 } from '../model/force-velocity.ts';
-import { curveForCalibration } from './muscle-model.ts';
+import { curveForCalibration } from '../model/calibration-curve.ts';
 
 export interface EvaluateCapacityOptions {
   /** Maximum shortening velocity, optimal fascicle lengths per second. @default 10 */

@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import { DEFAULT_SPECIES } from '../model/species.ts';
 import { muscleModelFor } from '../model/calibration.ts';
 import type { MuscleModel } from '../model/muscle-model.ts';

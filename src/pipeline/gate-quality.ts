@@ -1,5 +1,5 @@
 import { map, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 
 export interface GateQualityOptions {
   /** Below this tracking quality a sample is weighed down by the filter. @default 0.5 */

@@ -1,5 +1,5 @@
 import { Observable, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 
 /** The two moments a stage that holds frames back acts at: each batch, and the end of the input. */
 export interface Holder {

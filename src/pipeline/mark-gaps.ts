@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame } from '../records.ts';
+import type { Batch, Frame } from '../trial/records.ts';
 
 export interface MarkGapsOptions {
   /** A forward jump between two samples of one muscle longer than this starts a gap. @default 0.25 */

@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Sample } from '../records.ts';
+import type { Batch, Sample } from '../trial/records.ts';
 
 function excerptOf(s: Sample): string {
   return JSON.stringify({ t: s.tS, muscle: s.muscle, fascicle_mm: s.fascicleMm }).slice(0, 200);

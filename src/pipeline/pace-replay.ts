@@ -23,7 +23,7 @@ import {
   type SchedulerLike,
   type Subscription,
 } from 'rxjs';
-import type { Batch, Frame } from '../records.ts';
+import type { Batch, Frame } from '../trial/records.ts';
 
 export type ReplaySpeed = number | 'max';
 

@@ -1,8 +1,8 @@
 /** The whole pipeline, in the data's order. Live and replay both run exactly this. */
 import type { OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
-import type { TrialState } from '../state.ts';
+import type { TrialState } from '../trial/state.ts';
 import { restoreGaps } from './restore-gaps.ts';
 import { orderPerMuscle } from './order-per-muscle.ts';
 import { markGaps } from './mark-gaps.ts';

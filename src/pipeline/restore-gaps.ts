@@ -1,6 +1,6 @@
 import { map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame, Gap } from '../records.ts';
-import { LINK_MARKER_PREFIX } from '../link-marker.ts';
+import type { Batch, Frame, Gap } from '../trial/records.ts';
+import { LINK_MARKER_PREFIX } from '../trial/link-marker.ts';
 
 /**
  * The muscles a `[link] disconnected` marker names: null for every muscle, a list for one device's

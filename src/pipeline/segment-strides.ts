@@ -1,5 +1,5 @@
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame, Side } from '../records.ts';
+import type { Batch, Frame, Side } from '../trial/records.ts';
 
 interface MuscleStrides {
   side: Side | null;

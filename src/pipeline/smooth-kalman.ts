@@ -1,6 +1,6 @@
 import KalmanFilter from 'kalmanjs';
 import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
 
 export interface SmoothKalmanOptions {

@@ -12,8 +12,8 @@
  * so the replay's pipeline rejects them again. Every line is a JSON object, so a line cut short by a
  * crash is never valid: at worst it is one not_json rejection.
  */
-import type { Frame, Header, Rejection } from '../records.ts';
-import type { RejectReason } from '../reasons.ts';
+import type { Frame, Header, Rejection } from '../trial/records.ts';
+import type { RejectReason } from '../trial/reasons.ts';
 import { headerJsonOf } from '../../adapters/device-mapping.ts';
 import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
 

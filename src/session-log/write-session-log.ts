@@ -1,5 +1,5 @@
 import { asyncScheduler, tap, type MonoTypeOperatorFunction, type SchedulerLike } from 'rxjs';
-import type { Batch } from '../records.ts';
+import type { Batch } from '../trial/records.ts';
 import { logLine } from './log-line.ts';
 import type { SessionLog } from './session-log.ts';
 

@@ -3,7 +3,7 @@
  * them. Each is built so that it can never be read as a valid record, even by a reader that misses the
  * intended reason (a too-long line or a too-deep one also lacks the fields of any record).
  */
-import type { RejectReason } from '../reasons.ts';
+import type { RejectReason } from '../trial/reasons.ts';
 import type { WireSample } from './wire.ts';
 import { formatNumber } from './format-number.ts';
 

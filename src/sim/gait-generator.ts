@@ -9,8 +9,8 @@
  * change of amplitude and offset. Fascicle length = true sarcomere length × sarcomeres in series / 1000
  * + noise (rounded to 1 µm on the wire).
  */
-import type { GaitEventName, Side } from '../records.ts';
-import type { RejectReason } from '../reasons.ts';
+import type { GaitEventName, Side } from '../trial/records.ts';
+import type { RejectReason } from '../trial/reasons.ts';
 import { createPrng, deriveSeed, type Prng } from './prng.ts';
 import { compileTrajectory, type Trajectory, type TrajectorySpec } from './trajectory.ts';
 import { badLineCsv, badLineNdjson, ORDER_REASONS, roundTime } from './bad-lines.ts';

@@ -3,7 +3,7 @@
  * plateau and shallow ascending limb, and a thigh muscle that reaches the descending limb. The shapes
  * are made up for demos and tests (smooth, a few harmonics); they are not measurements of anyone.
  */
-import type { Side } from '../records.ts';
+import type { Side } from '../trial/records.ts';
 import type { HeaderSpec, MuscleSpec, Scenario, StrideVariation, TrialSpec } from './gait-generator.ts';
 import type { TrajectorySpec } from './trajectory.ts';
 

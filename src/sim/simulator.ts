@@ -8,8 +8,8 @@
 import { WebSocket, WebSocketServer } from 'ws';
 import type { AddressInfo } from 'node:net';
 import { performance } from 'node:perf_hooks';
-import type { RejectReason } from '../reasons.ts';
-import { REJECT_REASONS } from '../reasons.ts';
+import type { RejectReason } from '../trial/reasons.ts';
+import { REJECT_REASONS } from '../trial/reasons.ts';
 import { badLineNdjson, ORDER_REASONS, roundTime } from './bad-lines.ts';
 import { createFeed, lastSampleOf, type Feed } from './feed.ts';
 import type { DropoutSpec, Scenario, TrialSpec } from './gait-generator.ts';

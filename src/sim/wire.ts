@@ -2,7 +2,7 @@
  * Records of the lengthwise-stream format (version 1) in wire form: plain JSON-able objects exactly as
  * a device writes them. The generator yields these, plus raw strings for deliberately bad lines.
  */
-import type { GaitEventName, Side } from '../records.ts';
+import type { GaitEventName, Side } from '../trial/records.ts';
 
 export const STREAM_FORMAT = 'lengthwise-stream';
 export const STREAM_VERSION = 1;

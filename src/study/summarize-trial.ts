@@ -7,8 +7,8 @@ import { tap } from 'rxjs';
 import { fileSource } from '../../adapters/file-source.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
-import { REASON_TEXT, type RejectReason } from '../reasons.ts';
-import { runTrial } from '../run-trial.ts';
+import { REASON_TEXT, type RejectReason } from '../trial/reasons.ts';
+import { runTrial } from '../run/run-trial.ts';
 import { summaryJson, type SummaryJson } from '../output/summary-json.ts';
 
 export type TrialOutcome =

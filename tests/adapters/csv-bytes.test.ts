@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { createCsvReader } from '../../adapters/csv.ts';
-import type { Sample } from '../../src/records.ts';
+import type { Sample } from '../../src/trial/records.ts';
 
 const HEADER = 'time_s,muscle,fascicle_mm,pennation_deg,quality,event,side';
 

@@ -1,8 +1,8 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { createCsvParser, csvNumber, parseCsvHeaderRow, plainDecimalAt, splitCsvRow } from '../../adapters/csv.ts';
-import type { Frame } from '../../src/records.ts';
-import type { RejectReason } from '../../src/reasons.ts';
+import type { Frame } from '../../src/trial/records.ts';
+import type { RejectReason } from '../../src/trial/reasons.ts';
 import { csvTrial } from './invented-trial.ts';
 
 const HEADER = 'time_s,muscle,fascicle_mm,pennation_deg,quality,event,side';

@@ -13,8 +13,8 @@ import {
   type DeviceMapping,
 } from '../../adapters/device-mapping.ts';
 import { Ingest, newPeerTrack } from '../../adapters/websocket-client.ts';
-import { makeSample, type Frame } from '../../src/records.ts';
-import { REJECT_REASONS } from '../../src/reasons.ts';
+import { makeSample, type Frame } from '../../src/trial/records.ts';
+import { REJECT_REASONS } from '../../src/trial/reasons.ts';
 
 const MAPPINGS = join(import.meta.dirname, '..', '..', 'adapters', 'mappings');
 

@@ -6,7 +6,7 @@ import { readLineBytes, readLines } from '../../adapters/read-lines.ts';
 import { parseNdjsonLine } from '../../adapters/ndjson.ts';
 import { createCsvParser } from '../../adapters/csv.ts';
 import { tooLongRejection } from '../../adapters/parse-record.ts';
-import type { Batch, Frame } from '../../src/records.ts';
+import type { Batch, Frame } from '../../src/trial/records.ts';
 import { tempDir } from './invented-trial.ts';
 
 const tmp = tempDir();

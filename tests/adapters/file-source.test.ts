@@ -4,7 +4,7 @@ import { paceReplay, readAheadValve } from '../../src/pipeline/pace-replay.ts';
 import { afterAll, describe, expect, it } from 'vitest';
 import { detectFormat, fileSource, SourceFormatError } from '../../adapters/file-source.ts';
 import { LineReadError } from '../../adapters/read-lines.ts';
-import type { Batch, Frame } from '../../src/records.ts';
+import type { Batch, Frame } from '../../src/trial/records.ts';
 import { csvTrial, ndjsonTrial, tempDir } from './invented-trial.ts';
 
 const tmp = tempDir();

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { createNdjsonParser, createNdjsonReader, parseNdjsonLine } from '../../adapters/ndjson.ts';
 import { parseJsonText } from '../../adapters/parse-record.ts';
-import type { Sample } from '../../src/records.ts';
+import type { Sample } from '../../src/trial/records.ts';
 
 /** Numbers as a writer or a person might type them: plain, exponents, leading zeros, signs, too many digits. */
 const numberText = fc.oneof(

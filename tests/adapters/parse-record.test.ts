@@ -8,8 +8,8 @@ import {
   parseRecordValue,
   parseRecordValueBySchema,
 } from '../../adapters/parse-record.ts';
-import type { Frame, Rejection } from '../../src/records.ts';
-import type { RejectReason } from '../../src/reasons.ts';
+import type { Frame, Rejection } from '../../src/trial/records.ts';
+import type { RejectReason } from '../../src/trial/reasons.ts';
 
 function rejection(frame: Frame): Rejection {
   if (frame.kind !== 'rejection') throw new Error(`expected a rejection, got ${frame.kind}`);

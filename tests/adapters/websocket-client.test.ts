@@ -8,7 +8,7 @@ import {
   type LinkEvent,
 } from '../../adapters/websocket-client.ts';
 import { createPrng } from '../../src/sim/prng.ts';
-import type { Batch, Frame } from '../../src/records.ts';
+import type { Batch, Frame } from '../../src/trial/records.ts';
 import { flat, killServer, nextConnection, sampleTexts, sendAll, silentPeer, until, wsServer } from './ws-peers.ts';
 
 const cleanups: (() => unknown)[] = [];

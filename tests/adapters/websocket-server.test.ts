@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import type { Subscription } from 'rxjs';
 import { LINK_MARKER_PREFIX, type LinkEvent } from '../../adapters/websocket-client.ts';
 import { ListenError, websocketServer, type WebSocketServerOptions } from '../../adapters/websocket-server.ts';
-import type { Batch, Frame } from '../../src/records.ts';
+import type { Batch, Frame } from '../../src/trial/records.ts';
 import { flat, sampleTexts, sendAll, until, upgradeStatus, wsClient, wsServer, killServer } from './ws-peers.ts';
 
 const cleanups: (() => unknown)[] = [];

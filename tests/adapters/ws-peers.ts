@@ -3,7 +3,7 @@ import { createHash } from 'node:crypto';
 import { createServer, type Server, type Socket } from 'node:net';
 import type { AddressInfo } from 'node:net';
 import { WebSocket, WebSocketServer } from 'ws';
-import type { Batch, Frame } from '../../src/records.ts';
+import type { Batch, Frame } from '../../src/trial/records.ts';
 
 /** A ws server on 127.0.0.1 (port 0 unless given); resolves once it listens. */
 export function wsServer(port = 0): Promise<{ server: WebSocketServer; port: number; url: string }> {

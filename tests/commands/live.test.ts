@@ -6,10 +6,10 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { VirtualAction, VirtualTimeScheduler } from 'rxjs';
 import { parseConnect, parseDuration, parseListen, run } from '../../src/commands/live.ts';
-import type { CommandIo } from '../../src/commands/io.ts';
+import type { CommandIo } from '../../src/run/io.ts';
 import { startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
 import { fileSource } from '../../adapters/file-source.ts';
-import { runTrial } from '../../src/run-trial.ts';
+import { runTrial } from '../../src/run/run-trial.ts';
 import { summaryJson } from '../../src/output/summary-json.ts';
 import { sampleTexts, sendAll, until, wsClient } from '../adapters/ws-peers.ts';
 

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { PassThrough } from 'node:stream';
 import { describe, expect, it } from 'vitest';
 import { WebSocket, WebSocketServer } from 'ws';
-import type { CommandIo } from '../../src/commands/io.ts';
+import type { CommandIo } from '../../src/run/io.ts';
 import { parseListen, parseSimulateArgs, run } from '../../src/commands/simulate.ts';
 import { createCollector } from '../sim/ws-collector.ts';
 

@@ -5,8 +5,8 @@
 import { geometricForce, regionAt, type ForceLengthCurve } from '../../src/model/geometry.ts';
 import { zeroRegionRecord, type RegionKey } from '../../src/model/regions.ts';
 import { speciesCurve, type Species } from '../../src/model/species.ts';
-import { makeSample, type Side } from '../../src/records.ts';
-import { emptyFrameCounts, type CalibrationSource, type MuscleState, type StrideSummary, type TrialState } from '../../src/state.ts';
+import { makeSample, type Side } from '../../src/trial/records.ts';
+import { emptyFrameCounts, type CalibrationSource, type MuscleState, type StrideSummary, type TrialState } from '../../src/trial/state.ts';
 
 export interface MuscleOptions {
   readonly side?: Side | null;

@@ -5,7 +5,7 @@
 import { EventEmitter } from 'node:events';
 import { render, type Instance } from 'ink';
 import { BehaviorSubject } from 'rxjs';
-import { startDashboard, type DashboardOptions } from '../../src/dashboard/start-dashboard.tsx';
+import { startDashboard, type DashboardOptions } from '../../src/dashboard/thread/start-dashboard.tsx';
 import { walkingState } from './fixtures.ts';
 import type { ReactElement } from 'react';
 

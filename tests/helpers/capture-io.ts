@@ -1,6 +1,6 @@
 /** A CommandIo that keeps what a command says, for command tests; its streams are real PassThrough streams. */
 import { PassThrough } from 'node:stream';
-import type { CommandIo } from '../../src/commands/io.ts';
+import type { CommandIo } from '../../src/run/io.ts';
 
 export interface CapturedIo {
   readonly io: CommandIo;

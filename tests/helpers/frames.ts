@@ -1,6 +1,6 @@
 /** Small builders for pipeline tests. Values are invented for the tests. */
 import { firstValueFrom, from, lastValueFrom, Observable, toArray, type OperatorFunction } from 'rxjs';
-import { makeSample, type Batch, type Frame, type GaitEvent, type Header, type Sample, type Side } from '../../src/records.ts';
+import { makeSample, type Batch, type Frame, type GaitEvent, type Header, type Sample, type Side } from '../../src/trial/records.ts';
 
 let nextLine = 1;
 

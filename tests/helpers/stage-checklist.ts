@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { EMPTY, Observable, Subject, throwError, type OperatorFunction } from 'rxjs';
-import type { Batch } from '../../src/records.ts';
+import type { Batch } from '../../src/trial/records.ts';
 import { sample } from './frames.ts';
 
 export function stageChecklist<R>(name: string, makeStage: () => OperatorFunction<Batch, R>): void {

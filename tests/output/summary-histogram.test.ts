@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { fileSource } from '../../adapters/file-source.ts';
-import { runTrial } from '../../src/run-trial.ts';
+import { runTrial } from '../../src/run/run-trial.ts';
 import { slHistogramJson, summaryJson, SUMMARY_HISTOGRAM_BIN_UM } from '../../src/output/summary-json.ts';
 import { timeAtLengthFromHistogram } from '../../src/report/plot-data.ts';
 import { speciesCurve } from '../../src/model/species.ts';

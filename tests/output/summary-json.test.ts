@@ -3,7 +3,7 @@ import { summaryJson, trialFigures } from '../../src/output/summary-json.ts';
 import { stridesCsv, csvField, STRIDE_COLUMNS } from '../../src/output/strides-csv.ts';
 import { zeroRegionRecord } from '../../src/model/regions.ts';
 import { speciesCurve } from '../../src/model/species.ts';
-import { emptyFrameCounts, type StrideSummary, type TrialState } from '../../src/state.ts';
+import { emptyFrameCounts, type StrideSummary, type TrialState } from '../../src/trial/state.ts';
 
 function stride(index: number, startS: number, endS: number, slMinUm: number, slMaxUm: number, slMeanUm: number, plateau: number, gapS = 0): StrideSummary {
   return {

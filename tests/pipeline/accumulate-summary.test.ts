@@ -3,9 +3,9 @@ import { from, lastValueFrom, toArray } from 'rxjs';
 import { accumulateSummary } from '../../src/pipeline/accumulate-summary.ts';
 import { header, sample, strike, toeOff } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Batch, Frame, Sample } from '../../src/records.ts';
+import type { Batch, Frame, Sample } from '../../src/trial/records.ts';
 import type { RegionKey } from '../../src/model/regions.ts';
-import type { TrialState } from '../../src/state.ts';
+import type { TrialState } from '../../src/trial/state.ts';
 
 stageChecklist('accumulateSummary', () => accumulateSummary({ source: 'test' }));
 

@@ -3,7 +3,7 @@ import { Subject } from 'rxjs';
 import { convertSarcomere } from '../../src/pipeline/convert-sarcomere.ts';
 import { header, runBatches, runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Batch, CalibrationApplied, Frame, Sample } from '../../src/records.ts';
+import type { Batch, CalibrationApplied, Frame, Sample } from '../../src/trial/records.ts';
 import type { CalibrationSpec } from '../../src/model/calibration.ts';
 import { plateauMiddleUm } from '../../src/model/geometry.ts';
 import { speciesCurve } from '../../src/model/species.ts';

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { estimateVelocity } from '../../src/pipeline/estimate-velocity.ts';
 import { runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Sample } from '../../src/records.ts';
+import type { Sample } from '../../src/trial/records.ts';
 
 stageChecklist('estimateVelocity', estimateVelocity);
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluateCapacity } from '../../src/pipeline/evaluate-capacity.ts';
 import { runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { CalibrationApplied, Frame, Sample } from '../../src/records.ts';
+import type { CalibrationApplied, Frame, Sample } from '../../src/trial/records.ts';
 import { plateauMiddleUm } from '../../src/model/geometry.ts';
 import { speciesCurve } from '../../src/model/species.ts';
 

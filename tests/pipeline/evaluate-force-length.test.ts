@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluateForceLength } from '../../src/pipeline/evaluate-force-length.ts';
 import { runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Frame, Sample } from '../../src/records.ts';
+import type { Frame, Sample } from '../../src/trial/records.ts';
 
 stageChecklist('evaluateForceLength', evaluateForceLength);
 

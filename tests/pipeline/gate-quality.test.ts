@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { gateQuality } from '../../src/pipeline/gate-quality.ts';
 import { runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Sample } from '../../src/records.ts';
+import type { Sample } from '../../src/trial/records.ts';
 
 stageChecklist('gateQuality', gateQuality);
 

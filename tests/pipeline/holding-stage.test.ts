@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { holdingStage } from '../../src/pipeline/holding-stage.ts';
 import { runBatches, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Batch, Frame } from '../../src/records.ts';
+import type { Batch, Frame } from '../../src/trial/records.ts';
 
 /** Holds everything until the input ends. */
 const holdAll = () =>

@@ -3,7 +3,7 @@ import { from, NEVER, Subject, type SchedulerLike, type Subscription } from 'rxj
 import { TestScheduler } from 'rxjs/testing';
 import { describe, expect, it } from 'vitest';
 import { paceReplay, paceReplayWith, readAheadValve, type ReplaySpeed } from '../../src/pipeline/pace-replay.ts';
-import { makeSample, type Batch, type Frame, type Header, type Rejection } from '../../src/records.ts';
+import { makeSample, type Batch, type Frame, type Header, type Rejection } from '../../src/trial/records.ts';
 
 const s = (tS: number, line = 0): Frame => makeSample(tS, 'calf', 50, Number.NaN, 1, line);
 const header: Header = { kind: 'header', muscles: {}, line: 1 };

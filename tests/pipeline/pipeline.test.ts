@@ -8,7 +8,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileSource } from '../../adapters/file-source.ts';
-import { runTrial } from '../../src/run-trial.ts';
+import { runTrial } from '../../src/run/run-trial.ts';
 import { summaryJson, type SummaryJson } from '../../src/output/summary-json.ts';
 import { createTrial, type GaitTrial } from '../../src/sim/gait-generator.ts';
 import { scenarioSpec } from '../../src/sim/scenarios.ts';
@@ -68,7 +68,7 @@ describe('pipeline on a generated walking trial (replay path: file → runTrial 
       summary.muscles[muscle]?.strides.forEach((s, i) => {
         expect(Math.abs((s.sl_min_um ?? Number.NaN) - (truth[i]?.slMinUm ?? Number.NaN))).toBeLessThan(0.03);
         expect(Math.abs((s.sl_max_um ?? Number.NaN) - (truth[i]?.slMaxUm ?? Number.NaN))).toBeLessThan(0.03);
-        // Completed strides keep lengths to about 7 significant digits (src/stride-list.ts).
+        // Completed strides keep lengths to about 7 significant digits (src/trial/stride-list.ts).
         expect(s.excursion_um).toBeCloseTo((s.sl_max_um ?? 0) - (s.sl_min_um ?? 0), 5);
         expect(s.sl_p5_um ?? 0).toBeGreaterThanOrEqual(s.sl_min_um ?? Number.NaN);
         expect(s.sl_p95_um ?? 9).toBeLessThanOrEqual(s.sl_max_um ?? Number.NaN);

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { disconnectionFrames, linkMarkerText } from '../../adapters/websocket-client.ts';
 import { linkMarkerMuscles, restoreGaps } from '../../src/pipeline/restore-gaps.ts';
-import type { Frame } from '../../src/records.ts';
+import type { Frame } from '../../src/trial/records.ts';
 import { runBatches, runFrames, sample } from '../helpers/frames.ts';
 
 describe('linkMarkerMuscles', () => {

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { segmentStrides } from '../../src/pipeline/segment-strides.ts';
 import { header, runFrames, sample, strike, toeOff } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
-import type { Sample, StrideBoundary } from '../../src/records.ts';
+import type { Sample, StrideBoundary } from '../../src/trial/records.ts';
 
 stageChecklist('segmentStrides', segmentStrides);
 

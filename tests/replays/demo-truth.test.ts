@@ -9,7 +9,7 @@ import { fileSource } from '../../adapters/file-source.ts';
 import { pipeline } from '../../src/pipeline/pipeline.ts';
 import { demoRunSpec, demoWalkSpec, DEMO_FILES } from '../../src/sim/demo-trials.ts';
 import { createTrial, type TrialSpec } from '../../src/sim/gait-generator.ts';
-import type { TrialState } from '../../src/state.ts';
+import type { TrialState } from '../../src/trial/state.ts';
 
 const REPLAYS = join(import.meta.dirname, '..', '..', 'replays');
 

@@ -9,7 +9,7 @@ import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
 import { MAX_MESSAGE_CHARS } from '../../adapters/parse-record.ts';
-import type { Frame } from '../../src/records.ts';
+import type { Frame } from '../../src/trial/records.ts';
 import { DEMO_FILES, demoRunSpec, demoWalkSpec } from '../../src/sim/demo-trials.ts';
 import { createTrial } from '../../src/sim/gait-generator.ts';
 import { CSV_HEADER_ROW } from '../../src/sim/writers.ts';

@@ -11,8 +11,8 @@ import { makeRejection } from '../../adapters/parse-record.ts';
 import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
 import { disconnectionFrames } from '../../adapters/websocket-client.ts';
 import { logLine, rxText } from '../../src/session-log/log-line.ts';
-import { makeSample, type Frame } from '../../src/records.ts';
-import { REJECT_REASONS, type RejectReason } from '../../src/reasons.ts';
+import { makeSample, type Frame } from '../../src/trial/records.ts';
+import { REJECT_REASONS, type RejectReason } from '../../src/trial/reasons.ts';
 
 const RX_MS = 1_764_000_000_123;
 

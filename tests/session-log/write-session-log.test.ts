@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { decodeMessage } from '../../adapters/device-mapping.ts';
 import { openSessionLog } from '../../src/session-log/session-log.ts';
 import { writeSessionLog } from '../../src/session-log/write-session-log.ts';
-import type { Batch } from '../../src/records.ts';
+import type { Batch } from '../../src/trial/records.ts';
 import { runBatches } from '../helpers/frames.ts';
 
 async function newLog() {

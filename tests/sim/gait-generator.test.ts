@@ -4,7 +4,7 @@ import { scenarioSpec } from '../../src/sim/scenarios.ts';
 import { isWireEvent, isWireSample, type WireItem, type WireSample } from '../../src/sim/wire.ts';
 import { toNdjson } from '../../src/sim/writers.ts';
 import { speciesCurve } from '../../src/model/species.ts';
-import { REJECT_REASONS } from '../../src/reasons.ts';
+import { REJECT_REASONS } from '../../src/trial/reasons.ts';
 import { createClassifier } from './stream-check.ts';
 
 function take<T>(items: Iterable<T>, n: number): T[] {

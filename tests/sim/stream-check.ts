@@ -2,7 +2,7 @@
  * A small, independent reading of the lengthwise-stream rules, used by the generator's tests to check
  * that every line is the record or the bad line it was meant to be. Not the tool's reader.
  */
-import type { RejectReason } from '../../src/reasons.ts';
+import type { RejectReason } from '../../src/trial/reasons.ts';
 
 export type LineKind = 'header' | 'sample' | 'event' | 'marker' | RejectReason;
 

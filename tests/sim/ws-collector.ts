@@ -3,7 +3,7 @@
  * record, or a JSON array of records) and sorts what arrives, with the independent rule check.
  */
 import { MAX_MESSAGE_CHARS } from '../../adapters/parse-record.ts';
-import type { RejectReason } from '../../src/reasons.ts';
+import type { RejectReason } from '../../src/trial/reasons.ts';
 import { createClassifier } from './stream-check.ts';
 
 export interface Received {

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fileSource } from '../../adapters/file-source.ts';
-import { runTrial } from '../../src/run-trial.ts';
+import { runTrial } from '../../src/run/run-trial.ts';
 import { summaryJson } from '../../src/output/summary-json.ts';
 import { summarizeTrial, type TrialProgress } from '../../src/study/summarize-trial.ts';
 import { statSync } from 'node:fs';

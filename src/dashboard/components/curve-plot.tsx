@@ -1,0 +1,49 @@
+/**
+ * Paints a curve drawing (see curve-drawing.ts): regions in their colours, the marker bright. The curve
+ * rows and the axis are drawn once per curve and size and never repainted; the marker's column is laid
+ * over them, and the band row is drawn again only when the columns it covers change.
+ */
+import { Box, Text } from 'ink';
+import { useRef } from 'react';
+import { bandKey, bandRow, curveLayers, markerRawCol, type LengthRange, type Run } from '../view/curve-drawing.ts';
+import type { ForceLengthCurve } from '../../model/geometry.ts';
+import RunsLine from './runs-line.tsx';
+import type { Theme } from '../view/theme.ts';
+
+export interface Props {
+  readonly curve: ForceLengthCurve;
+  readonly widthCols: number;
+  readonly heightRows: number;
+  /** NaN: no marker. */
+  readonly sarcomereUm: number;
+  readonly current: LengthRange | null;
+  readonly previous: LengthRange | null;
+  readonly theme: Theme;
+}
+
+export default function CurvePlot({ curve, widthCols, heightRows, sarcomereUm, current, previous, theme }: Props) {
+  const layers = curveLayers(curve, widthCols, heightRows);
+  const markerRaw = markerRawCol(sarcomereUm, layers);
+  const bothChar = theme.color ? '▀' : '█';
+  const key = `${bandKey(layers, markerRaw, current, previous)}|${bothChar}`;
+  const band = useRef<{ readonly layers: object; readonly key: string; readonly runs: readonly Run[] } | null>(null);
+  if (band.current?.layers !== layers || band.current.key !== key) {
+    band.current = { layers, key, runs: bandRow(layers, markerRaw, current, previous, bothChar) };
+  }
+  const inArea = markerRaw !== null && markerRaw >= 0 && markerRaw < layers.widthCols;
+  return (
+    <Box flexDirection="column">
+      {layers.body.map((runs, row) => (
+        <RunsLine key={row} runs={runs} theme={theme} />
+      ))}
+      {inArea ? (
+        // Laid over the curve rows at the marker's column: the rows themselves stay as drawn.
+        <Box position="absolute" marginLeft={markerRaw} width={1} flexDirection="column">
+          <Text {...theme.tone('marker')}>{layers.markerColumn(markerRaw).join('\n')}</Text>
+        </Box>
+      ) : null}
+      <RunsLine runs={band.current.runs} theme={theme} />
+      <RunsLine runs={layers.axis} theme={theme} />
+    </Box>
+  );
+}

@@ -1,0 +1,74 @@
+/** What every command does when a trial ends: write the asked-for files and say what happened. */
+import type { CommandIo } from './io.ts';
+import type { TrialState } from '../trial/state.ts';
+import { summaryJson, trialFigures } from '../output/summary-json.ts';
+import { stridesCsv } from '../output/strides-csv.ts';
+import { writeFileAtomic } from '../output/write-file.ts';
+import { REGION_KEYS, REGION_LABEL } from '../model/regions.ts';
+
+export interface FinishOptions {
+  readonly summary?: string | undefined;
+  readonly strides?: string | undefined;
+  /** A self-contained HTML report with plots of the trial. */
+  readonly report?: string | undefined;
+}
+
+/** Writes the summary, stride table and report if asked; exit status 1 when a file could not be written. */
+export async function finishTrial(state: TrialState, options: FinishOptions, io: CommandIo): Promise<number> {
+  let status = 0;
+  if (options.summary !== undefined) {
+    const result = await writeFileAtomic(options.summary, `${JSON.stringify(summaryJson(state), null, 2)}\n`);
+    if (result.ok) io.err(`summary written to ${result.path}`);
+    else {
+      io.err(`lengthwise: ${result.message}`);
+      status = 1;
+    }
+  }
+  if (options.strides !== undefined) {
+    const result = await writeFileAtomic(options.strides, stridesCsv(state));
+    if (result.ok) io.err(`strides written to ${result.path}`);
+    else {
+      io.err(`lengthwise: ${result.message}`);
+      status = 1;
+    }
+  }
+  if (options.report !== undefined) {
+    // Loaded only when asked for: the plotting libraries take a moment to load.
+    const { writeReport } = await import('../report/write-report.ts');
+    const result = await writeReport(options.report, [summaryJson(state)], { title: `lengthwise report: ${state.trial ?? state.source}` });
+    if (result.ok) io.err(`report written to ${result.path}`);
+    else {
+      io.err(`lengthwise: ${result.message}`);
+      status = 1;
+    }
+  }
+  return status;
+}
+
+function um(x: number | null): string {
+  return x === null ? '—' : x.toFixed(2);
+}
+
+/** A short end-of-trial report for a person, when there is no dashboard. */
+export function plainReport(state: TrialState): string {
+  const f = state.frames;
+  const lines = [
+    `${state.source}: ${f.received} lines, ${f.accepted} samples accepted (${f.lowQuality} low quality), ${f.rejected} rejected` +
+      (f.rejected > 0
+        ? ` (${Object.entries(f.rejectedByReason)
+            .map(([reason, n]) => `${reason} ${n}`)
+            .join(', ')})`
+        : ''),
+  ];
+  if (!state.calibrated) lines.push('UNCALIBRATED: sarcomere lengths assume each muscle starts at its plateau middle; give --calibration for real estimates');
+  for (const w of state.warnings) lines.push(`note: ${w}`);
+  for (const [name, m] of state.muscles) {
+    const t = trialFigures(m.strides);
+    const main = REGION_KEYS.reduce((a, b) => (t.region_fraction[b] > t.region_fraction[a] ? b : a));
+    lines.push(
+      `${name} (${m.side ?? 'side unknown'}): ${t.stride_count} strides, SL ${um(t.sl_min_um)}–${um(t.sl_max_um)} µm (mean ${um(t.sl_mean_um)}), ` +
+        `mostly ${REGION_LABEL[main]} (${(t.region_fraction[main] * 100).toFixed(0)}%)`,
+    );
+  }
+  return lines.join('\n');
+}

@@ -1,0 +1,175 @@
+/**
+ * The typed records that travel through the pipeline. Adapters turn raw lines and messages into these
+ * (validating with zod at that edge only); every stage after that trusts them.
+ *
+ * Frames travel in batches (a file chunk, a time slice of a replay, one WebSocket message), so the
+ * framework's per-item cost is paid once per batch, not once per sample.
+ */
+import type { RegionKey } from '../model/regions.ts';
+import type { RejectReason } from './reasons.ts';
+import type { CalibrationSpec, MuscleCalibration } from '../model/calibration.ts';
+
+export type Side = 'left' | 'right';
+export const SIDES: readonly Side[] = ['left', 'right'];
+
+export type GaitEventName = 'foot_strike' | 'toe_off';
+export const GAIT_EVENT_NAMES: readonly GaitEventName[] = ['foot_strike', 'toe_off'];
+
+/**
+ * One fascicle sample. Created once by the parser and enriched in place by later stages (no copy per
+ * stage): the enrichment fields start as NaN / null and are filled by the stage named beside them.
+ */
+export interface Sample {
+  readonly kind: 'sample';
+  /** Device clock, seconds. */
+  readonly tS: number;
+  readonly muscle: string;
+  readonly fascicleMm: number;
+  /** NaN when the device sent none. */
+  readonly pennationDeg: number;
+  /** Tracking quality in [0, 1]; 1 when the device sent none. */
+  readonly quality: number;
+  /** 1-based line (file) or message index (live) the sample came from. */
+  readonly line: number;
+
+  /** gateQuality: the filter should weigh this sample down or skip it. */
+  lowQuality: boolean;
+  /** smoothKalman: smoothed fascicle length (mm). */
+  smoothMm: number;
+  /** estimateVelocity: fascicle velocity of the smoothed signal (mm/s, positive = lengthening). */
+  velocityMmS: number;
+  /** convertSarcomere: estimated sarcomere length (µm). */
+  sarcomereUm: number;
+  /** evaluateForceLength: relative active force from length alone, 0–1. */
+  force: number;
+  /** evaluateForceLength: region of the geometric curve. */
+  region: RegionKey | null;
+  /** evaluateCapacity: relative force capacity from length × velocity (force × force–velocity factor), 0–1.5. */
+  forceLv: number;
+  /** evaluateCapacity: the length × velocity capacity along the tendon (× cos pennation). */
+  forceTendon: number;
+  /** segmentStrides: 0-based stride of this muscle, -1 before its first foot strike. */
+  strideIndex: number;
+}
+
+export interface GaitEvent {
+  readonly kind: 'event';
+  readonly tS: number;
+  readonly event: GaitEventName;
+  readonly side: Side;
+  readonly line: number;
+}
+
+export interface Marker {
+  readonly kind: 'marker';
+  readonly tS: number;
+  readonly marker: string;
+  readonly line: number;
+}
+
+export interface MuscleDeclaration {
+  readonly side?: Side;
+}
+
+export interface Header {
+  readonly kind: 'header';
+  readonly subject?: string;
+  readonly trial?: string;
+  readonly rateHz?: number;
+  readonly muscles: Readonly<Record<string, MuscleDeclaration>>;
+  readonly calibration?: CalibrationSpec;
+  readonly line: number;
+}
+
+/** A line or message that is not a valid record. Counted, logged, never fatal. */
+export interface Rejection {
+  readonly kind: 'rejection';
+  readonly reason: RejectReason;
+  /** What failed, what is accepted, how to fix it. */
+  readonly message: string;
+  readonly line: number;
+  /** The start of the offending input (at most 200 characters), for the log. */
+  readonly excerpt: string;
+}
+
+/**
+ * A stretch where the data stops being continuous: a live disconnection, or a forward time jump of one
+ * muscle beyond the gap threshold. Filters reset across it; nothing is interpolated across it.
+ */
+export interface Gap {
+  readonly kind: 'gap';
+  readonly cause: 'disconnected' | 'time_jump';
+  /** null: every muscle. */
+  readonly muscle: string | null;
+  /** Device time of the last sample before the gap (NaN when unknown). */
+  readonly fromS: number;
+  /** Device time of the first sample after the gap (NaN when unknown). */
+  readonly toS: number;
+}
+
+/**
+ * Said by convertSarcomere once it knows a muscle's calibration (from a file, the header, or the
+ * uncalibrated baseline), so later stages and the summary learn it from the data's own path.
+ */
+export interface CalibrationApplied {
+  readonly kind: 'calibration';
+  readonly muscle: string;
+  readonly calibration: MuscleCalibration;
+  readonly sarcomeresInSeries: number;
+  readonly source: 'file' | 'header' | 'baseline' | 'runtime';
+}
+
+/** Said by segmentStrides at each foot strike of a muscle's side: the previous stride ends, this one starts. */
+export interface StrideBoundary {
+  readonly kind: 'stride';
+  readonly muscle: string;
+  readonly side: Side;
+  /** Index of the stride that starts here (0 for the first foot strike). */
+  readonly index: number;
+  readonly tS: number;
+  /** How the boundary was found: a foot strike ('events', the default when absent) or the fascicle signal itself. */
+  readonly segmentation?: 'events' | 'estimated';
+}
+
+/** Something a person should know, said once by the stage that found it (side assumed, baseline used, …). */
+export interface Notice {
+  readonly kind: 'notice';
+  readonly muscle: string | null;
+  readonly text: string;
+}
+
+/** Records that come from the input, one per line or message element. */
+export type InputFrame = Sample | GaitEvent | Marker | Header | Rejection;
+/** Records the pipeline adds on the way. */
+export type DerivedFrame = Gap | CalibrationApplied | StrideBoundary | Notice;
+export type Frame = InputFrame | DerivedFrame;
+export type Batch = Frame[];
+
+/** Builds a Sample with its enrichment fields unset; the one place samples are created. */
+export function makeSample(
+  tS: number,
+  muscle: string,
+  fascicleMm: number,
+  pennationDeg: number,
+  quality: number,
+  line: number,
+): Sample {
+  return {
+    kind: 'sample',
+    tS,
+    muscle,
+    fascicleMm,
+    pennationDeg,
+    quality,
+    line,
+    lowQuality: false,
+    smoothMm: Number.NaN,
+    velocityMmS: Number.NaN,
+    sarcomereUm: Number.NaN,
+    force: Number.NaN,
+    region: null,
+    forceLv: Number.NaN,
+    forceTendon: Number.NaN,
+    strideIndex: -1,
+  };
+}

@@ -1,0 +1,53 @@
+import { describe, expect, it } from 'vitest';
+import { statusLine } from '../../src/output/status-line.ts';
+import { makeMuscle, makeTrialState, pushSample, walkingState } from '../dashboard/fixtures.ts';
+
+describe('statusLine', () => {
+  it('says what little is known of an empty trial', () => {
+    const line = statusLine(makeTrialState([], 'replays/empty.ndjson'));
+    expect(line).toContain('replays/empty.ndjson');
+    expect(line).toContain('0 samples');
+    expect(line).toContain('t –');
+  });
+
+  it('gives the source, elapsed time, counts, calibration and each muscle with units', () => {
+    const line = statusLine(walkingState());
+    expect(line).toContain('replays/fixture-walk.ndjson');
+    expect(line).toContain('t 0:05.0');
+    expect(line).toContain('2 samples');
+    expect(line).toContain('calibrated');
+    expect(line).toContain('calf left 2.71 µm plateau');
+    expect(line).toContain('thigh right 3.05 µm descending');
+    expect(line).not.toContain('\n');
+    // eslint-disable-next-line no-control-regex -- the escape character is what must be absent
+    expect(line).not.toMatch(/\u001B/);
+  });
+
+  it('is loud when uncalibrated and names the commonest rejection', () => {
+    const state = makeTrialState([makeMuscle('calf', { calibrationSource: 'baseline' })]);
+    pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.6 });
+    state.frames.rejected = 5;
+    state.frames.rejectedByReason = { not_json: 1, out_of_range: 4 };
+    const line = statusLine(state);
+    expect(line).toContain('UNCALIBRATED');
+    expect(line).toContain('5 rejected (most out_of_range)');
+  });
+
+  it('adds the status: source label, connection, replay progress and log path', () => {
+    const line = statusLine(walkingState(), {
+      sourceLabel: 'ws://127.0.0.1:8750',
+      connection: { state: 'reconnecting', retryInS: 1.2 },
+      replay: { progress: 0.456, speed: 4 },
+      logPath: 'sessions/s1.log',
+    });
+    expect(line).toMatch(/^ws:\/\/127\.0\.0\.1:8750/);
+    expect(line).toContain('DISCONNECTED, reconnecting in 2 s');
+    expect(line).toContain('replay 46% at 4×');
+    expect(line).toContain('log sessions/s1.log');
+  });
+
+  it('writes a dash for a muscle whose length is not known yet', () => {
+    const state = makeTrialState([makeMuscle('calf', { side: null })]);
+    expect(statusLine(state)).toContain('calf – µm');
+  });
+});

@@ -1,8 +1,10 @@
 /**
  * The dashboard in a real terminal: tmux runs it (the bundled demo replay with `npm start`, or a live
  * session fed by the test itself), the test reads the screen with capture-pane and presses keys as a
- * person would. The live session's data goes on only when the test has seen what it waits for, so no
- * alert can come and go between two looks. Skipped, saying so, where tmux is absent.
+ * person would. Nothing here depends on seeing a moment: each wait is for what the data already sent
+ * must show, a message shown only for a while is read from everything drawn on the terminal, and the
+ * live session's data goes on only when the test has seen what it waits for. Skipped, saying so, where
+ * tmux is absent.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
@@ -12,7 +14,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { BASELINE_SHIFT_HOLD_STRIDES } from '../../src/dashboard/alerts.ts';
 import { killServer, nextConnection, sendAll, wsServer } from '../adapters/ws-peers.ts';
 import { ALERT_TRIAL, alertTrialHeader, alertTrialRecords, leftFootStrikeFrom, OPEN_PLAN, STRIDE_S, type AlertTrialPlan } from './alert-trial.ts';
-import { COLOUR_SGR } from './terminal-double.ts';
+import { COLOUR_SGR, plain } from './terminal-double.ts';
 
 const HAS_TMUX = spawnSync('tmux', ['-V'], { encoding: 'utf8' }).status === 0;
 const REPO = join(import.meta.dirname, '..', '..');
@@ -51,6 +53,22 @@ async function screenWhere(name: string, ok: (text: string) => boolean, what: st
     if (ok(text)) return text;
     if (Date.now() > until) throw new Error(`the screen never showed ${what} within ${timeoutMs} ms; it showed:\n${text}`);
     await sleep(150);
+  }
+}
+
+/** From now on, everything the session's program writes to its terminal is kept in a file (the path returned). */
+function recordDrawing(name: string): string {
+  const path = join(work, `${name}.drawn`);
+  tmux('pipe-pane', '-t', name, `cat >> '${path}'`);
+  return path;
+}
+
+/** Waits until the text drawn since `recordDrawing` holds `text`, however briefly it stayed on screen. */
+async function drawn(path: string, text: string, name: string, timeoutMs = WAIT_MS): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  while (!(existsSync(path) && plain(readFileSync(path, 'utf8')).includes(text))) {
+    if (Date.now() > until) throw new Error(`the terminal was never drawn with "${text}" within ${timeoutMs} ms; it shows:\n${screen(name)}`);
+    await sleep(100);
   }
 }
 
@@ -114,8 +132,10 @@ describe.skipIf(!HAS_TMUX)(title, () => {
     keys('demo', 'Escape');
     await screenWhere('demo', (t) => !t.includes('reading a panel') && t.includes('SL '), 'the panels back');
 
+    // The confirmation stays a few seconds of wall time: it is looked for in everything drawn since the key.
+    const drawing = recordDrawing('demo');
     keys('demo', 'm');
-    await screenWhere('demo', (t) => t.includes('marker 1 dropped'), 'the marker confirmation');
+    await drawn(drawing, 'marker 1 dropped', 'demo');
 
     keys('demo', 'q');
     expect((await fileWhere(status, 'the exit status')).trim()).toBe('0');

@@ -1,5 +1,5 @@
-import { execFile, execFileSync } from 'node:child_process';
-import { readFile } from 'node:fs/promises';
+import { execFile, execFileSync, spawnSync } from 'node:child_process';
+import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
@@ -191,31 +191,41 @@ function hasTmux(): boolean {
 }
 
 describe.skipIf(!hasTmux())('lengthwise summarize on a terminal (tmux)', () => {
-  it('draws a progress bar on the terminal, clears it, and ends with the tally', async () => {
-    const session = `lw-summarize-${process.pid}`;
+  it('draws a progress bar on the terminal, clears it, and ends with the tally', { timeout: 90_000 }, async () => {
+    const socket = `lw-summarize-${process.pid}`;
+    const tmux = (...args: string[]): string => execFileSync('tmux', ['-L', socket, ...args], { encoding: 'utf8' });
+    const screen = (): string => tmux('capture-pane', '-p', '-t', 'summarize');
+    const go = join(folder.dir, 'tty-go');
     const out = join(folder.dir, 'tty-study.csv');
     const done = join(folder.dir, 'tty-done');
     const raw = join(folder.dir, 'tty-raw');
     const command = [process.execPath, BIN, 'summarize', ...trials, '--out', out, '--jobs', '2'].map((a) => `'${a}'`).join(' ');
-    // The pause lets the pane's output be piped to a file before the command starts.
-    execFileSync('tmux', ['new-session', '-d', '-s', session, '-x', '100', '-y', '20', `sleep 0.5; ${command}; echo "exit=$?" > '${done}'; sleep 30`], { cwd: ROOT });
+    // The command waits for the go file, made once the pane's output is piped to a file: nothing it draws is missed.
+    tmux('new-session', '-d', '-s', 'summarize', '-x', '100', '-y', '20', `while [ ! -e '${go}' ]; do sleep 0.05; done; ${command}; echo "exit=$?" > '${done}'; sleep 30`);
     try {
-      execFileSync('tmux', ['pipe-pane', '-t', session, `cat > '${raw}'`]);
-      let finished = '';
-      for (let i = 0; i < 300 && finished === ''; i++) {
-        await new Promise((resolve) => setTimeout(resolve, 100));
-        finished = await readFile(done, 'utf8').catch(() => '');
-      }
-      expect(finished).toContain('exit=0');
-      const screen = execFileSync('tmux', ['capture-pane', '-p', '-t', session], { encoding: 'utf8' });
-      expect(screen).toMatch(/summarized 4 of 4 trials/);
+      tmux('pipe-pane', '-t', 'summarize', `cat > '${raw}'`);
+      await writeFile(go, '');
+      /** Waits (bounded) until `read()` gives text `ok` accepts; fails saying what it last read. */
+      const readWhere = async (read: () => Promise<string>, ok: (text: string) => boolean, what: string): Promise<string> => {
+        const until = Date.now() + 30_000;
+        for (;;) {
+          const text = await read();
+          if (ok(text)) return text;
+          if (Date.now() > until) throw new Error(`${what} did not happen within 30 s; the screen showed:\n${screen()}`);
+          await new Promise((resolve) => setTimeout(resolve, 100));
+        }
+      };
+      const fileText = (path: string) => () => readFile(path, 'utf8').catch(() => '');
+      expect(await readWhere(fileText(done), (t) => t !== '', 'the end of summarize')).toContain('exit=0');
+      const shown = await readWhere(async () => screen(), (t) => /summarized 4 of 4 trials/.test(t), 'the tally on screen');
       // The bar is drawn over itself and cleared: no per-trial lines are left on screen.
-      expect(screen).not.toMatch(/^\[\d\/4\]/m);
-      const written = await readFile(raw, 'utf8');
+      expect(shown).not.toMatch(/^\[\d\/4\]/m);
+      const bar = /█*░+ \d\/4 trials · .* samples\/s · .* left/;
+      const written = await readWhere(fileText(raw), (t) => t.includes('\r\x1b[2K') && bar.test(t), 'the bar drawn on the terminal');
       expect(written).toContain('\r\x1b[2K');
-      expect(written).toMatch(/█*░+ \d\/4 trials · .* samples\/s · .* left/);
+      expect(written).toMatch(bar);
     } finally {
-      execFileSync('tmux', ['kill-session', '-t', session]);
+      spawnSync('tmux', ['-L', socket, 'kill-server']);
     }
   });
 });

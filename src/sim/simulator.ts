@@ -239,16 +239,27 @@ class Engine {
     return this.feed.header;
   }
 
+  /** Seconds since the stream started (0 before its first connection). */
   elapsedS(): number {
-    return (performance.now() - this.startMs) / 1000;
+    return this.startMs === 0 ? 0 : (performance.now() - this.startMs) / 1000;
   }
 
   stamp(): string {
     return `[${this.elapsedS().toFixed(1)} s]`;
   }
 
-  start(transport: Transport): void {
+  /** Where the stream goes; nothing is sent before start(). With a duration and no connection within it, it stops. */
+  attach(transport: Transport): void {
     this.transport = transport;
+    if (this.durationS !== undefined) {
+      this.timer = setTimeout(() => void this.stop(), this.durationS * 1000);
+    }
+  }
+
+  /** Starts the stream's clock (and its faults): called at the first connection, so no receiver misses its start. */
+  start(): void {
+    if (this.startMs !== 0 || this.stopping !== null) return;
+    if (this.timer !== null) clearTimeout(this.timer);
     this.startMs = performance.now();
     this.schedule();
   }
@@ -484,6 +495,7 @@ export async function startSimulator(options: ServeOptions = {}): Promise<Runnin
     const id = nextId++;
     clients.add(ws);
     engine.stats.connections++;
+    engine.start();
     log(`${engine.stamp()} client ${id} connected from ${req.socket.remoteAddress ?? '?'}:${req.socket.remotePort ?? '?'}`);
     ws.on('error', () => {});
     ws.on('close', (code) => {
@@ -494,7 +506,7 @@ export async function startSimulator(options: ServeOptions = {}): Promise<Runnin
     engine.sendHeader(ws);
   });
 
-  engine.start({
+  engine.attach({
     sockets: () => clients,
     disconnect: () => {
       const n = clients.size;
@@ -528,6 +540,7 @@ export async function pushSimulator(options: PushOptions): Promise<RunningSimula
     ws = socket;
     socket.on('open', () => {
       engine.stats.connections++;
+      engine.start();
       lastError = '';
       log(`${engine.stamp()} connected to ${options.url}`);
       engine.sendHeader(socket);
@@ -546,7 +559,7 @@ export async function pushSimulator(options: PushOptions): Promise<RunningSimula
     });
   };
 
-  engine.start({
+  engine.attach({
     sockets: () => (ws === null ? [] : [ws]),
     disconnect: () => {
       if (ws === null || ws.readyState !== WebSocket.OPEN) return 0;

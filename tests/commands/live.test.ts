@@ -245,9 +245,11 @@ describe('lengthwise live --connect', () => {
     const sim = await simulator({ durationS: 2 });
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '3.5']);
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
+    // The device's clock starts at the session's connection; the session ends once the device has ended.
+    await sim.done;
+    c.child.kill('SIGTERM');
     expect((await c.exited).code, c.stderr).toBe(0);
-    await sim.stop();
     const live = await json(join(dir, 'live.json'));
     expect(live.frames['accepted']).toBe(sim.stats.samplesSent);
     expect(live.frames['headers']).toBe(sim.stats.headersSent);
@@ -257,13 +259,15 @@ describe('lengthwise live --connect', () => {
   });
 
   it('through faults (malformed messages, disconnections, restarts) loses no valid sample received, and the log with its gaps restored replays the same', async () => {
-    // Faults at 0.6, 1.2, … s; the device ends its stream at 3.6 s, before the session ends, so what it sent was received.
+    // Faults at 0.6, 1.2, … s from the session's connection; the device ends its stream at 3.6 s and the
+    // session after that, so what it sent was received.
     const sim = await simulator({ durationS: 3.6, faults: { everyS: 0.6, kinds: ['malformed', 'disconnect', 'resent_header', 'malformed', 'device_restart'] } });
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '5.5']);
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
+    await sim.done;
+    c.child.kill('SIGTERM');
     expect((await c.exited).code, c.stderr).toBe(0);
-    await sim.stop();
     const live = await json(join(dir, 'live.json'));
     expect(sim.stats.faults['disconnect'] ?? 0).toBeGreaterThanOrEqual(1);
     expect(sim.stats.faults['device_restart'] ?? 0).toBe(1);

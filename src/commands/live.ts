@@ -13,7 +13,8 @@ import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
 import { unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
-import { LINK_MARKER_PREFIX, websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { OLD_LINK_MARKER_PREFIX } from '../../adapters/old-link-marker.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
 import { writeSessionLog } from '../session-log/write-session-log.ts';
@@ -294,8 +295,8 @@ class LiveSession {
 
   private marker(text: string): void {
     const tS = this.latest !== null && Number.isFinite(this.latest.lastTS) ? this.latest.lastTS : 0;
-    // The link prefix is the adapter's: a person's marker never starts with it.
-    const marker = text.startsWith(LINK_MARKER_PREFIX) ? `(typed) ${text}` : text;
+    // A marker with the old link text would be read back from the log as a lost connection.
+    const marker = text.startsWith(OLD_LINK_MARKER_PREFIX) ? `(typed) ${text}` : text;
     const frame: Frame = { kind: 'marker', tS, marker, line: 0 };
     this.extra$.next([frame]);
   }

@@ -1,33 +1,16 @@
 import { map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame, Gap } from '../trial/records.ts';
-import { LINK_MARKER_PREFIX } from '../trial/link-marker.ts';
+import type { Batch, Disconnection, Frame, Gap } from '../trial/records.ts';
 
-/**
- * The muscles a `[link] disconnected` marker names: null for every muscle, a list for one device's
- * muscles, or undefined when the text is not such a marker.
- */
-export function linkMarkerMuscles(text: string): readonly string[] | null | undefined {
-  if (!text.startsWith(LINK_MARKER_PREFIX)) return undefined;
-  const rest = text.slice(LINK_MARKER_PREFIX.length);
-  if (rest.startsWith(':')) return null;
-  if (!rest.startsWith(' [')) return undefined;
-  // The list is JSON; its end is the first "]:" before which the text parses as a list of names.
-  for (let end = rest.indexOf(']:'); end >= 0; end = rest.indexOf(']:', end + 1)) {
-    try {
-      const value: unknown = JSON.parse(rest.slice(1, end + 1));
-      if (Array.isArray(value) && value.every((v) => typeof v === 'string')) return value as string[];
-    } catch {
-      // Not the end of the list yet.
-    }
-  }
-  return undefined;
+/** The `disconnected` Gaps of a lost connection: one per muscle it carried, or one for every muscle. */
+function gapsOf(d: Disconnection): Gap[] {
+  return d.muscles === null
+    ? [{ kind: 'gap', cause: 'disconnected', muscle: null, fromS: d.tS, toS: Number.NaN }]
+    : d.muscles.map((muscle) => ({ kind: 'gap', cause: 'disconnected', muscle, fromS: d.tS, toS: Number.NaN }));
 }
 
 /**
- * After each `[link] disconnected` marker, the `disconnected` Gaps the live session had, so a replay of
- * its session log restarts the filters at the same places. It runs first in every pipeline, so live,
- * replay and summarize agree; a live stream that already carries its gaps gets them twice, which changes
- * nothing (a restart of a restarted filter).
+ * After each Disconnection, the `disconnected` Gaps it stands for, so filters restart there. It runs first
+ * in every pipeline, so a live session and every replay of its session log restart at the same places.
  */
 export function restoreGaps(): OperatorFunction<Batch, Batch> {
   return map((batch) => {
@@ -35,15 +18,9 @@ export function restoreGaps(): OperatorFunction<Batch, Batch> {
     for (let i = 0; i < batch.length; i++) {
       const f = batch[i] as Frame;
       if (out !== null) out.push(f);
-      if (f.kind !== 'marker') continue;
-      const muscles = linkMarkerMuscles(f.marker);
-      if (muscles === undefined) continue;
+      if (f.kind !== 'disconnection') continue;
       out ??= batch.slice(0, i + 1);
-      const gaps: Gap[] =
-        muscles === null
-          ? [{ kind: 'gap', cause: 'disconnected', muscle: null, fromS: f.tS, toS: Number.NaN }]
-          : muscles.map((muscle) => ({ kind: 'gap', cause: 'disconnected', muscle, fromS: f.tS, toS: Number.NaN }));
-      out.push(...gaps);
+      out.push(...gapsOf(f));
     }
     return out ?? batch;
   });

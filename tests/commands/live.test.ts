@@ -272,7 +272,11 @@ describe('lengthwise live --connect', () => {
     const badSent = Object.fromEntries(Object.entries(sim.stats.badSent).filter(([, n]) => (n ?? 0) > 0));
     expect(live.frames['rejected_by_reason']).toEqual(badSent);
     expect(live.frames['markers']).toBeGreaterThanOrEqual(1);
-    // The disconnection gaps are restored from the log's link markers.
+    // Each lost connection is a line of its own in the log, and the replay restores its gaps from it.
+    const lost = (await readFile(log, 'utf8')).split('\n').filter((l) => l.includes('"disconnected":'));
+    expect(lost.length).toBe(Number(live.frames['markers']) - sim.stats.markersSent);
+    expect(lost.length).toBeGreaterThanOrEqual(1);
+    for (const l of lost) expect(JSON.parse(l)).toMatchObject({ disconnected: { muscles: null, detail: expect.any(String) } });
     const final = await runTrial(fileSource(log), { source: log }).done;
     expect(withoutSource(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSource(live));
   });

@@ -7,7 +7,7 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { calibrationOption, mappingOption } from './option-files.ts';
+import { trialFiles } from './option-files.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
@@ -161,12 +161,10 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     io.err('lengthwise live: --token is empty: give the token the devices send');
     return 2;
   }
-  const calibrationFile = await calibrationOption('live', values.calibration, io);
-  if (!calibrationFile.ok) return 2;
-  const calibration = calibrationFile.value;
-  const mappingFile = await mappingOption('live', values.mapping, io);
-  if (!mappingFile.ok) return 2;
-  const mapping = mappingFile.value ?? null;
+  const files = await trialFiles('live', values, io);
+  if (files === null) return 2;
+  const calibration = files.calibration;
+  const mapping = files.mapping ?? null;
 
   const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
   const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());

@@ -26,3 +26,22 @@ export async function mappingOption(command: string, path: string | undefined, i
   const result = await readDeviceMapping(path);
   return result.ok ? { ok: true, value: result.mapping } : refuse(command, 'device mapping', result.problems, io);
 }
+
+/** What a trial's --calibration and --mapping name. */
+export interface TrialFiles {
+  readonly calibration: CalibrationSpec | undefined;
+  readonly mapping: DeviceMapping | undefined;
+}
+
+/** Reads both files a trial's options may name, the calibration first; null once one was refused (and said why). */
+export async function trialFiles(
+  command: string,
+  values: { readonly calibration?: string | undefined; readonly mapping?: string | undefined },
+  io: CommandIo,
+): Promise<TrialFiles | null> {
+  const calibration = await calibrationOption(command, values.calibration, io);
+  if (!calibration.ok) return null;
+  const mapping = await mappingOption(command, values.mapping, io);
+  if (!mapping.ok) return null;
+  return { calibration: calibration.value, mapping: mapping.value };
+}

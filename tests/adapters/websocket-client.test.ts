@@ -151,13 +151,7 @@ describe('websocketClient', () => {
 
   it('finds a dead peer by ping/pong, drops it and reconnects', async () => {
     const peer = await silentPeer();
-    cleanups.push(
-      () =>
-        new Promise<void>((r) => {
-          for (const s of peer.sockets) s.destroy();
-          peer.server.close(() => r());
-        }),
-    );
+    cleanups.push(peer.close);
     const client = subscribeClient(`ws://127.0.0.1:${peer.port}`, { pingMs: 100 });
     await until(() => client.links.some((e) => e.kind === 'disconnected'), 3000, 'the dead peer to be found');
     const lost = client.links.find((e) => e.kind === 'disconnected');
@@ -213,13 +207,7 @@ describe('websocketClient', () => {
 describe('websocketClient against a peer that never answers the closing handshake', () => {
   it('cuts the connection a second after unsubscribing', async () => {
     const peer = await silentPeer();
-    cleanups.push(
-      () =>
-        new Promise<void>((r) => {
-          for (const s of peer.sockets) s.destroy();
-          peer.server.close(() => r());
-        }),
-    );
+    cleanups.push(peer.close);
     const client = subscribeClient(`ws://127.0.0.1:${peer.port}`, { pingMs: 60_000 });
     await until(() => client.links.some((e) => e.kind === 'connected'), 3000, 'the connection');
     client.sub.unsubscribe();

@@ -8,6 +8,7 @@ import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer,
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { trialFiles } from './option-files.ts';
+import { parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
@@ -49,41 +50,6 @@ options:
 
 The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
 closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
-
-type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
-
-/** Reads `--listen`: PORT, HOST:PORT or [IPv6]:PORT. */
-export function parseListen(text: string): Parsed<{ host: string; port: number }> {
-  const m = /^(?:\[([^\]]+)\]:|([^:[\]]+):)?(\d{1,5})$/.exec(text.trim());
-  const port = m === null ? Number.NaN : Number(m[3]);
-  if (m === null || !(port >= 0 && port <= 65535)) {
-    return { ok: false, message: `--listen "${text}" is not an address: give PORT (e.g. 8765), HOST:PORT (e.g. 0.0.0.0:8765) or [IPv6]:PORT; PORT is 0–65535` };
-  }
-  return { ok: true, value: { host: m[1] ?? m[2] ?? '127.0.0.1', port } };
-}
-
-/** Reads `--connect`: a ws:// or wss:// URL. */
-export function parseConnect(text: string): Parsed<string> {
-  let url: URL;
-  try {
-    url = new URL(text);
-  } catch {
-    return { ok: false, message: `--connect "${text}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
-  }
-  if (url.protocol !== 'ws:' && url.protocol !== 'wss:') {
-    return { ok: false, message: `--connect "${text}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
-  }
-  return { ok: true, value: url.href };
-}
-
-/** Reads `--duration`: seconds above 0. */
-export function parseDuration(text: string): Parsed<number> {
-  const n = Number(text);
-  if (text.trim() === '' || !Number.isFinite(n) || !(n > 0)) {
-    return { ok: false, message: `--duration "${text}" is not a duration: give seconds above 0, e.g. 60` };
-  }
-  return { ok: true, value: n };
-}
 
 function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefined {
   switch (event.kind) {

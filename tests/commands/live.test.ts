@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { VirtualAction, VirtualTimeScheduler } from 'rxjs';
-import { parseConnect, parseDuration, parseListen, run } from '../../src/commands/live.ts';
+import { run } from '../../src/commands/live.ts';
 import type { CommandIo } from '../../src/run/io.ts';
 import { startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
 import { fileSource } from '../../adapters/file-source.ts';
@@ -110,16 +110,6 @@ describe('lengthwise live: options', () => {
     const c = lengthwise(['live', ...args]);
     expect((await c.exited).code).toBe(2);
     expect(c.stderr).toMatch(message);
-  });
-
-  it('reads listen addresses, URLs and durations', () => {
-    expect(parseListen('8765')).toEqual({ ok: true, value: { host: '127.0.0.1', port: 8765 } });
-    expect(parseListen('0.0.0.0:80')).toEqual({ ok: true, value: { host: '0.0.0.0', port: 80 } });
-    expect(parseListen('[::1]:9000')).toEqual({ ok: true, value: { host: '::1', port: 9000 } });
-    expect(parseListen('70000').ok).toBe(false);
-    expect(parseConnect('ws://h:1/p').ok).toBe(true);
-    expect(parseDuration('2.5')).toEqual({ ok: true, value: 2.5 });
-    expect(parseDuration('').ok).toBe(false);
   });
 });
 

@@ -230,15 +230,20 @@ describe('lengthwise live --connect', () => {
     return sim;
   }
 
+  /** A plain session with the simulator, ended by --duration after the device has stopped: where its log is, and its summary. */
+  async function session(sim: RunningSimulator, durationS: number) {
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', String(durationS)]);
+    expect((await c.exited).code, c.stderr).toBe(0);
+    await sim.stop();
+    return { dir, log, live: await json(join(dir, 'live.json')) };
+  }
+
   it('accepts exactly the valid samples the simulator sent, and the replay of its log gives the same summary', async () => {
     // The device ends its stream (closing cleanly) before the session ends, so everything it sent was received.
     const sim = await simulator({ durationS: 2 });
-    const dir = await tmp();
-    const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '3.5']);
-    expect((await c.exited).code, c.stderr).toBe(0);
-    await sim.stop();
-    const live = await json(join(dir, 'live.json'));
+    const { dir, log, live } = await session(sim, 3.5);
     expect(live.frames['accepted']).toBe(sim.stats.samplesSent);
     expect(live.frames['headers']).toBe(sim.stats.headersSent);
     expect(live.ended).toBe(true);
@@ -249,12 +254,7 @@ describe('lengthwise live --connect', () => {
   it('through faults (malformed messages, disconnections, restarts) loses no valid sample received, and the log with its gaps restored replays the same', async () => {
     // Faults at 0.6, 1.2, … s; the device ends its stream at 3.6 s, before the session ends, so what it sent was received.
     const sim = await simulator({ durationS: 3.6, faults: { everyS: 0.6, kinds: ['malformed', 'disconnect', 'resent_header', 'malformed', 'device_restart'] } });
-    const dir = await tmp();
-    const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json'), '--duration', '5.5']);
-    expect((await c.exited).code, c.stderr).toBe(0);
-    await sim.stop();
-    const live = await json(join(dir, 'live.json'));
+    const { log, live } = await session(sim, 5.5);
     expect(sim.stats.faults['disconnect'] ?? 0).toBeGreaterThanOrEqual(1);
     expect(sim.stats.faults['device_restart'] ?? 0).toBe(1);
     // Every valid sample sent was accepted, through the drop-outs; every malformed one rejected for its reason.

@@ -2,7 +2,7 @@
  * Calibration JSON (a file, or a stream header's `calibration` field) → CalibrationSpec.
  * Validation lives here, at the edge; failures come back as data with messages a person can act on.
  */
-import { readFile } from 'node:fs/promises';
+import { readJsonFile } from './json-file.ts';
 import { z } from 'zod';
 import type { CalibrationSpec, MuscleCalibration } from '../src/model/calibration.ts';
 import type { FilamentGeometry } from '../src/model/geometry.ts';
@@ -181,20 +181,6 @@ export function calibrationForMuscle(
 }
 
 /** Reads and validates a calibration file; unreadable files and bad JSON are problems too, never throws. */
-export async function readCalibrationFile(path: string): Promise<CalibrationResult> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code ?? 'unknown error';
-    return { ok: false, problems: [`cannot read calibration file ${path} (${code}); check the path and its permissions`] };
-  }
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    return { ok: false, problems: [`calibration file ${path} is not valid JSON: ${(error as Error).message}`, HOW_TO_FIX] };
-  }
-  const result = parseCalibration(value);
-  return result.ok ? result : { ok: false, problems: result.problems.map((p) => `${path}: ${p}`) };
+export function readCalibrationFile(path: string): Promise<CalibrationResult> {
+  return readJsonFile(path, 'calibration', HOW_TO_FIX, parseCalibration);
 }

@@ -7,7 +7,7 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { trialFiles } from './option-files.ts';
+import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
 import { parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
@@ -99,14 +99,10 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     connect: { type: 'string' },
     listen: { type: 'string' },
     token: { type: 'string' },
-    mapping: { type: 'string' },
-    calibration: { type: 'string' },
-    summary: { type: 'string' },
-    strides: { type: 'string' },
-    report: { type: 'string' },
+    ...TRIAL_FILE_OPTIONS,
+    ...TRIAL_OUTPUT_OPTIONS,
     log: { type: 'string' },
     duration: { type: 'string' },
-    plain: { type: 'boolean', default: false },
   }, io, { allowPositionals: false });
   if (typeof parsed === 'number') return parsed;
   const { values } = parsed;

@@ -7,6 +7,17 @@ import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-map
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { CommandIo } from '../run/io.ts';
 
+/** --calibration and --mapping, the same in every command that runs trials; read them with trialFiles. */
+export const TRIAL_FILE_OPTIONS = { calibration: { type: 'string' }, mapping: { type: 'string' } } as const;
+
+/** What a finished trial writes (--summary, --strides, --report; see finishTrial) and --plain, the same in live and replay. */
+export const TRIAL_OUTPUT_OPTIONS = {
+  summary: { type: 'string' },
+  strides: { type: 'string' },
+  report: { type: 'string' },
+  plain: { type: 'boolean', default: false },
+} as const;
+
 /** The file's content; undefined when the option was not given; `refused` when it was said why not. */
 export type OptionFile<T> = { readonly ok: true; readonly value: T | undefined } | { readonly ok: false };
 

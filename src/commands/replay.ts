@@ -2,7 +2,7 @@
 import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { trialFiles } from './option-files.ts';
+import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
@@ -54,12 +54,8 @@ export function parseSpeed(text: string): { ok: true; speed: Speed } | { ok: fal
 export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('replay', HELP, argv, {
     speed: { type: 'string', default: '1' },
-    calibration: { type: 'string' },
-    mapping: { type: 'string' },
-    summary: { type: 'string' },
-    strides: { type: 'string' },
-    report: { type: 'string' },
-    plain: { type: 'boolean', default: false },
+    ...TRIAL_FILE_OPTIONS,
+    ...TRIAL_OUTPUT_OPTIONS,
   }, io);
   if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;

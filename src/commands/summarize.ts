@@ -1,7 +1,7 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { trialFiles } from './option-files.ts';
+import { TRIAL_FILE_OPTIONS, trialFiles } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -80,8 +80,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('summarize', HELP, argv, {
     out: { type: 'string' },
     report: { type: 'string' },
-    calibration: { type: 'string' },
-    mapping: { type: 'string' },
+    ...TRIAL_FILE_OPTIONS,
     jobs: { type: 'string' },
     plain: { type: 'boolean', default: false },
   }, io);

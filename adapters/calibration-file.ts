@@ -2,7 +2,7 @@
  * Calibration JSON (a file, or a stream header's `calibration` field) → CalibrationSpec.
  * Validation lives here, at the edge; failures come back as data with messages a person can act on.
  */
-import { readJsonFile } from './json-file.ts';
+import { readJsonFile, schemaProblems } from './json-file.ts';
 import { z } from 'zod';
 import type { CalibrationSpec, MuscleCalibration } from '../src/model/calibration.ts';
 import type { FilamentGeometry } from '../src/model/geometry.ts';
@@ -140,13 +140,7 @@ export const HOW_TO_FIX =
 /** Validates an already-parsed JSON value as a calibration. */
 export function parseCalibration(value: unknown): CalibrationResult {
   const parsed = calibrationSchema.safeParse(value);
-  if (!parsed.success) {
-    const problems = parsed.error.issues.map((issue) => {
-      const where = issue.path.length > 0 ? issue.path.map(String).join('.') : '(top level)';
-      return `${where}: ${issue.message}`;
-    });
-    return { ok: false, problems: [...problems, HOW_TO_FIX] };
-  }
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX) };
   const muscles: Record<string, MuscleCalibration> = Object.create(null);
   const problems: string[] = [];
   for (const [name, m] of Object.entries(parsed.data.muscles)) {

@@ -7,7 +7,7 @@
  * lengthwise-stream record before the ordinary record parser (parse-record.ts) judges it, so a mapped
  * record is accepted or rejected exactly like a native one.
  */
-import { readJsonFile } from './json-file.ts';
+import { readJsonFile, schemaProblems } from './json-file.ts';
 import { z } from 'zod';
 import type { Frame, Rejection, Sample } from '../src/trial/records.ts';
 import { EXCERPT_CHARS, makeRejection, MAX_MESSAGE_CHARS, notJsonRejection, parseMessage, parseRecordValue } from './parse-record.ts';
@@ -119,13 +119,7 @@ function record(entries: Record<string, string> | undefined): Readonly<Record<st
 /** Validates an already-parsed JSON value as a mapping; failures are sentences, never a throw. */
 export function parseDeviceMapping(value: unknown): MappingResult {
   const parsed = deviceMappingSchema.safeParse(value);
-  if (!parsed.success) {
-    const problems = parsed.error.issues.map((issue) => {
-      const where = issue.path.length > 0 ? issue.path.map(String).join('.') : '(top level)';
-      return `${where}: ${issue.message}`;
-    });
-    return { ok: false, problems: [...problems, MAPPING_HOW_TO] };
-  }
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, MAPPING_HOW_TO) };
   const d = parsed.data;
   const fields = {} as Record<MappedField, string>;
   for (const f of MAPPED_FIELDS) fields[f] = d.fields?.[f] ?? OUR_KEY[f];

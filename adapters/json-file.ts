@@ -1,5 +1,6 @@
-/** The JSON files options name (a calibration, a device mapping): read, parsed and checked the same way. */
+/** The JSON files options name (a calibration, a device mapping): read, parsed and checked the same way, and their problems said alike. */
 import { readFile } from 'node:fs/promises';
+import type { z } from 'zod';
 
 type Checked = { readonly ok: true } | { readonly ok: false; readonly problems: readonly string[] };
 
@@ -29,4 +30,13 @@ export async function readJsonFile<R extends Checked>(
   }
   const result = check(value);
   return result.ok ? result : { ok: false, problems: result.problems.map((p) => `${path}: ${p}`) };
+}
+
+/** What a file's schema found wrong, one sentence per issue with the path it is at, then what is accepted. */
+export function schemaProblems(error: z.ZodError, accepted: string): string[] {
+  const problems = error.issues.map((issue) => {
+    const where = issue.path.length > 0 ? issue.path.map(String).join('.') : '(top level)';
+    return `${where}: ${issue.message}`;
+  });
+  return [...problems, accepted];
 }

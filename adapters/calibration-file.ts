@@ -2,7 +2,7 @@
  * Calibration JSON (a file, or a stream header's `calibration` field) → CalibrationSpec.
  * Validation lives here, at the edge; failures come back as data with messages a person can act on.
  */
-import { readFile } from 'node:fs/promises';
+import { readJsonFile, schemaProblems } from './json-file.ts';
 import { z } from 'zod';
 import type { CalibrationSpec, MuscleCalibration } from '../src/model/calibration.ts';
 import type { FilamentGeometry } from '../src/model/geometry.ts';
@@ -140,13 +140,7 @@ export const HOW_TO_FIX =
 /** Validates an already-parsed JSON value as a calibration. */
 export function parseCalibration(value: unknown): CalibrationResult {
   const parsed = calibrationSchema.safeParse(value);
-  if (!parsed.success) {
-    const problems = parsed.error.issues.map((issue) => {
-      const where = issue.path.length > 0 ? issue.path.map(String).join('.') : '(top level)';
-      return `${where}: ${issue.message}`;
-    });
-    return { ok: false, problems: [...problems, HOW_TO_FIX] };
-  }
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX) };
   const muscles: Record<string, MuscleCalibration> = Object.create(null);
   const problems: string[] = [];
   for (const [name, m] of Object.entries(parsed.data.muscles)) {
@@ -181,20 +175,6 @@ export function calibrationForMuscle(
 }
 
 /** Reads and validates a calibration file; unreadable files and bad JSON are problems too, never throws. */
-export async function readCalibrationFile(path: string): Promise<CalibrationResult> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code ?? 'unknown error';
-    return { ok: false, problems: [`cannot read calibration file ${path} (${code}); check the path and its permissions`] };
-  }
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    return { ok: false, problems: [`calibration file ${path} is not valid JSON: ${(error as Error).message}`, HOW_TO_FIX] };
-  }
-  const result = parseCalibration(value);
-  return result.ok ? result : { ok: false, problems: result.problems.map((p) => `${path}: ${p}`) };
+export function readCalibrationFile(path: string): Promise<CalibrationResult> {
+  return readJsonFile(path, 'calibration', HOW_TO_FIX, parseCalibration);
 }

@@ -7,7 +7,7 @@
  * lengthwise-stream record before the ordinary record parser (parse-record.ts) judges it, so a mapped
  * record is accepted or rejected exactly like a native one.
  */
-import { readFile } from 'node:fs/promises';
+import { readJsonFile, schemaProblems } from './json-file.ts';
 import { z } from 'zod';
 import type { Frame, Rejection, Sample } from '../src/trial/records.ts';
 import { EXCERPT_CHARS, makeRejection, MAX_MESSAGE_CHARS, notJsonRejection, parseMessage, parseRecordValue } from './parse-record.ts';
@@ -119,13 +119,7 @@ function record(entries: Record<string, string> | undefined): Readonly<Record<st
 /** Validates an already-parsed JSON value as a mapping; failures are sentences, never a throw. */
 export function parseDeviceMapping(value: unknown): MappingResult {
   const parsed = deviceMappingSchema.safeParse(value);
-  if (!parsed.success) {
-    const problems = parsed.error.issues.map((issue) => {
-      const where = issue.path.length > 0 ? issue.path.map(String).join('.') : '(top level)';
-      return `${where}: ${issue.message}`;
-    });
-    return { ok: false, problems: [...problems, MAPPING_HOW_TO] };
-  }
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, MAPPING_HOW_TO) };
   const d = parsed.data;
   const fields = {} as Record<MappedField, string>;
   for (const f of MAPPED_FIELDS) fields[f] = d.fields?.[f] ?? OUR_KEY[f];
@@ -152,22 +146,8 @@ export function parseDeviceMapping(value: unknown): MappingResult {
 }
 
 /** Reads and validates a mapping file; unreadable files and bad JSON are problems too. */
-export async function readDeviceMapping(path: string): Promise<MappingResult> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code ?? 'unknown error';
-    return { ok: false, problems: [`cannot read mapping file ${path} (${code}); check the path and its permissions`] };
-  }
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    return { ok: false, problems: [`mapping file ${path} is not valid JSON: ${(error as Error).message}`, MAPPING_HOW_TO] };
-  }
-  const result = parseDeviceMapping(value);
-  return result.ok ? result : { ok: false, problems: result.problems.map((p) => `${path}: ${p}`) };
+export function readDeviceMapping(path: string): Promise<MappingResult> {
+  return readJsonFile(path, 'mapping', MAPPING_HOW_TO, parseDeviceMapping);
 }
 
 function scaled(value: unknown, factor: number, offset = 0): unknown {

@@ -19,6 +19,7 @@ import {
 } from '../src/trial/records.ts';
 import type { RejectReason } from '../src/trial/reasons.ts';
 import { parseCalibration } from './calibration-file.ts';
+import { markerFrame } from './old-link-marker.ts';
 
 /** Deepest nesting accepted (the top-level object is level 1; a header's calibration needs 4). */
 export const MAX_DEPTH = 8;
@@ -42,6 +43,11 @@ export const sampleSchema = z.object({
 });
 export const gaitEventSchema = z.object({ t: timeS, event: z.enum(EVENT_VALUES), side: z.enum(SIDE_VALUES) });
 export const markerSchema = z.object({ t: timeS, marker: z.string() });
+/** A lost live connection, as the session log writes it; `t` is left out when the connection carried no time. */
+export const disconnectionSchema = z.object({
+  t: timeS.optional(),
+  disconnected: z.object({ muscles: z.array(z.string().min(1, 'must be a non-empty muscle name')).nullable(), detail: z.string() }),
+});
 export const headerSchema = z.object({
   format: z.literal('lengthwise-stream'),
   version: z.literal(1),
@@ -53,12 +59,13 @@ export const headerSchema = z.object({
   calibration: z.unknown().optional(),
 });
 
-type Kind = 'sample' | 'event' | 'marker' | 'header';
+type Kind = 'sample' | 'event' | 'marker' | 'disconnection' | 'header';
 
 const SHAPE: Readonly<Record<Kind, string>> = {
   sample: '{"t": SECONDS, "muscle": "NAME", "fascicle_mm": MM, "pennation_deg"?: DEG, "quality"?: 0..1}',
   event: '{"t": SECONDS, "event": "foot_strike"|"toe_off", "side": "left"|"right"}',
   marker: '{"t": SECONDS, "marker": "TEXT"}',
+  disconnection: '{"t"?: SECONDS, "disconnected": {"muscles": ["NAME", …] | null, "detail": "TEXT"}}',
   header: '{"format": "lengthwise-stream", "version": 1, "subject"?, "trial"?, "rate_hz"?, "muscles"?, "calibration"?}',
 };
 
@@ -72,6 +79,9 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
   event: 'must be "foot_strike" or "toe_off"',
   side: 'must be "left" or "right"',
   marker: 'must be a string',
+  disconnected: 'must be an object {"muscles": ["NAME", …] | null, "detail": "TEXT"}',
+  'disconnected.muscles': 'must be a list of muscle names, or null for every muscle',
+  'disconnected.detail': 'must be a string',
   format: 'must be "lengthwise-stream"',
   version: 'must be 1 (this reader reads version 1 of lengthwise-stream)',
   subject: 'must be a string, or left out',
@@ -169,7 +179,7 @@ function quickMarker(o: Record<string, unknown>, line: number): Frame | null {
   const t = o['t'];
   const marker = o['marker'];
   if (typeof t !== 'number' || t - t !== 0 || typeof marker !== 'string') return null;
-  return { kind: 'marker', tS: t, marker, line };
+  return markerFrame(t, marker, line);
 }
 
 interface ScanProblem {
@@ -219,6 +229,7 @@ function scanRejection(problem: ScanProblem, line: number, excerpt: string): Rej
 
 function kindOf(o: Record<string, unknown>): Kind | null {
   if (Object.hasOwn(o, 'format')) return 'header';
+  if (Object.hasOwn(o, 'disconnected')) return 'disconnection';
   if (Object.hasOwn(o, 'event')) return 'event';
   if (Object.hasOwn(o, 'marker')) return 'marker';
   if (Object.hasOwn(o, 'muscle') || Object.hasOwn(o, 'fascicle_mm')) return 'sample';
@@ -252,7 +263,7 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
   const value = valueAt(o, path);
   const present = value !== undefined;
   const last = path.length > 0 ? String(path[path.length - 1]) : '';
-  const rule = FIELD_RULE[last] ?? issue.message;
+  const rule = FIELD_RULE[where] ?? FIELD_RULE[last] ?? issue.message;
   const record = kind === 'event' ? 'gait event' : kind;
 
   if (kind === 'event' && field === 'event' && path.length === 1 && typeof value === 'string') {
@@ -340,7 +351,13 @@ export function parseRecordValueBySchema(value: unknown, line: number, excerpt: 
     case 'marker': {
       const r = markerSchema.safeParse(value);
       if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
-      return { kind: 'marker', tS: r.data.t, marker: r.data.marker, line };
+      return markerFrame(r.data.t, r.data.marker, line);
+    }
+    case 'disconnection': {
+      const r = disconnectionSchema.safeParse(value);
+      if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
+      const { muscles, detail } = r.data.disconnected;
+      return { kind: 'disconnection', tS: r.data.t ?? Number.NaN, muscles, detail, line };
     }
     case 'header': {
       const r = headerSchema.safeParse(value);

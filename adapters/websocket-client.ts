@@ -1,17 +1,14 @@
 /**
  * A live stream from an acquisition computer that serves it: a WebSocket client → batches of frames,
  * one Batch per message. It reconnects by itself (exponential backoff with jitter), finds a dead peer
- * with ping/pong, and says each disconnection in the data's own path: a `[link] disconnected` marker
- * (kept in the session log) and a `disconnected` Gap, so filters restart. Timers run on a scheduler.
+ * with ping/pong, and says each disconnection in the data's own path as a Disconnection record (kept
+ * in the session log), which the pipeline turns into Gaps, so filters restart. Timers run on a scheduler.
  */
 import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, type RawData } from 'ws';
-import type { Batch, Frame, Gap, Marker } from '../src/trial/records.ts';
+import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
-import { linkMarkerText } from '../src/trial/link-marker.ts';
-
-export { LINK_MARKER_PREFIX, linkMarkerText } from '../src/trial/link-marker.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =
@@ -22,15 +19,12 @@ export type LinkEvent =
   | { readonly kind: 'listening'; readonly url: string; readonly port: number }
   | { readonly kind: 'refused'; readonly peer: string; readonly detail: string };
 
-/** Marker text of a disconnection; `restoreGaps` (src/session-log/) turns it back into a Gap on replay. */
-/** The frames that say a connection was lost: the marker, then one Gap per muscle (or one for all). */
-export function disconnectionFrames(muscles: readonly string[] | null, lastTS: number, detail: string, line: number): Frame[] {
-  const marker: Marker = { kind: 'marker', tS: Number.isFinite(lastTS) ? lastTS : 0, marker: linkMarkerText(muscles, detail), line };
-  const gaps: Gap[] =
-    muscles === null
-      ? [{ kind: 'gap', cause: 'disconnected', muscle: null, fromS: lastTS, toS: Number.NaN }]
-      : muscles.map((muscle) => ({ kind: 'gap', cause: 'disconnected', muscle, fromS: lastTS, toS: Number.NaN }));
-  return [marker, ...gaps];
+/**
+ * The record that says a connection was lost, after the last time it carried; `restoreGaps`
+ * (src/pipeline/) turns it into Gaps, live and on every replay of the session log.
+ */
+export function disconnection(muscles: readonly string[] | null, lastTS: number, detail: string, line: number): Disconnection {
+  return { kind: 'disconnection', tS: lastTS, muscles, detail: detail.replace(/[\r\n]+/g, ' '), line };
 }
 
 export interface IngestOptions {
@@ -80,11 +74,11 @@ export class Ingest {
     return [{ ...frame, message: frame.message.replace(/^message is \d+ bytes long/, 'message is over the cap') }];
   }
 
-  /** The connection is gone: the marker and the gaps. */
+  /** The connection is gone: its Disconnection record. */
   disconnected(peer: PeerTrack, allMuscles: boolean, detail: string): Batch {
-    const frames = disconnectionFrames(allMuscles ? null : [...peer.muscles], peer.lastTS, detail, this.nextLine);
+    const frame = disconnection(allMuscles ? null : [...peer.muscles], peer.lastTS, detail, this.nextLine);
     this.nextLine++;
-    return frames;
+    return [frame];
   }
 }
 

@@ -2,8 +2,8 @@
  * A live stream from devices that push: a WebSocket server → batches of frames, one Batch per message,
  * from any number of devices at once (each its own muscles). Binds 127.0.0.1 unless told otherwise;
  * with a token, an upgrade without it is refused with 401; a message over the cap is refused by the
- * socket with close code 1009 and counted as line_too_long. A device's disconnection is a marker and a
- * Gap for the muscles it carried (the other devices' filters go on).
+ * socket with close code 1009 and counted as line_too_long. A device's disconnection is a Disconnection
+ * record naming the muscles it carried, so only their filters restart (the other devices' go on).
  */
 import { timingSafeEqual } from 'node:crypto';
 import type { IncomingMessage } from 'node:http';

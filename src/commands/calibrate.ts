@@ -1,6 +1,7 @@
 /** `lengthwise calibrate FILE`: a calibration from a quiet window of a trial (e.g. standing still). */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
+import type { Parsed } from './option-values.ts';
 import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
@@ -27,7 +28,6 @@ options:
 example:
   lengthwise calibrate standing.ndjson --muscle calf --window 1-4 --sarcomere-length 2.7 --sd 0.1 > cal.json`;
 
-type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
 
 /** Reads `--window START-END` (seconds; START may be negative, END must be later). */
 export function parseWindow(text: string): Parsed<{ startS: number; endS: number }> {

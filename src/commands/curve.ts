@@ -1,6 +1,7 @@
 /** `lengthwise curve`: the force–length model at given sarcomere lengths, or across its whole range. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
+import type { Parsed } from './option-values.ts';
 import { breakpoints, type FilamentGeometry } from '../model/geometry.ts';
 import { CURVE_SHAPES, DEFAULT_SHAPE, isCurveShape, makeMuscleModel, muscleModelProblems, type MuscleModel, type MuscleModelOptions } from '../model/muscle-model.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
@@ -35,7 +36,6 @@ const FILAMENT_KEYS: Readonly<Record<string, keyof FilamentGeometry>> = {
   steep_break_force: 'steepBreakForce',
 };
 
-type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
 
 /** Reads `--filaments thick=1.6,thin=1.27,...`; the keys may also carry the calibration file's `_um` suffix. */
 export function parseFilaments(text: string): Parsed<Partial<FilamentGeometry>> {

@@ -7,13 +7,15 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { calibrationOption, mappingOption } from './option-files.ts';
+import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
 import { unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
-import { LINK_MARKER_PREFIX, websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { OLD_LINK_MARKER_PREFIX } from '../../adapters/old-link-marker.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
 import { writeSessionLog } from '../session-log/write-session-log.ts';
@@ -48,41 +50,6 @@ options:
 
 The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
 closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
-
-type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
-
-/** Reads `--listen`: PORT, HOST:PORT or [IPv6]:PORT. */
-export function parseListen(text: string): Parsed<{ host: string; port: number }> {
-  const m = /^(?:\[([^\]]+)\]:|([^:[\]]+):)?(\d{1,5})$/.exec(text.trim());
-  const port = m === null ? Number.NaN : Number(m[3]);
-  if (m === null || !(port >= 0 && port <= 65535)) {
-    return { ok: false, message: `--listen "${text}" is not an address: give PORT (e.g. 8765), HOST:PORT (e.g. 0.0.0.0:8765) or [IPv6]:PORT; PORT is 0–65535` };
-  }
-  return { ok: true, value: { host: m[1] ?? m[2] ?? '127.0.0.1', port } };
-}
-
-/** Reads `--connect`: a ws:// or wss:// URL. */
-export function parseConnect(text: string): Parsed<string> {
-  let url: URL;
-  try {
-    url = new URL(text);
-  } catch {
-    return { ok: false, message: `--connect "${text}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
-  }
-  if (url.protocol !== 'ws:' && url.protocol !== 'wss:') {
-    return { ok: false, message: `--connect "${text}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
-  }
-  return { ok: true, value: url.href };
-}
-
-/** Reads `--duration`: seconds above 0. */
-export function parseDuration(text: string): Parsed<number> {
-  const n = Number(text);
-  if (text.trim() === '' || !Number.isFinite(n) || !(n > 0)) {
-    return { ok: false, message: `--duration "${text}" is not a duration: give seconds above 0, e.g. 60` };
-  }
-  return { ok: true, value: n };
-}
 
 function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefined {
   switch (event.kind) {
@@ -132,14 +99,10 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     connect: { type: 'string' },
     listen: { type: 'string' },
     token: { type: 'string' },
-    mapping: { type: 'string' },
-    calibration: { type: 'string' },
-    summary: { type: 'string' },
-    strides: { type: 'string' },
-    report: { type: 'string' },
+    ...TRIAL_FILE_OPTIONS,
+    ...TRIAL_OUTPUT_OPTIONS,
     log: { type: 'string' },
     duration: { type: 'string' },
-    plain: { type: 'boolean', default: false },
   }, io, { allowPositionals: false });
   if (typeof parsed === 'number') return parsed;
   const { values } = parsed;
@@ -160,12 +123,10 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     io.err('lengthwise live: --token is empty: give the token the devices send');
     return 2;
   }
-  const calibrationFile = await calibrationOption('live', values.calibration, io);
-  if (!calibrationFile.ok) return 2;
-  const calibration = calibrationFile.value;
-  const mappingFile = await mappingOption('live', values.mapping, io);
-  if (!mappingFile.ok) return 2;
-  const mapping = mappingFile.value ?? null;
+  const files = await trialFiles('live', values, io);
+  if (files === null) return 2;
+  const calibration = files.calibration;
+  const mapping = files.mapping ?? null;
 
   const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
   const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());
@@ -294,8 +255,8 @@ class LiveSession {
 
   private marker(text: string): void {
     const tS = this.latest !== null && Number.isFinite(this.latest.lastTS) ? this.latest.lastTS : 0;
-    // The link prefix is the adapter's: a person's marker never starts with it.
-    const marker = text.startsWith(LINK_MARKER_PREFIX) ? `(typed) ${text}` : text;
+    // A marker with the old link text would be read back from the log as a lost connection.
+    const marker = text.startsWith(OLD_LINK_MARKER_PREFIX) ? `(typed) ${text}` : text;
     const frame: Frame = { kind: 'marker', tS, marker, line: 0 };
     this.extra$.next([frame]);
   }

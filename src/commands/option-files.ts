@@ -7,6 +7,17 @@ import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-map
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { CommandIo } from '../run/io.ts';
 
+/** --calibration and --mapping, the same in every command that runs trials; read them with trialFiles. */
+export const TRIAL_FILE_OPTIONS = { calibration: { type: 'string' }, mapping: { type: 'string' } } as const;
+
+/** What a finished trial writes (--summary, --strides, --report; see finishTrial) and --plain, the same in live and replay. */
+export const TRIAL_OUTPUT_OPTIONS = {
+  summary: { type: 'string' },
+  strides: { type: 'string' },
+  report: { type: 'string' },
+  plain: { type: 'boolean', default: false },
+} as const;
+
 /** The file's content; undefined when the option was not given; `refused` when it was said why not. */
 export type OptionFile<T> = { readonly ok: true; readonly value: T | undefined } | { readonly ok: false };
 
@@ -25,4 +36,23 @@ export async function mappingOption(command: string, path: string | undefined, i
   if (path === undefined) return { ok: true, value: undefined };
   const result = await readDeviceMapping(path);
   return result.ok ? { ok: true, value: result.mapping } : refuse(command, 'device mapping', result.problems, io);
+}
+
+/** What a trial's --calibration and --mapping name. */
+export interface TrialFiles {
+  readonly calibration: CalibrationSpec | undefined;
+  readonly mapping: DeviceMapping | undefined;
+}
+
+/** Reads both files a trial's options may name, the calibration first; null once one was refused (and said why). */
+export async function trialFiles(
+  command: string,
+  values: { readonly calibration?: string | undefined; readonly mapping?: string | undefined },
+  io: CommandIo,
+): Promise<TrialFiles | null> {
+  const calibration = await calibrationOption(command, values.calibration, io);
+  if (!calibration.ok) return null;
+  const mapping = await mappingOption(command, values.mapping, io);
+  if (!mapping.ok) return null;
+  return { calibration: calibration.value, mapping: mapping.value };
 }

@@ -2,7 +2,7 @@
 import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { calibrationOption, mappingOption } from './option-files.ts';
+import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
@@ -54,12 +54,8 @@ export function parseSpeed(text: string): { ok: true; speed: Speed } | { ok: fal
 export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('replay', HELP, argv, {
     speed: { type: 'string', default: '1' },
-    calibration: { type: 'string' },
-    mapping: { type: 'string' },
-    summary: { type: 'string' },
-    strides: { type: 'string' },
-    report: { type: 'string' },
-    plain: { type: 'boolean', default: false },
+    ...TRIAL_FILE_OPTIONS,
+    ...TRIAL_OUTPUT_OPTIONS,
   }, io);
   if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
@@ -73,12 +69,10 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise replay: ${speed.message}`);
     return 2;
   }
-  const calibrationFile = await calibrationOption('replay', values.calibration, io);
-  if (!calibrationFile.ok) return 2;
-  const calibration = calibrationFile.value;
-  const mappingFile = await mappingOption('replay', values.mapping, io);
-  if (!mappingFile.ok) return 2;
-  const mapping = mappingFile.value ?? null;
+  const files = await trialFiles('replay', values, io);
+  if (files === null) return 2;
+  const calibration = files.calibration;
+  const mapping = files.mapping ?? null;
 
   const speed$ = new BehaviorSubject<Speed>(speed.speed);
   const valve = readAheadValve();

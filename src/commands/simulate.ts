@@ -4,6 +4,7 @@
  */
 import { parseArgs } from 'node:util';
 import type { CommandIo } from '../run/io.ts';
+import { parseConnect, parseDuration, parseListen, type ListenAddress, type Parsed } from './option-values.ts';
 import { SCENARIOS, type Scenario } from '../sim/gait-generator.ts';
 import {
   pushSimulator,
@@ -38,22 +39,7 @@ examples:
   lengthwise simulate --listen 8765
   lengthwise simulate --connect ws://127.0.0.1:8765 --scenario run --faults --duration 60`;
 
-export interface ListenAddress {
-  readonly host: string;
-  readonly port: number;
-}
-
-/** "[HOST:]PORT" → host and port, or a problem saying what is accepted. */
-export function parseListen(text: string): ListenAddress | string {
-  const m = /^(?:\[([^\]]+)\]:|([^:[\]]+):)?(\d{1,5})$/.exec(text.trim());
-  const port = m === null ? Number.NaN : Number(m[3]);
-  if (m === null || !(port >= 0 && port <= 65535)) {
-    return `--listen "${text}": give PORT or HOST:PORT with a port 0–65535, e.g. --listen 8765 or --listen 0.0.0.0:8765`;
-  }
-  return { host: m[1] ?? m[2] ?? '127.0.0.1', port };
-}
-
-type Parsed =
+type SimulateArgs =
   | { readonly ok: true; readonly help: true }
   | {
       readonly ok: true;
@@ -80,7 +66,7 @@ function numberOption(
   return n;
 }
 
-export function parseSimulateArgs(argv: readonly string[]): Parsed {
+export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
   let values;
   try {
     ({ values } = parseArgs({
@@ -104,17 +90,16 @@ export function parseSimulateArgs(argv: readonly string[]): Parsed {
   }
   if (values.help === true) return { ok: true, help: true };
   const problems: string[] = [];
-  let listen: ListenAddress | null = null;
-  if (values.listen !== undefined) {
-    const l = parseListen(values.listen);
-    if (typeof l === 'string') problems.push(l);
-    else listen = l;
-  }
-  const connect = values.connect ?? null;
-  if (connect !== null && !/^wss?:\/\/[^/\s]+/.test(connect)) {
-    problems.push(`--connect "${connect}": give a ws:// or wss:// address, e.g. --connect ws://127.0.0.1:8765`);
-  }
-  if ((values.listen === undefined) === (connect === null)) {
+  const value = <T>(parsed: Parsed<T> | null): T | null => {
+    if (parsed === null) return null;
+    if (parsed.ok) return parsed.value;
+    problems.push(parsed.message);
+    return null;
+  };
+  const listen = value(values.listen === undefined ? null : parseListen(values.listen));
+  // The address as given: it is what the simulator says it pushes to.
+  const connect = values.connect !== undefined && value(parseConnect(values.connect)) !== null ? values.connect : null;
+  if ((values.listen === undefined) === (values.connect === undefined)) {
     problems.push('give exactly one of --listen [HOST:]PORT (serve the stream) or --connect URL (push it to a server)');
   }
   let scenario: Scenario | undefined;
@@ -123,7 +108,7 @@ export function parseSimulateArgs(argv: readonly string[]): Parsed {
     else problems.push(`--scenario "${values.scenario}": give one of ${SCENARIOS.join(', ')}`);
   }
   const rateHz = numberOption(values.rate, 'rate', 'samples per second, 1–2000', (n) => n >= 1 && n <= 2000, problems);
-  const durationS = numberOption(values.duration, 'duration', 'seconds above 0, e.g. --duration 30', (n) => n > 0, problems);
+  const durationS = value(values.duration === undefined ? null : parseDuration(values.duration)) ?? undefined;
   const seed = numberOption(values.seed, 'seed', 'a whole number, e.g. --seed 7', (n) => Number.isInteger(n), problems);
   let muscles: string[] | undefined;
   if (values.muscles !== undefined) {

@@ -1,7 +1,7 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { calibrationOption, mappingOption } from './option-files.ts';
+import { TRIAL_FILE_OPTIONS, trialFiles } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -80,8 +80,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('summarize', HELP, argv, {
     out: { type: 'string' },
     report: { type: 'string' },
-    calibration: { type: 'string' },
-    mapping: { type: 'string' },
+    ...TRIAL_FILE_OPTIONS,
     jobs: { type: 'string' },
     plain: { type: 'boolean', default: false },
   }, io);
@@ -100,12 +99,9 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }
     jobs = parsedJobs.jobs;
   }
-  const calibrationFile = await calibrationOption('summarize', values.calibration, io);
-  if (!calibrationFile.ok) return 2;
-  const calibration = calibrationFile.value;
-  const mappingFile = await mappingOption('summarize', values.mapping, io);
-  if (!mappingFile.ok) return 2;
-  const mapping = mappingFile.value;
+  const files = await trialFiles('summarize', values, io);
+  if (files === null) return 2;
+  const { calibration, mapping } = files;
 
   const started = performance.now();
   const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);

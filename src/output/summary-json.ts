@@ -197,6 +197,22 @@ export interface TrialContext {
   readonly histograms: { readonly stride: Float64Array; readonly stance: Float64Array; readonly swing: Float64Array } | undefined;
 }
 
+/** A time-weighted mean of the stretches that have a finite value. */
+class FiniteMean {
+  private sum = 0;
+  private weight = 0;
+
+  add(value: number | undefined, w: number): void {
+    if (value === undefined || !Number.isFinite(value)) return;
+    this.sum += value * w;
+    this.weight += w;
+  }
+
+  value(): number | null {
+    return this.weight > 0 ? num(this.sum / this.weight) : null;
+  }
+}
+
 function aggregate(stretches: readonly Stretch[], histogram: Float64Array | undefined, context: TrialContext | undefined): TrialPhaseJson {
   let min = Number.POSITIVE_INFINITY;
   let max = Number.NEGATIVE_INFINITY;
@@ -204,10 +220,8 @@ function aggregate(stretches: readonly Stretch[], histogram: Float64Array | unde
   let vMax = Number.NEGATIVE_INFINITY;
   let slSeconds = 0;
   let forceSeconds = 0;
-  let lvSeconds = 0;
-  let lvWeight = 0;
-  let tendonSeconds = 0;
-  let tendonWeight = 0;
+  const forceLv = new FiniteMean();
+  const forceTendon = new FiniteMean();
   let excursionSum = 0;
   let excursionCount = 0;
   let total = 0;
@@ -233,14 +247,8 @@ function aggregate(stretches: readonly Stretch[], histogram: Float64Array | unde
     total += w;
     slSeconds += s.slMeanUm * w;
     forceSeconds += s.forceMean * w;
-    if (s.forceLvMean !== undefined && Number.isFinite(s.forceLvMean)) {
-      lvSeconds += s.forceLvMean * w;
-      lvWeight += w;
-    }
-    if (s.forceTendonMean !== undefined && Number.isFinite(s.forceTendonMean)) {
-      tendonSeconds += s.forceTendonMean * w;
-      tendonWeight += w;
-    }
+    forceLv.add(s.forceLvMean, w);
+    forceTendon.add(s.forceTendonMean, w);
     for (const key of REGION_KEYS) regionS[key] += s.regionFraction[key] * w;
   }
   const regionFraction = zeroRegionRecord();
@@ -256,8 +264,8 @@ function aggregate(stretches: readonly Stretch[], histogram: Float64Array | unde
     region_fraction: regionFraction,
     ...probabilityJson(probability),
     force_mean: total > 0 ? num(forceSeconds / total) : null,
-    force_lv_mean: lvWeight > 0 ? num(lvSeconds / lvWeight) : null,
-    force_tendon_mean: tendonWeight > 0 ? num(tendonSeconds / tendonWeight) : null,
+    force_lv_mean: forceLv.value(),
+    force_tendon_mean: forceTendon.value(),
     velocity_min_mm_s: num(vMin),
     velocity_max_mm_s: num(vMax),
     gap_s: gap,

@@ -292,6 +292,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             if (f.event === 'toe_off') onToeOff(f);
             return;
           case 'marker':
+          case 'disconnection':
+            // A lost connection counts among the markers, as it did when it was one.
             state.frames.received++;
             state.frames.markers++;
             return;

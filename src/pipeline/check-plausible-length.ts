@@ -1,6 +1,8 @@
-import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame } from '../trial/records.ts';
+import type { OperatorFunction } from 'rxjs';
+import type { Batch } from '../trial/records.ts';
 import { PLAUSIBLE_SL_UM } from '../model/calibration.ts';
+import { OutBatch } from './out-batch.ts';
+import { statefulStage } from './stateful-stage.ts';
 
 /**
  * Says once per muscle, as a Notice, when its estimated sarcomere length leaves the range skeletal muscle
@@ -8,31 +10,26 @@ import { PLAUSIBLE_SL_UM } from '../model/calibration.ts';
  * untouched; they are still placed on the curve, and the summary carries the notice.
  */
 export function checkPlausibleLength(): OperatorFunction<Batch, Batch> {
-  return (source) =>
-    defer(() => {
-      const told = new Set<string>();
-      return source.pipe(
-        map((batch) => {
-          let out: Frame[] | null = null;
-          for (let i = 0; i < batch.length; i++) {
-            const f = batch[i] as Frame;
-            if (out !== null) out.push(f);
-            if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;
-            if (f.sarcomereUm >= PLAUSIBLE_SL_UM.min && f.sarcomereUm <= PLAUSIBLE_SL_UM.max) continue;
-            if (told.has(f.muscle)) continue;
-            told.add(f.muscle);
-            out ??= batch.slice(0, i + 1);
-            out.push({
-              kind: 'notice',
-              muscle: f.muscle,
-              text:
-                `${f.muscle}: estimated sarcomere length ${f.sarcomereUm.toFixed(2)} µm at t=${f.tS} s (fascicle ${f.fascicleMm} mm) is outside ` +
-                `${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm, which skeletal muscle cannot reach; check the calibration's sarcomere count ` +
-                `and that the device sends millimetres (a device mapping converts other units)`,
-            });
-          }
-          return out ?? batch;
-        }),
-      );
-    });
+  return statefulStage(() => {
+    const told = new Set<string>();
+    return (batch) => {
+      const out = new OutBatch(batch);
+      for (const f of batch) {
+        out.pass(f);
+        if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;
+        if (f.sarcomereUm >= PLAUSIBLE_SL_UM.min && f.sarcomereUm <= PLAUSIBLE_SL_UM.max) continue;
+        if (told.has(f.muscle)) continue;
+        told.add(f.muscle);
+        out.insert({
+          kind: 'notice',
+          muscle: f.muscle,
+          text:
+            `${f.muscle}: estimated sarcomere length ${f.sarcomereUm.toFixed(2)} µm at t=${f.tS} s (fascicle ${f.fascicleMm} mm) is outside ` +
+            `${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm, which skeletal muscle cannot reach; check the calibration's sarcomere count ` +
+            `and that the device sends millimetres (a device mapping converts other units)`,
+        });
+      }
+      return out.done();
+    };
+  });
 }

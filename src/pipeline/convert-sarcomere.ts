@@ -9,7 +9,7 @@ import {
 } from '../model/calibration.ts';
 import { DEFAULT_SPECIES } from '../model/species.ts';
 import { plateauMiddleUm } from '../model/geometry.ts';
-import { percentileOfSorted } from '../model/quiet-window.ts';
+import { percentileOfSorted } from '../model/percentile.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
 

@@ -1,5 +1,7 @@
-import { defer, map, type OperatorFunction } from 'rxjs';
+import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
+import { forgetAcrossGap } from './forget-across-gap.ts';
+import { statefulStage } from './stateful-stage.ts';
 
 interface Last {
   tS: number;
@@ -11,33 +13,29 @@ interface Last {
  * Needs no future samples, so live and replay agree; restarts after a Gap or a skipped sample.
  */
 export function estimateVelocity(): OperatorFunction<Batch, Batch> {
-  return (source) =>
-    defer(() => {
-      const last = new Map<string, Last>();
-      return source.pipe(
-        map((batch) => {
-          for (const f of batch) {
-            if (f.kind === 'gap') {
-              if (f.muscle === null) last.clear();
-              else last.delete(f.muscle);
-              continue;
-            }
-            if (f.kind !== 'sample') continue;
-            if (Number.isNaN(f.smoothMm)) {
-              last.delete(f.muscle);
-              continue;
-            }
-            const previous = last.get(f.muscle);
-            if (previous === undefined) {
-              last.set(f.muscle, { tS: f.tS, smoothMm: f.smoothMm });
-              continue;
-            }
-            f.velocityMmS = (f.smoothMm - previous.smoothMm) / (f.tS - previous.tS);
-            previous.tS = f.tS;
-            previous.smoothMm = f.smoothMm;
-          }
-          return batch;
-        }),
-      );
-    });
+  return statefulStage(() => {
+    const last = new Map<string, Last>();
+    return (batch) => {
+      for (const f of batch) {
+        if (f.kind === 'gap') {
+          forgetAcrossGap(last, f);
+          continue;
+        }
+        if (f.kind !== 'sample') continue;
+        if (Number.isNaN(f.smoothMm)) {
+          last.delete(f.muscle);
+          continue;
+        }
+        const previous = last.get(f.muscle);
+        if (previous === undefined) {
+          last.set(f.muscle, { tS: f.tS, smoothMm: f.smoothMm });
+          continue;
+        }
+        f.velocityMmS = (f.smoothMm - previous.smoothMm) / (f.tS - previous.tS);
+        previous.tS = f.tS;
+        previous.smoothMm = f.smoothMm;
+      }
+      return batch;
+    };
+  });
 }

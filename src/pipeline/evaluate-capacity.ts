@@ -1,5 +1,6 @@
-import { defer, map, type OperatorFunction } from 'rxjs';
+import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
+import { statefulStage } from './stateful-stage.ts';
 import { plateauMiddleUm } from '../model/geometry.ts';
 import {
   DEFAULT_VMAX_L0_PER_S,
@@ -27,26 +28,23 @@ export interface EvaluateCapacityOptions {
 export function evaluateCapacity(options: EvaluateCapacityOptions = {}): OperatorFunction<Batch, Batch> {
   const vmax = options.vmaxL0PerS ?? DEFAULT_VMAX_L0_PER_S;
   const fvOptions = options.forceVelocity ?? {};
-  return (source) =>
-    defer(() => {
-      /** Optimal fascicle length (mm) of each calibrated muscle. */
-      const optimalMm = new Map<string, number>();
-      return source.pipe(
-        map((batch) => {
-          for (const f of batch) {
-            if (f.kind === 'calibration') {
-              optimalMm.set(f.muscle, (f.sarcomeresInSeries * plateauMiddleUm(curveForCalibration(f.calibration))) / 1000);
-              continue;
-            }
-            if (f.kind !== 'sample' || Number.isNaN(f.force)) continue;
-            const l0 = optimalMm.get(f.muscle);
-            if (l0 === undefined || !(l0 > 0)) continue;
-            const lv = f.force * forceVelocityFactor(normalizedVelocity(f.velocityMmS, l0, vmax), fvOptions);
-            f.forceLv = lv;
-            f.forceTendon = lv * alongTendonFactor(f.pennationDeg);
-          }
-          return batch;
-        }),
-      );
-    });
+  return statefulStage(() => {
+    /** Optimal fascicle length (mm) of each calibrated muscle. */
+    const optimalMm = new Map<string, number>();
+    return (batch) => {
+      for (const f of batch) {
+        if (f.kind === 'calibration') {
+          optimalMm.set(f.muscle, (f.sarcomeresInSeries * plateauMiddleUm(curveForCalibration(f.calibration))) / 1000);
+          continue;
+        }
+        if (f.kind !== 'sample' || Number.isNaN(f.force)) continue;
+        const l0 = optimalMm.get(f.muscle);
+        if (l0 === undefined || !(l0 > 0)) continue;
+        const lv = f.force * forceVelocityFactor(normalizedVelocity(f.velocityMmS, l0, vmax), fvOptions);
+        f.forceLv = lv;
+        f.forceTendon = lv * alongTendonFactor(f.pennationDeg);
+      }
+      return batch;
+    };
+  });
 }

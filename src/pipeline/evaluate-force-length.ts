@@ -1,5 +1,6 @@
-import { defer, map, type OperatorFunction } from 'rxjs';
+import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
+import { statefulStage } from './stateful-stage.ts';
 import { DEFAULT_SPECIES } from '../model/species.ts';
 import { muscleModelFor } from '../model/calibration.ts';
 import type { MuscleModel } from '../model/muscle-model.ts';
@@ -10,24 +11,21 @@ import type { MuscleModel } from '../model/muscle-model.ts';
  * come from the geometry, whatever shape gives the force.
  */
 export function evaluateForceLength(): OperatorFunction<Batch, Batch> {
-  return (source) =>
-    defer(() => {
-      const fallback = muscleModelFor({ species: DEFAULT_SPECIES, method: 'sarcomere_count', sarcomeresInSeries: 1 });
-      const evaluators = new Map<string, MuscleModel>();
-      return source.pipe(
-        map((batch) => {
-          for (const f of batch) {
-            if (f.kind === 'calibration') {
-              evaluators.set(f.muscle, muscleModelFor(f.calibration));
-              continue;
-            }
-            if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;
-            const evaluator = evaluators.get(f.muscle) ?? fallback;
-            f.force = evaluator.forceAt(f.sarcomereUm);
-            f.region = evaluator.regionAt(f.sarcomereUm);
-          }
-          return batch;
-        }),
-      );
-    });
+  return statefulStage(() => {
+    const fallback = muscleModelFor({ species: DEFAULT_SPECIES, method: 'sarcomere_count', sarcomeresInSeries: 1 });
+    const evaluators = new Map<string, MuscleModel>();
+    return (batch) => {
+      for (const f of batch) {
+        if (f.kind === 'calibration') {
+          evaluators.set(f.muscle, muscleModelFor(f.calibration));
+          continue;
+        }
+        if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;
+        const evaluator = evaluators.get(f.muscle) ?? fallback;
+        f.force = evaluator.forceAt(f.sarcomereUm);
+        f.region = evaluator.regionAt(f.sarcomereUm);
+      }
+      return batch;
+    };
+  });
 }

@@ -1,5 +1,7 @@
-import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame } from '../trial/records.ts';
+import type { OperatorFunction } from 'rxjs';
+import type { Batch } from '../trial/records.ts';
+import { OutBatch } from './out-batch.ts';
+import { statefulStage } from './stateful-stage.ts';
 
 export interface MarkGapsOptions {
   /** A forward jump between two samples of one muscle longer than this starts a gap. @default 0.25 */
@@ -14,33 +16,27 @@ export const DEFAULT_GAP_S = 0.25;
  */
 export function markGaps(options: MarkGapsOptions = {}): OperatorFunction<Batch, Batch> {
   const gapS = options.gapS ?? DEFAULT_GAP_S;
-  return (source) =>
-    defer(() => {
-      // One mutable cell per muscle: the common sample costs one lookup and no Map write.
-      const lastTS = new Map<string, { tS: number }>();
-      return source.pipe(
-        map((batch) => {
-          // Gaps are rare: the batch is rebuilt only when one is found.
-          let out: Frame[] | null = null;
-          for (let i = 0; i < batch.length; i++) {
-            const f = batch[i] as Frame;
-            if (f.kind === 'sample') {
-              const cell = lastTS.get(f.muscle);
-              let previous: number | undefined;
-              if (cell === undefined) lastTS.set(f.muscle, { tS: f.tS });
-              else {
-                previous = cell.tS;
-                cell.tS = f.tS;
-              }
-              if (previous !== undefined && f.tS - previous > gapS) {
-                out ??= batch.slice(0, i);
-                out.push({ kind: 'gap', cause: 'time_jump', muscle: f.muscle, fromS: previous, toS: f.tS });
-              }
-            }
-            if (out !== null) out.push(f);
+  return statefulStage(() => {
+    // One mutable cell per muscle: the common sample costs one lookup and no Map write.
+    const lastTS = new Map<string, { tS: number }>();
+    return (batch) => {
+      const out = new OutBatch(batch);
+      for (const f of batch) {
+        if (f.kind === 'sample') {
+          const cell = lastTS.get(f.muscle);
+          let previous: number | undefined;
+          if (cell === undefined) lastTS.set(f.muscle, { tS: f.tS });
+          else {
+            previous = cell.tS;
+            cell.tS = f.tS;
           }
-          return out ?? batch;
-        }),
-      );
-    });
+          if (previous !== undefined && f.tS - previous > gapS) {
+            out.insert({ kind: 'gap', cause: 'time_jump', muscle: f.muscle, fromS: previous, toS: f.tS });
+          }
+        }
+        out.pass(f);
+      }
+      return out.done();
+    };
+  });
 }

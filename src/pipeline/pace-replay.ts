@@ -87,6 +87,7 @@ function frameTimeS(frame: Frame): number {
     case 'sample':
     case 'event':
     case 'marker':
+    case 'disconnection':
       return frame.tS;
     default:
       return Number.NaN;

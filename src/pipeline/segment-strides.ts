@@ -1,5 +1,7 @@
-import { defer, map, type OperatorFunction } from 'rxjs';
-import type { Batch, Frame, Side } from '../trial/records.ts';
+import type { OperatorFunction } from 'rxjs';
+import type { Batch, Side } from '../trial/records.ts';
+import { OutBatch } from './out-batch.ts';
+import { statefulStage } from './stateful-stage.ts';
 
 interface MuscleStrides {
   side: Side | null;
@@ -13,74 +15,61 @@ interface MuscleStrides {
  * the header takes the side of the first foot strike seen, and a Notice says so.
  */
 export function segmentStrides(): OperatorFunction<Batch, Batch> {
-  return (source) =>
-    defer(() => {
-      const muscles = new Map<string, MuscleStrides>();
-      const declared = new Map<string, Side>();
-      let firstStrikeSide: Side | null = null;
+  return statefulStage(() => {
+    const muscles = new Map<string, MuscleStrides>();
+    const declared = new Map<string, Side>();
+    let firstStrikeSide: Side | null = null;
 
-      const muscleOf = (name: string, out: Frame[]): MuscleStrides => {
-        let m = muscles.get(name);
-        if (m === undefined) {
-          m = { side: declared.get(name) ?? null, index: -1 };
-          muscles.set(name, m);
-          if (m.side === null && firstStrikeSide !== null) assume(name, m, firstStrikeSide, out);
+    const muscleOf = (name: string, out: OutBatch): MuscleStrides => {
+      let m = muscles.get(name);
+      if (m === undefined) {
+        m = { side: declared.get(name) ?? null, index: -1 };
+        muscles.set(name, m);
+        if (m.side === null && firstStrikeSide !== null) assume(name, m, firstStrikeSide, out);
+      }
+      return m;
+    };
+
+    const assume = (name: string, m: MuscleStrides, side: Side, out: OutBatch): void => {
+      m.side = side;
+      out.insert({
+        kind: 'notice',
+        muscle: name,
+        text: `${name}: no side declared in the header, so it takes the side of the first foot strike seen (${side}); declare "muscles": {"${name}": {"side": "left"|"right"}} in the header to be sure`,
+      });
+    };
+
+    return (batch) => {
+      const out = new OutBatch(batch);
+      for (const f of batch) {
+        if (f.kind === 'sample') {
+          // A new muscle may need a Notice, ahead of its first sample.
+          f.strideIndex = (muscles.get(f.muscle) ?? muscleOf(f.muscle, out)).index;
+          out.pass(f);
+          continue;
         }
-        return m;
-      };
-
-      const assume = (name: string, m: MuscleStrides, side: Side, out: Frame[]): void => {
-        m.side = side;
-        out.push({
-          kind: 'notice',
-          muscle: name,
-          text: `${name}: no side declared in the header, so it takes the side of the first foot strike seen (${side}); declare "muscles": {"${name}": {"side": "left"|"right"}} in the header to be sure`,
-        });
-      };
-
-      return source.pipe(
-        map((batch) => {
-          let out: Frame[] | null = null;
-          for (let i = 0; i < batch.length; i++) {
-            const f = batch[i] as Frame;
-            if (f.kind === 'sample') {
-              const m = muscles.get(f.muscle);
-              if (m !== undefined) {
-                f.strideIndex = m.index;
-                if (out !== null) out.push(f);
-                continue;
-              }
-              // A new muscle: may need a Notice, so the batch is rebuilt from here.
-              out ??= batch.slice(0, i);
-              f.strideIndex = muscleOf(f.muscle, out).index;
-              out.push(f);
-              continue;
-            }
-            out ??= f.kind === 'event' || f.kind === 'header' ? batch.slice(0, i) : null;
-            if (out === null) continue;
-            out.push(f);
-            if (f.kind === 'header') {
-              // Declared muscles count strides from the first foot strike, even before their first sample.
-              for (const [name, decl] of Object.entries(f.muscles)) {
-                if (decl.side !== undefined) declared.set(name, decl.side);
-                const m = muscles.get(name);
-                if (m === undefined) muscleOf(name, out);
-                else if (m.side === null && decl.side !== undefined) m.side = decl.side;
-              }
-            } else if (f.kind === 'event' && f.event === 'foot_strike') {
-              if (firstStrikeSide === null) {
-                firstStrikeSide = f.side;
-                for (const [name, m] of muscles) if (m.side === null) assume(name, m, f.side, out);
-              }
-              for (const [name, m] of muscles) {
-                if (m.side !== f.side) continue;
-                m.index++;
-                out.push({ kind: 'stride', muscle: name, side: f.side, index: m.index, tS: f.tS });
-              }
-            }
+        out.pass(f);
+        if (f.kind === 'header') {
+          // Declared muscles count strides from the first foot strike, even before their first sample.
+          for (const [name, decl] of Object.entries(f.muscles)) {
+            if (decl.side !== undefined) declared.set(name, decl.side);
+            const m = muscles.get(name);
+            if (m === undefined) muscleOf(name, out);
+            else if (m.side === null && decl.side !== undefined) m.side = decl.side;
           }
-          return out ?? batch;
-        }),
-      );
-    });
+        } else if (f.kind === 'event' && f.event === 'foot_strike') {
+          if (firstStrikeSide === null) {
+            firstStrikeSide = f.side;
+            for (const [name, m] of muscles) if (m.side === null) assume(name, m, f.side, out);
+          }
+          for (const [name, m] of muscles) {
+            if (m.side !== f.side) continue;
+            m.index++;
+            out.insert({ kind: 'stride', muscle: name, side: f.side, index: m.index, tS: f.tS });
+          }
+        }
+      }
+      return out.done();
+    };
+  });
 }

@@ -1,7 +1,9 @@
 import KalmanFilter from 'kalmanjs';
-import { defer, map, type OperatorFunction } from 'rxjs';
+import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
+import { forgetAcrossGap } from './forget-across-gap.ts';
+import { statefulStage } from './stateful-stage.ts';
 
 export interface SmoothKalmanOptions {
   /**
@@ -35,32 +37,28 @@ export function smoothKalman(options: SmoothKalmanOptions = {}): OperatorFunctio
   const measurementNoiseMm2 = options.measurementNoiseMm2 ?? DEFAULT_MEASUREMENT_NOISE_MM2;
   const processNoiseMm2PerS = options.processNoiseMm2PerS ?? DEFAULT_PROCESS_NOISE_MM2_PER_S;
   const skipBelow = options.skipBelow ?? DEFAULT_SKIP_BELOW;
-  return (source) =>
-    defer(() => {
-      const tracks = new Map<string, Track>();
-      return source.pipe(
-        map((batch) => {
-          for (const f of batch) {
-            if (f.kind === 'gap') {
-              if (f.muscle === null) tracks.clear();
-              else tracks.delete(f.muscle);
-              continue;
-            }
-            if (f.kind !== 'sample') continue;
-            if (f.quality < skipBelow) continue;
-            let track = tracks.get(f.muscle);
-            if (track === undefined) {
-              track = { filter: new KalmanFilter({ R: 0, Q: measurementNoiseMm2 }), lastTS: f.tS };
-              tracks.set(f.muscle, track);
-            }
-            const dtS = f.tS - track.lastTS;
-            track.lastTS = f.tS;
-            track.filter.R = processNoiseMm2PerS * dtS;
-            track.filter.Q = measurementNoiseMm2 / f.quality;
-            f.smoothMm = track.filter.filter(f.fascicleMm);
-          }
-          return batch;
-        }),
-      );
-    });
+  return statefulStage(() => {
+    const tracks = new Map<string, Track>();
+    return (batch) => {
+      for (const f of batch) {
+        if (f.kind === 'gap') {
+          forgetAcrossGap(tracks, f);
+          continue;
+        }
+        if (f.kind !== 'sample') continue;
+        if (f.quality < skipBelow) continue;
+        let track = tracks.get(f.muscle);
+        if (track === undefined) {
+          track = { filter: new KalmanFilter({ R: 0, Q: measurementNoiseMm2 }), lastTS: f.tS };
+          tracks.set(f.muscle, track);
+        }
+        const dtS = f.tS - track.lastTS;
+        track.lastTS = f.tS;
+        track.filter.R = processNoiseMm2PerS * dtS;
+        track.filter.Q = measurementNoiseMm2 / f.quality;
+        f.smoothMm = track.filter.filter(f.fascicleMm);
+      }
+      return batch;
+    };
+  });
 }

@@ -35,6 +35,17 @@ function bandRows(curve: ForceLengthCurve, lo: number, hi: number): { region: Re
   return regionBands(curve, lo, hi).map((b) => ({ region: b.region, label: REGION_LABEL[b.region], from: b.fromUm, to: b.toUm }));
 }
 
+/** The curve's regions over [lo, hi] as shaded bands behind a plot, along its length axis; none without a curve. */
+function regionBandLayer(curve: ForceLengthCurve | null, lo: number, hi: number, lengthAxis: 'x' | 'y', opacity: number) {
+  const from = { field: 'from', type: 'quantitative', ...fixedScale(lo, hi) } as const;
+  const to = { field: 'to' } as const;
+  return {
+    data: { values: curve === null ? [] : bandRows(curve, lo, hi) },
+    mark: { type: 'rect', opacity },
+    encoding: lengthAxis === 'x' ? { x: from, x2: to, color: regionColour(false) } : { y: from, y2: to, color: regionColour(false) },
+  } as const;
+}
+
 export interface ForceLengthPlot {
   readonly curve: ForceLengthCurve;
   readonly time: TimeAtLength;
@@ -62,11 +73,7 @@ export function forceLengthSpec(p: ForceLengthPlot): TopLevelSpec {
     width: WIDTH,
     height: HEIGHT,
     layer: [
-      {
-        data: { values: bandRows(p.curve, lo, hi) },
-        mark: { type: 'rect', opacity: 0.13 },
-        encoding: { x: { field: 'from', type: 'quantitative', ...x }, x2: { field: 'to' }, color: regionColour(false) },
-      },
+      regionBandLayer(p.curve, lo, hi, 'x', 0.13),
       {
         data: { values: bins },
         mark: { type: 'rect', opacity: 0.85 },
@@ -121,11 +128,7 @@ export function cycleSpec(p: CyclePlot): TopLevelSpec {
     width: WIDTH,
     height: HEIGHT,
     layer: [
-      {
-        data: { values: bandRows(p.curve, lo, hi) },
-        mark: { type: 'rect', opacity: 0.16 },
-        encoding: { y: { field: 'from', type: 'quantitative', ...y }, y2: { field: 'to' }, color: regionColour(false) },
-      },
+      regionBandLayer(p.curve, lo, hi, 'y', 0.16),
       {
         data: { values: p.rows.map((r) => ({ ...r })) },
         layer: [
@@ -178,11 +181,7 @@ export function strideSpec(p: StridePlot): TopLevelSpec {
     width: WIDTH,
     height: HEIGHT,
     layer: [
-      {
-        data: { values: bandRows(p.curve, lo, hi) },
-        mark: { type: 'rect', opacity: 0.16 },
-        encoding: { y: { field: 'from', type: 'quantitative', ...y }, y2: { field: 'to' }, color: regionColour(false) },
-      },
+      regionBandLayer(p.curve, lo, hi, 'y', 0.16),
       {
         data: { values },
         layer: [
@@ -266,11 +265,7 @@ export function rangeOverviewSpec(rows: readonly OverviewRow[], curve: ForceLeng
     width: 420,
     height: overviewHeight(rows.length),
     layer: [
-      {
-        data: { values: curve === null ? [] : bandRows(curve, lo, hi) },
-        mark: { type: 'rect', opacity: 0.16 },
-        encoding: { x: { field: 'from', type: 'quantitative', ...x }, x2: { field: 'to' }, color: regionColour(false) },
-      },
+      regionBandLayer(curve, lo, hi, 'x', 0.16),
       {
         data: { values },
         layer: [

@@ -1,7 +1,7 @@
 /** A reference calibration captured while running: the last seconds at the current posture, at an assumed sarcomere length. */
 import type { CalibrationApplied } from '../trial/records.ts';
 import type { Species } from '../model/species.ts';
-import { percentileOfSorted } from '../model/quiet-window.ts';
+import { percentileOfSorted } from '../model/percentile.ts';
 
 export type CaptureResult =
   | { readonly ok: true; readonly frame: CalibrationApplied; readonly fascicleMm: number; readonly spreadPercent: number; readonly json: object }

@@ -7,7 +7,10 @@
  * - a rejected record is written as a line of our own shape, `{"rejected": REASON, "rx", "message",
  *   "excerpt", …}`, built so that the parser rejects it again for the same reason (the reason-specific
  *   tail below does that), so a replay counts the same rejections;
- * - a lost connection is the `[link] disconnected` marker the adapter put in the stream.
+ * - a lost connection (a Disconnection record) is a line of its own kind, `{"t", "disconnected":
+ *   {"muscles": [NAME, …] | null, "detail"}, "rx"}` (`t` left out when the connection carried no time);
+ *   logs written before this line existed carry a `[link] disconnected` marker instead, which the
+ *   reader still takes for the same record.
  * Samples rejected later by the pipeline (time going backwards, duplicates) are written as received,
  * so the replay's pipeline rejects them again. Every line is a JSON object, so a line cut short by a
  * crash is never valid: at worst it is one not_json rejection.
@@ -87,6 +90,10 @@ export function logLine(f: Frame, rxMs: number): string | null {
       return `{"t":${num(f.tS)},"event":"${f.event}","side":"${f.side}","rx":${rx}}`;
     case 'marker':
       return `{"t":${num(f.tS)},"marker":${JSON.stringify(f.marker)},"rx":${rx}}`;
+    case 'disconnection': {
+      const t = Number.isNaN(f.tS) ? '' : `"t":${num(f.tS)},`;
+      return `{${t}"disconnected":{"muscles":${JSON.stringify(f.muscles)},"detail":${JSON.stringify(f.detail)}},"rx":${rx}}`;
+    }
     case 'header':
       return headerLine(f, rx);
     case 'rejection':

@@ -3,7 +3,7 @@
  * them. Each is built so that it can never be read as a valid record, even by a reader that misses the
  * intended reason (a too-long line or a too-deep one also lacks the fields of any record).
  */
-import type { RejectReason } from '../trial/reasons.ts';
+import { REJECT_REASONS, type RejectReason } from '../trial/reasons.ts';
 import type { WireSample } from './wire.ts';
 import { formatNumber } from './format-number.ts';
 
@@ -23,15 +23,7 @@ export interface BadLineContext {
 export const ORDER_REASONS: readonly RejectReason[] = ['time_not_increasing', 'duplicate'];
 
 /** Reasons a CSV row can carry; unsafe keys and deep nesting have no CSV form. */
-export const CSV_BAD_LINE_REASONS: readonly RejectReason[] = [
-  'not_json',
-  'schema',
-  'out_of_range',
-  'time_not_increasing',
-  'duplicate',
-  'line_too_long',
-  'unknown_event',
-];
+export const CSV_BAD_LINE_REASONS: readonly RejectReason[] = REJECT_REASONS.filter((r) => r !== 'unsafe_key' && r !== 'too_deep');
 
 function sampleJson(s: WireSample): string {
   return JSON.stringify(s);

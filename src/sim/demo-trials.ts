@@ -5,20 +5,18 @@
 import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import { writeFile } from 'node:fs/promises';
-import { calibrationJson, createTrial, type TrialSpec } from './gait-generator.ts';
+import { calibrationJson, createTrial, type Scenario, type TrialSpec } from './gait-generator.ts';
 import { scenarioSpec } from './scenarios.ts';
 import { writeCsv, writeNdjson, type WriteResult } from './writers.ts';
 
+/** One invented subject's trial at 100 Hz, fully calibrated in its header, with what happens in it. */
+function demoTrial(scenario: Scenario, seed: number, durationS: number, trial: string, events: Pick<TrialSpec, 'dropouts' | 'markers' | 'badLines'>): TrialSpec {
+  return { ...scenarioSpec(scenario, { seed, rateHz: 100, durationS, header: { subject: 'SYN-017', trial, calibrate: 'all' } }), ...events };
+}
+
 /** About 60 s of treadmill walking at 100 Hz: a calf and a thigh muscle, one short tracking dropout, bad lines of many kinds. */
 export function demoWalkSpec(): TrialSpec {
-  const base = scenarioSpec('walk', {
-    seed: 20_260_101,
-    rateHz: 100,
-    durationS: 60,
-    header: { subject: 'SYN-017', trial: 'walk-a', calibrate: 'all' },
-  });
-  return {
-    ...base,
+  return demoTrial('walk', 20_260_101, 60, 'walk-a', {
     dropouts: [
       { muscle: 'calf', fromS: 22.4, toS: 22.75, mode: 'low_quality' },
       { muscle: 'calf', fromS: 22.75, toS: 22.9, mode: 'missing' },
@@ -40,26 +38,19 @@ export function demoWalkSpec(): TrialSpec {
       { atS: 50.3, reason: 'line_too_long' },
       { atS: 53.9, reason: 'out_of_range', muscle: 'calf' },
     ],
-  };
+  });
 }
 
 /** About 20 s of treadmill running at 100 Hz, the same two muscles, a brief low-quality stretch, two bad lines. */
 export function demoRunSpec(): TrialSpec {
-  const base = scenarioSpec('run', {
-    seed: 20_260_102,
-    rateHz: 100,
-    durationS: 20,
-    header: { subject: 'SYN-017', trial: 'run-a', calibrate: 'all' },
-  });
-  return {
-    ...base,
+  return demoTrial('run', 20_260_102, 20, 'run-a', {
     dropouts: [{ muscle: 'thigh', fromS: 11.2, toS: 11.5, mode: 'low_quality' }],
     markers: [{ atS: 0, text: 'belt 3.0 m/s' }],
     badLines: [
       { atS: 6.3, reason: 'not_json', muscle: 'thigh' },
       { atS: 15.8, reason: 'duplicate', muscle: 'calf' },
     ],
-  };
+  });
 }
 
 export const DEMO_FILES = {

@@ -14,6 +14,7 @@ import type { RejectReason } from '../trial/reasons.ts';
 import { createPrng, deriveSeed, type Prng } from './prng.ts';
 import { compileTrajectory, type Trajectory, type TrajectorySpec } from './trajectory.ts';
 import { badLineCsv, badLineNdjson, ORDER_REASONS, roundTime } from './bad-lines.ts';
+import { goldenSection } from './golden-section.ts';
 import {
   STREAM_FORMAT,
   STREAM_VERSION,
@@ -251,23 +252,22 @@ class StrideTable {
 
   /** Stride-to-stride amplitude and offset at a phase, blended smoothly from one stride to the next. */
   amplitudeAt(phase: number): number {
-    if (phase < 0) return this.amp[0] as number;
-    const k = Math.floor(phase);
-    this.ensureIndex(k);
-    const f = phase - k;
-    const s = f * f * (3 - 2 * f);
-    const a0 = this.amp[k] as number;
-    return a0 + ((this.amp[k + 1] as number) - a0) * s;
+    return this.blendAt(this.amp, phase);
   }
 
   offsetAt(phase: number): number {
-    if (phase < 0) return this.offset[0] as number;
+    return this.blendAt(this.offset, phase);
+  }
+
+  /** A per-stride value at a phase, blended from stride k to stride k + 1 by a smoothstep. */
+  private blendAt(values: number[], phase: number): number {
+    if (phase < 0) return values[0] as number;
     const k = Math.floor(phase);
     this.ensureIndex(k);
     const f = phase - k;
     const s = f * f * (3 - 2 * f);
-    const o0 = this.offset[k] as number;
-    return o0 + ((this.offset[k + 1] as number) - o0) * s;
+    const v0 = values[k] as number;
+    return v0 + ((values[k + 1] as number) - v0) * s;
   }
 }
 
@@ -308,16 +308,8 @@ function extremeOver(f: (t: number) => number, a: number, b: number, sign: 1 | -
       bestAt = t;
     }
   }
-  let x0 = Math.max(a, bestAt - dt);
-  let x1 = Math.min(b, bestAt + dt);
-  const g = (Math.sqrt(5) - 1) / 2;
-  for (let k = 0; k < 50; k++) {
-    const m1 = x1 - g * (x1 - x0);
-    const m2 = x0 + g * (x1 - x0);
-    if (sign * f(m1) > sign * f(m2)) x1 = m2;
-    else x0 = m1;
-  }
-  return sign * Math.max(best, sign * f((x0 + x1) / 2));
+  const x = goldenSection(f, Math.max(a, bestAt - dt), Math.min(b, bestAt + dt), sign, 50);
+  return sign * Math.max(best, sign * f(x));
 }
 
 function round(x: number, perUnit: number): number {

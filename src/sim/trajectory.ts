@@ -3,6 +3,7 @@
  * lowest and highest values are exactly the given lengths. Smooth and periodic, so a filtered signal
  * can follow it closely.
  */
+import { goldenSection } from './golden-section.ts';
 
 /** One harmonic term A·cos(2π·h·(phase − peakPhase)); the h-th entry of a list is harmonic h (1-based). */
 export interface Harmonic {
@@ -90,14 +91,5 @@ export function compileTrajectory(spec: TrajectorySpec): Trajectory {
 
 /** Golden-section search around a grid extremum; sign 1 finds a maximum, -1 a minimum. */
 function refine(f: (x: number) => number, at: number, sign: 1 | -1): number {
-  let x0 = at - 1 / GRID;
-  let x1 = at + 1 / GRID;
-  const g = (Math.sqrt(5) - 1) / 2;
-  for (let i = 0; i < 60; i++) {
-    const m1 = x1 - g * (x1 - x0);
-    const m2 = x0 + g * (x1 - x0);
-    if (sign * f(m1) > sign * f(m2)) x1 = m2;
-    else x0 = m1;
-  }
-  return f((x0 + x1) / 2);
+  return f(goldenSection(f, at - 1 / GRID, at + 1 / GRID, sign, 60));
 }

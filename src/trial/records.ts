@@ -67,6 +67,22 @@ export interface Marker {
   readonly line: number;
 }
 
+/**
+ * A live connection was lost. The live adapters say it in the data's own path and the session log keeps it
+ * as a line of its own, so every run of that data (live, a replay of the log) restarts its filters at the
+ * same place: `restoreGaps` turns it into `disconnected` Gaps.
+ */
+export interface Disconnection {
+  readonly kind: 'disconnection';
+  /** Device time of the last sample or gait event the connection carried (NaN when it carried none). */
+  readonly tS: number;
+  /** The muscles the connection carried (one device of several); null: every muscle (the one peer). */
+  readonly muscles: readonly string[] | null;
+  /** What ended the connection (close code, reason, ping), one line. */
+  readonly detail: string;
+  readonly line: number;
+}
+
 export interface MuscleDeclaration {
   readonly side?: Side;
 }
@@ -93,7 +109,7 @@ export interface Rejection {
 }
 
 /**
- * A stretch where the data stops being continuous: a live disconnection, or a forward time jump of one
+ * A stretch where the data stops being continuous: a Disconnection, or a forward time jump of one
  * muscle beyond the gap threshold. Filters reset across it; nothing is interpolated across it.
  */
 export interface Gap {
@@ -139,7 +155,7 @@ export interface Notice {
 }
 
 /** Records that come from the input, one per line or message element. */
-export type InputFrame = Sample | GaitEvent | Marker | Header | Rejection;
+export type InputFrame = Sample | GaitEvent | Marker | Disconnection | Header | Rejection;
 /** Records the pipeline adds on the way. */
 export type DerivedFrame = Gap | CalibrationApplied | StrideBoundary | Notice;
 export type Frame = InputFrame | DerivedFrame;

@@ -3,7 +3,6 @@ import { afterEach, describe, expect, it } from 'vitest';
 import type { Subscription } from 'rxjs';
 import {
   backoffDelayMs,
-  LINK_MARKER_PREFIX,
   websocketClient,
   type LinkEvent,
 } from '../../adapters/websocket-client.ts';
@@ -116,7 +115,7 @@ describe('websocketClient', () => {
     expect(client.frames().filter((f) => f.kind === 'rejection')).toEqual([]);
   });
 
-  it('reconnects after the server is killed and restarted, with one marker and one gap per disconnection', async () => {
+  it('reconnects after the server is killed and restarted, with one disconnection record per lost connection', async () => {
     const first = await wsServer();
     const port = first.port;
     let connected = nextConnection(first.server);
@@ -138,27 +137,21 @@ describe('websocketClient', () => {
     await sendAll(peer, sampleTexts(70, 'calf', 10));
     await until(() => samples(client.frames()) === 120, 5000, 'all 120');
     const frames = client.frames();
-    const markers = frames.filter((f) => f.kind === 'marker');
-    const gaps = frames.filter((f) => f.kind === 'gap');
-    expect(markers).toHaveLength(1);
-    expect(markers[0]?.kind === 'marker' && markers[0].marker.startsWith(`${LINK_MARKER_PREFIX}: code 1006`)).toBe(true);
-    expect(markers[0]?.kind === 'marker' && markers[0].tS).toBeCloseTo(0.49, 9);
-    expect(gaps).toEqual([{ kind: 'gap', cause: 'disconnected', muscle: null, fromS: 0.49, toS: Number.NaN }]);
-    // The marker and the gap come between the last sample before and the first after.
-    const at = frames.indexOf(markers[0] as Frame);
+    const lost = frames.filter((f) => f.kind === 'disconnection');
+    expect(lost).toHaveLength(1);
+    expect(lost[0]).toMatchObject({ kind: 'disconnection', muscles: null, detail: expect.stringMatching(/^code 1006/) });
+    expect(lost[0]?.tS).toBeCloseTo(0.49, 9);
+    // The pipeline makes the gap; the adapter says only what happened.
+    expect(frames.filter((f) => f.kind === 'gap')).toEqual([]);
+    // The record comes between the last sample before and the first after.
+    const at = frames.indexOf(lost[0] as Frame);
     expect(frames.slice(0, at).filter((f) => f.kind === 'sample')).toHaveLength(50);
     expect(client.links.filter((e) => e.kind === 'connected')).toHaveLength(2);
   });
 
   it('finds a dead peer by ping/pong, drops it and reconnects', async () => {
     const peer = await silentPeer();
-    cleanups.push(
-      () =>
-        new Promise<void>((r) => {
-          for (const s of peer.sockets) s.destroy();
-          peer.server.close(() => r());
-        }),
-    );
+    cleanups.push(peer.close);
     const client = subscribeClient(`ws://127.0.0.1:${peer.port}`, { pingMs: 100 });
     await until(() => client.links.some((e) => e.kind === 'disconnected'), 3000, 'the dead peer to be found');
     const lost = client.links.find((e) => e.kind === 'disconnected');
@@ -214,13 +207,7 @@ describe('websocketClient', () => {
 describe('websocketClient against a peer that never answers the closing handshake', () => {
   it('cuts the connection a second after unsubscribing', async () => {
     const peer = await silentPeer();
-    cleanups.push(
-      () =>
-        new Promise<void>((r) => {
-          for (const s of peer.sockets) s.destroy();
-          peer.server.close(() => r());
-        }),
-    );
+    cleanups.push(peer.close);
     const client = subscribeClient(`ws://127.0.0.1:${peer.port}`, { pingMs: 60_000 });
     await until(() => client.links.some((e) => e.kind === 'connected'), 3000, 'the connection');
     client.sub.unsubscribe();

@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import type { Subscription } from 'rxjs';
-import { LINK_MARKER_PREFIX, type LinkEvent } from '../../adapters/websocket-client.ts';
+import type { LinkEvent } from '../../adapters/websocket-client.ts';
 import { ListenError, websocketServer, type WebSocketServerOptions } from '../../adapters/websocket-server.ts';
 import type { Batch, Frame } from '../../src/trial/records.ts';
 import { flat, sampleTexts, sendAll, until, upgradeStatus, wsClient, wsServer, killServer } from './ws-peers.ts';
@@ -62,11 +62,9 @@ describe('websocketServer', () => {
     expect(samples(s.frames(), 'calf')).toBe(30);
     expect(samples(s.frames(), 'thigh')).toBe(40);
     a.terminate();
-    await until(() => s.frames().some((f) => f.kind === 'gap'), 4000, 'the gap');
-    const gaps = s.frames().filter((f) => f.kind === 'gap');
-    expect(gaps).toEqual([{ kind: 'gap', cause: 'disconnected', muscle: 'calf', fromS: 0.29, toS: Number.NaN }]);
-    const marker = s.frames().find((f) => f.kind === 'marker');
-    expect(marker?.kind === 'marker' && marker.marker.startsWith(`${LINK_MARKER_PREFIX} ["calf"]: device 1`)).toBe(true);
+    await until(() => s.frames().some((f) => f.kind === 'disconnection'), 4000, 'the disconnection');
+    const lost = s.frames().filter((f) => f.kind === 'disconnection');
+    expect(lost).toEqual([{ kind: 'disconnection', tS: 0.29, muscles: ['calf'], detail: expect.stringMatching(/^device 1 /), line: 71 }]);
     await sendAll(b, sampleTexts(5, 'thigh', 1));
     await until(() => samples(s.frames(), 'thigh') === 45, 4000, 'the other device going on');
   });

@@ -69,11 +69,19 @@ export async function until(check: () => boolean, timeoutMs = 4000, what = 'the 
   }
 }
 
+export interface SilentPeer {
+  readonly server: Server;
+  readonly port: number;
+  readonly sockets: Set<Socket>;
+  /** Cuts every socket and closes the server. */
+  close(): Promise<void>;
+}
+
 /**
  * A peer that completes the WebSocket handshake and then says nothing, not even a pong: a dead peer
  * whose TCP connection stays up.
  */
-export function silentPeer(): Promise<{ server: Server; port: number; sockets: Set<Socket> }> {
+export function silentPeer(): Promise<SilentPeer> {
   return new Promise((resolve) => {
     const sockets = new Set<Socket>();
     const server = createServer((socket) => {
@@ -87,7 +95,12 @@ export function silentPeer(): Promise<{ server: Server; port: number; sockets: S
         socket.write(`HTTP/1.1 101 Switching Protocols\r\nUpgrade: websocket\r\nConnection: Upgrade\r\nSec-WebSocket-Accept: ${accept}\r\n\r\n`);
       });
     });
-    server.listen(0, '127.0.0.1', () => resolve({ server, port: (server.address() as AddressInfo).port, sockets }));
+    const close = (): Promise<void> =>
+      new Promise((done) => {
+        for (const s of sockets) s.destroy();
+        server.close(() => done());
+      });
+    server.listen(0, '127.0.0.1', () => resolve({ server, port: (server.address() as AddressInfo).port, sockets, close }));
   });
 }
 

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { VirtualAction, VirtualTimeScheduler } from 'rxjs';
-import { parseConnect, parseDuration, parseListen, run } from '../../src/commands/live.ts';
+import { run } from '../../src/commands/live.ts';
 import type { CommandIo } from '../../src/run/io.ts';
 import { startSimulator, type RunningSimulator } from '../../src/sim/simulator.ts';
 import { fileSource } from '../../adapters/file-source.ts';
@@ -110,16 +110,6 @@ describe('lengthwise live: options', () => {
     const c = lengthwise(['live', ...args]);
     expect((await c.exited).code).toBe(2);
     expect(c.stderr).toMatch(message);
-  });
-
-  it('reads listen addresses, URLs and durations', () => {
-    expect(parseListen('8765')).toEqual({ ok: true, value: { host: '127.0.0.1', port: 8765 } });
-    expect(parseListen('0.0.0.0:80')).toEqual({ ok: true, value: { host: '0.0.0.0', port: 80 } });
-    expect(parseListen('[::1]:9000')).toEqual({ ok: true, value: { host: '::1', port: 9000 } });
-    expect(parseListen('70000').ok).toBe(false);
-    expect(parseConnect('ws://h:1/p').ok).toBe(true);
-    expect(parseDuration('2.5')).toEqual({ ok: true, value: 2.5 });
-    expect(parseDuration('').ok).toBe(false);
   });
 });
 
@@ -240,17 +230,22 @@ describe('lengthwise live --connect', () => {
     return sim;
   }
 
-  it('accepts exactly the valid samples the simulator sent, and the replay of its log gives the same summary', async () => {
-    // The device ends its stream (closing cleanly) before the session ends, so everything it sent was received.
-    const sim = await simulator({ durationS: 2 });
+  /** A plain session with the simulator, ended by --duration after the device has stopped: where its log is, and its summary. */
+  /** A session connected to the simulator: its clock starts at the connection, and the session ends once the device has ended. */
+  async function session(sim: RunningSimulator) {
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
     const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
-    // The device's clock starts at the session's connection; the session ends once the device has ended.
     await sim.done;
     c.child.kill('SIGTERM');
     expect((await c.exited).code, c.stderr).toBe(0);
-    const live = await json(join(dir, 'live.json'));
+    return { dir, log, live: await json(join(dir, 'live.json')) };
+  }
+
+  it('accepts exactly the valid samples the simulator sent, and the replay of its log gives the same summary', async () => {
+    // The device ends its stream (closing cleanly) before the session ends, so everything it sent was received.
+    const sim = await simulator({ durationS: 2 });
+    const { dir, log, live } = await session(sim);
     expect(live.frames['accepted']).toBe(sim.stats.samplesSent);
     expect(live.frames['headers']).toBe(sim.stats.headersSent);
     expect(live.ended).toBe(true);
@@ -262,13 +257,7 @@ describe('lengthwise live --connect', () => {
     // Faults at 0.6, 1.2, … s from the session's connection; the device ends its stream at 3.6 s and the
     // session after that, so what it sent was received.
     const sim = await simulator({ durationS: 3.6, faults: { everyS: 0.6, kinds: ['malformed', 'disconnect', 'resent_header', 'malformed', 'device_restart'] } });
-    const dir = await tmp();
-    const log = join(dir, 'session.ndjson');
-    const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
-    await sim.done;
-    c.child.kill('SIGTERM');
-    expect((await c.exited).code, c.stderr).toBe(0);
-    const live = await json(join(dir, 'live.json'));
+    const { log, live } = await session(sim);
     expect(sim.stats.faults['disconnect'] ?? 0).toBeGreaterThanOrEqual(1);
     expect(sim.stats.faults['device_restart'] ?? 0).toBe(1);
     // Every valid sample sent was accepted, through the drop-outs; every malformed one rejected for its reason.
@@ -276,7 +265,11 @@ describe('lengthwise live --connect', () => {
     const badSent = Object.fromEntries(Object.entries(sim.stats.badSent).filter(([, n]) => (n ?? 0) > 0));
     expect(live.frames['rejected_by_reason']).toEqual(badSent);
     expect(live.frames['markers']).toBeGreaterThanOrEqual(1);
-    // The disconnection gaps are restored from the log's link markers.
+    // Each lost connection is a line of its own in the log, and the replay restores its gaps from it.
+    const lost = (await readFile(log, 'utf8')).split('\n').filter((l) => l.includes('"disconnected":'));
+    expect(lost.length).toBe(Number(live.frames['markers']) - sim.stats.markersSent);
+    expect(lost.length).toBeGreaterThanOrEqual(1);
+    for (const l of lost) expect(JSON.parse(l)).toMatchObject({ disconnected: { muscles: null, detail: expect.any(String) } });
     const final = await runTrial(fileSource(log), { source: log }).done;
     expect(withoutSource(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSource(live));
   });

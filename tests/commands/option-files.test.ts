@@ -2,7 +2,7 @@ import { mkdtemp, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { calibrationOption, mappingOption } from '../../src/commands/option-files.ts';
+import { calibrationOption, mappingOption, trialFiles } from '../../src/commands/option-files.ts';
 import { captureIo } from '../helpers/capture-io.ts';
 
 const MAPPINGS = join(import.meta.dirname, '..', '..', 'adapters', 'mappings');
@@ -34,5 +34,17 @@ describe('option files', () => {
     expect(await calibrationOption('live', join(dir, 'none.json'), t.io)).toEqual({ ok: false });
     expect(t.err[0]).toMatch(/^lengthwise summarize: the device mapping was not accepted:\n {2}.*length/);
     expect(t.err[1]).toMatch(/^lengthwise live: the calibration was not accepted:\n {2}/);
+  });
+
+  it('read a trial\'s two files together, and give nothing once one is refused, the calibration said first', async () => {
+    const t = captureIo();
+    const both = await trialFiles('replay', { calibration: DEMO_CAL, mapping: join(MAPPINGS, 'twin-probe-si.json') }, t.io);
+    expect(both?.calibration).toBeDefined();
+    expect(both?.mapping?.lengthUnit).toBe('m');
+    expect(await trialFiles('replay', {}, t.io)).toEqual({ calibration: undefined, mapping: undefined });
+    expect(t.err).toEqual([]);
+    expect(await trialFiles('live', { calibration: join(MAPPINGS, 'none.json'), mapping: join(MAPPINGS, 'none.json') }, t.io)).toBeNull();
+    expect(t.err).toHaveLength(1);
+    expect(t.err[0]).toMatch(/^lengthwise live: the calibration was not accepted/);
   });
 });

@@ -4,10 +4,9 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { REGION_KEYS } from '../../src/model/regions.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import { parseJobs } from '../../src/commands/summarize.ts';
-import { csvRecords, trialFolder, type TrialFolder } from '../study/generated-trials.ts';
+import { csvRecords, expectTrialFiguresIn, trialFolder, type TrialFolder } from '../study/generated-trials.ts';
 import { deviceCopy, DEVICE_MAPPING } from '../helpers/device-copy.ts';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 
@@ -137,12 +136,7 @@ describe('lengthwise summarize', () => {
       for (const [muscle, m] of Object.entries(outcome.summary.muscles)) {
         const row = rows[i++]!;
         expect(row).toMatchObject({ source_file: path, subject: outcome.summary.subject ?? '', muscle });
-        expect(Number(row.stride_count)).toBe(m.trial.stride_count);
-        expect(Number(row.sl_min_um)).toBe(m.trial.sl_min_um);
-        expect(Number(row.sl_max_um)).toBe(m.trial.sl_max_um);
-        expect(Number(row.sl_mean_um)).toBe(m.trial.sl_mean_um);
-        expect(Number(row.force_mean)).toBe(m.trial.force_mean);
-        for (const key of REGION_KEYS) expect(Number(row[`${key}_fraction`])).toBe(m.trial.region_fraction[key]);
+        expectTrialFiguresIn(row, m.trial);
       }
     }
   });
@@ -156,11 +150,7 @@ describe('lengthwise summarize', () => {
     const rows = csvRecords(ran.stdout);
     expect(rows.map((r) => r.muscle)).toEqual(Object.keys(summary.muscles));
     for (const row of rows) {
-      const t = summary.muscles[row.muscle!]!.trial;
-      for (const key of ['stride_count', 'sl_min_um', 'sl_max_um', 'sl_mean_um', 'sl_p5_um', 'sl_p95_um', 'force_mean'] as const) {
-        expect(row[key] === '' ? null : Number(row[key])).toBe(t[key]);
-      }
-      for (const key of REGION_KEYS) expect(Number(row[`${key}_fraction`])).toBe(t.region_fraction[key]);
+      expectTrialFiguresIn(row, summary.muscles[row.muscle!]!.trial);
     }
   });
 

@@ -4,21 +4,9 @@ import { regionProbabilities, regionProbabilityRecord, strideRegionFractions } f
 import { regionAt } from '../../src/model/geometry.ts';
 import { REGION_KEYS, regionIndex } from '../../src/model/regions.ts';
 import { SPECIES, speciesCurve } from '../../src/model/species.ts';
+import { createPrng } from '../../src/sim/prng.ts';
 
 const human = speciesCurve('human');
-
-/** A small fixed-seed generator (mulberry32; common practice, no source) and Box–Muller normals, for Monte Carlo checks. */
-function normals(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = (): number => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
-}
 
 describe('regionProbabilities', () => {
   it('sums to 1 with every probability in 0–1, for any length and spread', () => {
@@ -49,7 +37,8 @@ describe('regionProbabilities', () => {
   });
 
   it('matches a fixed-seed Monte Carlo of N ~ Normal(N̂, (cv·N̂)²) to within sampling error', () => {
-    const draw = normals(20261201);
+    // The simulator's seeded generator (mulberry32 and Box–Muller normals): the same draws on every run.
+    const draw = createPrng(20261201).gauss;
     const sl = 2.7;
     const cv = 0.04;
     const counts = new Float64Array(REGION_KEYS.length);

@@ -9,7 +9,7 @@ import { fileSource } from '../../adapters/file-source.ts';
 import { decodeMessage } from '../../adapters/device-mapping.ts';
 import { makeRejection } from '../../adapters/parse-record.ts';
 import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
-import { disconnectionFrames } from '../../adapters/websocket-client.ts';
+import { disconnection } from '../../adapters/websocket-client.ts';
 import { logLine, rxText } from '../../src/session-log/log-line.ts';
 import { makeSample, type Frame } from '../../src/trial/records.ts';
 import { REJECT_REASONS, type RejectReason } from '../../src/trial/reasons.ts';
@@ -69,10 +69,31 @@ describe('logLine: valid records', () => {
     }
   });
 
-  it('writes the disconnection marker and leaves out the gaps, which a replay derives again', () => {
-    const [marker, gap] = disconnectionFrames(null, 4.2, 'code 1006 connection lost', 9);
-    expect(parseNdjsonLine(line(marker as Frame), 9)).toEqual(marker);
-    expect(logLine(gap as Frame, RX_MS)).toBeNull();
+  it('writes a lost connection as a line of its own kind, which reads back as the same record', () => {
+    const all = disconnection(null, 4.2, 'code 1006 connection lost', 9);
+    expect(JSON.parse(line(all))).toEqual({ t: 4.2, disconnected: { muscles: null, detail: 'code 1006 connection lost' }, rx: 1_764_000_000.123 });
+    expect(parseNdjsonLine(line(all), 9)).toEqual(all);
+    const device = disconnection(['calf', 'thigh, front'], 2.5, 'device 2 (127.0.0.1:5000) code 1000 closed normally', 4);
+    expect(parseNdjsonLine(line(device), 4)).toEqual(device);
+  });
+
+  it('leaves out the time of a connection that carried none, and the reader gives it back as none', () => {
+    const early = disconnection(null, Number.NaN, 'code 1006', 2);
+    expect(JSON.parse(line(early))).not.toHaveProperty('t');
+    expect(parseNdjsonLine(line(early), 2)).toEqual(early);
+  });
+
+  it('rejects a lost-connection line that is not of its shape, saying what is accepted', () => {
+    expect(parseNdjsonLine('{"t":1,"disconnected":{"muscles":"calf","detail":"x"}}', 1)).toMatchObject({
+      kind: 'rejection',
+      reason: 'schema',
+      message: expect.stringContaining('disconnected.muscles is the string "calf": must be a list of muscle names, or null for every muscle'),
+    });
+    expect(parseNdjsonLine('{"t":1,"disconnected":{"muscles":null}}', 1)).toMatchObject({ reason: 'schema', message: expect.stringContaining('disconnected.detail is missing') });
+  });
+
+  it('leaves out the gaps and notices, which a replay derives again', () => {
+    expect(logLine({ kind: 'gap', cause: 'disconnected', muscle: null, fromS: 4.2, toS: Number.NaN }, RX_MS)).toBeNull();
     expect(logLine({ kind: 'notice', muscle: null, text: 'x' }, RX_MS)).toBeNull();
   });
 });
@@ -113,6 +134,7 @@ describe('a line cut short by a crash', () => {
       line(makeSample(12.34, 'calf', 51.25, 20.5, 0.875, 1)),
       line({ kind: 'event', tS: 3, event: 'toe_off', side: 'right', line: 1 }),
       line({ kind: 'marker', tS: 3, marker: 'a marker', line: 1 }),
+      line(disconnection(['calf'], 3, 'device 1 code 1006', 1)),
       ...decodeMessage('{"format": "lengthwise-stream", "version": 1, "rate_hz": 100}', 1).map(line),
       ...ADAPTER_REASONS.filter((r) => r !== 'line_too_long').map((r) => line(makeRejection(r, 'm', 1, 'e'))),
     ];

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compileTrajectory } from '../../src/sim/trajectory.ts';
+import { DEFAULT_MUSCLES, scenarioMuscles } from '../../src/sim/scenarios.ts';
 
 describe('compileTrajectory', () => {
   it('scales one harmonic so its extremes are exactly the given lengths, at the given peak phase', () => {
@@ -11,21 +12,18 @@ describe('compileTrajectory', () => {
     expect(t.deviationUmAt(0.25)).toBeCloseTo(0.3, 12);
   });
 
-  it('hits the given extremes for a sum of harmonics, and never leaves them', () => {
-    const t = compileTrajectory({
-      minUm: 2.3,
-      maxUm: 2.9,
-      harmonics: [
-        { amplitude: 1, peakPhase: 0.4 },
-        { amplitude: 0.35, peakPhase: 0.3 },
-        { amplitude: 0.1, peakPhase: 0.15 },
-      ],
-    });
+  // Every built-in profile is a sum of harmonics.
+  const profiles = (['walk', 'run'] as const).flatMap((scenario) =>
+    scenarioMuscles(scenario, DEFAULT_MUSCLES).map((m) => ({ profile: `${m.name} ${scenario}`, spec: m.trajectory })),
+  );
+
+  it.each(profiles)('hits the given extremes for a sum of harmonics ($profile), and never leaves them', ({ spec }) => {
+    const t = compileTrajectory(spec);
     const values = Array.from({ length: 100_001 }, (_, i) => t.sarcomereUmAt(i / 100_000));
-    expect(Math.min(...values)).toBeCloseTo(2.3, 8);
-    expect(Math.max(...values)).toBeCloseTo(2.9, 8);
-    expect(Math.min(...values)).toBeGreaterThanOrEqual(2.3 - 1e-12);
-    expect(Math.max(...values)).toBeLessThanOrEqual(2.9 + 1e-12);
+    expect(Math.min(...values)).toBeCloseTo(spec.minUm, 8);
+    expect(Math.max(...values)).toBeCloseTo(spec.maxUm, 8);
+    expect(Math.min(...values)).toBeGreaterThanOrEqual(spec.minUm - 1e-12);
+    expect(Math.max(...values)).toBeLessThanOrEqual(spec.maxUm + 1e-12);
   });
 
   it('refuses a spec with no harmonics or with max not above min', () => {

@@ -8,6 +8,9 @@ import { join } from 'node:path';
 import { createTrial, type GaitTrial } from '../../src/sim/gait-generator.ts';
 import { scenarioSpec } from '../../src/sim/scenarios.ts';
 import { writeCsv, writeNdjson } from '../../src/sim/writers.ts';
+import { expect } from 'vitest';
+import { REGION_KEYS } from '../../src/model/regions.ts';
+import type { TrialFiguresJson } from '../../src/output/summary-json.ts';
 
 export interface GeneratedTrial {
   readonly path: string;
@@ -93,4 +96,17 @@ export function csvRecords(text: string): Record<string, string>[] {
   const [head, ...rows] = parseCsv(text);
   if (head === undefined) return [];
   return rows.map((r) => Object.fromEntries(head.map((name, i) => [name, r[i] ?? ''])));
+}
+
+/** A number column of the study table read back: empty means unknown. */
+export function csvNumber(text: string | undefined): number | null {
+  return text === undefined || text === '' ? null : Number(text);
+}
+
+/** A study table row carries exactly the trial figures of its muscle's summary JSON. */
+export function expectTrialFiguresIn(row: Record<string, string>, trial: TrialFiguresJson): void {
+  for (const key of ['stride_count', 'sl_min_um', 'sl_max_um', 'sl_mean_um', 'sl_p5_um', 'sl_p95_um', 'force_mean'] as const) {
+    expect(csvNumber(row[key]), key).toBe(trial[key]);
+  }
+  for (const key of REGION_KEYS) expect(csvNumber(row[`${key}_fraction`])).toBe(trial.region_fraction[key]);
 }

@@ -3,7 +3,7 @@ import { REGION_KEYS } from '../../src/model/regions.ts';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 import { studyColumns, studyCsv } from '../../src/study/study-csv.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
-import { csvRecords, parseCsv, trialFolder, type TrialFolder } from './generated-trials.ts';
+import { csvNumber, csvRecords, expectTrialFiguresIn, parseCsv, trialFolder, type TrialFolder } from './generated-trials.ts';
 
 let folder: TrialFolder;
 const summaries: SummaryJson[] = [];
@@ -24,10 +24,6 @@ function edited(s: SummaryJson, edit: (copy: SummaryJson) => void): SummaryJson 
   return copy;
 }
 
-/** A number column read back: empty means unknown. */
-function num(text: string | undefined): number | null {
-  return text === undefined || text === '' ? null : Number(text);
-}
 
 describe('studyCsv', () => {
   it('writes only the header row for no trials', () => {
@@ -51,12 +47,7 @@ describe('studyCsv', () => {
       for (const [muscle, m] of Object.entries(s.muscles)) {
         const row = rows[i++]!;
         expect(row).toMatchObject({ source_file: s.source, subject: s.subject, trial: s.trial, muscle, side: m.side, species: m.species });
-        expect(num(row.stride_count)).toBe(m.trial.stride_count);
-        expect(num(row.sl_min_um)).toBe(m.trial.sl_min_um);
-        expect(num(row.sl_max_um)).toBe(m.trial.sl_max_um);
-        expect(num(row.sl_mean_um)).toBe(m.trial.sl_mean_um);
-        expect(num(row.force_mean)).toBe(m.trial.force_mean);
-        for (const key of REGION_KEYS) expect(num(row[`${key}_fraction`])).toBe(m.trial.region_fraction[key]);
+        expectTrialFiguresIn(row, m.trial);
         expect(row.uncalibrated).toBe('false');
         expect(row.trial_ended).toBe('true');
       }
@@ -130,9 +121,9 @@ describe('studyCsv', () => {
       for (const phase of ['stance', 'swing'] as const) {
         const figures = m.trial[phase];
         if (figures === null) continue;
-        expect(num(row[`${phase}_sl_mean_um`])).toBe(figures.sl_mean_um);
-        expect(num(row[`${phase}_sl_p95_um`])).toBe(figures.sl_p95_um);
-        for (const key of REGION_KEYS) expect(num(row[`${phase}_${key}_fraction`])).toBe(figures.region_fraction[key]);
+        expect(csvNumber(row[`${phase}_sl_mean_um`])).toBe(figures.sl_mean_um);
+        expect(csvNumber(row[`${phase}_sl_p95_um`])).toBe(figures.sl_p95_um);
+        for (const key of REGION_KEYS) expect(csvNumber(row[`${phase}_${key}_fraction`])).toBe(figures.region_fraction[key]);
       }
     }
     expect(columns).toContain('stance_plateau_fraction');

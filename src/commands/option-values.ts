@@ -1,0 +1,41 @@
+/** Option values the commands share, each read one way everywhere: a value, or a message saying what is accepted. */
+
+export type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
+
+export interface ListenAddress {
+  readonly host: string;
+  readonly port: number;
+}
+
+/** Reads `--listen`: PORT, HOST:PORT or [IPv6]:PORT; the host is 127.0.0.1 unless given. */
+export function parseListen(text: string): Parsed<ListenAddress> {
+  const m = /^(?:\[([^\]]+)\]:|([^:[\]]+):)?(\d{1,5})$/.exec(text.trim());
+  const port = m === null ? Number.NaN : Number(m[3]);
+  if (m === null || !(port >= 0 && port <= 65535)) {
+    return { ok: false, message: `--listen "${text}" is not an address: give PORT (e.g. 8765), HOST:PORT (e.g. 0.0.0.0:8765) or [IPv6]:PORT; PORT is 0–65535` };
+  }
+  return { ok: true, value: { host: m[1] ?? m[2] ?? '127.0.0.1', port } };
+}
+
+/** Reads `--connect`: a ws:// or wss:// URL. */
+export function parseConnect(text: string): Parsed<string> {
+  let url: URL;
+  try {
+    url = new URL(text);
+  } catch {
+    return { ok: false, message: `--connect "${text}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
+  }
+  if (url.protocol !== 'ws:' && url.protocol !== 'wss:') {
+    return { ok: false, message: `--connect "${text}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
+  }
+  return { ok: true, value: url.href };
+}
+
+/** Reads `--duration`: seconds above 0. */
+export function parseDuration(text: string): Parsed<number> {
+  const n = Number(text);
+  if (text.trim() === '' || !Number.isFinite(n) || !(n > 0)) {
+    return { ok: false, message: `--duration "${text}" is not a duration: give seconds above 0, e.g. 60` };
+  }
+  return { ok: true, value: n };
+}

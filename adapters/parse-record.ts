@@ -19,6 +19,7 @@ import {
 } from '../src/trial/records.ts';
 import type { RejectReason } from '../src/trial/reasons.ts';
 import { parseCalibration } from './calibration-file.ts';
+import { freshCopy } from './lexing.ts';
 
 /** Deepest nesting accepted (the top-level object is level 1; a header's calibration needs 4). */
 export const MAX_DEPTH = 8;
@@ -86,12 +87,7 @@ const RANGED_FIELDS: ReadonlySet<string> = new Set(['t', 'fascicle_mm', 'pennati
 /** A Rejection; the excerpt is cut to EXCERPT_CHARS and copied so it does not pin a large input string. */
 export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string): Rejection {
   const cut = excerpt.length > EXCERPT_CHARS ? excerpt.slice(0, EXCERPT_CHARS) : excerpt;
-  return { kind: 'rejection', reason, message, line, excerpt: flatCopy(cut) };
-}
-
-function flatCopy(s: string): string {
-  // A substring may keep its whole parent string alive; a round trip through a Buffer makes a fresh one.
-  return s.length < 13 ? s : Buffer.from(s, 'utf16le').toString('utf16le');
+  return { kind: 'rejection', reason, message, line, excerpt: freshCopy(cut) };
 }
 
 /** The rejection of a line (or message) longer than the cap. */

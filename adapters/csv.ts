@@ -11,7 +11,7 @@
  */
 import { GAIT_EVENT_NAMES, makeSample, SIDES, type Frame, type Header } from '../src/trial/records.ts';
 import { FixedWords, NameTable, readPlainDecimal, readPlainDecimalBytes } from './lexing.ts';
-import { FIELD_RULE, makeRejection } from './parse-record.ts';
+import { FIELD_RULE, makeRejection, MAX_PENNATION_DEG, MAX_QUALITY, MIN_PENNATION_DEG, MIN_QUALITY } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';
 
 export const CSV_COLUMNS = ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg', 'quality', 'event', 'side'] as const;
@@ -220,13 +220,13 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     if (at(ends, n, pCol) > at(starts, n, pCol)) {
       if (!readPlainDecimal(text, at(starts, n, pCol), at(ends, n, pCol), num)) return null;
       pennationDeg = num[0] as number;
-      if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
     }
     let quality = 1;
     if (at(ends, n, qCol) > at(starts, n, qCol)) {
       if (!readPlainDecimal(text, at(starts, n, qCol), at(ends, n, qCol), num)) return null;
       quality = num[0] as number;
-      if (!(quality >= 0 && quality <= 1)) return null;
+      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
     }
     return makeSample(tS, names.inText(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
   };
@@ -283,13 +283,13 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     if (at(ends, n, pCol) > at(starts, n, pCol)) {
       if (!readPlainDecimalBytes(b, at(starts, n, pCol), at(ends, n, pCol), num)) return null;
       pennationDeg = num[0] as number;
-      if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
     }
     let quality = 1;
     if (at(ends, n, qCol) > at(starts, n, qCol)) {
       if (!readPlainDecimalBytes(b, at(starts, n, qCol), at(ends, n, qCol), num)) return null;
       quality = num[0] as number;
-      if (!(quality >= 0 && quality <= 1)) return null;
+      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
     }
     return makeSample(tS, names.inAsciiBytes(b, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
   };
@@ -389,7 +389,7 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     let pennationDeg = Number.NaN;
     if (pennationCell.length > 0) {
       pennationDeg = csvNumber(pennationCell);
-      if (!(pennationDeg >= 0 && pennationDeg <= 90)) {
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) {
         const reason = pennationDeg === pennationDeg ? 'out_of_range' : 'schema';
         return makeRejection(reason, `pennation_deg ${cellProblem(pennationCell)}: ${FIELD_RULE['pennation_deg']}`, line, text);
       }
@@ -397,7 +397,7 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     let quality = 1;
     if (qualityCell.length > 0) {
       quality = csvNumber(qualityCell);
-      if (!(quality >= 0 && quality <= 1)) {
+      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) {
         const reason = quality === quality ? 'out_of_range' : 'schema';
         return makeRejection(reason, `quality ${cellProblem(qualityCell)}: ${FIELD_RULE['quality']}`, line, text);
       }

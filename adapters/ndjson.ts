@@ -1,7 +1,7 @@
 /** NDJSON lines of the lengthwise-stream format → frames: one JSON object a line, each line one frame. */
 import { makeSample, type Frame } from '../src/trial/records.ts';
 import { bytesAt, freshCopy, readJsonNumber, readJsonNumberBytes, textAt, NameTable } from './lexing.ts';
-import { parseJsonText } from './parse-record.ts';
+import { MAX_PENNATION_DEG, MAX_QUALITY, MIN_PENNATION_DEG, MIN_QUALITY, parseJsonText } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';
 
 /** The keys of the common sample line, in the order a writer prints them, each with what precedes it. */
@@ -46,7 +46,7 @@ function quickSampleLine(text: string, line: number, names: NameTable | null, nu
     e = readJsonNumber(text, i + PENNATION_KEY.length, num);
     if (e < 0) return null;
     pennationDeg = num[0] as number;
-    if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+    if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
     i = e;
   }
   let quality = 1;
@@ -54,7 +54,7 @@ function quickSampleLine(text: string, line: number, names: NameTable | null, nu
     e = readJsonNumber(text, i + QUALITY_KEY.length, num);
     if (e < 0) return null;
     quality = num[0] as number;
-    if (!(quality >= 0 && quality <= 1)) return null;
+    if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
     i = e;
   }
   if (i !== n - 1) return null;
@@ -98,7 +98,7 @@ function quickSampleBytes(b: Buffer, start: number, end: number, names: NameTabl
     e = readJsonNumberBytes(b, i + PENNATION_KEY.length, end, num);
     if (e < 0) return null;
     pennationDeg = num[0] as number;
-    if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+    if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
     i = e;
   }
   let quality = 1;
@@ -106,7 +106,7 @@ function quickSampleBytes(b: Buffer, start: number, end: number, names: NameTabl
     e = readJsonNumberBytes(b, i + QUALITY_KEY.length, end, num);
     if (e < 0) return null;
     quality = num[0] as number;
-    if (!(quality >= 0 && quality <= 1)) return null;
+    if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
     i = e;
   }
   if (i !== end - 1) return null;

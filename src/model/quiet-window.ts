@@ -2,6 +2,7 @@
  * A calibration from a quiet window of a trial: the median fascicle length while the person stands
  * still, paired with a sarcomere length measured (or assumed) for that posture, gives the sarcomere count.
  */
+import { medianSorted, quantileSorted } from './stats.ts';
 
 /** Above this (5th–95th percentile range / median), a window is not quiet. Our own threshold. */
 export const QUIET_SPREAD_FRACTION = 0.05;
@@ -15,16 +16,6 @@ export interface WindowSummary {
   /** (p95 − p5) / median: how much the fascicle length varies inside the window. */
   readonly spreadFraction: number;
   readonly quiet: boolean;
-}
-
-/** Linear-interpolated percentile of sorted values ("type 7"; common practice, no source). */
-export function percentileOfSorted(sorted: ArrayLike<number>, q: number): number {
-  if (sorted.length === 0) return Number.NaN;
-  const pos = q * (sorted.length - 1);
-  const i = Math.floor(pos);
-  const a = sorted[i] as number;
-  const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
-  return a + (b - a) * (pos - i);
 }
 
 /**
@@ -46,9 +37,9 @@ export function summarizeWindow(
     if (t >= startS && t <= endS && Number.isFinite(f)) inside.push(f);
   }
   inside.sort((a, b) => a - b);
-  const medianMm = percentileOfSorted(inside, 0.5);
-  const p5Mm = percentileOfSorted(inside, 0.05);
-  const p95Mm = percentileOfSorted(inside, 0.95);
+  const medianMm = medianSorted(inside);
+  const p5Mm = quantileSorted(inside, 0.05);
+  const p95Mm = quantileSorted(inside, 0.95);
   const spreadFraction = (p95Mm - p5Mm) / medianMm;
   return { count: inside.length, medianMm, p5Mm, p95Mm, spreadFraction, quiet: spreadFraction <= quietSpreadFraction };
 }

@@ -8,6 +8,7 @@
 import { normalCdf, normalQuantile } from './normal.ts';
 import { regionLowerBoundsUm, regionAt, type ForceLengthCurve } from './geometry.ts';
 import { REGION_KEYS, regionIndex, zeroRegionRecord, type RegionKey } from './regions.ts';
+import { quantileSorted } from './stats.ts';
 
 const REGIONS = REGION_KEYS.length;
 
@@ -143,17 +144,9 @@ export function strideRegionFractions(
   for (let r = 0; r < REGIONS; r++) {
     for (let j = 0; j < m; j++) column[j] = fractions[r * m + j] as number;
     column.sort();
-    low[r] = percentile(column, 0.05);
-    high[r] = percentile(column, 0.95);
+    low[r] = quantileSorted(column, 0.05);
+    high[r] = quantileSorted(column, 0.95);
   }
   return { expected: toRecord(expected), low: toRecord(low), high: toRecord(high) };
 }
 
-/** Linear-interpolated percentile of sorted values (the usual "type 7" definition; common practice, no source). */
-function percentile(sorted: Float64Array, q: number): number {
-  const pos = q * (sorted.length - 1);
-  const i = Math.floor(pos);
-  const a = sorted[i] as number;
-  const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
-  return a + (b - a) * (pos - i);
-}

@@ -2,6 +2,7 @@
  * The stride period of a fascicle-length signal, for trials without gait events: the dominant period
  * from the autocorrelation of the signal resampled to a uniform grid. Pure functions of numbers.
  */
+import { quantileSorted } from './stats.ts';
 
 export interface PeriodOptions {
   /** Shortest period looked for (s). @default 0.4 */
@@ -73,14 +74,6 @@ export function autocorrelation(x: Float64Array, maxLag: number): Float64Array {
   return r;
 }
 
-function quantileOf(sorted: Float64Array, q: number): number {
-  const pos = q * (sorted.length - 1);
-  const i = Math.floor(pos);
-  const a = sorted[i] as number;
-  const b = sorted[Math.min(i + 1, sorted.length - 1)] as number;
-  return a + (b - a) * (pos - i);
-}
-
 /**
  * The dominant period of a signal, or null when it is not periodic enough within the searched range.
  * Takes the highest local maximum of the autocorrelation between the shortest and longest period, then
@@ -119,6 +112,6 @@ export function dominantPeriod(tS: ArrayLike<number>, x: ArrayLike<number>, n: n
   return {
     periodS: (best + Math.max(-0.5, Math.min(0.5, shift))) * gridS,
     correlation: b,
-    rangeP5P95: quantileOf(sorted, 0.95) - quantileOf(sorted, 0.05),
+    rangeP5P95: quantileSorted(sorted, 0.95) - quantileSorted(sorted, 0.05),
   };
 }

@@ -1,7 +1,7 @@
 /** A reference calibration captured while running: the last seconds at the current posture, at an assumed sarcomere length. */
 import type { CalibrationApplied } from '../trial/records.ts';
 import type { Species } from '../model/species.ts';
-import { percentileOfSorted } from '../model/quiet-window.ts';
+import { medianSorted } from '../model/stats.ts';
 
 export type CaptureResult =
   | { readonly ok: true; readonly frame: CalibrationApplied; readonly fascicleMm: number; readonly spreadPercent: number; readonly json: object }
@@ -22,7 +22,7 @@ export function captureCalibration(muscle: string, species: Species, fascicleMm:
     return { ok: false, message: `${muscle}: only ${fascicleMm.length} good samples in the last seconds (at least ${MIN_CAPTURE_SAMPLES} needed); hold the posture with the probe tracking, then capture again` };
   }
   const sorted = [...fascicleMm].sort((a, b) => a - b);
-  const mid = percentileOfSorted(sorted, 0.5);
+  const mid = medianSorted(sorted);
   const spreadPercent = ((sorted[sorted.length - 1] as number) - (sorted[0] as number)) / mid * 100;
   const calibration = { species, method: 'reference' as const, referenceFascicleMm: mid, referenceSarcomereUm: sarcomereUm };
   const n = (mid * 1000) / sarcomereUm;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { QUIET_SPREAD_FRACTION, percentileOfSorted, sarcomereCountFromReference, summarizeWindow } from '../../src/model/quiet-window.ts';
+import { QUIET_SPREAD_FRACTION, sarcomereCountFromReference, summarizeWindow } from '../../src/model/quiet-window.ts';
 
 describe('summarizeWindow', () => {
   it('takes the median of the lengths inside the window, ends included', () => {
@@ -30,14 +30,6 @@ describe('summarizeWindow', () => {
 
   it('gives the one value of a one-sample window', () => {
     expect(summarizeWindow([1], [48], 0, 2)).toMatchObject({ count: 1, medianMm: 48, p5Mm: 48, p95Mm: 48, quiet: true });
-  });
-});
-
-describe('percentileOfSorted', () => {
-  it('interpolates between order statistics (type 7; common practice, no source)', () => {
-    expect(percentileOfSorted([1, 2, 3, 4], 0.5)).toBe(2.5);
-    expect(percentileOfSorted([1, 2, 3, 4, 5], 0.05)).toBeCloseTo(1.2, 12);
-    expect(percentileOfSorted([], 0.5)).toBeNaN();
   });
 });
 

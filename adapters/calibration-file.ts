@@ -7,6 +7,7 @@ import { z } from 'zod';
 import type { CalibrationSpec, MuscleCalibration } from '../src/model/calibration.ts';
 import type { FilamentGeometry } from '../src/model/geometry.ts';
 import { SPECIES } from '../src/model/species.ts';
+import { PLAUSIBLE_SARCOMERE_UM } from '../src/model/plausible-sarcomere.ts';
 import { CURVE_SHAPES, MAX_DISPERSION_SD_UM, muscleModelProblems } from '../src/model/muscle-model.ts';
 
 /** A finite number within [lo, hi], with a message that names the accepted range and unit. */
@@ -60,7 +61,7 @@ const muscleCalibrationSchema = z.discriminatedUnion(
       ...common,
       method: z.literal('reference'),
       reference_fascicle_mm: within(1, 1000, 'a fascicle length in mm'),
-      reference_sarcomere_um: within(1, 5, 'a sarcomere length in µm'),
+      reference_sarcomere_um: within(PLAUSIBLE_SARCOMERE_UM.min, PLAUSIBLE_SARCOMERE_UM.max, 'a sarcomere length in µm'),
       reference_sarcomere_sd_um: within(0, 1, 'an SD of the reference sarcomere length in µm').optional(),
       reference_fascicle_sd_mm: within(0, 100, 'an SD of the reference fascicle length in mm').optional(),
     }),

@@ -9,8 +9,9 @@
  * fewer cells than the header has its missing cells empty. The header row gives a Header frame (no
  * muscles declared); a header row seen again later (files joined end to end) gives another Header frame.
  */
-import { makeSample, type Frame, type Header } from '../src/trial/records.ts';
-import { FIELD_RULE, makeRejection } from './parse-record.ts';
+import { GAIT_EVENT_NAMES, makeSample, SIDES, type Frame, type Header } from '../src/trial/records.ts';
+import { FixedWords, NameTable, readPlainDecimal, readPlainDecimalBytes } from './lexing.ts';
+import { FIELD_RULE, makeRejection, MAX_PENNATION_DEG, MAX_QUALITY, MIN_PENNATION_DEG, MIN_QUALITY } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';
 
 export const CSV_COLUMNS = ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg', 'quality', 'event', 'side'] as const;
@@ -94,105 +95,6 @@ export function csvNumber(cell: string): number {
   return DECIMAL.test(cell) ? Number(cell) : Number.NaN;
 }
 
-/** Exact powers of ten as doubles (10^0 … 10^22 are all exactly representable). */
-const POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
-
-/**
- * A plain decimal in text[start, end) (sign, digits, one point; no spaces, no exponent, at most 15
- * digits) → its value; NaN for anything else, which the caller then reads the careful way. With at
- * most 15 digits the digits form an exact integer below 2^53 and 10^k (k ≤ 22) is exact, so one
- * division gives the correctly rounded double, the same as Number() (Clinger WD 1990, How to read
- * floating point numbers accurately, Proc. ACM PLDI '90, 92–101: the "fast path"; citation from memory).
- */
-export function plainDecimalAt(text: string, start: number, end: number): number {
-  return readPlainDecimal(text, start, end, scratch) ? (scratch[0] as number) : Number.NaN;
-}
-
-const scratch = new Float64Array(1);
-
-/**
- * plainDecimalAt without a number object per call: true and the value in out[0], or false (out untouched)
- * where plainDecimalAt gives NaN. A function that returns a double boxes it when it is not inlined; a
- * parser reading millions of cells avoids that by reading the value from `out`.
- */
-export function readPlainDecimal(text: string, start: number, end: number, out: Float64Array): boolean {
-  let i = start;
-  let negative = false;
-  const first = text.charCodeAt(i);
-  if (first === 45) {
-    negative = true;
-    i++;
-  } else if (first === 43) i++;
-  let m = 0;
-  let digits = 0;
-  let fraction = 0;
-  let point = false;
-  for (; i < end; i++) {
-    const c = text.charCodeAt(i);
-    if (c >= 48 && c <= 57) {
-      m = m * 10 + (c - 48);
-      digits++;
-      if (point) fraction++;
-    } else if (c === 46 && !point) point = true;
-    else return false;
-  }
-  if (digits === 0 || digits > 15) return false;
-  const value = fraction === 0 ? m : m / (POW10[fraction] as number);
-  out[0] = negative ? -value : value;
-  return true;
-}
-
-/** readPlainDecimal on bytes b[start, end) (ASCII): the same values, the same refusals. */
-export function readPlainDecimalBytes(b: Buffer, start: number, end: number, out: Float64Array): boolean {
-  let i = start;
-  let negative = false;
-  const first = i < end ? (b[i] as number) : -1;
-  if (first === 45) {
-    negative = true;
-    i++;
-  } else if (first === 43) i++;
-  let m = 0;
-  let digits = 0;
-  let fraction = 0;
-  let point = false;
-  for (; i < end; i++) {
-    const c = b[i] as number;
-    if (c >= 48 && c <= 57) {
-      m = m * 10 + (c - 48);
-      digits++;
-      if (point) fraction++;
-    } else if (c === 46 && !point) point = true;
-    else return false;
-  }
-  if (digits === 0 || digits > 15) return false;
-  const value = fraction === 0 ? m : m / (POW10[fraction] as number);
-  out[0] = negative ? -value : value;
-  return true;
-}
-
-function bytesAt(b: Buffer, at: number, piece: Buffer): boolean {
-  const n = piece.length;
-  for (let k = 0; k < n; k++) if (b[at + k] !== piece[k]) return false;
-  return true;
-}
-
-const FOOT_STRIKE = Buffer.from('foot_strike');
-const TOE_OFF = Buffer.from('toe_off');
-const LEFT = Buffer.from('left');
-const RIGHT = Buffer.from('right');
-
-/**
- * True when `piece` appears in `text` at index `at`: text.startsWith(piece, at), written out, because
- * the built-in with a start index costs several times more than this loop for the short pieces a
- * parser compares (measured with bench/profile-summary.ts --lines).
- */
-export function textAt(text: string, at: number, piece: string): boolean {
-  const n = piece.length;
-  if (at < 0 || at + n > text.length) return false;
-  for (let k = 0; k < n; k++) if (text.charCodeAt(at + k) !== piece.charCodeAt(k)) return false;
-  return true;
-}
-
 /** Learns the columns from a header row. */
 export function parseCsvHeaderRow(text: string): CsvHeaderResult {
   const raw = splitCsvRow(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
@@ -230,13 +132,14 @@ export function parseCsvHeaderRow(text: string): CsvHeaderResult {
   return { ok: true, columns: { index, cellCount: raw.length } };
 }
 
+/** The gait events and sides, read in place from a cell. */
+const EVENTS = new FixedWords(GAIT_EVENT_NAMES);
+const SIDE_WORDS = new FixedWords(SIDES);
+
 /** Boundary of a cell of the current row; 0 for an absent column or a cell the row left off. */
 function at(bounds: Int32Array, n: number, column: number): number {
   return column >= 0 && column < n ? (bounds[column] as number) : 0;
 }
-
-/** Muscle names are few: keeping one string per name saves memory and lets later stages compare cheaply. */
-const MAX_INTERNED = 4096;
 
 export interface CsvParserOptions {
   /**
@@ -262,33 +165,12 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
   const quick = options.quick ?? true;
   let columns: CsvColumns | null = null;
   let headerTried = false;
-  const muscleNames = new Map<string, string>();
+  // Muscle names: one shared string per name, matched in place in the row before any substring is made.
+  const names = new NameTable();
 
-  const intern = (name: string): string => {
-    const known = muscleNames.get(name);
-    if (known !== undefined) return known;
-    // A fresh copy, so the name does not keep the whole chunk string it was sliced from alive.
-    const own = name.length < 13 ? name : Buffer.from(name, 'utf16le').toString('utf16le');
-    if (muscleNames.size < MAX_INTERNED) muscleNames.set(own, own);
-    return own;
-  };
-
-  // The few muscle names seen so far, matched in place in the row before any substring is made.
-  const recentMuscles: string[] = [];
-  const muscleAt = (text: string, start: number, end: number): string => {
-    const length = end - start;
-    for (let k = 0; k < recentMuscles.length; k++) {
-      const name = recentMuscles[k] as string;
-      if (name.length === length && textAt(text, start, name)) return name;
-    }
-    const name = intern(text.slice(start, end));
-    if (recentMuscles.length < 16) recentMuscles.push(name);
-    return name;
-  };
-
-  // Cell boundaries of the current row: cell i is text[starts[i], ends[i]).
   /** Where quickRow's numbers are read into (no number object per cell). */
   const num = new Float64Array(1);
+  // Cell boundaries of the current row: cell i is text[starts[i], ends[i]).
   let starts = new Int32Array(0);
   let ends = new Int32Array(0);
 
@@ -320,23 +202,8 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     const mEnd = at(ends, n, mCol);
     if (evCol >= 0 && at(ends, n, evCol) > at(starts, n, evCol)) {
       if (mEnd > mStart || at(ends, n, fCol) > at(starts, n, fCol) || at(ends, n, pCol) > at(starts, n, pCol) || at(ends, n, qCol) > at(starts, n, qCol)) return null;
-      const evStart = at(starts, n, evCol);
-      const evLength = at(ends, n, evCol) - evStart;
-      const event =
-        evLength === 11 && textAt(text, evStart, 'foot_strike')
-          ? 'foot_strike'
-          : evLength === 7 && textAt(text, evStart, 'toe_off')
-            ? 'toe_off'
-            : null;
-      const sideCol = index.side;
-      const sideStart = at(starts, n, sideCol);
-      const sideLength = at(ends, n, sideCol) - sideStart;
-      const side =
-        sideLength === 4 && textAt(text, sideStart, 'left')
-          ? 'left'
-          : sideLength === 5 && textAt(text, sideStart, 'right')
-            ? 'right'
-            : null;
+      const event = EVENTS.inText(text, at(starts, n, evCol), at(ends, n, evCol));
+      const side = SIDE_WORDS.inText(text, at(starts, n, index.side), at(ends, n, index.side));
       if (event === null || side === null) return null;
       return { kind: 'event', tS, event, side, line };
     }
@@ -353,29 +220,15 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     if (at(ends, n, pCol) > at(starts, n, pCol)) {
       if (!readPlainDecimal(text, at(starts, n, pCol), at(ends, n, pCol), num)) return null;
       pennationDeg = num[0] as number;
-      if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
     }
     let quality = 1;
     if (at(ends, n, qCol) > at(starts, n, qCol)) {
       if (!readPlainDecimal(text, at(starts, n, qCol), at(ends, n, qCol), num)) return null;
       quality = num[0] as number;
-      if (!(quality >= 0 && quality <= 1)) return null;
+      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
     }
-    return makeSample(tS, muscleAt(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
-  };
-
-  // The names seen by quickRowBytes, with their bytes.
-  const recentBytes: { readonly name: string; readonly bytes: Buffer }[] = [];
-  const muscleAtBytes = (b: Buffer, start: number, end: number): string => {
-    const length = end - start;
-    for (let k = 0; k < recentBytes.length; k++) {
-      const known = recentBytes[k] as { readonly name: string; readonly bytes: Buffer };
-      if (known.bytes.length === length && bytesAt(b, start, known.bytes)) return known.name;
-    }
-    // ASCII only (quickRowBytes checked), so latin1 gives the text UTF-8 would.
-    const name = intern(b.toString('latin1', start, end));
-    if (recentBytes.length < 16) recentBytes.push({ name, bytes: Buffer.from(name, 'latin1') });
-    return name;
+    return makeSample(tS, names.inText(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
   };
 
   /** quickRow on the row's bytes b[s, e), for rows of ASCII characters without quotes; null: read the text. */
@@ -412,14 +265,8 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     const mEnd = at(ends, n, mCol);
     if (evCol >= 0 && at(ends, n, evCol) > at(starts, n, evCol)) {
       if (mEnd > mStart || at(ends, n, fCol) > at(starts, n, fCol) || at(ends, n, pCol) > at(starts, n, pCol) || at(ends, n, qCol) > at(starts, n, qCol)) return null;
-      const evStart = at(starts, n, evCol);
-      const evLength = at(ends, n, evCol) - evStart;
-      const event =
-        evLength === 11 && bytesAt(b, evStart, FOOT_STRIKE) ? 'foot_strike' : evLength === 7 && bytesAt(b, evStart, TOE_OFF) ? 'toe_off' : null;
-      const sideCol = index.side;
-      const sideStart = at(starts, n, sideCol);
-      const sideLength = at(ends, n, sideCol) - sideStart;
-      const side = sideLength === 4 && bytesAt(b, sideStart, LEFT) ? 'left' : sideLength === 5 && bytesAt(b, sideStart, RIGHT) ? 'right' : null;
+      const event = EVENTS.inBytes(b, at(starts, n, evCol), at(ends, n, evCol));
+      const side = SIDE_WORDS.inBytes(b, at(starts, n, index.side), at(ends, n, index.side));
       if (event === null || side === null) return null;
       return { kind: 'event', tS, event, side, line };
     }
@@ -436,15 +283,15 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     if (at(ends, n, pCol) > at(starts, n, pCol)) {
       if (!readPlainDecimalBytes(b, at(starts, n, pCol), at(ends, n, pCol), num)) return null;
       pennationDeg = num[0] as number;
-      if (!(pennationDeg >= 0 && pennationDeg <= 90)) return null;
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
     }
     let quality = 1;
     if (at(ends, n, qCol) > at(starts, n, qCol)) {
       if (!readPlainDecimalBytes(b, at(starts, n, qCol), at(ends, n, qCol), num)) return null;
       quality = num[0] as number;
-      if (!(quality >= 0 && quality <= 1)) return null;
+      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
     }
-    return makeSample(tS, muscleAtBytes(b, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
+    return makeSample(tS, names.inAsciiBytes(b, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
   };
 
   const headerRow = (text: string, line: number): Frame => {
@@ -542,7 +389,7 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     let pennationDeg = Number.NaN;
     if (pennationCell.length > 0) {
       pennationDeg = csvNumber(pennationCell);
-      if (!(pennationDeg >= 0 && pennationDeg <= 90)) {
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) {
         const reason = pennationDeg === pennationDeg ? 'out_of_range' : 'schema';
         return makeRejection(reason, `pennation_deg ${cellProblem(pennationCell)}: ${FIELD_RULE['pennation_deg']}`, line, text);
       }
@@ -550,12 +397,12 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     let quality = 1;
     if (qualityCell.length > 0) {
       quality = csvNumber(qualityCell);
-      if (!(quality >= 0 && quality <= 1)) {
+      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) {
         const reason = quality === quality ? 'out_of_range' : 'schema';
         return makeRejection(reason, `quality ${cellProblem(qualityCell)}: ${FIELD_RULE['quality']}`, line, text);
       }
     }
-    return makeSample(tS, intern(muscleCell), fascicleMm, pennationDeg, quality, line);
+    return makeSample(tS, names.intern(muscleCell), fascicleMm, pennationDeg, quality, line);
   };
 
   const readText = (text: string, line: number): Frame => {

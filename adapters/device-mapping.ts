@@ -10,7 +10,8 @@
 import { readJsonFile, schemaProblems } from './json-file.ts';
 import { z } from 'zod';
 import type { Frame, Rejection, Sample } from '../src/trial/records.ts';
-import { EXCERPT_CHARS, makeRejection, MAX_MESSAGE_CHARS, notJsonRejection, parseMessage, parseRecordValue } from './parse-record.ts';
+import { MAX_LINE_BYTES } from './limits.ts';
+import { elementExcerpt, makeRejection, MAX_MESSAGE_CHARS, parseMessage, parseRecordValue, readJson } from './parse-record.ts';
 
 export const LENGTH_UNITS = ['m', 'cm', 'mm'] as const;
 export const ANGLE_UNITS = ['rad', 'deg'] as const;
@@ -186,8 +187,8 @@ export function applyMapping(value: unknown, mapping: DeviceMapping): unknown {
   return out;
 }
 
-/** Longest live message accepted, in bytes (the same cap as a line of a file: 1 MiB). */
-export const MAX_MESSAGE_BYTES = 1024 * 1024;
+/** Longest live message accepted, in bytes: the same cap as a line of a file. */
+export const MAX_MESSAGE_BYTES = MAX_LINE_BYTES;
 
 /** The rejection of a message over the byte cap; made from its first bytes only. */
 export function oversizeRejection(line: number, lengthBytes: number, capBytes: number, start: string): Rejection {
@@ -210,14 +211,6 @@ const headerJson = new WeakMap<Frame, string>();
 /** The JSON text of a decoded header frame (see decodeMessage), or undefined. */
 export function headerJsonOf(frame: Frame): string | undefined {
   return headerJson.get(frame);
-}
-
-function excerptOf(element: unknown): string {
-  try {
-    return (JSON.stringify(element) ?? String(element)).slice(0, EXCERPT_CHARS);
-  } catch {
-    return '(an element that cannot be shown)';
-  }
 }
 
 function rememberHeaders(frames: readonly Frame[], values: () => readonly unknown[]): void {
@@ -249,17 +242,13 @@ export function decodeMessage(text: string, firstLine: number, mapping: DeviceMa
     return frames;
   }
   if (text.length > maxChars) return parseMessage(text, firstLine, maxChars);
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    return [notJsonRejection(firstLine, text, error instanceof Error ? error.message : String(error))];
-  }
-  const elements: unknown[] = Array.isArray(value) ? value : [value];
+  const json = readJson(text, firstLine);
+  if (!json.ok) return [json.rejection];
+  const elements: unknown[] = Array.isArray(json.value) ? json.value : [json.value];
   const mapped = elements.map((e) => applyMapping(e, mapping));
   const frames = mapped.map((m, i) => {
     const frame = parseRecordValue(m, firstLine + i, '');
-    return frame.kind === 'rejection' ? { ...frame, excerpt: excerptOf(elements[i]) } : frame;
+    return frame.kind === 'rejection' ? { ...frame, excerpt: elementExcerpt(elements[i]) } : frame;
   });
   rememberHeaders(frames, () => mapped);
   return frames;

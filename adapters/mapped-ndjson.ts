@@ -5,19 +5,15 @@
  */
 import type { Frame } from '../src/trial/records.ts';
 import { applyMapping, type DeviceMapping } from './device-mapping.ts';
-import { EXCERPT_CHARS, notJsonRejection, parseRecordValue } from './parse-record.ts';
+import { EXCERPT_CHARS } from './limits.ts';
+import { parseRecordValue, readJson } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';
 
 export function createMappedNdjsonReader(mapping: DeviceMapping): LineReader {
   const text = (line: string, lineNumber: number): Frame => {
-    let value: unknown;
-    try {
-      value = JSON.parse(line);
-    } catch (error) {
-      return notJsonRejection(lineNumber, line, error instanceof Error ? error.message : String(error));
-    }
+    const json = readJson(line, lineNumber);
     // The excerpt is the device's own line, as the person knows it.
-    return parseRecordValue(applyMapping(value, mapping), lineNumber, line.slice(0, EXCERPT_CHARS));
+    return json.ok ? parseRecordValue(applyMapping(json.value, mapping), lineNumber, line.slice(0, EXCERPT_CHARS)) : json.rejection;
   };
   return {
     text,

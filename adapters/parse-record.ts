@@ -8,40 +8,36 @@
  * allowed (and ignored), so a device may add fields without breaking older readers.
  */
 import { z } from 'zod';
-import {
-  makeSample,
-  type Frame,
-  type GaitEventName,
-  type Header,
-  type MuscleDeclaration,
-  type Rejection,
-  type Side,
-} from '../src/trial/records.ts';
+import { GAIT_EVENT_NAMES, makeSample, SIDES, type Frame, type Header, type MuscleDeclaration, type Rejection } from '../src/trial/records.ts';
 import type { RejectReason } from '../src/trial/reasons.ts';
 import { parseCalibration } from './calibration-file.ts';
 import { markerFrame } from './old-link-marker.ts';
+import { freshCopy } from './lexing.ts';
+import { EXCERPT_CHARS, MAX_LINE_BYTES } from './limits.ts';
 
 /** Deepest nesting accepted (the top-level object is level 1; a header's calibration needs 4). */
 export const MAX_DEPTH = 8;
-/** A rejection keeps at most this many characters of the offending input. */
-export const EXCERPT_CHARS = 200;
-/** Longest live message accepted, in characters (the same default as the file reader's line cap). */
-export const MAX_MESSAGE_CHARS = 1024 * 1024;
+/** Longest live message accepted, in characters: as many as the line cap's bytes. */
+export const MAX_MESSAGE_CHARS = MAX_LINE_BYTES;
 /** Keys refused anywhere in a record, because they can alter objects' prototypes. */
 export const UNSAFE_KEYS: ReadonlySet<string> = new Set(['__proto__', 'constructor', 'prototype']);
 
-const SIDE_VALUES = ['left', 'right'] as const satisfies readonly Side[];
-const EVENT_VALUES = ['foot_strike', 'toe_off'] as const satisfies readonly GaitEventName[];
+/** Pennation angles a sample may carry, degrees: the schema, the quick readings and the messages take the bounds from here. */
+export const MIN_PENNATION_DEG = 0;
+export const MAX_PENNATION_DEG = 90;
+/** Tracking qualities a sample may carry: 0 (lost) to 1 (sure). */
+export const MIN_QUALITY = 0;
+export const MAX_QUALITY = 1;
 
 const timeS = z.number();
 export const sampleSchema = z.object({
   t: timeS,
   muscle: z.string().min(1),
   fascicle_mm: z.number().positive(),
-  pennation_deg: z.number().min(0).max(90).optional(),
-  quality: z.number().min(0).max(1).optional(),
+  pennation_deg: z.number().min(MIN_PENNATION_DEG).max(MAX_PENNATION_DEG).optional(),
+  quality: z.number().min(MIN_QUALITY).max(MAX_QUALITY).optional(),
 });
-export const gaitEventSchema = z.object({ t: timeS, event: z.enum(EVENT_VALUES), side: z.enum(SIDE_VALUES) });
+export const gaitEventSchema = z.object({ t: timeS, event: z.enum(GAIT_EVENT_NAMES), side: z.enum(SIDES) });
 export const markerSchema = z.object({ t: timeS, marker: z.string() });
 /** A lost live connection, as the session log writes it; `t` is left out when the connection carried no time. */
 export const disconnectionSchema = z.object({
@@ -54,7 +50,7 @@ export const headerSchema = z.object({
   subject: z.string().optional(),
   trial: z.string().optional(),
   rate_hz: z.number().positive().optional(),
-  muscles: z.record(z.string().min(1), z.object({ side: z.enum(SIDE_VALUES).optional() })).optional(),
+  muscles: z.record(z.string().min(1), z.object({ side: z.enum(SIDES).optional() })).optional(),
   /** Validated by parseCalibration (adapters/calibration-file.ts). */
   calibration: z.unknown().optional(),
 });
@@ -74,8 +70,8 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
   t: 'must be a finite number (seconds on the device clock)',
   muscle: 'must be a non-empty string (any name, e.g. "calf")',
   fascicle_mm: 'must be a finite number > 0 (millimetres); if your device sends metres, use a device mapping',
-  pennation_deg: 'must be a number from 0 to 90 (degrees), or left out when there is none',
-  quality: 'must be a number from 0 to 1, or left out when there is none',
+  pennation_deg: `must be a number from ${MIN_PENNATION_DEG} to ${MAX_PENNATION_DEG} (degrees), or left out when there is none`,
+  quality: `must be a number from ${MIN_QUALITY} to ${MAX_QUALITY}, or left out when there is none`,
   event: 'must be "foot_strike" or "toe_off"',
   side: 'must be "left" or "right"',
   marker: 'must be a string',
@@ -96,12 +92,7 @@ const RANGED_FIELDS: ReadonlySet<string> = new Set(['t', 'fascicle_mm', 'pennati
 /** A Rejection; the excerpt is cut to EXCERPT_CHARS and copied so it does not pin a large input string. */
 export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string): Rejection {
   const cut = excerpt.length > EXCERPT_CHARS ? excerpt.slice(0, EXCERPT_CHARS) : excerpt;
-  return { kind: 'rejection', reason, message, line, excerpt: flatCopy(cut) };
-}
-
-function flatCopy(s: string): string {
-  // A substring may keep its whole parent string alive; a round trip through a Buffer makes a fresh one.
-  return s.length < 13 ? s : Buffer.from(s, 'utf16le').toString('utf16le');
+  return { kind: 'rejection', reason, message, line, excerpt: freshCopy(cut) };
 }
 
 /** The rejection of a line (or message) longer than the cap. */
@@ -116,7 +107,7 @@ export function tooLongRejection(line: number, lengthBytes: number, capBytes: nu
 }
 
 /** The rejection of text that is not JSON. */
-export function notJsonRejection(line: number, text: string, detail: string): Rejection {
+function notJsonRejection(line: number, text: string, detail: string): Rejection {
   return makeRejection(
     'not_json',
     `line is not valid JSON (${detail}): each line must be one JSON object, e.g. ` +
@@ -125,6 +116,18 @@ export function notJsonRejection(line: number, text: string, detail: string): Re
     line,
     text,
   );
+}
+
+/** What reading JSON text gives: the value, or the not_json rejection that says why it is not JSON. */
+export type JsonRead = { readonly ok: true; readonly value: unknown } | { readonly ok: false; readonly rejection: Rejection };
+
+/** JSON.parse that never throws: the value of `text`, or the not_json rejection of it as line `line`. */
+export function readJson(text: string, line: number): JsonRead {
+  try {
+    return { ok: true, value: JSON.parse(text) as unknown };
+  } catch (error) {
+    return { ok: false, rejection: notJsonRejection(line, text, error instanceof Error ? error.message : String(error)) };
+  }
 }
 
 function isPlainObject(value: unknown): value is Record<string, unknown> {
@@ -152,12 +155,12 @@ function quickSample(o: Record<string, unknown>, line: number): Frame | null {
   if (typeof fascicleMm !== 'number' || !(fascicleMm > 0) || fascicleMm === Infinity) return null;
   let pennationDeg = Number.NaN;
   if (p !== undefined) {
-    if (typeof p !== 'number' || !(p >= 0 && p <= 90)) return null;
+    if (typeof p !== 'number' || !(p >= MIN_PENNATION_DEG && p <= MAX_PENNATION_DEG)) return null;
     pennationDeg = p;
   }
   let quality = 1;
   if (q !== undefined) {
-    if (typeof q !== 'number' || !(q >= 0 && q <= 1)) return null;
+    if (typeof q !== 'number' || !(q >= MIN_QUALITY && q <= MAX_QUALITY)) return null;
     quality = q;
   }
   return makeSample(t, muscle, fascicleMm, pennationDeg, quality, line);
@@ -386,13 +389,8 @@ export function parseRecordValue(value: unknown, line: number, excerpt: string):
 
 /** One line of JSON text → one frame. */
 export function parseJsonText(text: string, line: number): Frame {
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    return notJsonRejection(line, text, error instanceof Error ? error.message : String(error));
-  }
-  return parseRecordValue(value, line, text);
+  const json = readJson(text, line);
+  return json.ok ? parseRecordValue(json.value, line, text) : json.rejection;
 }
 
 /**
@@ -413,12 +411,9 @@ export function parseMessage(text: string, firstLine: number, maxChars: number =
       ),
     ];
   }
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    return [notJsonRejection(firstLine, text, error instanceof Error ? error.message : String(error))];
-  }
+  const json = readJson(text, firstLine);
+  if (!json.ok) return [json.rejection];
+  const value = json.value;
   if (!Array.isArray(value)) return [parseRecordValue(value, firstLine, text)];
   const frames: Frame[] = new Array<Frame>(value.length);
   for (let i = 0; i < value.length; i++) {
@@ -429,7 +424,8 @@ export function parseMessage(text: string, firstLine: number, maxChars: number =
   return frames;
 }
 
-function elementExcerpt(element: unknown): string {
+/** The excerpt of one element of a message: its JSON text, cut to EXCERPT_CHARS. */
+export function elementExcerpt(element: unknown): string {
   try {
     const text = JSON.stringify(element);
     return (text ?? String(element)).slice(0, EXCERPT_CHARS);

@@ -10,6 +10,7 @@
 import { createReadStream } from 'node:fs';
 import { Observable } from 'rxjs';
 import type { Frame } from '../src/trial/records.ts';
+import { EXCERPT_BYTES, EXCERPT_CHARS, MAX_LINE_BYTES } from './limits.ts';
 
 export interface ReadLinesOptions {
   /** Longest line delivered whole, in bytes (line ending excluded). @default 1048576 (1 MiB) */
@@ -85,12 +86,9 @@ function hint(code: string): string {
   }
 }
 
-export const DEFAULT_MAX_LINE_BYTES = 1024 * 1024;
+export const DEFAULT_MAX_LINE_BYTES = MAX_LINE_BYTES;
 export const DEFAULT_BATCH_LINES = 1024;
 const DEFAULT_CHUNK_BYTES = 256 * 1024;
-/** Bytes decoded for the excerpt of an over-long line (enough for EXCERPT_CHARS characters). */
-const EXCERPT_BYTES = 800;
-const EXCERPT_CHARS = 200;
 
 function positiveInteger(name: string, value: number): number {
   if (!Number.isInteger(value) || value < 1) {

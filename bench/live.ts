@@ -17,7 +17,7 @@ import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { tap } from 'rxjs';
 import { websocketServer } from '../adapters/websocket-server.ts';
 import { runTrial } from '../src/run/run-trial.ts';
-import { median, quantile } from './stats.ts';
+import { median, quantile } from '../src/model/stats.ts';
 import { createPrng } from '../src/sim/prng.ts';
 import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
 

@@ -19,7 +19,7 @@ import { writeBenchTrial, type BenchFormat, type BenchTrial } from './generate.t
 import { runToolReplay } from './tool-replay.ts';
 import { plainLoop } from './plain-loop.ts';
 import { figureDifferences, figuresFromSummary, type BenchFigures } from './figures.ts';
-import { median } from './stats.ts';
+import { median } from '../src/model/stats.ts';
 import { measureMemory, type MemoryResult } from './memory.ts';
 import { measureLive, type LiveResult } from './live.ts';
 

@@ -6,7 +6,8 @@ import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
-import { PLAUSIBLE_SL_UM, checkCalibrationAgainstTrial } from '../model/calibration.ts';
+import { checkCalibrationAgainstTrial } from '../model/calibration.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
 import { QUIET_SPREAD_FRACTION, sarcomereCountFromReference, summarizeWindow } from '../model/quiet-window.ts';
 import { DEFAULT_SKIP_BELOW } from '../pipeline/gate-quality.ts';
 
@@ -15,7 +16,7 @@ const HELP = `usage: lengthwise calibrate FILE --muscle NAME --window START-END 
 Reads a quiet window of a trial (the person standing still), takes the muscle's median fascicle length
 there and, with the sarcomere length that posture stands for, prints a calibration (JSON, on standard
 output) with the muscle's sarcomeres in series filled in. Warns on standard error when the window is
-not quiet, or when the count puts the trial's sarcomere lengths outside ${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm.
+not quiet, or when the count puts the trial's sarcomere lengths outside ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm.
 
 options:
   --muscle NAME            the muscle to calibrate, as named in the trial
@@ -43,10 +44,10 @@ export function parseWindow(text: string): Parsed<{ startS: number; endS: number
 /** Reads a positive sarcomere length (µm) within the plausible range. */
 function parseSarcomereUm(option: string, text: string): Parsed<number> {
   const value = Number(text);
-  if (text.trim() === '' || !Number.isFinite(value) || value < PLAUSIBLE_SL_UM.min || value > PLAUSIBLE_SL_UM.max) {
+  if (text.trim() === '' || !isPlausibleSarcomereUm(value)) {
     return {
       ok: false,
-      message: `${option} "${text}" is not accepted; give a sarcomere length from ${PLAUSIBLE_SL_UM.min} to ${PLAUSIBLE_SL_UM.max} µm, e.g. ${option} 2.7`,
+      message: `${option} "${text}" is not accepted; give a sarcomere length from ${PLAUSIBLE_SARCOMERE_UM.min} to ${PLAUSIBLE_SARCOMERE_UM.max} µm, e.g. ${option} 2.7`,
     };
   }
   return { ok: true, value };

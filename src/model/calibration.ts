@@ -2,6 +2,7 @@
 import type { Species } from './species.ts';
 import { plateauMiddleUm, type FilamentGeometry, type ForceLengthCurve } from './geometry.ts';
 import { makeMuscleModel, type CurveShape, type MuscleModel, type MuscleModelOptions } from './muscle-model.ts';
+import { PLAUSIBLE_SARCOMERE_UM } from './plausible-sarcomere.ts';
 
 /** What every method may carry besides its numbers: the curve the muscle is placed on. */
 export interface CalibrationCurveOptions {
@@ -105,16 +106,13 @@ export function sarcomereCountSpread(cal: MuscleCalibration, curve: ForceLengthC
   }
 }
 
-/** Sarcomere lengths outside this range (µm) are not plausible for skeletal muscle (common practice, no source). */
-export const PLAUSIBLE_SL_UM = { min: 1, max: 5 } as const;
-
 export type CalibrationCheck =
   | { readonly ok: true; readonly slMinUm: number; readonly slMaxUm: number }
   | { readonly ok: false; readonly slMinUm: number; readonly slMaxUm: number; readonly message: string };
 
 /**
  * Does a sarcomere count fit a trial? Flags a count whose implied sarcomere lengths, for the trial's
- * shortest and longest fascicle lengths, leave 1–5 µm: the count (or the trial's muscle) is likely wrong.
+ * shortest and longest fascicle lengths, leave PLAUSIBLE_SARCOMERE_UM: the count (or the trial's muscle) is likely wrong.
  */
 export function checkCalibrationAgainstTrial(
   muscle: string,
@@ -132,10 +130,10 @@ export function checkCalibrationAgainstTrial(
       message: `${muscle}: sarcomeres in series ${String(sarcomeresInSeriesCount)} and fascicle lengths ${String(fascicleMinMm)}–${String(fascicleMaxMm)} mm give no sarcomere length; check the calibration`,
     };
   }
-  if (slMinUm >= PLAUSIBLE_SL_UM.min && slMaxUm <= PLAUSIBLE_SL_UM.max) return { ok: true, slMinUm, slMaxUm };
-  const lo = Math.ceil((fascicleMaxMm * 1000) / PLAUSIBLE_SL_UM.max);
-  const hi = Math.floor((fascicleMinMm * 1000) / PLAUSIBLE_SL_UM.min);
-  const fits = lo <= hi ? `a count from ${lo} to ${hi} keeps them within ${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm` : `no single count keeps them within ${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm (is the fascicle length in mm?)`;
+  if (slMinUm >= PLAUSIBLE_SARCOMERE_UM.min && slMaxUm <= PLAUSIBLE_SARCOMERE_UM.max) return { ok: true, slMinUm, slMaxUm };
+  const lo = Math.ceil((fascicleMaxMm * 1000) / PLAUSIBLE_SARCOMERE_UM.max);
+  const hi = Math.floor((fascicleMinMm * 1000) / PLAUSIBLE_SARCOMERE_UM.min);
+  const fits = lo <= hi ? `a count from ${lo} to ${hi} keeps them within ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm` : `no single count keeps them within ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm (is the fascicle length in mm?)`;
   return {
     ok: false,
     slMinUm,
@@ -143,6 +141,6 @@ export function checkCalibrationAgainstTrial(
     message:
       `${muscle}: ${Math.round(sarcomeresInSeriesCount)} sarcomeres in series put this trial's fascicle lengths ` +
       `(${fascicleMinMm.toFixed(1)}–${fascicleMaxMm.toFixed(1)} mm) at ${slMinUm.toFixed(2)}–${slMaxUm.toFixed(2)} µm, ` +
-      `outside the plausible ${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm; ${fits}. Check the calibration's muscle name and numbers.`,
+      `outside the plausible ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm; ${fits}. Check the calibration's muscle name and numbers.`,
   };
 }

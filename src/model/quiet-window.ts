@@ -2,7 +2,7 @@
  * A calibration from a quiet window of a trial: the median fascicle length while the person stands
  * still, paired with a sarcomere length measured (or assumed) for that posture, gives the sarcomere count.
  */
-import { percentileOfSorted } from './percentile.ts';
+import { medianSorted, quantileSorted } from './stats.ts';
 
 /** Above this (5th–95th percentile range / median), a window is not quiet. Our own threshold. */
 export const QUIET_SPREAD_FRACTION = 0.05;
@@ -37,9 +37,9 @@ export function summarizeWindow(
     if (t >= startS && t <= endS && Number.isFinite(f)) inside.push(f);
   }
   inside.sort((a, b) => a - b);
-  const medianMm = percentileOfSorted(inside, 0.5);
-  const p5Mm = percentileOfSorted(inside, 0.05);
-  const p95Mm = percentileOfSorted(inside, 0.95);
+  const medianMm = medianSorted(inside);
+  const p5Mm = quantileSorted(inside, 0.05);
+  const p95Mm = quantileSorted(inside, 0.95);
   const spreadFraction = (p95Mm - p5Mm) / medianMm;
   return { count: inside.length, medianMm, p5Mm, p95Mm, spreadFraction, quiet: spreadFraction <= quietSpreadFraction };
 }

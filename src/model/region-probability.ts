@@ -8,7 +8,7 @@
 import { normalCdf, normalQuantile } from './normal.ts';
 import { regionLowerBoundsUm, regionAt, type ForceLengthCurve } from './geometry.ts';
 import { REGION_KEYS, regionIndex, zeroRegionRecord, type RegionKey } from './regions.ts';
-import { percentileOfSorted } from './percentile.ts';
+import { quantileSorted } from './stats.ts';
 
 const REGIONS = REGION_KEYS.length;
 
@@ -144,8 +144,9 @@ export function strideRegionFractions(
   for (let r = 0; r < REGIONS; r++) {
     for (let j = 0; j < m; j++) column[j] = fractions[r * m + j] as number;
     column.sort();
-    low[r] = percentileOfSorted(column, 0.05);
-    high[r] = percentileOfSorted(column, 0.95);
+    low[r] = quantileSorted(column, 0.05);
+    high[r] = quantileSorted(column, 0.95);
   }
   return { expected: toRecord(expected), low: toRecord(low), high: toRecord(high) };
 }
+

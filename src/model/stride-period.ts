@@ -2,7 +2,7 @@
  * The stride period of a fascicle-length signal, for trials without gait events: the dominant period
  * from the autocorrelation of the signal resampled to a uniform grid. Pure functions of numbers.
  */
-import { percentileOfSorted } from './percentile.ts';
+import { quantileSorted } from './stats.ts';
 
 export interface PeriodOptions {
   /** Shortest period looked for (s). @default 0.4 */
@@ -112,6 +112,6 @@ export function dominantPeriod(tS: ArrayLike<number>, x: ArrayLike<number>, n: n
   return {
     periodS: (best + Math.max(-0.5, Math.min(0.5, shift))) * gridS,
     correlation: b,
-    rangeP5P95: percentileOfSorted(sorted, 0.95) - percentileOfSorted(sorted, 0.05),
+    rangeP5P95: quantileSorted(sorted, 0.95) - quantileSorted(sorted, 0.05),
   };
 }

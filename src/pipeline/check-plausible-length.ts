@@ -1,12 +1,12 @@
 import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
-import { PLAUSIBLE_SL_UM } from '../model/calibration.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
 import { OutBatch } from './out-batch.ts';
 import { statefulStage } from './stateful-stage.ts';
 
 /**
  * Says once per muscle, as a Notice, when its estimated sarcomere length leaves the range skeletal muscle
- * can have (1–5 µm): the calibration (or the device's units) is then almost surely wrong. Samples pass
+ * can have (PLAUSIBLE_SARCOMERE_UM): the calibration (or the device's units) is then almost surely wrong. Samples pass
  * untouched; they are still placed on the curve, and the summary carries the notice.
  */
 export function checkPlausibleLength(): OperatorFunction<Batch, Batch> {
@@ -17,7 +17,7 @@ export function checkPlausibleLength(): OperatorFunction<Batch, Batch> {
       for (const f of batch) {
         out.pass(f);
         if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;
-        if (f.sarcomereUm >= PLAUSIBLE_SL_UM.min && f.sarcomereUm <= PLAUSIBLE_SL_UM.max) continue;
+        if (isPlausibleSarcomereUm(f.sarcomereUm)) continue;
         if (told.has(f.muscle)) continue;
         told.add(f.muscle);
         out.insert({
@@ -25,7 +25,7 @@ export function checkPlausibleLength(): OperatorFunction<Batch, Batch> {
           muscle: f.muscle,
           text:
             `${f.muscle}: estimated sarcomere length ${f.sarcomereUm.toFixed(2)} µm at t=${f.tS} s (fascicle ${f.fascicleMm} mm) is outside ` +
-            `${PLAUSIBLE_SL_UM.min}–${PLAUSIBLE_SL_UM.max} µm, which skeletal muscle cannot reach; check the calibration's sarcomere count ` +
+            `${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm, which skeletal muscle cannot reach; check the calibration's sarcomere count ` +
             `and that the device sends millimetres (a device mapping converts other units)`,
         });
       }

@@ -9,7 +9,7 @@ import {
 } from '../model/calibration.ts';
 import { DEFAULT_SPECIES } from '../model/species.ts';
 import { plateauMiddleUm } from '../model/geometry.ts';
-import { percentileOfSorted } from '../model/percentile.ts';
+import { median } from '../model/stats.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
 
@@ -30,10 +30,6 @@ export const DEFAULT_BASELINE_S = 3;
 interface Collecting {
   readonly startS: number;
   readonly fascicleMm: number[];
-}
-
-function median(values: readonly number[]): number {
-  return percentileOfSorted([...values].sort((a, b) => a - b), 0.5);
 }
 
 /**

@@ -1,7 +1,8 @@
 /** A reference calibration captured while running: the last seconds at the current posture, at an assumed sarcomere length. */
 import type { CalibrationApplied } from '../trial/records.ts';
 import type { Species } from '../model/species.ts';
-import { percentileOfSorted } from '../model/percentile.ts';
+import { medianSorted } from '../model/stats.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
 
 export type CaptureResult =
   | { readonly ok: true; readonly frame: CalibrationApplied; readonly fascicleMm: number; readonly spreadPercent: number; readonly json: object }
@@ -15,14 +16,14 @@ export const MIN_CAPTURE_SAMPLES = 20;
  * calibration contract. The result carries both the frame for the running pipeline and the JSON to save.
  */
 export function captureCalibration(muscle: string, species: Species, fascicleMm: readonly number[], sarcomereUm: number): CaptureResult {
-  if (!(Number.isFinite(sarcomereUm) && sarcomereUm >= 1 && sarcomereUm <= 5)) {
-    return { ok: false, message: `an assumed sarcomere length of ${sarcomereUm} µm is not plausible; give a value between 1 and 5 µm (e.g. 2.7 for a human muscle near its plateau)` };
+  if (!isPlausibleSarcomereUm(sarcomereUm)) {
+    return { ok: false, message: `an assumed sarcomere length of ${sarcomereUm} µm is not plausible; give a value between ${PLAUSIBLE_SARCOMERE_UM.min} and ${PLAUSIBLE_SARCOMERE_UM.max} µm (e.g. 2.7 for a human muscle near its plateau)` };
   }
   if (fascicleMm.length < MIN_CAPTURE_SAMPLES) {
     return { ok: false, message: `${muscle}: only ${fascicleMm.length} good samples in the last seconds (at least ${MIN_CAPTURE_SAMPLES} needed); hold the posture with the probe tracking, then capture again` };
   }
   const sorted = [...fascicleMm].sort((a, b) => a - b);
-  const mid = percentileOfSorted(sorted, 0.5);
+  const mid = medianSorted(sorted);
   const spreadPercent = ((sorted[sorted.length - 1] as number) - (sorted[0] as number)) / mid * 100;
   const calibration = { species, method: 'reference' as const, referenceFascicleMm: mid, referenceSarcomereUm: sarcomereUm };
   const n = (mid * 1000) / sarcomereUm;

@@ -10,10 +10,10 @@ import type { RejectReason } from './reasons.ts';
 import type { CalibrationSpec, MuscleCalibration } from '../model/calibration.ts';
 
 export type Side = 'left' | 'right';
-export const SIDES: readonly Side[] = ['left', 'right'];
+export const SIDES = ['left', 'right'] as const satisfies readonly Side[];
 
 export type GaitEventName = 'foot_strike' | 'toe_off';
-export const GAIT_EVENT_NAMES: readonly GaitEventName[] = ['foot_strike', 'toe_off'];
+export const GAIT_EVENT_NAMES = ['foot_strike', 'toe_off'] as const satisfies readonly GaitEventName[];
 
 /**
  * One fascicle sample. Created once by the parser and enriched in place by later stages (no copy per

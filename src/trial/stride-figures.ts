@@ -7,6 +7,7 @@ import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.
 import type { ForceLengthCurve } from '../model/geometry.ts';
 import { DEFAULT_QUANTILE_POINTS, quantilePoints, regionProbabilities } from '../model/region-probability.ts';
 import { regionLowerBoundsUm } from '../model/geometry.ts';
+import { binnedQuantile, quantileBySelection } from '../model/stats.ts';
 import {
   CYCLE_POINTS,
   HISTOGRAM_BIN_UM,
@@ -67,17 +68,7 @@ export class LengthHistogram {
  * of the exact time-weighted quantile). NaN for an empty histogram.
  */
 export function histogramQuantile(weights: Float64Array, q: number, lo = 0, hi = weights.length - 1): number {
-  let total = 0;
-  for (let b = lo; b <= hi; b++) total += weights[b] as number;
-  if (!(total > 0)) return Number.NaN;
-  const target = q * total;
-  let cum = 0;
-  for (let b = lo; b <= hi; b++) {
-    const w = weights[b] as number;
-    if (w > 0 && cum + w >= target) return (b + (target - cum) / w) * HISTOGRAM_BIN_UM;
-    cum += w;
-  }
-  return (hi + 1) * HISTOGRAM_BIN_UM;
+  return binnedQuantile(weights, q, HISTOGRAM_BIN_UM, lo, hi);
 }
 
 const scratch = {
@@ -86,46 +77,6 @@ const scratch = {
   probability: new Float64Array(REGIONS),
   columns: new Float64Array(REGIONS * DEFAULT_QUANTILE_POINTS),
 };
-
-/** Moves the k-th smallest value to index k, smaller ones before it, larger after (Hoare's selection). */
-function selectKth(a: Float64Array, k: number): void {
-  let lo = 0;
-  let hi = a.length - 1;
-  while (lo < hi) {
-    const pivot = a[(lo + hi) >> 1] as number;
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while ((a[i] as number) < pivot) i++;
-      while ((a[j] as number) > pivot) j--;
-      if (i <= j) {
-        const t = a[i] as number;
-        a[i] = a[j] as number;
-        a[j] = t;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else return;
-  }
-}
-
-/**
- * Type 7 percentile (linear between order statistics; common practice, no source), as the model takes
- * it, by selection rather than a full sort. Reorders `values`.
- */
-function percentileOf(values: Float64Array, q: number): number {
-  const pos = q * (values.length - 1);
-  const i = Math.floor(pos);
-  selectKth(values, i);
-  const a = values[i] as number;
-  if (i + 1 >= values.length) return a;
-  let b = Number.POSITIVE_INFINITY;
-  for (let j = i + 1; j < values.length; j++) if ((values[j] as number) < b) b = values[j] as number;
-  return a + (b - a) * (pos - i);
-}
 
 /**
  * Region fractions with their 90% interval under calibration uncertainty, from a histogram: the same
@@ -206,8 +157,8 @@ export function histogramRegionProbability(
       high[key] = min;
       continue;
     }
-    low[key] = percentileOf(column, 0.05);
-    high[key] = percentileOf(column, 0.95);
+    low[key] = quantileBySelection(column, 0.05);
+    high[key] = quantileBySelection(column, 0.95);
   }
   return { expected: expectedRecord, low, high };
 }

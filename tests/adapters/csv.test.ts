@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { createCsvParser, csvNumber, parseCsvHeaderRow, plainDecimalAt, splitCsvRow } from '../../adapters/csv.ts';
+import { createCsvParser, csvNumber, parseCsvHeaderRow, splitCsvRow } from '../../adapters/csv.ts';
 import type { Frame } from '../../src/trial/records.ts';
 import type { RejectReason } from '../../src/trial/reasons.ts';
 import { csvTrial } from './invented-trial.ts';
@@ -53,26 +53,6 @@ describe('csvNumber', () => {
     expect(csvNumber('.5')).toBe(0.5);
     expect(csvNumber('1e400')).toBe(Infinity);
     for (const bad of ['', ' ', '0x10', 'NaN', 'Infinity', '1,5', '1.2.3', 'e5']) expect(csvNumber(bad)).toBeNaN();
-  });
-});
-
-describe('plainDecimalAt', () => {
-  it('reads plain decimals exactly as Number() does, and gives NaN for anything else', () => {
-    // Reference: the JavaScript Number() conversion of the engine (a general-purpose reference implementation).
-    const plain = fc
-      .tuple(fc.constantFrom('', '-', '+'), fc.stringMatching(/^[0-9]{0,9}$/), fc.boolean(), fc.stringMatching(/^[0-9]{0,9}$/))
-      .map(([sign, whole, point, fraction]) => `${sign}${whole}${point ? '.' : ''}${point ? fraction : ''}`);
-    fc.assert(
-      fc.property(fc.oneof(plain, fc.string({ maxLength: 8 })), (text) => {
-        const quick = plainDecimalAt(text, 0, text.length);
-        if (!Number.isNaN(quick)) expect(Object.is(quick, Number(text))).toBe(true);
-        if (/^[+-]?(\d+\.?\d*|\.\d+)$/.test(text) && text.replace(/[^0-9]/g, '').length <= 15) expect(quick).not.toBeNaN();
-      }),
-      { numRuns: 5000 },
-    );
-    expect(plainDecimalAt('x12.5y', 1, 5)).toBe(12.5);
-    expect(plainDecimalAt('1e5', 0, 3)).toBeNaN();
-    expect(plainDecimalAt('1234567890123456', 0, 16)).toBeNaN();
   });
 });
 

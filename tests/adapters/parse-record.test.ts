@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { EXCERPT_CHARS } from '../../adapters/limits.ts';
 import {
-  EXCERPT_CHARS,
   MAX_DEPTH,
   parseJsonText,
   parseMessage,

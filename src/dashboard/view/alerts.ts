@@ -5,6 +5,7 @@
 import type { StrideSummary } from '../../trial/state.ts';
 import type { ConnectionStatus } from '../../trial/run-status.ts';
 import { fixed, percent } from '../../output/format.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
 
 export type AlertKind =
   | 'disconnected'
@@ -29,12 +30,6 @@ export interface Alert {
 export const LOW_QUALITY_ALERT_S = 1;
 /** A muscle without a new sample for this long (wall milliseconds) while others flow is raised. */
 export const NO_SAMPLES_ALERT_MS = 1000;
-/**
- * Plausible sarcomere lengths of working skeletal muscle, µm: beyond them the calibration or the tracking
- * is more likely wrong than the muscle (common practice, no source; the span covers the human curve's
- * 1.32–4.24 µm of Rassier, MacIntosh & Herzog 1999, J Appl Physiol 86:1445–1457).
- */
-export const PLAUSIBLE_SARCOMERE_UM = { min: 1.5, max: 4.5 } as const;
 /** A stride-mean length change larger than this fraction between consecutive strides suggests the probe moved. */
 export const BASELINE_SHIFT_FRACTION = 0.1;
 
@@ -50,9 +45,8 @@ export function lowQualityAlert(muscle: string, lowSinceS: number | null, nowS: 
 }
 
 export function implausibleLengthAlert(muscle: string, sarcomereUm: number): Alert | null {
-  if (!Number.isFinite(sarcomereUm)) return null;
+  if (!Number.isFinite(sarcomereUm) || isPlausibleSarcomereUm(sarcomereUm)) return null;
   const { min, max } = PLAUSIBLE_SARCOMERE_UM;
-  if (sarcomereUm >= min && sarcomereUm <= max) return null;
   return {
     kind: 'implausible_length',
     muscle,

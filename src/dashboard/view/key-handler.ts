@@ -4,7 +4,7 @@
  * before left.
  */
 import type { Key } from 'ink';
-import { PLAUSIBLE_SARCOMERE_UM } from './alerts.ts';
+import { PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
 import { clockTime, elapsed, fixed } from '../../output/format.ts';
 import { DEFAULT_CALIBRATION_UM } from './keys.ts';
 

@@ -348,7 +348,7 @@ describe('Dashboard', () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]), onQuit: () => (quits += 1) });
     await advance(100);
     await screen.press('c', '9', KEY.enter);
-    await shows(screen, '"9" is not a usable sarcomere length: type a number of µm from 1.5 to 4.5');
+    await shows(screen, '"9" is not a usable sarcomere length: type a number of µm from 1 to 5');
     await screen.press('q');
     expect(quits).toBe(0);
     await screen.press(KEY.escape);

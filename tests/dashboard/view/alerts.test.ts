@@ -41,11 +41,11 @@ describe('lowQualityAlert', () => {
 
 describe('implausibleLengthAlert', () => {
   it('accepts the plausible range, ends included', () => {
-    for (const um of [1.5, 2.7, 4.5]) expect(implausibleLengthAlert('calf', um)).toBeNull();
+    for (const um of [1, 1.3, 2.7, 4.5, 5]) expect(implausibleLengthAlert('calf', um)).toBeNull();
   });
   it('raises lengths beyond either end', () => {
-    expect(implausibleLengthAlert('calf', 1.49)?.text).toContain('1.49 µm');
-    expect(implausibleLengthAlert('calf', 4.92)?.text).toContain('calibration');
+    expect(implausibleLengthAlert('calf', 0.99)?.text).toContain('0.99 µm, outside 1–5 µm');
+    expect(implausibleLengthAlert('calf', 5.12)?.text).toContain('calibration');
   });
   it('stays quiet while the length is unknown', () => {
     expect(implausibleLengthAlert('calf', Number.NaN)).toBeNull();
@@ -152,7 +152,7 @@ describe('alert texts', () => {
   it('fit an 80-column line (less the marks around them) for a short muscle name', () => {
     const texts = [
       lowQualityAlert('thigh', 1, 12.4),
-      implausibleLengthAlert('thigh', 4.92),
+      implausibleLengthAlert('thigh', 5.12),
       baselineShiftAlert('thigh', stridesWithMeans(2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.5, 2.9)),
       ...noSamplesAlerts(new Map([['thigh', 12_300], ['calf', 10]]), false, undefined),
       ...noSamplesAlerts(new Map([['thigh', 12_300]]), false, undefined),

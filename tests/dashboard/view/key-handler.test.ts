@@ -92,7 +92,7 @@ describe('handleKey', () => {
   it('keeps asking after a bad length, ignores other keys meanwhile, and cancels on Esc', () => {
     const bad = type(['c', '1', '2', { return: true }]);
     expect(bad.effects).toEqual([]);
-    expect(bad.ui.mode).toMatchObject({ kind: 'calibrate', problem: expect.stringContaining('from 1.5 to 4.5') as unknown });
+    expect(bad.ui.mode).toMatchObject({ kind: 'calibrate', problem: expect.stringContaining('from 1 to 5') as unknown });
     const ignored = type(['q', 'm', ' ', 'x'], CTX, bad.ui);
     expect(ignored.effects).toEqual([]);
     expect(ignored.ui.frozen).toBe(false);

@@ -86,7 +86,7 @@ describe('observeTrial', () => {
 
   it('carries the pipeline error into the alerts, critical first', () => {
     const state = makeTrialState([makeMuscle('calf', { calibrationSource: 'baseline' })]);
-    pushSample(state, 'calf', { tS: 1, sarcomereUm: 4.9 });
+    pushSample(state, 'calf', { tS: 1, sarcomereUm: 5.2 });
     const view = observeTrial(createTracker(), state, 0, 'the trial file could not be read');
     const kinds = detectAlerts(view, { connection: { state: 'reconnecting', retryInS: 3 } }, false).map((a) => a.kind);
     expect(kinds).toEqual(['stream_error', 'disconnected', 'uncalibrated', 'implausible_length']);

@@ -82,9 +82,15 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
   const exited = new Promise<void>((resolve) => {
     settle = resolve;
   });
+  let showScreen: () => void = () => undefined;
+  const shown = new Promise<void>((resolve) => {
+    showScreen = resolve;
+  });
   const end = (): void => {
     if (ended) return;
     ended = true;
+    // A screen that failed or left before it was drawn is not waited for.
+    showScreen();
     frames.unsubscribe();
     stdout.off('resize', onResize);
     if (keys) {
@@ -97,6 +103,9 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
 
   worker.on('message', (message: FromDashboard) => {
     switch (message.type) {
+      case 'shown':
+        showScreen();
+        break;
       case 'took':
         taken = true;
         if (waiting !== null) {
@@ -134,6 +143,7 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
     unmount: () => {
       if (!ended) send({ type: 'unmount' });
     },
+    shown,
     waitUntilExit: () => exited,
   };
 }

@@ -150,7 +150,9 @@ async function replayInChild(format: BenchFormat, samples: number, pairs: number
   const root = join(dirname(fileURLToPath(import.meta.url)), '..');
   const { stdout } = await execFileAsync(
     process.execPath,
-    [join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--replay-child', format, String(samples), String(pairs)],
+    // Without allocation-site pretenuring: alternating the tool and the plain loop in one process
+    // sometimes sends it into a slow mode that a user's process does not show (bench/README.md).
+    ['--no-allocation-site-pretenuring', join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--replay-child', format, String(samples), String(pairs)],
     { maxBuffer: 16 * 1024 * 1024 },
   );
   return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as ReplayResult;

@@ -1,13 +1,9 @@
 #!/usr/bin/env node
 // Runs the build of the TypeScript sources (dist/, made by build.js when `npm install` runs): plain
 // JavaScript, so no compiler or loader runs when the command starts.
-import { setFlagsFromString } from 'node:v8';
 
 // React's development build costs the dashboard about 1.7 times the CPU; users get the production one.
 process.env.NODE_ENV ??= 'production';
-// In some processes V8 starts allocating the replay's short-lived objects as long-lived (allocation-site
-// pretenuring), which makes a replay some 25% slower; see bench/README.md.
-setFlagsFromString('--no-allocation-site-pretenuring');
 
 const CLI = new URL('../dist/cli.js', import.meta.url);
 let cli;

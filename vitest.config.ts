@@ -3,6 +3,8 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     include: ['tests/**/*.test.ts', 'tests/**/*.test.tsx'],
+    // dist/ is built first: tests that start the command or a worker thread run the build.
+    globalSetup: ['tests/helpers/build-dist.ts'],
     setupFiles: ['tests/helpers/no-ci-variable.ts'],
     testTimeout: 30_000,
     hookTimeout: 30_000,

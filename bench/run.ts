@@ -1,12 +1,13 @@
 /**
- * npm run bench: replay throughput of the tool against a plain loop doing the same work, live latency
- * over a real WebSocket, and memory over a long replay. Writes bench/results/<date-time>.json and prints
- * a short table. Machines here are shared and noisy, so speed is reported as the median ratio of
- * alternating runs (tool, loop, tool, loop, …) made in the same process.
+ * npm run bench: replay throughput of the tool against a plain loop doing the same work (in one process,
+ * warm, and as fresh processes: the command as users run it), the command's start against bare Node,
+ * live latency over a real WebSocket, and memory over a long replay. Writes bench/results/<date-time>.json
+ * and prints a short table. Machines here are shared and noisy, so speed is reported as the median ratio
+ * of alternating runs (tool, loop, tool, loop, …).
  *
- *   npm run bench                  # full sizes (a few minutes on 2 cores)
- *   npm run bench -- --quick       # small sizes, under a minute
- *   npm run bench -- --only replay # or live, memory; several: --only replay,live
+ *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
+ *   npm run bench -- --quick       # small sizes, about a minute
+ *   npm run bench -- --only replay # or command, live, memory; several: --only replay,command
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -22,6 +23,7 @@ import { figureDifferences, figuresFromSummary, type BenchFigures } from './figu
 import { median } from '../src/model/stats.ts';
 import { measureMemory, type MemoryResult } from './memory.ts';
 import { measureLive, type LiveResult } from './live.ts';
+import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -52,6 +54,10 @@ interface Args {
   readonly samples: number;
   readonly pairs: number;
   readonly memorySamples: number;
+  /** Pairs of fresh processes: the command and the plain-loop process. */
+  readonly commandPairs: number;
+  /** Pairs of `lengthwise --help` and `node -e 0`. */
+  readonly startPairs: number;
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -60,10 +66,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,live,memory').split(','));
+  const only = new Set((value('--only') ?? 'replay,command,live,memory').split(','));
   for (const part of only) {
-    if (!['replay', 'live', 'memory'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, live, memory (comma-separated)`);
+    if (!['replay', 'command', 'live', 'memory'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, command, live, memory (comma-separated)`);
       process.exit(2);
     }
   }
@@ -73,6 +79,8 @@ function parseArgs(argv: readonly string[]): Args {
     samples: Number(value('--samples') ?? (quick ? 200_000 : 1_000_000)),
     pairs: Number(value('--pairs') ?? (quick ? 3 : 5)),
     memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
+    commandPairs: Number(value('--command-pairs') ?? (quick ? 2 : 5)),
+    startPairs: Number(value('--start-pairs') ?? (quick ? 10 : 20)),
   };
 }
 
@@ -150,7 +158,9 @@ async function replayInChild(format: BenchFormat, samples: number, pairs: number
   const root = join(dirname(fileURLToPath(import.meta.url)), '..');
   const { stdout } = await execFileAsync(
     process.execPath,
-    [join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--replay-child', format, String(samples), String(pairs)],
+    // Without allocation-site pretenuring: alternating the tool and the plain loop in one process
+    // sometimes sends it into a slow mode that a user's process does not show (bench/README.md).
+    ['--no-allocation-site-pretenuring', join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--replay-child', format, String(samples), String(pairs)],
     { maxBuffer: 16 * 1024 * 1024 },
   );
   return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as ReplayResult;
@@ -209,6 +219,30 @@ async function main(): Promise<void> {
         );
       }
       out['replay'] = replay;
+    }
+    if (args.only.has('command')) {
+      const command: CommandResult[] = [];
+      for (const format of ['csv', 'ndjson'] as const) {
+        console.error(`bench: the command on a ${args.samples}-sample ${format} trial against a plain-loop process, ${args.commandPairs} alternating pairs of fresh processes…`);
+        const trial = await writeBenchTrial(dir, format, { samples: args.samples });
+        const r = await measureCommand(trial, dir, args.commandPairs);
+        await rm(trial.path, { force: true });
+        command.push(r);
+        lines.push(
+          `command ${format.padEnd(6)} lengthwise replay ${fmtRate(r.commandSamplesPerS).padStart(10)}  plain-loop process ${fmtRate(r.loopSamplesPerS).padStart(10)}  ` +
+            `command/loop ${r.ratioMedian.toFixed(2)}× wall (${r.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
+            `${r.cpuRatioMedian.toFixed(2)}× CPU (${r.cpuRatios.map((x) => x.toFixed(2)).join(' ')})  ` +
+            `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}`,
+        );
+      }
+      out['command'] = command;
+      console.error(`bench: lengthwise --help against node -e 0, ${args.startPairs} alternating pairs…`);
+      const start: StartResult = await measureStart(args.startPairs);
+      out['start'] = start;
+      lines.push(
+        `start   lengthwise --help ${start.helpMedianMs.toFixed(0)} ms, node -e 0 ${start.bareMedianMs.toFixed(0)} ms: ` +
+          `${start.ratioMedian.toFixed(2)}× (median of ${start.ratios.length} pairs; ${Math.min(...start.ratios).toFixed(2)}–${Math.max(...start.ratios).toFixed(2)})`,
+      );
     }
     if (args.only.has('live')) {
       console.error('bench: live latency over a WebSocket on 127.0.0.1…');

@@ -1,18 +1,21 @@
 #!/usr/bin/env node
-// Runs the TypeScript sources through tsx's loader, so a fresh `npm install` needs no build step.
-import { setFlagsFromString } from 'node:v8';
-import { register } from 'tsx/esm/api';
-import { fileURLToPath } from 'node:url';
+// Runs the build of the TypeScript sources (dist/, made by build.js when `npm install` runs): plain
+// JavaScript, so no compiler or loader runs when the command starts.
 
 // React's development build costs the dashboard about 1.7 times the CPU; users get the production one.
 process.env.NODE_ENV ??= 'production';
-// In some processes V8 starts allocating the replay's short-lived objects as long-lived (allocation-site
-// pretenuring), which makes a replay some 25% slower; see bench/README.md.
-setFlagsFromString('--no-allocation-site-pretenuring');
 
-// The project's own compiler settings (JSX above all), wherever the command is run from: tsx would
-// otherwise look for a tsconfig.json in the working folder.
-register({ tsconfig: fileURLToPath(new URL('../tsconfig.json', import.meta.url)) });
-const { main } = await import('../src/cli.ts');
-const code = await main(process.argv.slice(2));
-process.exitCode = code;
+const CLI = new URL('../dist/cli.js', import.meta.url);
+let cli;
+try {
+  cli = await import(CLI.href);
+} catch (error) {
+  if (error?.code !== 'ERR_MODULE_NOT_FOUND' || !String(error.message).includes(CLI.pathname)) throw error;
+  const root = new URL('..', import.meta.url).pathname;
+  console.error(
+    `lengthwise: the build is missing (${CLI.pathname} was not found). ` +
+      `It is made when the package is installed: run \`npm install\` (or \`npm run build\`) in ${root}.`,
+  );
+  process.exit(1);
+}
+process.exitCode = await cli.main(process.argv.slice(2));

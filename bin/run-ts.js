@@ -1,14 +1,12 @@
 #!/usr/bin/env node
 // Runs a repository script written in TypeScript (generators, benchmarks) through tsx's loader.
-import { setFlagsFromString } from 'node:v8';
 import { register } from 'tsx/esm/api';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { resolve } from 'node:path';
 
 // Scripts (benchmarks above all) measure what users run, set up as bin/lengthwise.js sets it up:
-// React's production build, and V8 without allocation-site pretenuring (see bench/README.md).
+// React's production build.
 process.env.NODE_ENV ??= 'production';
-setFlagsFromString('--no-allocation-site-pretenuring');
 
 // The project's own compiler settings (JSX above all), wherever the command is run from: tsx would
 // otherwise look for a tsconfig.json in the working folder.

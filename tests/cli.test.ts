@@ -1,7 +1,52 @@
 import { captureIo } from './helpers/capture-io.ts';
-import { describe, expect, it } from 'vitest';
+import { execFile } from 'node:child_process';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { promisify } from 'node:util';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../src/cli.ts';
 
+const ROOT = join(import.meta.dirname, '..');
+const BIN = join(ROOT, 'bin', 'lengthwise.js');
+const DEMO = join(ROOT, 'replays', 'demo-walk.ndjson');
+const run = promisify(execFile);
+
+/**
+ * Module hooks for the child process only (the command itself registers none): each module the child
+ * resolves is appended, as a URL, to the file named by LENGTHWISE_TEST_LOADED.
+ */
+const RECORD_HOOKS = `import { appendFileSync } from 'node:fs';
+export async function resolve(specifier, context, next) {
+  const result = await next(specifier, context);
+  appendFileSync(process.env.LENGTHWISE_TEST_LOADED, result.url + '\\n');
+  return result;
+}`;
+const RECORD = `import { register } from 'node:module'; register(${JSON.stringify(`data:text/javascript,${encodeURIComponent(RECORD_HOOKS)}`)});`;
+
+let work = '';
+beforeAll(async () => {
+  work = await mkdtemp(join(tmpdir(), 'lengthwise-cli-'));
+});
+afterAll(async () => {
+  await rm(work, { recursive: true, force: true });
+});
+
+/** Runs the built command in a fresh process; gives what it printed and the packages it loaded (by name). */
+async function packagesLoaded(name: string, args: readonly string[]): Promise<{ stdout: string; packages: Set<string>; files: string[] }> {
+  const log = join(work, `${name}.loaded`);
+  const { stdout } = await run(process.execPath, ['--import', `data:text/javascript,${encodeURIComponent(RECORD)}`, BIN, ...args], {
+    env: { ...process.env, LENGTHWISE_TEST_LOADED: log, NO_COLOR: '1' },
+  });
+  const files = (await readFile(log, 'utf8')).split('\n').filter((url) => url.startsWith('file:'));
+  const packages = new Set(files.flatMap((url) => /\/node_modules\/((?:@[^/]+\/)?[^/]+)\//.exec(url)?.[1] ?? []));
+  return { stdout, packages, files };
+}
+
+/** Packages that cost a command's start dearly and only some commands need. */
+const HEAVY = ['ink', 'react', 'vega', 'vega-lite', 'ws'];
+/** What compiles TypeScript: none of it runs when the command starts. */
+const COMPILERS = ['tsx', 'esbuild', 'typescript'];
 
 describe('lengthwise (the command)', () => {
   it('lists its commands on --help and exits 0', async () => {
@@ -27,5 +72,34 @@ describe('lengthwise (the command)', () => {
   it('does not take inherited object keys for commands', async () => {
     const c = captureIo();
     expect(await main(['toString'], c.io)).toBe(2);
+  });
+});
+
+describe('lengthwise as installed (the build in dist/)', () => {
+  it('prints its help from plain JavaScript, loading one file of the build and no package', async () => {
+    const { stdout, packages, files } = await packagesLoaded('help', ['--help']);
+    expect(stdout).toContain('usage: lengthwise <command>');
+    expect([...packages]).toEqual([]);
+    expect(files.filter((url) => url.includes('/dist/')).map((url) => url.replace(/^.*\/dist\//, ''))).toEqual(['cli.js']);
+    expect(files.some((url) => /\.tsx?$/.test(url))).toBe(false);
+  });
+
+  it.each([
+    ['curve', ['curve', '--sl', '2.0,2.7']],
+    ['calibrate', ['calibrate', DEMO, '--muscle', 'calf', '--window', '1-4', '--sarcomere-length', '2.7']],
+    ['replay with status lines', ['replay', DEMO, '--speed', 'max', '--plain']],
+  ])('runs %s without loading the screen, the plots or the sockets', async (name, args) => {
+    const { packages, files } = await packagesLoaded(name.replaceAll(' ', '-'), args);
+    for (const heavy of [...HEAVY, ...COMPILERS]) expect(packages.has(heavy), `${heavy} was loaded`).toBe(false);
+    expect(files.some((url) => /\.tsx?$/.test(url))).toBe(false);
+  });
+
+  it('loads the plots for a report and the sockets for a live session only when they are asked for', async () => {
+    const report = await packagesLoaded('report', ['replay', DEMO, '--speed', 'max', '--plain', '--report', join(work, 'report.html')]);
+    expect(report.packages.has('vega')).toBe(true);
+    expect(report.packages.has('ink')).toBe(false);
+    const simulate = await packagesLoaded('simulate', ['simulate', '--listen', '0', '--duration', '0.2']);
+    expect(simulate.packages.has('ws')).toBe(true);
+    expect(simulate.packages.has('vega')).toBe(false);
   });
 });

@@ -1,5 +1,5 @@
 /** `lengthwise replay FILE`: play a recorded trial through the pipeline, with the dashboard or plain status lines. */
-import { BehaviorSubject, interval, map, tap, type Observable } from 'rxjs';
+import { BehaviorSubject, interval, map, ReplaySubject, switchMap, take, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
@@ -43,6 +43,18 @@ export function stepSpeed(current: Speed, direction: 1 | -1): Speed {
   return [...SPEED_STEPS].reverse().find((s) => value(s) < now) ?? (SPEED_STEPS[0] as Speed);
 }
 
+/**
+ * The speeds a replay plays at, from the moment `shown$` first says the screen is up: the trial's clock
+ * starts there, so the screen shows the trial from its first second (loading the screen's thread takes
+ * a while). paceReplayWith releases nothing before its first speed.
+ */
+export function speedOnceShown(shown$: Observable<unknown>, speed$: Observable<Speed>): Observable<Speed> {
+  return shown$.pipe(
+    take(1),
+    switchMap(() => speed$),
+  );
+}
+
 /** Reads `--speed`: a positive number or "max"; anything else is a message saying what is accepted. */
 export function parseSpeed(text: string): { ok: true; speed: Speed } | { ok: false; message: string } {
   if (text === 'max') return { ok: true, speed: 'max' };
@@ -75,19 +87,21 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const mapping = files.mapping ?? null;
 
   const speed$ = new BehaviorSubject<Speed>(speed.speed);
+  const useDashboard = io.stdout.isTTY === true && !values.plain;
+  // With the dashboard, the trial plays from the moment its screen is up.
+  const shown$ = new ReplaySubject<void>(1);
   const valve = readAheadValve();
   let lastLine = 0;
   const records$: Observable<Batch> = fileSource(path, { pause$: valve.pause$, mapping }).pipe(
-    paceReplayWith(speed$, undefined, { onBacklog: valve.report }),
+    paceReplayWith(useDashboard ? speedOnceShown(shown$, speed$) : speed$, undefined, { onBacklog: valve.report }),
     tap((batch) => {
       const last = batch.at(-1);
       if (last !== undefined && 'line' in last && last.line > lastLine) lastLine = last.line;
     }),
   );
   const trial = runTrial(records$, { source: path, ...(calibration !== undefined ? { calibration } : {}) });
-  const useDashboard = io.stdout.isTTY === true && !values.plain;
   const final = useDashboard
-    ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine) })
+    ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next() })
     : await withStatusLines(trial, io);
   speed$.complete();
   if (!final.ok) {
@@ -131,6 +145,8 @@ async function withStatusLines(trial: TrialRun, io: CommandIo): Promise<Final> {
 interface ReplayControls {
   readonly speed$: BehaviorSubject<Speed>;
   readonly progress: () => number;
+  /** Called once the dashboard is drawn (or has failed to start). */
+  readonly shown: () => void;
 }
 
 async function withDashboard(trial: TrialRun, path: string, io: CommandIo, controls: ReplayControls): Promise<Final> {
@@ -161,6 +177,7 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
       void applyCapture(trial, muscle, sarcomereUm).then((text) => message$.next(text));
     },
   });
+  void dashboard.shown.then(controls.shown);
   const final = await settle(trial);
   // At the end of a replay the dashboard stays up until the user quits, so the last figures can be read.
   await dashboard.waitUntilExit();

@@ -41,7 +41,14 @@ export interface StudyOptions {
   readonly drawReport?: boolean;
 }
 
-const WORKER_ENTRY = new URL('./worker-entry.js', import.meta.url);
+/**
+ * A trial's thread runs plain JavaScript from the build (build.js): the file beside this module's own in
+ * dist/, or, when this module runs from the sources (the tests build dist/ before they start), the
+ * built copy.
+ */
+const WORKER_FILE = import.meta.url.endsWith('.js')
+  ? new URL('./study-worker.js', import.meta.url)
+  : new URL('../../dist/study-worker.js', import.meta.url);
 
 export function defaultJobs(): number {
   return Math.max(1, availableParallelism());
@@ -135,7 +142,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
     };
 
     const start = (): void => {
-      const worker = new Worker(WORKER_ENTRY, { workerData: setup });
+      const worker = new Worker(WORKER_FILE, { workerData: setup });
       const slot: Slot = { worker, job: -1 };
       slots.add(slot);
       worker.on('message', (message: WorkerMessage) => {

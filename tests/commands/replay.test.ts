@@ -3,7 +3,11 @@ import { spawn } from 'node:child_process';
 import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { parseSpeed } from '../../src/commands/replay.ts';
+import { BehaviorSubject } from 'rxjs';
+import { TestScheduler } from 'rxjs/testing';
+import { parseSpeed, speedOnceShown, type Speed } from '../../src/commands/replay.ts';
+import { paceReplayWith } from '../../src/pipeline/pace-replay.ts';
+import { makeSample } from '../../src/trial/records.ts';
 import { deviceCopy, DEVICE_MAPPING as MAPPING } from '../helpers/device-copy.ts';
 
 const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
@@ -169,5 +173,31 @@ describe('parseSpeed', () => {
     expect(parseSpeed('0.5')).toEqual({ ok: true, speed: 0.5 });
     expect(parseSpeed('max')).toEqual({ ok: true, speed: 'max' });
     for (const bad of ['0', '-1', '', 'NaN', 'Infinity', 'two']) expect(parseSpeed(bad).ok).toBe(false);
+  });
+});
+
+describe('speedOnceShown (the replay with its dashboard)', () => {
+  const sample = (tS: number) => makeSample(tS, 'calf', 50, Number.NaN, 1, 0);
+
+  it('plays nothing until the screen is shown, then plays from the first sample at the speed set by then', () => {
+    new TestScheduler((actual, expected) => expect(actual).toEqual(expected)).run(({ cold, hot, expectObservable }) => {
+      const [a, b, c] = [sample(0), sample(1), sample(2)];
+      const speed$ = new BehaviorSubject<Speed>(1);
+      // The screen takes 5 s to come up; meanwhile the speed is doubled.
+      const shown$ = hot<void>('5s a');
+      cold('2s a').subscribe(() => speed$.next(2));
+      const played$ = cold('(t|)', { t: [a, b, c] }).pipe(paceReplayWith(speedOnceShown(shown$, speed$)));
+      // The trial's clock starts when the screen is up: its first second takes half a second at speed 2.
+      expectObservable(played$).toBe('5s a 499ms b 499ms (c|)', { a: [a], b: [b], c: [c] });
+    });
+  });
+
+  it('keeps following the speed after the screen is shown, and a second "shown" changes nothing', () => {
+    new TestScheduler((actual, expected) => expect(actual).toEqual(expected)).run(({ cold, hot, expectObservable }) => {
+      const speed$ = new BehaviorSubject<Speed>(1);
+      cold('1s a').subscribe(() => speed$.next(4));
+      const shown$ = hot<void>('500ms a 1s a');
+      expectObservable(speedOnceShown(shown$, speed$)).toBe('500ms a 499ms b', { a: 1, b: 4 });
+    });
   });
 });

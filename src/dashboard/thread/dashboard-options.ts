@@ -31,6 +31,11 @@ export interface DashboardOptions {
 }
 
 export interface DashboardHandle {
+  /**
+   * Settles once the screen is drawn the first time (on a thread of its own, loading Ink and React takes
+   * a while), or once it has failed or ended before that: nothing should wait on a screen that will not come.
+   */
+  readonly shown: Promise<void>;
   unmount(): void;
   waitUntilExit(): Promise<void>;
 }

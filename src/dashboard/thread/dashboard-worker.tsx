@@ -59,12 +59,15 @@ const instance = render(
   },
 );
 
-let shown: TrialFrame | null = null;
+// render() has drawn the first screen: the main thread may start what the screen is there to show.
+say({ type: 'shown' });
+
+let showing: TrialFrame | null = null;
 port.on('message', (message: ToDashboard) => {
   switch (message.type) {
     case 'frame':
-      shown = shareFrame(shown, message.frame);
-      frames$.next(shown);
+      showing = shareFrame(showing, message.frame);
+      frames$.next(showing);
       say({ type: 'took' });
       break;
     case 'keys':

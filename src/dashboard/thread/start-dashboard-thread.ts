@@ -12,7 +12,14 @@ import type { DashboardThreadSetup, FromDashboard, ToDashboard } from './thread-
 import { colorEnabled } from '../view/theme.ts';
 import { trialFrames, type TrialFrame } from '../view/trial-frames.ts';
 
-const WORKER_ENTRY = new URL('./dashboard-worker-entry.js', import.meta.url);
+/**
+ * The screen's thread runs plain JavaScript from the build (build.js): the file beside this module's own
+ * in dist/, or, when this module runs from the sources (the tests build dist/ before they start), the
+ * built copy.
+ */
+const WORKER_FILE = import.meta.url.endsWith('.js')
+  ? new URL('./dashboard-worker.js', import.meta.url)
+  : new URL('../../../dist/dashboard-worker.js', import.meta.url);
 
 /** Shows the cursor and leaves synchronized output, whatever state a failed thread left the screen in. */
 const RESTORE_SCREEN = '\u001B[?2026l\u001B[?25h';
@@ -42,7 +49,7 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
     keys,
     can: { marker: options.onMarker !== undefined, speed: options.onSpeed !== undefined, calibrate: options.onCalibrate !== undefined },
   };
-  const worker = new Worker(WORKER_ENTRY, { workerData: setup, env: screenEnv(stdout, options.env) });
+  const worker = new Worker(WORKER_FILE, { workerData: setup, env: screenEnv(stdout, options.env) });
   const send = (message: ToDashboard): void => worker.postMessage(message);
 
   let waiting: TrialFrame | null = null;
@@ -75,9 +82,15 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
   const exited = new Promise<void>((resolve) => {
     settle = resolve;
   });
+  let showScreen: () => void = () => undefined;
+  const shown = new Promise<void>((resolve) => {
+    showScreen = resolve;
+  });
   const end = (): void => {
     if (ended) return;
     ended = true;
+    // A screen that failed or left before it was drawn is not waited for.
+    showScreen();
     frames.unsubscribe();
     stdout.off('resize', onResize);
     if (keys) {
@@ -90,6 +103,9 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
 
   worker.on('message', (message: FromDashboard) => {
     switch (message.type) {
+      case 'shown':
+        showScreen();
+        break;
       case 'took':
         taken = true;
         if (waiting !== null) {
@@ -127,6 +143,7 @@ export function startDashboardThread(options: DashboardOptions, fd: number): Das
     unmount: () => {
       if (!ended) send({ type: 'unmount' });
     },
+    shown,
     waitUntilExit: () => exited,
   };
 }

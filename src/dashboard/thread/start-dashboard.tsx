@@ -53,6 +53,8 @@ export function startDashboard(options: DashboardOptions): DashboardHandle {
   exited.finally(() => timings.unsubscribe()).catch(() => undefined);
   exited.catch(() => undefined);
   return {
+    // render() draws the first screen before it returns.
+    shown: Promise.resolve(),
     unmount: () => {
       timings.unsubscribe();
       instance.unmount();

@@ -25,6 +25,8 @@ export type ToDashboard =
   | { readonly type: 'unmount' };
 
 export type FromDashboard =
+  /** Ink and React are loaded and the first screen is drawn: from now on frames reach the terminal as they come. */
+  | { readonly type: 'shown' }
   /** The frame was taken: the next may be sent (so frames never queue up behind a slow screen). */
   | { readonly type: 'took' }
   | { readonly type: 'quit' }

@@ -9,7 +9,7 @@ import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { BehaviorSubject } from 'rxjs';
+import { BehaviorSubject, NEVER } from 'rxjs';
 import { startDashboard, type DashboardOptions } from '../../../src/dashboard/thread/start-dashboard.tsx';
 import { screenEnv } from '../../../src/dashboard/thread/start-dashboard-thread.ts';
 import { pushSample, walkingState } from '../fixtures.ts';
@@ -104,6 +104,19 @@ describe('startDashboard on its own thread', () => {
     expect(out.listenerCount('resize')).toBe(0);
     // Ink showed the cursor again as it left.
     expect(out.screen().endsWith('\u001B[?25h')).toBe(true);
+  });
+
+  it('says it is shown only once its thread has drawn the first screen', async () => {
+    const { out, keys } = terminal();
+    let shown = false;
+    const dashboard = startOnThread(out, keys, { state$: NEVER });
+    void dashboard.shown.then(() => (shown = true));
+    // Loading Ink and React on the new thread takes a while; the screen is there the moment it says so.
+    await dashboard.shown;
+    expect(shown).toBe(true);
+    expect(plain(out.screen())).toContain('waiting for the first samples');
+    dashboard.unmount();
+    await dashboard.waitUntilExit();
   });
 
   it('follows a resize of the terminal', async () => {

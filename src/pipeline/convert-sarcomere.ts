@@ -2,6 +2,7 @@ import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
 import type { Batch, CalibrationApplied, Frame, Sample } from '../trial/records.ts';
 import {
+  fascicleOffsetMm,
   sarcomereUmFromFascicle,
   sarcomeresInSeries,
   type CalibrationSpec,
@@ -48,8 +49,8 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
   const fileSpec = options.calibration;
 
   return holdingStage(() => {
-    /** Sarcomeres in series of each muscle whose calibration is known. */
-    const ready = new Map<string, number>();
+    /** Sarcomeres in series (and the constant part of the tracked length, mm) of each muscle whose calibration is known. */
+    const ready = new Map<string, { readonly n: number; readonly offsetMm: number }>();
     const collecting = new Map<string, Collecting>();
     let headerSpec: CalibrationSpec | undefined;
     let held: Frame[] = [];
@@ -57,8 +58,8 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
     let decided: Frame[] = [];
 
     const convert = (s: Sample): void => {
-      const n = ready.get(s.muscle);
-      if (n !== undefined) s.sarcomereUm = sarcomereUmFromFascicle(s.smoothMm, n);
+      const c = ready.get(s.muscle);
+      if (c !== undefined) s.sarcomereUm = sarcomereUmFromFascicle(s.smoothMm, c.n, c.offsetMm);
     };
 
     const finishBaseline = (muscle: string, state: Collecting): void => {
@@ -66,7 +67,7 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
       const calibration: MuscleCalibration = { species: DEFAULT_SPECIES, method: 'optimal_length', optimalFascicleMm: fascicleMm };
       const n = (fascicleMm * 1000) / plateauMiddleUm(curveForCalibration(calibration));
       collecting.delete(muscle);
-      ready.set(muscle, n);
+      ready.set(muscle, { n, offsetMm: 0 });
       decided.push(
         { kind: 'calibration', muscle, calibration, sarcomeresInSeries: n, source: 'baseline' },
         {
@@ -96,7 +97,7 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         return;
       }
       const n = sarcomeresInSeries(calibration, curveForCalibration(calibration));
-      ready.set(s.muscle, n);
+      ready.set(s.muscle, { n, offsetMm: fascicleOffsetMm(calibration) });
       const frame: CalibrationApplied = {
         kind: 'calibration',
         muscle: s.muscle,
@@ -113,7 +114,7 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
       if (f.kind === 'calibration' && f.source === 'runtime') {
         // Captured while running (e.g. from the dashboard): replaces the muscle's calibration from here on.
         collecting.delete(f.muscle);
-        ready.set(f.muscle, f.sarcomeresInSeries);
+        ready.set(f.muscle, { n: f.sarcomeresInSeries, offsetMm: fascicleOffsetMm(f.calibration) });
       }
       if (f.kind === 'sample') {
         if (!ready.has(f.muscle) && !collecting.has(f.muscle)) start(f, out);
@@ -142,9 +143,9 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         for (; i < batch.length; i++) {
           const f = batch[i] as Frame;
           if (f.kind === 'sample') {
-            const n = ready.get(f.muscle);
-            if (n === undefined) break;
-            f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, n);
+            const c = ready.get(f.muscle);
+            if (c === undefined) break;
+            f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, c.n, c.offsetMm);
           } else if (f.kind === 'header' || f.kind === 'calibration') {
             step(f, []);
           }

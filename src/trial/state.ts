@@ -7,6 +7,7 @@ import type { Segmentation } from './stride-summary.ts';
 import type { RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
 import type { Species } from '../model/species.ts';
+import type { CountSpread, SpreadShape } from '../model/count-spread.ts';
 import type { RejectReason } from './reasons.ts';
 import type { Sample, Side } from './records.ts';
 
@@ -66,6 +67,8 @@ export interface MuscleState {
   segmentation?: Segmentation | null;
   /** SD of the sarcomere count relative to the count, from the calibration; 0 when it states none. */
   relativeSd?: number;
+  /** How that uncertainty is distributed (src/model/count-spread.ts); lognormal when absent. */
+  spreadShape?: SpreadShape;
   /** The latest sample's probability of each region (calibration uncertainty); null when there is none. */
   regionProbability?: Record<RegionKey, number> | null;
   /** Sarcomere length over the gait cycle (mean and spread across unflagged strides). */
@@ -108,4 +111,9 @@ export interface TrialState {
 
 export function emptyFrameCounts(): FrameCounts {
   return { received: 0, accepted: 0, lowQuality: 0, rejected: 0, rejectedByReason: {}, gaitEvents: 0, markers: 0, headers: 0 };
+}
+
+/** A muscle's calibration spread, as its state keeps it. */
+export function spreadOf(m: Pick<MuscleState, 'relativeSd' | 'spreadShape'>): CountSpread {
+  return { relativeSd: m.relativeSd ?? 0, shape: m.spreadShape ?? 'lognormal' };
 }

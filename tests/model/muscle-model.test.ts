@@ -60,7 +60,7 @@ describe('makeMuscleModel', () => {
   it('refuses bad options with a RangeError naming each problem and what is accepted', () => {
     expect(() => makeMuscleModel({ species: 'cat' as Species })).toThrow(/unknown species "cat"; accepted: human, frog/);
     expect(() => makeMuscleModel({ shape: 'spline' as CurveShape })).toThrow(/unknown curve shape "spline"/);
-    expect(() => makeMuscleModel({ dispersionSdUm: -0.1 })).toThrow(/dispersion SD is -0.1 µm; accepted: 0 \(off\) to 1 µm/);
+    expect(() => makeMuscleModel({ dispersionSdUm: -0.1 })).toThrow(/between-fibre SD is -0.1 µm; accepted: 0 \(off\) to 1 µm/);
     expect(() => makeMuscleModel({ filaments: { thickUm: 5 } })).toThrow(RangeError);
   });
 

@@ -38,6 +38,28 @@ export const MAX_DISPERSION_SD_UM = 1;
  */
 export const LLOYD_BESIER_SHIFT = 0.15;
 
+/**
+ * Said wherever a whole-muscle shape's force appears beside the geometry's region: the Gaussian shapes give
+ * some force at every length, including where the filaments no longer overlap (region no_overlap) or are
+ * pressed together (too_short). Null for the geometric curve.
+ */
+export function wholeMuscleShapeNote(shape: CurveShape): string | null {
+  if (shape === 'geometric') return null;
+  return (
+    `force from the ${shape} shape, a whole-muscle curve: it gives force where the filament geometry gives none ` +
+    '(too_short, no_overlap), so a force above 0 in those regions is no contradiction; regions always come from the geometry'
+  );
+}
+
+/** Said wherever the activation-dependent optimal length is on: what moves and what does not. */
+export function activationShiftNote(shift: number, constantActivation: number | undefined): string {
+  const where = constantActivation !== undefined ? `activation ${constantActivation} where samples carry none` : 'activation 1 where samples carry none';
+  return (
+    `optimal length shifts with activation (L0(a) = L0·(${shift}(1 − a) + 1), Lloyd & Besier 2003; ${where}): ` +
+    'force and the optimum move, regions stay with the geometry'
+  );
+}
+
 /** L0(a)/L0 = λ(1 − a) + 1 for activation a in 0–1 (Lloyd & Besier 2003); 1 when λ is 0. */
 export function optimalLengthFactor(activation: number, shift: number): number {
   return shift * (1 - activation) + 1;

@@ -81,8 +81,8 @@ describe('dispersed geometric force', () => {
     );
   });
 
-  it('with 0.2 µm SD (about the within-fibre spread, Cromie, Sanchez, Schnitzer & Delp 2013, Muscle Nerve 48:286–292) rounds the human plateau below 1', () => {
-    const model = makeMuscleModel({ dispersionSdUm: 0.2 });
+  it('with the between-fibre SD of 0.21 µm (Chen, Sanchez, Schnitzer & Delp 2016, J Biomech 49:2989–2994) rounds the human plateau below 1', () => {
+    const model = makeMuscleModel({ dispersionSdUm: 0.21 });
     const peak = model.forceAt(model.optimalUm);
     expect(peak).toBeLessThan(1);
     expect(peak).toBeGreaterThan(0.9);

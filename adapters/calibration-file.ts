@@ -146,20 +146,6 @@ function toProvenance(p: z.output<typeof provenance>): CalibrationProvenance {
   };
 }
 
-/** The calibration's provenance in the file's own key names (the summary writes it the same way). */
-export function provenanceJson(p: CalibrationProvenance): Record<string, unknown> {
-  return {
-    ...(p.method !== undefined ? { method: p.method } : {}),
-    ...(p.sourceFile !== undefined ? { source_file: p.sourceFile } : {}),
-    ...(p.sourceSha256 !== undefined ? { source_sha256: p.sourceSha256 } : {}),
-    ...(p.windowsS !== undefined ? { windows_s: p.windowsS.map(([a, b]) => [a, b]) } : {}),
-    ...(p.sarcomereLengthsUm !== undefined ? { sarcomere_lengths_um: [...p.sarcomereLengthsUm] } : {}),
-    ...(p.sarcomereLengthSource !== undefined ? { sarcomere_length_source: p.sarcomereLengthSource } : {}),
-    ...(p.createdUtc !== undefined ? { created_utc: p.createdUtc } : {}),
-    ...(p.toolVersion !== undefined ? { tool_version: p.toolVersion } : {}),
-  };
-}
-
 function toMuscleCalibration(m: ParsedMuscle): MuscleCalibration {
   const betweenFibreSdUm = m.between_fibre_sd_um ?? m.dispersion_sd_um;
   const curve = {

@@ -150,6 +150,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         state.lastTS = s.tS;
         const acc = muscle(s.muscle);
         acc.state.latest = s;
+        if (!Number.isNaN(s.activation)) acc.state.activationSamples = (acc.state.activationSamples ?? 0) + 1;
         acc.probabilityDue = true;
         if (!Number.isNaN(acc.heldTS)) release(acc, s.tS);
         if (Number.isNaN(s.sarcomereUm) || s.region === null) {
@@ -269,6 +270,11 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         m.spreadShape = spread.shape;
         m.sarcomeresInSeries = f.sarcomeresInSeries;
         m.calibrationSource = f.source;
+        m.calibrationMethod = f.calibration.method;
+        m.shape = f.calibration.shape ?? 'geometric';
+        m.provenance = f.calibration.provenance ?? null;
+        m.activationShift = f.calibration.activationShift ?? 0;
+        m.activation = f.calibration.activation ?? Number.NaN;
         let calibrated = true;
         for (const other of state.muscles.values()) if (other.calibrationSource === 'baseline') calibrated = false;
         state.calibrated = calibrated;

@@ -2,6 +2,8 @@ import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
 import type { Batch, CalibrationApplied, Frame, Sample } from '../trial/records.ts';
 import {
+  ARCHITECTURE_PRIOR_CAUTION,
+  METHOD_LABEL,
   fascicleOffsetMm,
   sarcomereUmFromFascicle,
   sarcomeresInSeries,
@@ -105,7 +107,15 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         sarcomeresInSeries: n,
         source: fromFile !== undefined ? 'file' : 'header',
       };
-      (collecting.size > 0 ? held : out).push(frame);
+      const to = collecting.size > 0 ? held : out;
+      to.push(frame);
+      if (calibration.method === 'architecture_prior') {
+        to.push({
+          kind: 'notice',
+          muscle: s.muscle,
+          text: `${s.muscle}: calibrated by a ${METHOD_LABEL.architecture_prior} (${calibration.priorSource}): ${ARCHITECTURE_PRIOR_CAUTION}`,
+        });
+      }
     };
 
     /** The general path for one frame; `out` receives what can go now. */

@@ -8,6 +8,8 @@ import type { RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
 import type { Species } from '../model/species.ts';
 import type { CountSpread, SpreadShape } from '../model/count-spread.ts';
+import type { CalibrationProvenance, MuscleCalibration } from '../model/calibration.ts';
+import type { CurveShape } from '../model/muscle-model.ts';
 import type { RejectReason } from './reasons.ts';
 import type { Sample, Side } from './records.ts';
 
@@ -56,6 +58,18 @@ export interface MuscleState {
   /** NaN until known (an uncalibrated muscle learns it from its baseline window). */
   sarcomeresInSeries: number;
   calibrationSource: CalibrationSource | null;
+  /** The calibration's method (null until known). */
+  calibrationMethod?: MuscleCalibration['method'] | null;
+  /** Where the calibration came from, when it says. */
+  provenance?: CalibrationProvenance | null;
+  /** Which curve gives the force (absent: geometric). */
+  shape?: CurveShape;
+  /** λ of the activation-dependent optimal length; 0 (or absent) when off. */
+  activationShift?: number;
+  /** The calibration's activation for samples that carry none; NaN (or absent) when it gives none. */
+  activation?: number;
+  /** Samples of the muscle that carried their own activation. */
+  activationSamples?: number;
   /** The newest fully enriched sample; the dashboard reads its fields. */
   latest: Sample | null;
   /** Running figures of the stride in progress (null before the first foot strike). */

@@ -28,6 +28,14 @@ describe('summarizeWindow', () => {
     expect(summarizeWindow([0, 1, 2], [50, Number.NaN, 52], 0, 2)).toMatchObject({ count: 2, medianMm: 51 });
   });
 
+  it('takes the 5th and 95th percentiles linearly between order statistics (type 7, the usual default of statistics packages; common practice, no source)', () => {
+    // 21 lengths 40, 41, …, 60 mm: type 7 puts the 5th percentile at the second (41) and the 95th at the twentieth (59).
+    const mm = Array.from({ length: 21 }, (_, i) => 40 + i);
+    const s = summarizeWindow(mm.map((_, i) => i), mm, 0, 20);
+    expect(s).toMatchObject({ count: 21, medianMm: 50, p5Mm: 41, p95Mm: 59 });
+    expect(s.spreadFraction).toBeCloseTo(18 / 50, 12);
+  });
+
   it('gives the one value of a one-sample window', () => {
     expect(summarizeWindow([1], [48], 0, 2)).toMatchObject({ count: 1, medianMm: 48, p5Mm: 48, p95Mm: 48, quiet: true });
   });

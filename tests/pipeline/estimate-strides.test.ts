@@ -4,7 +4,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { estimateStrides } from '../../src/pipeline/estimate-strides.ts';
-import { dominantPeriod } from '../../src/model/stride-period.ts';
+import { DEFAULT_GRID_S, dominantPeriod } from '../../src/model/stride-period.ts';
 import { header, runBatches, runFrames, sample } from '../helpers/frames.ts';
 import { stageChecklist } from '../helpers/stage-checklist.ts';
 import type { Batch, Frame, Sample, StrideBoundary } from '../../src/trial/records.ts';
@@ -62,6 +62,34 @@ describe('dominantPeriod', () => {
       samples.length,
     );
     expect(p?.periodS).toBeCloseTo(1.23, 2);
+  });
+
+  it('finds a steady period to within 2 ms over 10 s sampled at 100 Hz', () => {
+    const t = Array.from({ length: 1000 }, (_, i) => i / 100);
+    const x = t.map((v) => Math.sin((2 * Math.PI * v) / 1.234));
+    expect(Math.abs((dominantPeriod(t, x, t.length)?.periodS ?? 0) - 1.234)).toBeLessThan(0.002);
+  });
+
+  it('resamples on a 10 ms grid unless told otherwise (the documented default; a numerical resolution, not a finding)', () => {
+    const t = Array.from({ length: 1000 }, (_, i) => i / 100);
+    const x = t.map((v) => Math.sin((2 * Math.PI * v) / 1.234));
+    expect(DEFAULT_GRID_S).toBe(0.01);
+    expect(dominantPeriod(t, x, t.length)).toEqual(dominantPeriod(t, x, t.length, { gridS: 0.01 }));
+  });
+
+  it('keeps the period of a cycle with two bumps (a second harmonic stronger than the first), not half of it', () => {
+    // x = 0.6 sin(2πt/T) + sin(4πt/T): the autocorrelation at T/2 is (1 − 0.36)/(1 + 0.36) = 0.47 of that at T, under 0.85.
+    const t = Array.from({ length: 1000 }, (_, i) => i / 100);
+    const x = t.map((v) => 0.6 * Math.sin((2 * Math.PI * v) / 1.2) + Math.sin((4 * Math.PI * v) / 1.2));
+    expect(dominantPeriod(t, x, t.length)?.periodS).toBeCloseTo(1.2, 1);
+  });
+
+  it('takes a cycle that alternates a little from one to the next (a slower part 30 % of the main one) for one stride, not two', () => {
+    // x = sin(2πt/T) + 0.3 sin(πt/T): it repeats exactly only every 2T, where the autocorrelation peaks highest, but at T it is
+    // (1 − 0.09)/(1 + 0.09) = 0.83 of that, above 0.85 of the peak once the shorter lag's smaller bias is counted.
+    const t = Array.from({ length: 1000 }, (_, i) => i / 100);
+    const x = t.map((v) => Math.sin((2 * Math.PI * v) / 1.0) + 0.3 * Math.sin((Math.PI * v) / 1.0));
+    expect(dominantPeriod(t, x, t.length)?.periodS).toBeCloseTo(1.0, 1);
   });
 
   it('says null for a flat or too short signal', () => {

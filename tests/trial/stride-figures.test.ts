@@ -109,6 +109,24 @@ describe('histogramRegionProbability', () => {
   });
 });
 
+describe('histogramRegionProbability against the model’s interval', () => {
+  it('takes the 5th and 95th percentiles at the same positions as the model, so it too holds 90 % of N', () => {
+    // A fine invented stride spread evenly in log length across the plateau end: its descending-limb time moves
+    // smoothly with N, so a percentile taken at other positions (type 7: about 0.0523 and 0.9478) shows.
+    const n = 2000;
+    const sl = Float64Array.from({ length: n }, (_, i) => human.plateauEndUm * Math.exp(-0.18 + (0.36 * (i + 0.5)) / n));
+    const durations = new Float64Array(n).fill(0.0005);
+    const h = new LengthHistogram();
+    sl.forEach((v) => h.add(v, 0.0005));
+    for (const spread of [lognormal(0.05), { relativeSd: 0.05, shape: 'length_normal' } as const]) {
+      const ours = histogramRegionProbability(human, h.weights, spread, h.lo, h.hi);
+      const model = strideRegionFractions(human, sl, durations, spread);
+      expect(Math.abs((ours?.low.descending ?? 0) - model.low.descending)).toBeLessThan(0.002);
+      expect(Math.abs((ours?.high.descending ?? 0) - model.high.descending)).toBeLessThan(0.002);
+    }
+  });
+});
+
 describe('gait-cycle curve', () => {
   it('resamples to 101 points by linear interpolation, holding the ends', () => {
     const out = new Float64Array(CYCLE_POINTS);

@@ -14,7 +14,7 @@ import { FixedWords, NameTable, readPlainDecimal, readPlainDecimalBytes } from '
 import { FIELD_RULE, makeRejection, MAX_PENNATION_DEG, MAX_QUALITY, MIN_PENNATION_DEG, MIN_QUALITY } from './parse-record.ts';
 import type { LineReader } from './read-lines.ts';
 
-export const CSV_COLUMNS = ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg', 'quality', 'event', 'side'] as const;
+export const CSV_COLUMNS = ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg', 'quality', 'event', 'side', 'activation'] as const;
 export type CsvColumn = (typeof CSV_COLUMNS)[number];
 const REQUIRED: readonly CsvColumn[] = ['time_s', 'muscle', 'fascicle_mm'];
 
@@ -107,6 +107,7 @@ export function parseCsvHeaderRow(text: string): CsvHeaderResult {
     quality: -1,
     event: -1,
     side: -1,
+    activation: -1,
   };
   for (let i = 0; i < raw.length; i++) {
     const name = trimCell(raw[i] ?? '');
@@ -343,12 +344,13 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
     const fascicleCell = trimCell(cells[index.fascicle_mm] ?? '');
     const pennationCell = index.pennation_deg < 0 ? '' : trimCell(cells[index.pennation_deg] ?? '');
     const qualityCell = index.quality < 0 ? '' : trimCell(cells[index.quality] ?? '');
+    const activationCell = index.activation < 0 ? '' : trimCell(cells[index.activation] ?? '');
 
     if (eventCell.length > 0) {
-      if (muscleCell.length > 0 || fascicleCell.length > 0 || pennationCell.length > 0 || qualityCell.length > 0) {
+      if (muscleCell.length > 0 || fascicleCell.length > 0 || pennationCell.length > 0 || qualityCell.length > 0 || activationCell.length > 0) {
         return makeRejection(
           'schema',
-          'row has both an event and sample cells: a row is either a sample (muscle, fascicle_mm, pennation_deg, quality) ' +
+          'row has both an event and sample cells: a row is either a sample (muscle, fascicle_mm, pennation_deg, quality, activation) ' +
             'or a gait event (event, side); put them on two rows and leave the other cells empty',
           line,
           text,
@@ -402,7 +404,15 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
         return makeRejection(reason, `quality ${cellProblem(qualityCell)}: ${FIELD_RULE['quality']}`, line, text);
       }
     }
-    return makeSample(tS, names.intern(muscleCell), fascicleMm, pennationDeg, quality, line);
+    let activation = Number.NaN;
+    if (activationCell.length > 0) {
+      activation = csvNumber(activationCell);
+      if (!(activation >= 0 && activation <= 1)) {
+        const reason = activation === activation ? 'out_of_range' : 'schema';
+        return makeRejection(reason, `activation ${cellProblem(activationCell)}: ${FIELD_RULE['activation']}`, line, text);
+      }
+    }
+    return makeSample(tS, names.intern(muscleCell), fascicleMm, pennationDeg, quality, line, activation);
   };
 
   const readText = (text: string, line: number): Frame => {
@@ -417,7 +427,8 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
       }
       return headerRow(text, line);
     }
-    if (quick && text.indexOf('"') < 0) {
+    // The quick readings know the original columns only: a file with activations is read carefully.
+    if (quick && columns.index.activation < 0 && text.indexOf('"') < 0) {
       const frame = quickRow(text, line, columns);
       if (frame !== null) return frame;
     }
@@ -426,7 +437,7 @@ export function createCsvReader(options: CsvParserOptions = {}): LineReader {
   return {
     text: readText,
     bytes: (b, start, end, line) => {
-      if (quick && columns !== null) {
+      if (quick && columns !== null && columns.index.activation < 0) {
         const frame = quickRowBytes(b, start, end, line, columns);
         if (frame !== null) return frame;
       }

@@ -21,7 +21,7 @@ export type AngleUnit = (typeof ANGLE_UNITS)[number];
 export type TimeUnit = (typeof TIME_UNITS)[number];
 
 /** Our record fields a mapping may rename. */
-export const MAPPED_FIELDS = ['t', 'muscle', 'fascicle', 'pennation', 'quality', 'event', 'side', 'marker'] as const;
+export const MAPPED_FIELDS = ['t', 'muscle', 'fascicle', 'pennation', 'quality', 'activation', 'event', 'side', 'marker'] as const;
 export type MappedField = (typeof MAPPED_FIELDS)[number];
 
 /** The field of a lengthwise-stream record each mapped field becomes. */
@@ -31,6 +31,7 @@ const OUR_KEY: Readonly<Record<MappedField, string>> = {
   fascicle: 'fascicle_mm',
   pennation: 'pennation_deg',
   quality: 'quality',
+  activation: 'activation',
   event: 'event',
   side: 'side',
   marker: 'marker',
@@ -77,6 +78,7 @@ export const deviceMappingSchema = z.strictObject(
           fascicle: fieldName.optional(),
           pennation: fieldName.optional(),
           quality: fieldName.optional(),
+          activation: fieldName.optional(),
           event: fieldName.optional(),
           side: fieldName.optional(),
           marker: fieldName.optional(),
@@ -181,6 +183,7 @@ export function applyMapping(value: unknown, mapping: DeviceMapping): unknown {
   put('fascicle', (v) => scaled(v, MM_PER[mapping.lengthUnit]));
   put('pennation', (v) => scaled(v, DEG_PER[mapping.angleUnit]));
   put('quality', (v) => v);
+  put('activation', (v) => v);
   put('event', (v) => word(v, mapping.values.event));
   put('side', (v) => word(v, mapping.values.side));
   put('marker', (v) => v);

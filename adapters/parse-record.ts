@@ -36,6 +36,7 @@ export const sampleSchema = z.object({
   fascicle_mm: z.number().positive(),
   pennation_deg: z.number().min(MIN_PENNATION_DEG).max(MAX_PENNATION_DEG).optional(),
   quality: z.number().min(MIN_QUALITY).max(MAX_QUALITY).optional(),
+  activation: z.number().min(0).max(1).optional(),
 });
 export const gaitEventSchema = z.object({ t: timeS, event: z.enum(GAIT_EVENT_NAMES), side: z.enum(SIDES) });
 export const markerSchema = z.object({ t: timeS, marker: z.string() });
@@ -58,7 +59,7 @@ export const headerSchema = z.object({
 type Kind = 'sample' | 'event' | 'marker' | 'disconnection' | 'header';
 
 const SHAPE: Readonly<Record<Kind, string>> = {
-  sample: '{"t": SECONDS, "muscle": "NAME", "fascicle_mm": MM, "pennation_deg"?: DEG, "quality"?: 0..1}',
+  sample: '{"t": SECONDS, "muscle": "NAME", "fascicle_mm": MM, "pennation_deg"?: DEG, "quality"?: 0..1, "activation"?: 0..1}',
   event: '{"t": SECONDS, "event": "foot_strike"|"toe_off", "side": "left"|"right"}',
   marker: '{"t": SECONDS, "marker": "TEXT"}',
   disconnection: '{"t"?: SECONDS, "disconnected": {"muscles": ["NAME", …] | null, "detail": "TEXT"}}',
@@ -72,6 +73,7 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
   fascicle_mm: 'must be a finite number > 0 (millimetres); if your device sends metres, use a device mapping',
   pennation_deg: `must be a number from ${MIN_PENNATION_DEG} to ${MAX_PENNATION_DEG} (degrees), or left out when there is none`,
   quality: `must be a number from ${MIN_QUALITY} to ${MAX_QUALITY}, or left out when there is none`,
+  activation: 'must be a number from 0 to 1 (e.g. an EMG envelope normalised to its maximum), or left out when there is none',
   event: 'must be "foot_strike" or "toe_off"',
   side: 'must be "left" or "right"',
   marker: 'must be a string',
@@ -87,7 +89,7 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
 };
 
 /** Fields whose numeric values have a physically possible range: a number outside it is out_of_range. */
-const RANGED_FIELDS: ReadonlySet<string> = new Set(['t', 'fascicle_mm', 'pennation_deg', 'quality', 'rate_hz']);
+const RANGED_FIELDS: ReadonlySet<string> = new Set(['t', 'fascicle_mm', 'pennation_deg', 'quality', 'activation', 'rate_hz']);
 
 /** A Rejection; the excerpt is cut to EXCERPT_CHARS and copied so it does not pin a large input string. */
 export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string): Rejection {
@@ -143,13 +145,24 @@ const RECEIVE_TIME_KEY = 'rx';
 
 function quickSample(o: Record<string, unknown>, line: number): Frame | null {
   for (const key in o) {
-    if (key !== 't' && key !== 'muscle' && key !== 'fascicle_mm' && key !== 'pennation_deg' && key !== 'quality' && key !== RECEIVE_TIME_KEY) return null;
+    if (
+      key !== 't' &&
+      key !== 'muscle' &&
+      key !== 'fascicle_mm' &&
+      key !== 'pennation_deg' &&
+      key !== 'quality' &&
+      key !== 'activation' &&
+      key !== RECEIVE_TIME_KEY
+    ) {
+      return null;
+    }
   }
   const t = o['t'];
   const muscle = o['muscle'];
   const fascicleMm = o['fascicle_mm'];
   const p = o['pennation_deg'];
   const q = o['quality'];
+  const a = o['activation'];
   if (typeof t !== 'number' || t - t !== 0) return null;
   if (typeof muscle !== 'string' || muscle.length === 0) return null;
   if (typeof fascicleMm !== 'number' || !(fascicleMm > 0) || fascicleMm === Infinity) return null;
@@ -163,7 +176,12 @@ function quickSample(o: Record<string, unknown>, line: number): Frame | null {
     if (typeof q !== 'number' || !(q >= MIN_QUALITY && q <= MAX_QUALITY)) return null;
     quality = q;
   }
-  return makeSample(t, muscle, fascicleMm, pennationDeg, quality, line);
+  let activation = Number.NaN;
+  if (a !== undefined) {
+    if (typeof a !== 'number' || !(a >= 0 && a <= 1)) return null;
+    activation = a;
+  }
+  return makeSample(t, muscle, fascicleMm, pennationDeg, quality, line, activation);
 }
 
 function quickEvent(o: Record<string, unknown>, line: number): Frame | null {
@@ -344,7 +362,7 @@ export function parseRecordValueBySchema(value: unknown, line: number, excerpt: 
       const r = sampleSchema.safeParse(value);
       if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
       const d = r.data;
-      return makeSample(d.t, d.muscle, d.fascicle_mm, d.pennation_deg ?? Number.NaN, d.quality ?? 1, line);
+      return makeSample(d.t, d.muscle, d.fascicle_mm, d.pennation_deg ?? Number.NaN, d.quality ?? 1, line, d.activation ?? Number.NaN);
     }
     case 'event': {
       const r = gaitEventSchema.safeParse(value);

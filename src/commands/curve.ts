@@ -3,7 +3,17 @@ import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import type { Parsed } from './option-values.ts';
 import { breakpoints, type FilamentGeometry } from '../model/geometry.ts';
-import { CURVE_SHAPES, DEFAULT_SHAPE, isCurveShape, makeMuscleModel, muscleModelProblems, type MuscleModel, type MuscleModelOptions } from '../model/muscle-model.ts';
+import {
+  CURVE_SHAPES,
+  DEFAULT_SHAPE,
+  LLOYD_BESIER_SHIFT,
+  isCurveShape,
+  makeMuscleModel,
+  muscleModelProblems,
+  wholeMuscleShapeNote,
+  type MuscleModel,
+  type MuscleModelOptions,
+} from '../model/muscle-model.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
 import type { RegionKey } from '../model/regions.ts';
 
@@ -18,10 +28,15 @@ options:
   --filaments LIST       the muscle's own filament lengths, replacing the preset's one by one, e.g.
                          thick=1.6,thin=1.27,bare_zone=0.17,z_disc=0.1 (µm); also steep_zero (µm)
                          and steep_break_force (0–1)
-  --dispersion SD        SD (µm) of sarcomere lengths around the estimate (about 0.2 within a fibre);
-                         rounds the corners  [default: 0, off]
+  --between-fibre-sd SD  SD (µm) of sarcomere lengths between the muscle's fibres (0.21 ± 0.09 in a
+                         human vastus lateralis, Chen et al. 2016): the force is the mean over fibres
+                         in parallel, which rounds the corners  [default: 0, off]
+                         (--dispersion SD is its older name)
   --shape S              ${CURVE_SHAPES.join(' | ')}: which curve gives the
                          force; regions always come from the geometry  [default: ${DEFAULT_SHAPE}]
+  --activation A         force at activation A (0–1): the optimal length moves to L0·(λ(1 − A) + 1)
+                         (Lloyd & Besier 2003); regions stay  [default: off]
+  --activation-shift L   λ of that shift  [default: ${LLOYD_BESIER_SHIFT}]
   --sl LIST              sarcomere lengths (µm), comma-separated, e.g. 2.0,2.7,3.5
   --step UM              spacing of the table without --sl  [default: 0.01]
   --json                 a JSON array of {"sl_um", "force", "region"} instead of text
@@ -81,9 +96,9 @@ export interface CurvePoint {
   readonly region: RegionKey;
 }
 
-/** The model at each length. */
-export function curvePoints(model: MuscleModel, lengthsUm: readonly number[]): CurvePoint[] {
-  return lengthsUm.map((sl) => ({ sl_um: sl, force: model.forceAt(sl), region: model.regionAt(sl) }));
+/** The model at each length (at an activation; NaN: full activation, no shift). */
+export function curvePoints(model: MuscleModel, lengthsUm: readonly number[], activation = Number.NaN): CurvePoint[] {
+  return lengthsUm.map((sl) => ({ sl_um: sl, force: model.forceAtActivation(sl, activation), region: model.regionAt(sl) }));
 }
 
 /** Lengths across the whole curve at `stepUm`, with every breakpoint included exactly. */
@@ -104,9 +119,12 @@ function round(x: number, digits: number): number {
   return Math.round(x * f) / f;
 }
 
-function describeModel(model: MuscleModel): string {
-  const dispersion = model.dispersionSdUm > 0 ? `sarcomere-length SD ${model.dispersionSdUm} µm` : 'no dispersion';
-  return `${model.species}, ${model.shape} force, ${dispersion}; plateau middle (L0) ${model.optimalUm.toFixed(3)} µm`;
+function describeModel(model: MuscleModel, activation: number): string {
+  const spread = model.dispersionSdUm > 0 ? `between-fibre SD ${model.dispersionSdUm} µm` : 'no between-fibre spread';
+  const optimum = Number.isNaN(activation)
+    ? ''
+    : `; at activation ${activation} the optimum moves to ${model.optimalUmAt(activation).toFixed(3)} µm (λ ${model.activationShift}, Lloyd & Besier 2003)`;
+  return `${model.species}, ${model.shape} force, ${spread}; plateau middle (L0) ${model.optimalUm.toFixed(3)} µm${optimum}`;
 }
 
 function textTable(points: readonly CurvePoint[]): string[] {
@@ -117,8 +135,11 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('curve', HELP, argv, {
     species: { type: 'string', default: DEFAULT_SPECIES },
     filaments: { type: 'string' },
-    dispersion: { type: 'string', default: '0' },
+    'between-fibre-sd': { type: 'string' },
+    dispersion: { type: 'string' },
     shape: { type: 'string', default: DEFAULT_SHAPE },
+    activation: { type: 'string' },
+    'activation-shift': { type: 'string' },
     sl: { type: 'string', multiple: true },
     step: { type: 'string', default: '0.01' },
     json: { type: 'boolean', default: false },
@@ -131,9 +152,31 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   if (!isSpecies(species)) problems.push(`--species "${species}" is not known; accepted: ${SPECIES.join(', ')}`);
   const shape = values.shape;
   if (!isCurveShape(shape)) problems.push(`--shape "${shape}" is not known; accepted: ${CURVE_SHAPES.join(', ')}`);
-  const dispersionSdUm = Number(values.dispersion);
-  if (values.dispersion.trim() === '' || !Number.isFinite(dispersionSdUm)) {
-    problems.push(`--dispersion "${values.dispersion}" is not a number; give an SD in µm, e.g. --dispersion 0.2 (0 is off)`);
+  const named = values['between-fibre-sd'];
+  const older = values.dispersion;
+  const spreadText = named ?? older ?? '0';
+  const spreadOption = named !== undefined ? '--between-fibre-sd' : '--dispersion';
+  const dispersionSdUm = Number(spreadText);
+  if (spreadText.trim() === '' || !Number.isFinite(dispersionSdUm)) {
+    problems.push(`${spreadOption} "${spreadText}" is not a number; give an SD in µm, e.g. ${spreadOption} 0.21 (0 is off)`);
+  } else if (named !== undefined && older !== undefined && Number(named) !== Number(older)) {
+    problems.push(`--between-fibre-sd ${named} and its older name --dispersion ${older} disagree; give one of them`);
+  }
+  let activation = Number.NaN;
+  if (values.activation !== undefined) {
+    activation = Number(values.activation);
+    if (values.activation.trim() === '' || !(activation >= 0 && activation <= 1)) {
+      problems.push(`--activation "${values.activation}" is not accepted; give an activation from 0 to 1, e.g. --activation 0.25`);
+    }
+  }
+  let activationShift = values.activation !== undefined ? LLOYD_BESIER_SHIFT : 0;
+  if (values['activation-shift'] !== undefined) {
+    activationShift = Number(values['activation-shift']);
+    if (values['activation-shift'].trim() === '' || !Number.isFinite(activationShift)) {
+      problems.push(`--activation-shift "${values['activation-shift']}" is not a number; give λ from 0 to 1, e.g. --activation-shift ${LLOYD_BESIER_SHIFT}`);
+    } else if (values.activation === undefined) {
+      problems.push('--activation-shift needs --activation A: the activation to draw the curve at');
+    }
   }
   const stepUm = Number(values.step);
   if (!(Number.isFinite(stepUm) && stepUm >= 0.0001 && stepUm <= 1)) {
@@ -156,20 +199,30 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     return 2;
   }
 
-  const options: MuscleModelOptions = { species, shape, dispersionSdUm, ...(filaments !== undefined ? { filaments } : {}) };
+  const options: MuscleModelOptions = {
+    species,
+    shape,
+    dispersionSdUm,
+    activationShift,
+    ...(filaments !== undefined ? { filaments } : {}),
+  };
   const modelProblems = muscleModelProblems(options);
   if (modelProblems.length > 0) {
     io.err(modelProblems.map((p) => `lengthwise curve: ${p}`).join('\n'));
     return 2;
   }
   const model = makeMuscleModel(options);
-  const points = curvePoints(model, lengths ?? rangeLengths(model, stepUm));
+  const points = curvePoints(model, lengths ?? rangeLengths(model, stepUm), activation);
+  const note = wholeMuscleShapeNote(model.shape);
 
   if (values.json) {
+    // The JSON array stays an array: the note goes to standard error.
+    if (note !== null) io.err(`note: ${note}`);
     io.out(JSON.stringify(points));
     return 0;
   }
-  const lines = [`# lengthwise curve: ${describeModel(model)}`];
+  const lines = [`# lengthwise curve: ${describeModel(model, activation)}`];
+  if (note !== null) lines.push(`# note: ${note}`);
   if (lengths === undefined) {
     lines.push('# breakpoint\tsl_um\tforce (geometric)');
     for (const b of breakpoints(model.curve)) lines.push(`# ${b.name}\t${b.slUm.toFixed(3)}\t${b.force.toFixed(4)}`);

@@ -15,8 +15,10 @@ export const DEFAULT_VMAX_L0_PER_S = 10;
  */
 export const DEFAULT_LENGTHENING_PLATEAU = 1.5;
 /**
- * Slope of the lengthening branch at v = 0 relative to the shortening branch's slope there: about 2
- * (Katz 1939, J Physiol 96:45–64 — from memory).
+ * Slope of the lengthening branch at v = 0 relative to the shortening branch's slope there: 2. A modelling
+ * convention of Hill-type muscle models (e.g. van Soest & Bobbert 1993, Biol Cybern 69:195–204 — from
+ * memory), not a measured value: Katz 1939 (J Physiol 96:45–64) found the lengthening branch steeper than
+ * the shortening one (from memory), which the convention takes up without measuring this ratio.
  */
 export const DEFAULT_LENGTHENING_SLOPE_RATIO = 2;
 

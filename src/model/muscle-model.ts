@@ -29,6 +29,42 @@ export function isCurveShape(value: string): value is CurveShape {
 /** Largest sarcomere-length SD accepted for dispersion (µm); beyond it the curve is no longer meaningful. */
 export const MAX_DISPERSION_SD_UM = 1;
 
+/**
+ * λ of the activation-dependent optimal length of Lloyd & Besier 2003 (J Biomech 36:765–776 — from memory,
+ * the paper not at hand): L0(a) = L0·(λ(1 − a) + 1), λ = 0.15, so at activation 0.25 the human L0 of
+ * 2.726 µm moves to 3.033 µm. It models the shift of the optimal length to longer lengths at low
+ * activation that Rack & Westbury 1969 (J Physiol 204:443–460, abstract point 5) found in cat soleus: at
+ * low stimulation rates near-maximal tension needed long muscle lengths.
+ */
+export const LLOYD_BESIER_SHIFT = 0.15;
+
+/**
+ * Said wherever a whole-muscle shape's force appears beside the geometry's region: the Gaussian shapes give
+ * some force at every length, including where the filaments no longer overlap (region no_overlap) or are
+ * pressed together (too_short). Null for the geometric curve.
+ */
+export function wholeMuscleShapeNote(shape: CurveShape): string | null {
+  if (shape === 'geometric') return null;
+  return (
+    `force from the ${shape} shape, a whole-muscle curve: it gives force where the filament geometry gives none ` +
+    '(too_short, no_overlap), so a force above 0 in those regions is no contradiction; regions always come from the geometry'
+  );
+}
+
+/** Said wherever the activation-dependent optimal length is on: what moves and what does not. */
+export function activationShiftNote(shift: number, constantActivation: number | undefined): string {
+  const where = constantActivation !== undefined ? `activation ${constantActivation} where samples carry none` : 'activation 1 where samples carry none';
+  return (
+    `optimal length shifts with activation (L0(a) = L0·(${shift}(1 − a) + 1), Lloyd & Besier 2003; ${where}): ` +
+    'force and the optimum move, regions stay with the geometry'
+  );
+}
+
+/** L0(a)/L0 = λ(1 − a) + 1 for activation a in 0–1 (Lloyd & Besier 2003); 1 when λ is 0. */
+export function optimalLengthFactor(activation: number, shift: number): number {
+  return shift * (1 - activation) + 1;
+}
+
 export interface MuscleModelOptions {
   /** @default 'human' */
   readonly species?: Species;
@@ -36,8 +72,14 @@ export interface MuscleModelOptions {
   readonly filaments?: Partial<FilamentGeometry>;
   /** @default 'geometric' */
   readonly shape?: CurveShape;
-  /** SD (µm) of sarcomere lengths around the estimate; 0 is off. @default 0 */
+  /**
+   * SD (µm) of sarcomere lengths between the muscle's fibres, around the estimate; 0 is off. @default 0
+   * Fibres in parallel each add their force, so the muscle's force is the mean over that spread. (Sarcomeres
+   * in series within one fibre all carry the same force: their spread is not averaged this way.)
+   */
   readonly dispersionSdUm?: number;
+  /** λ of the activation-dependent optimal length; 0 is off. @default 0 */
+  readonly activationShift?: number;
 }
 
 export interface MuscleModel {
@@ -49,8 +91,17 @@ export interface MuscleModel {
   readonly dispersionSdUm: number;
   /** L0: the plateau middle (µm), the length of peak force and the unit of the normalized curves. */
   readonly optimalUm: number;
+  /** λ of the activation-dependent optimal length; 0 when off. */
+  readonly activationShift: number;
   /** Relative active force, 0–1, at a sarcomere length (µm); NaN gives NaN. */
   forceAt(sarcomereUm: number): number;
+  /**
+   * The force at an activation (0–1): the whole curve stretched by L0(a)/L0, so the force at SL is the
+   * full-activation force at SL·L0/L0(a). The same as forceAt when the shift is off or the activation NaN.
+   */
+  forceAtActivation(sarcomereUm: number, activation: number): number;
+  /** L0(a) (µm): where the optimum lies at that activation. */
+  optimalUmAt(activation: number): number;
   /** Region of the geometric curve (pass finite lengths). */
   regionAt(sarcomereUm: number): RegionKey;
   /** Index of that region in REGION_KEYS, for flat accumulators. */
@@ -69,7 +120,11 @@ export function muscleModelProblems(options: MuscleModelOptions): string[] {
   if (!isCurveShape(shape)) problems.push(`unknown curve shape "${String(shape)}"; accepted: ${CURVE_SHAPES.join(', ')}`);
   const sd = options.dispersionSdUm ?? 0;
   if (!(Number.isFinite(sd) && sd >= 0 && sd <= MAX_DISPERSION_SD_UM)) {
-    problems.push(`dispersion SD is ${String(sd)} µm; accepted: 0 (off) to ${MAX_DISPERSION_SD_UM} µm (about 0.2 within a fibre)`);
+    problems.push(`between-fibre SD is ${String(sd)} µm; accepted: 0 (off) to ${MAX_DISPERSION_SD_UM} µm (about 0.2 between the fibres of a human vastus lateralis)`);
+  }
+  const shift = options.activationShift ?? 0;
+  if (!(Number.isFinite(shift) && shift >= 0 && shift <= 1)) {
+    problems.push(`activation shift is ${String(shift)}; accepted: 0 (off) to 1 (${LLOYD_BESIER_SHIFT} in Lloyd & Besier 2003)`);
   }
   problems.push(...geometryProblems(withFilaments(SPECIES_GEOMETRY[species], options.filaments)));
   return problems;
@@ -104,6 +159,7 @@ export function makeMuscleModel(options: MuscleModelOptions = {}): MuscleModel {
   const species = options.species ?? DEFAULT_SPECIES;
   const shape = options.shape ?? DEFAULT_SHAPE;
   const dispersionSdUm = options.dispersionSdUm ?? 0;
+  const activationShift = options.activationShift ?? 0;
   const geometry = withFilaments(SPECIES_GEOMETRY[species], options.filaments);
   const curve = curveFromGeometry(geometry);
   const optimalUm = plateauMiddleUm(curve);
@@ -124,6 +180,13 @@ export function makeMuscleModel(options: MuscleModelOptions = {}): MuscleModel {
     forceAt = base;
   }
 
+  const forceAtFull = forceAt;
+  const forceAtActivation =
+    activationShift > 0
+      ? (slUm: number, activation: number): number =>
+          Number.isNaN(activation) ? forceAtFull(slUm) : forceAtFull(slUm / optimalLengthFactor(activation, activationShift))
+      : (slUm: number): number => forceAtFull(slUm);
+
   return {
     species,
     geometry,
@@ -131,7 +194,10 @@ export function makeMuscleModel(options: MuscleModelOptions = {}): MuscleModel {
     shape,
     dispersionSdUm,
     optimalUm,
+    activationShift,
     forceAt,
+    forceAtActivation,
+    optimalUmAt: (activation) => (Number.isNaN(activation) ? optimalUm : optimalUm * optimalLengthFactor(activation, activationShift)),
     regionAt: (slUm) => geometricRegionAt(curve, slUm),
     regionIndexAt: (slUm) => regionIndex(geometricRegionAt(curve, slUm)),
   };

@@ -48,3 +48,46 @@ export function summarizeWindow(
 export function sarcomereCountFromReference(fascicleMm: number, sarcomereUm: number): number {
   return (fascicleMm * 1000) / sarcomereUm;
 }
+
+/** Two postures' single-posture counts disagree beyond this share of their mean: a constant part of the tracked length. Our own threshold. */
+export const POSTURE_DISAGREEMENT_FRACTION = 0.05;
+
+/** One posture: a window's median fascicle length (mm) and the sarcomere length (µm, with its SD when known) it stands at. */
+export interface Posture {
+  readonly fascicleMm: number;
+  readonly sarcomereUm: number;
+  readonly sarcomereSdUm?: number;
+}
+
+export interface TwoPostureCount {
+  /** N = Δfascicle length × 1000 / Δsarcomere length: independent of any constant part of the tracked length. */
+  readonly count: number;
+  /** The constant part (mm): fascicle − N × sarcomere length / 1000, the same at both postures. */
+  readonly offsetMm: number;
+  /** SD of the difference of the sarcomere lengths / that difference (0 when no SD was given): N's relative SD. */
+  readonly relativeSd: number;
+  /** Each posture's own count, F × 1000 / SL (which holds only when the constant part is zero). */
+  readonly singleCounts: readonly [number, number];
+  /** |difference of the single counts| / their mean. */
+  readonly disagreement: number;
+}
+
+/**
+ * The sarcomere count from two postures: the tracked length F = c + N·SL/1000 at both, so
+ * N = (F₂ − F₁) × 1000 / (SL₂ − SL₁) whatever the constant part c (aponeurosis or tendon pieces in the tracked
+ * line, a tracking offset). The sarcomere lengths' SDs give N's by first-order propagation (common practice,
+ * no source): σ(ΔSL) = √(σ₁² + σ₂²), and N's relative SD is σ(ΔSL)/|ΔSL|. The two sarcomere lengths must
+ * differ; NaN figures otherwise.
+ */
+export function twoPostureCount(a: Posture, b: Posture): TwoPostureCount {
+  const dSl = b.sarcomereUm - a.sarcomereUm;
+  const count = ((b.fascicleMm - a.fascicleMm) * 1000) / dSl;
+  const offsetMm = a.fascicleMm - (count * a.sarcomereUm) / 1000;
+  const sdA = a.sarcomereSdUm ?? 0;
+  const sdB = b.sarcomereSdUm ?? 0;
+  const relativeSd = Math.hypot(sdA, sdB) / Math.abs(dSl);
+  const singleA = sarcomereCountFromReference(a.fascicleMm, a.sarcomereUm);
+  const singleB = sarcomereCountFromReference(b.fascicleMm, b.sarcomereUm);
+  const disagreement = Math.abs(singleA - singleB) / ((singleA + singleB) / 2);
+  return { count, offsetMm, relativeSd, singleCounts: [singleA, singleB], disagreement };
+}

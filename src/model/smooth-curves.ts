@@ -14,12 +14,14 @@ export function gaussianForceNorm(lengthNorm: number, gamma: number = THELEN_GAM
 
 /**
  * Parameters (b1, b2, b3, b4) of the three Gaussians of De Groote, Kinney, Rao & Fregly 2016 (Ann Biomed
- * Eng 44:2922–2936, appendix) — from memory, checked against f(1) ≈ 1 and f(0.5) ≈ 0.054.
+ * Eng 44:2922–2936, appendix table). The third is given in closed form: b1 = 0.1, b2 = 1, b3 = 0.5·√0.5 =
+ * 0.353553…, b4 = 0 (so its width term squared is 1/8). The eleven decimal values of the first two are
+ * from memory: the paper's table was not at hand to check them digit by digit.
  */
 export const DE_GROOTE_2016 = [
   [0.814483478343008, 1.05503342897057, 0.162384573599574, 0.0633034484654646],
-  [0.433004984392647, 0.716775413397760, -0.0299471169706956, 0.200356847296188],
-  [0.1, 1.0, 0.353535353535354, 0.0],
+  [0.433004984392647, 0.71677541339776, -0.0299471169706956, 0.200356847296188],
+  [0.1, 1.0, 0.5 * Math.sqrt(0.5), 0.0],
 ] as const;
 
 /**

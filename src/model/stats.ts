@@ -60,12 +60,8 @@ function selectKth(a: Float64Array, k: number): void {
   }
 }
 
-/**
- * Type 7 quantile (q in 0–1) of values in any order, by selection rather than a full sort: the same value
- * as quantileSorted of the sorted values, in linear time on average. Reorders `values`; needs at least one.
- */
-export function quantileBySelection(values: Float64Array, q: number): number {
-  const h = q * (values.length - 1);
+/** The value at fractional rank `h` (0-based) of values in any order, by selection; reorders `values`. */
+function atRankBySelection(values: Float64Array, h: number): number {
   const j = Math.floor(h);
   selectKth(values, j);
   const a = values[j] as number;
@@ -73,6 +69,22 @@ export function quantileBySelection(values: Float64Array, q: number): number {
   let b = Number.POSITIVE_INFINITY;
   for (let k = j + 1; k < values.length; k++) if ((values[k] as number) < b) b = values[k] as number;
   return a + (b - a) * (h - j);
+}
+
+/**
+ * Type 7 quantile (q in 0–1) of values in any order, by selection rather than a full sort: the same value
+ * as quantileSorted of the sorted values, in linear time on average. Reorders `values`; needs at least one.
+ */
+export function quantileBySelection(values: Float64Array, q: number): number {
+  return atRankBySelection(values, q * (values.length - 1));
+}
+
+/**
+ * quantileOfMidpoints (type 5) of values in any order, by selection: the same value as quantileOfMidpoints
+ * of the sorted values. Reorders `values`; needs at least one.
+ */
+export function quantileOfMidpointsBySelection(values: Float64Array, q: number): number {
+  return atRankBySelection(values, Math.min(values.length - 1, Math.max(0, q * values.length - 0.5)));
 }
 
 /**
@@ -94,4 +106,20 @@ export function binnedQuantile(weights: ArrayLike<number>, q: number, binWidth: 
     cum += w;
   }
   return (hi + 1) * binWidth;
+}
+
+/**
+ * Percentile of M sorted values that stand for M equal-probability points of a distribution, the i-th
+ * (1-based) at probability (i − ½)/M: linear between those positions, the end values beyond them
+ * (Hyndman & Fan 1996, Am Stat 50:361–365, definition 5 — from memory). Unlike type 7, the 5th and 95th
+ * percentiles of equal-probability points of N then bound exactly 90 % of N's probability. NaN for no values.
+ */
+export function quantileOfMidpoints(sorted: ArrayLike<number>, q: number): number {
+  const m = sorted.length;
+  if (m === 0) return Number.NaN;
+  const pos = Math.min(m - 1, Math.max(0, q * m - 0.5));
+  const i = Math.floor(pos);
+  const a = sorted[i] as number;
+  const b = sorted[Math.min(i + 1, m - 1)] as number;
+  return a + (b - a) * (pos - i);
 }

@@ -2,8 +2,12 @@
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
 import type { StrideListView } from '../trial/stride-list.ts';
-import { CYCLE_POINTS, HISTOGRAM_BIN_UM, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../trial/state.ts';
+import { CYCLE_POINTS, HISTOGRAM_BIN_UM, spreadOf, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../trial/state.ts';
 import { cycleSd, histogramQuantile, histogramRegionProbability } from '../trial/stride-figures.ts';
+import type { CountSpread, SpreadShape } from '../model/count-spread.ts';
+import { METHOD_LABEL } from '../model/calibration.ts';
+import type { CurveShape } from '../model/muscle-model.ts';
+import { provenanceJson, type ProvenanceJson } from './provenance-json.ts';
 
 /** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
 export type RegionIntervalJson = Record<RegionKey, [number | null, number | null]>;
@@ -84,7 +88,19 @@ export interface MuscleJson {
   sarcomeres_in_series: number | null;
   /** SD of the sarcomere count relative to the count (0: the calibration states none). */
   sarcomeres_in_series_relative_sd: number;
+  /** How that uncertainty is distributed: "lognormal" (in the count) or "length_normal" (in the sarcomere length it came from). */
+  sarcomeres_in_series_distribution: SpreadShape;
   calibration_source: string | null;
+  /** The calibration's method in words ("prior from published architecture", …); null until known. */
+  calibration_method: string | null;
+  /** Where the calibration came from (the calibration file's provenance keys); null when it does not say. */
+  calibration_provenance: ProvenanceJson | null;
+  /** Which curve gives the force: "geometric", "gaussian" or "three-gaussian" (regions always come from the geometry). */
+  shape: CurveShape;
+  /** Where each stride starts: at a foot strike, or (estimated strides) at the fascicle-length minimum; null before any. */
+  stride_start: 'foot_strike' | 'fascicle_length_minimum' | null;
+  /** The activation-dependent optimal length, when on: its λ, the calibration's activation, samples with their own. */
+  activation: ActivationJson | null;
   /** How the strides were found: "events" (foot strikes), "estimated" (from the fascicle signal), null (none). */
   segmentation: 'events' | 'estimated' | null;
   strides: StrideJson[];
@@ -94,6 +110,16 @@ export interface MuscleJson {
   filaments: FilamentsJson;
   /** Seconds of the unflagged strides spent at each sarcomere length: bin i covers start_um + i × bin_um. */
   sl_histogram: SlHistogramJson | null;
+}
+
+/** What an uncalibrated muscle's calibration is, in words. */
+const BASELINE_METHOD = 'none: its first seconds assumed at the plateau middle';
+
+export interface ActivationJson {
+  shift: number;
+  /** Activation used for samples that carry none (1 when the calibration gives none). */
+  assumed: number;
+  samples_with_activation: number;
 }
 
 export interface FilamentsJson {
@@ -193,7 +219,7 @@ function probabilityJson(p: RegionProbabilityFigures | null | undefined): Pick<F
 /** What the trial figures need besides the strides: the muscle's histograms and curve, when known. */
 export interface TrialContext {
   readonly curve: ForceLengthCurve;
-  readonly relativeSd: number;
+  readonly spread: CountSpread;
   readonly histograms: { readonly stride: Float64Array; readonly stance: Float64Array; readonly swing: Float64Array } | undefined;
 }
 
@@ -254,7 +280,7 @@ function aggregate(stretches: readonly Stretch[], histogram: Float64Array | unde
   const regionFraction = zeroRegionRecord();
   if (total > 0) for (const key of REGION_KEYS) regionFraction[key] = regionS[key] / total;
   const probability =
-    histogram !== undefined && context !== undefined ? histogramRegionProbability(context.curve, histogram, context.relativeSd) : null;
+    histogram !== undefined && context !== undefined ? histogramRegionProbability(context.curve, histogram, context.spread) : null;
   return {
     sl_min_um: num(min),
     sl_max_um: num(max),
@@ -357,7 +383,7 @@ function cycleJson(m: MuscleState): CycleJson | null {
 }
 
 function muscleJson(m: MuscleState): MuscleJson {
-  const relativeSd = m.relativeSd ?? 0;
+  const spread = spreadOf(m);
   // Rebuilt from the compact list once, for both the stride list and the trial figures.
   const strides = m.strides.slice();
   return {
@@ -365,11 +391,21 @@ function muscleJson(m: MuscleState): MuscleJson {
     side: m.side,
     side_source: m.sideSource,
     sarcomeres_in_series: num(m.sarcomeresInSeries),
-    sarcomeres_in_series_relative_sd: relativeSd,
+    sarcomeres_in_series_relative_sd: spread.relativeSd,
+    sarcomeres_in_series_distribution: spread.shape,
     calibration_source: m.calibrationSource,
+    calibration_method:
+      m.calibrationMethod == null ? null : m.calibrationSource === 'baseline' ? BASELINE_METHOD : METHOD_LABEL[m.calibrationMethod],
+    calibration_provenance: m.provenance == null ? null : provenanceJson(m.provenance),
+    shape: m.shape ?? 'geometric',
+    stride_start: m.segmentation == null ? null : m.segmentation === 'estimated' ? 'fascicle_length_minimum' : 'foot_strike',
+    activation:
+      (m.activationShift ?? 0) > 0
+        ? { shift: m.activationShift ?? 0, assumed: Number.isNaN(m.activation ?? Number.NaN) ? 1 : (m.activation ?? 1), samples_with_activation: m.activationSamples ?? 0 }
+        : null,
     segmentation: m.segmentation ?? null,
     strides: strides.map(strideJson),
-    trial: trialFigures(strides, { curve: m.curve, relativeSd, histograms: m.trialHistograms }),
+    trial: trialFigures(strides, { curve: m.curve, spread, histograms: m.trialHistograms }),
     cycle: cycleJson(m),
     filaments: filamentsJson(m),
     sl_histogram: slHistogramJson(m.trialHistograms?.stride),

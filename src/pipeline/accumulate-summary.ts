@@ -5,6 +5,7 @@ import {
   CYCLE_POINTS,
   HISTOGRAM_BINS,
   emptyFrameCounts,
+  spreadOf,
   type MuscleState,
   type Segmentation,
   type StrideSummary,
@@ -149,6 +150,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         state.lastTS = s.tS;
         const acc = muscle(s.muscle);
         acc.state.latest = s;
+        if (!Number.isNaN(s.activation)) acc.state.activationSamples = (acc.state.activationSamples ?? 0) + 1;
         acc.probabilityDue = true;
         if (!Number.isNaN(acc.heldTS)) release(acc, s.tS);
         if (Number.isNaN(s.sarcomereUm) || s.region === null) {
@@ -177,8 +179,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
       /** Closes the stride in progress at `endS`: its figures, its flag, its share of the trial's sums. */
       const closeStride = (acc: MuscleAccumulator, endS: number): void => {
         const m = acc.state;
-        const relativeSd = m.relativeSd ?? 0;
-        const figures = acc.stride.finish(endS, m.curve, relativeSd);
+        const spread = spreadOf(m);
+        const figures = acc.stride.finish(endS, m.curve, spread);
         const durationS = endS - figures.startS;
         const flagged = !(figures.gapS <= maxGapFraction * durationS) || figures.sampleCount === 0;
         const phased = acc.phase === SWING;
@@ -187,8 +189,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
           ...figures,
           flagged,
           segmentation: acc.segmentation,
-          stance: phased ? acc.stance.finish(acc.toeOffS, m.curve, relativeSd) : null,
-          swing: phased ? acc.swing.finish(endS, m.curve, relativeSd) : null,
+          stance: phased ? acc.stance.finish(acc.toeOffS, m.curve, spread) : null,
+          swing: phased ? acc.swing.finish(endS, m.curve, spread) : null,
         };
         acc.strides.push(summary);
         if (flagged) return;
@@ -248,12 +250,12 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
           acc.probabilityDue = false;
           const m = acc.state;
           const latest = m.latest;
-          const relativeSd = m.relativeSd ?? 0;
-          if (latest === null || !(relativeSd > 0) || !Number.isFinite(latest.sarcomereUm)) {
+          const spread = spreadOf(m);
+          if (latest === null || !(spread.relativeSd > 0) || !Number.isFinite(latest.sarcomereUm)) {
             m.regionProbability = null;
             continue;
           }
-          regionProbabilities(m.curve, latest.sarcomereUm, relativeSd, probability);
+          regionProbabilities(m.curve, latest.sarcomereUm, spread, probability);
           const record: Record<RegionKey, number> = (m.regionProbability ??= zeroRegionRecord());
           for (let r = 0; r < REGION_KEYS.length; r++) record[REGION_KEYS[r] as RegionKey] = probability[r] as number;
         }
@@ -263,9 +265,16 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         const m = muscle(f.muscle).state;
         m.species = f.calibration.species;
         m.curve = curveForCalibration(f.calibration);
-        m.relativeSd = sarcomereCountSpread(f.calibration, m.curve).relativeSd;
+        const spread = sarcomereCountSpread(f.calibration, m.curve);
+        m.relativeSd = spread.relativeSd;
+        m.spreadShape = spread.shape;
         m.sarcomeresInSeries = f.sarcomeresInSeries;
         m.calibrationSource = f.source;
+        m.calibrationMethod = f.calibration.method;
+        m.shape = f.calibration.shape ?? 'geometric';
+        m.provenance = f.calibration.provenance ?? null;
+        m.activationShift = f.calibration.activationShift ?? 0;
+        m.activation = f.calibration.activation ?? Number.NaN;
         let calibrated = true;
         for (const other of state.muscles.values()) if (other.calibrationSource === 'baseline') calibrated = false;
         state.calibrated = calibrated;

@@ -2,6 +2,9 @@ import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
 import type { Batch, CalibrationApplied, Frame, Sample } from '../trial/records.ts';
 import {
+  ARCHITECTURE_PRIOR_CAUTION,
+  METHOD_LABEL,
+  fascicleOffsetMm,
   sarcomereUmFromFascicle,
   sarcomeresInSeries,
   type CalibrationSpec,
@@ -44,8 +47,8 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
   const fileSpec = options.calibration;
 
   return holdingStage(() => {
-    /** Sarcomeres in series of each muscle whose calibration is known. */
-    const ready = new Map<string, number>();
+    /** Sarcomeres in series (and the constant part of the tracked length, mm) of each muscle whose calibration is known. */
+    const ready = new Map<string, { readonly n: number; readonly offsetMm: number }>();
     const collecting = new Map<string, Collecting>();
     let headerSpec: CalibrationSpec | undefined;
     let held: Frame[] = [];
@@ -53,8 +56,8 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
     let decided: Frame[] = [];
 
     const convert = (s: Sample): void => {
-      const n = ready.get(s.muscle);
-      if (n !== undefined) s.sarcomereUm = sarcomereUmFromFascicle(s.smoothMm, n);
+      const c = ready.get(s.muscle);
+      if (c !== undefined) s.sarcomereUm = sarcomereUmFromFascicle(s.smoothMm, c.n, c.offsetMm);
     };
 
     const finishBaseline = (muscle: string, state: Collecting): void => {
@@ -62,7 +65,7 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
       const calibration: MuscleCalibration = { species: DEFAULT_SPECIES, method: 'optimal_length', optimalFascicleMm: fascicleMm };
       const n = (fascicleMm * 1000) / plateauMiddleUm(curveForCalibration(calibration));
       collecting.delete(muscle);
-      ready.set(muscle, n);
+      ready.set(muscle, { n, offsetMm: 0 });
       decided.push(
         { kind: 'calibration', muscle, calibration, sarcomeresInSeries: n, source: 'baseline' },
         {
@@ -92,7 +95,7 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         return;
       }
       const n = sarcomeresInSeries(calibration, curveForCalibration(calibration));
-      ready.set(s.muscle, n);
+      ready.set(s.muscle, { n, offsetMm: fascicleOffsetMm(calibration) });
       const frame: CalibrationApplied = {
         kind: 'calibration',
         muscle: s.muscle,
@@ -100,7 +103,15 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         sarcomeresInSeries: n,
         source: fromFile !== undefined ? 'file' : 'header',
       };
-      (collecting.size > 0 ? held : out).push(frame);
+      const to = collecting.size > 0 ? held : out;
+      to.push(frame);
+      if (calibration.method === 'architecture_prior') {
+        to.push({
+          kind: 'notice',
+          muscle: s.muscle,
+          text: `${s.muscle}: calibrated by a ${METHOD_LABEL.architecture_prior} (${calibration.priorSource}): ${ARCHITECTURE_PRIOR_CAUTION}`,
+        });
+      }
     };
 
     /** The general path for one frame; `out` receives what can go now. */
@@ -109,7 +120,7 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
       if (f.kind === 'calibration' && f.source === 'runtime') {
         // Captured while running (e.g. from the dashboard): replaces the muscle's calibration from here on.
         collecting.delete(f.muscle);
-        ready.set(f.muscle, f.sarcomeresInSeries);
+        ready.set(f.muscle, { n: f.sarcomeresInSeries, offsetMm: fascicleOffsetMm(f.calibration) });
       }
       if (f.kind === 'sample') {
         if (!ready.has(f.muscle) && !collecting.has(f.muscle)) start(f, out);
@@ -138,9 +149,9 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         for (; i < batch.length; i++) {
           const f = batch[i] as Frame;
           if (f.kind === 'sample') {
-            const n = ready.get(f.muscle);
-            if (n === undefined) break;
-            f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, n);
+            const c = ready.get(f.muscle);
+            if (c === undefined) break;
+            f.sarcomereUm = sarcomereUmFromFascicle(f.smoothMm, c.n, c.offsetMm);
           } else if (f.kind === 'header' || f.kind === 'calibration') {
             step(f, []);
           }

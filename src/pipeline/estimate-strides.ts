@@ -40,6 +40,8 @@ interface Detector {
   candidate: Sample | null;
   /** Highest length since the search started, before the candidate. */
   peakBeforeMm: number;
+  /** Highest length after the candidate. */
+  peakAfterMm: number;
   runningMaxMm: number;
 }
 
@@ -123,9 +125,13 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
       if (d.candidate === null) {
         d.candidate = s;
         d.peakBeforeMm = mm;
+        d.peakAfterMm = Number.NEGATIVE_INFINITY;
       } else if (mm < d.candidate.smoothMm) {
         d.candidate = s;
         d.peakBeforeMm = d.runningMaxMm;
+        d.peakAfterMm = Number.NEGATIVE_INFINITY;
+      } else if (mm > d.peakAfterMm) {
+        d.peakAfterMm = mm;
       }
       if (mm > d.runningMaxMm) d.runningMaxMm = mm;
       const c = d.candidate;
@@ -137,6 +143,7 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         // The candidate sat at the start of a rise, not at a cycle's minimum: look again from here.
         d.candidate = s;
         d.peakBeforeMm = mm;
+        d.peakAfterMm = Number.NEGATIVE_INFINITY;
         d.runningMaxMm = mm;
       }
     };
@@ -164,11 +171,12 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         lastBoundaryS: Number.NaN,
         candidate: null,
         peakBeforeMm: Number.NEGATIVE_INFINITY,
+        peakAfterMm: Number.NEGATIVE_INFINITY,
         runningMaxMm: Number.NEGATIVE_INFINITY,
       };
       notice(
         name,
-        `${name}: no foot strikes of its side in its first ${windowS} s, so its strides are ESTIMATED from its fascicle length (period ${period.periodS.toFixed(2)} s, one stride per cycle from each cycle's shortest length; no stance/swing phases). Give gait events (foot_strike, toe_off) for strides from foot strike to foot strike`,
+        `${name}: no foot strikes of its side in its first ${windowS} s, so its strides are ESTIMATED from its fascicle length (period ${period.periodS.toFixed(2)} s, one stride per cycle; each starts at the fascicle-length minimum, not at a foot strike; no stance/swing phases). Give gait events (foot_strike, toe_off) for strides from foot strike to foot strike`,
       );
       // The window's samples, held in order, go through the detector now.
       const mine: Sample[] = [];
@@ -304,6 +312,13 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         // The input ended inside a window: decide from what it holds; then everything still held goes,
         // the samples after the last boundary staying in the unfinished stride.
         for (const [name, m] of muscles) if (m.mode === 'undecided') decide(name, m);
+        // A minimum the input ended less than half a period after still closes the last full cycle, when the
+        // signal came down to it and back up by the cycle's depth.
+        for (const [name, m] of muscles) {
+          const d = m.detector;
+          const c = d?.candidate ?? null;
+          if (d !== null && c !== null && d.peakBeforeMm - c.smoothMm >= d.depthMm && d.peakAfterMm - c.smoothMm >= d.depthMm) commit(name, m, d);
+        }
         for (const m of muscles.values()) if (m.detector !== null) m.detector = null;
         const out: Frame[] = [];
         release(out);

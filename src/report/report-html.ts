@@ -7,6 +7,8 @@
 import { basename } from 'node:path';
 import { REGION_KEYS, REGION_LABEL, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
+import { ARCHITECTURE_PRIOR_CAUTION, METHOD_LABEL } from '../model/calibration.ts';
+import { wholeMuscleShapeNote } from '../model/muscle-model.ts';
 import type { MuscleJson, SummaryJson } from '../output/summary-json.ts';
 import { REGION_COLOUR } from './colours.ts';
 import { curveOf, cycleRows, lengthDomain, strideRows, timeAtLength, toeOffPercent } from './plot-data.ts';
@@ -66,7 +68,16 @@ function flagsOf(s: SummaryJson, m: MuscleJson): string[] {
   const flags: string[] = [];
   if (m.calibration_source === null || m.calibration_source === 'baseline') flags.push('uncalibrated: lengths assume a plateau-middle start');
   if (m.side_source === 'assumed') flags.push('side assumed from the first foot strike');
-  if (m.segmentation === 'estimated') flags.push('strides estimated from the fascicle signal');
+  if (m.segmentation === 'estimated') {
+    flags.push('strides estimated from the fascicle signal: each starts at the fascicle-length minimum, not at a foot strike (0 % of the cycle)');
+  }
+  // Newer summaries only: each key is absent in older ones.
+  if (m.calibration_method === METHOD_LABEL.architecture_prior) flags.push(`${METHOD_LABEL.architecture_prior}: ${ARCHITECTURE_PRIOR_CAUTION}`);
+  if (m.activation != null) {
+    flags.push(`optimal length shifts with activation (λ ${m.activation.shift}; activation ${m.activation.assumed} where samples carry none): force moves, regions stay`);
+  }
+  const shapeNote = m.shape === undefined ? null : wholeMuscleShapeNote(m.shape);
+  if (shapeNote !== null) flags.push(shapeNote);
   const flagged = m.trial.flagged_count ?? m.strides.filter((x) => x.flagged === true).length;
   if (flagged > 0) flags.push(`${flagged} stride${flagged === 1 ? '' : 's'} flagged for gaps and left out`);
   if (!s.ended) flags.push('trial stopped before its end');

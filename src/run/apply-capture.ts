@@ -2,6 +2,7 @@
 import type { TrialRun } from './run-trial.ts';
 import { captureCalibration } from './capture-calibration.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
+import { toolVersion } from './tool-version.ts';
 
 /**
  * Takes the muscle's last 3 s of raw fascicle lengths at an assumed sarcomere length, applies the result
@@ -10,7 +11,10 @@ import { writeFileAtomic } from '../output/write-file.ts';
  */
 export async function applyCapture(trial: TrialRun, muscle: string, sarcomereUm: number, folder = 'sessions'): Promise<string> {
   const species = trial.latest().muscles.get(muscle)?.species ?? 'human';
-  const result = captureCalibration(muscle, species, trial.recent.window(muscle, 3), sarcomereUm);
+  const result = captureCalibration(muscle, species, trial.recent.window(muscle, 3), sarcomereUm, {
+    created_utc: new Date().toISOString(),
+    tool_version: toolVersion(),
+  });
   if (!result.ok) return result.message;
   trial.inject([result.frame]);
   const stamp = new Date().toISOString().replaceAll(':', '-').replace(/\..*/, '');

@@ -15,7 +15,13 @@ export const MIN_CAPTURE_SAMPLES = 20;
  * N = median fascicle (mm) × 1000 / assumed sarcomere length (µm): the `reference` method of the
  * calibration contract. The result carries both the frame for the running pipeline and the JSON to save.
  */
-export function captureCalibration(muscle: string, species: Species, fascicleMm: readonly number[], sarcomereUm: number): CaptureResult {
+export function captureCalibration(
+  muscle: string,
+  species: Species,
+  fascicleMm: readonly number[],
+  sarcomereUm: number,
+  provenance: Readonly<Record<string, unknown>> = {},
+): CaptureResult {
   if (!isPlausibleSarcomereUm(sarcomereUm)) {
     return { ok: false, message: `an assumed sarcomere length of ${sarcomereUm} µm is not plausible; give a value between ${PLAUSIBLE_SARCOMERE_UM.min} and ${PLAUSIBLE_SARCOMERE_UM.max} µm (e.g. 2.7 for a human muscle near its plateau)` };
   }
@@ -32,6 +38,16 @@ export function captureCalibration(muscle: string, species: Species, fascicleMm:
     fascicleMm: mid,
     spreadPercent,
     frame: { kind: 'calibration', muscle, calibration, sarcomeresInSeries: n, source: 'runtime' },
-    json: { muscles: { [muscle]: { species, method: 'reference', reference_fascicle_mm: mid, reference_sarcomere_um: sarcomereUm } } },
+    json: {
+      muscles: {
+        [muscle]: {
+          species,
+          method: 'reference',
+          reference_fascicle_mm: mid,
+          reference_sarcomere_um: sarcomereUm,
+          provenance: { method: 'captured on the dashboard from the last seconds', sarcomere_lengths_um: [sarcomereUm], ...provenance },
+        },
+      },
+    },
   };
 }

@@ -29,6 +29,8 @@ export interface Sample {
   readonly pennationDeg: number;
   /** Tracking quality in [0, 1]; 1 when the device sent none. */
   readonly quality: number;
+  /** Activation in [0, 1] (e.g. a normalised EMG envelope); NaN when the device sent none. */
+  readonly activation: number;
   /** 1-based line (file) or message index (live) the sample came from. */
   readonly line: number;
 
@@ -169,6 +171,7 @@ export function makeSample(
   pennationDeg: number,
   quality: number,
   line: number,
+  activation: number = Number.NaN,
 ): Sample {
   return {
     kind: 'sample',
@@ -177,6 +180,7 @@ export function makeSample(
     fascicleMm,
     pennationDeg,
     quality,
+    activation,
     line,
     lowQuality: false,
     smoothMm: Number.NaN,

@@ -7,6 +7,9 @@ import type { Segmentation } from './stride-summary.ts';
 import type { RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
 import type { Species } from '../model/species.ts';
+import type { CountSpread, SpreadShape } from '../model/count-spread.ts';
+import type { CalibrationProvenance, MuscleCalibration } from '../model/calibration.ts';
+import type { CurveShape } from '../model/muscle-model.ts';
 import type { RejectReason } from './reasons.ts';
 import type { Sample, Side } from './records.ts';
 
@@ -55,6 +58,18 @@ export interface MuscleState {
   /** NaN until known (an uncalibrated muscle learns it from its baseline window). */
   sarcomeresInSeries: number;
   calibrationSource: CalibrationSource | null;
+  /** The calibration's method (null until known). */
+  calibrationMethod?: MuscleCalibration['method'] | null;
+  /** Where the calibration came from, when it says. */
+  provenance?: CalibrationProvenance | null;
+  /** Which curve gives the force (absent: geometric). */
+  shape?: CurveShape;
+  /** λ of the activation-dependent optimal length; 0 (or absent) when off. */
+  activationShift?: number;
+  /** The calibration's activation for samples that carry none; NaN (or absent) when it gives none. */
+  activation?: number;
+  /** Samples of the muscle that carried their own activation. */
+  activationSamples?: number;
   /** The newest fully enriched sample; the dashboard reads its fields. */
   latest: Sample | null;
   /** Running figures of the stride in progress (null before the first foot strike). */
@@ -66,6 +81,8 @@ export interface MuscleState {
   segmentation?: Segmentation | null;
   /** SD of the sarcomere count relative to the count, from the calibration; 0 when it states none. */
   relativeSd?: number;
+  /** How that uncertainty is distributed (src/model/count-spread.ts); lognormal when absent. */
+  spreadShape?: SpreadShape;
   /** The latest sample's probability of each region (calibration uncertainty); null when there is none. */
   regionProbability?: Record<RegionKey, number> | null;
   /** Sarcomere length over the gait cycle (mean and spread across unflagged strides). */
@@ -108,4 +125,9 @@ export interface TrialState {
 
 export function emptyFrameCounts(): FrameCounts {
   return { received: 0, accepted: 0, lowQuality: 0, rejected: 0, rejectedByReason: {}, gaitEvents: 0, markers: 0, headers: 0 };
+}
+
+/** A muscle's calibration spread, as its state keeps it. */
+export function spreadOf(m: Pick<MuscleState, 'relativeSd' | 'spreadShape'>): CountSpread {
+  return { relativeSd: m.relativeSd ?? 0, shape: m.spreadShape ?? 'lognormal' };
 }

@@ -5,9 +5,10 @@
  */
 import { REGION_KEYS, zeroRegionRecord, type RegionKey } from '../model/regions.ts';
 import type { ForceLengthCurve } from '../model/geometry.ts';
-import { DEFAULT_QUANTILE_POINTS, quantilePoints, regionProbabilities } from '../model/region-probability.ts';
+import { DEFAULT_QUANTILE_POINTS, INTERVAL_HIGH, INTERVAL_LOW, quantilePoints, regionProbabilities } from '../model/region-probability.ts';
 import { regionLowerBoundsUm } from '../model/geometry.ts';
-import { binnedQuantile, quantileBySelection } from '../model/stats.ts';
+import { binnedQuantile, quantileOfMidpointsBySelection } from '../model/stats.ts';
+import { lengthRatioAt, type CountSpread } from '../model/count-spread.ts';
 import {
   CYCLE_POINTS,
   HISTOGRAM_BIN_UM,
@@ -83,19 +84,20 @@ const scratch = {
  * quantity as the model's strideRegionFractions (src/model/region-probability.ts), computed from the
  * histogram in O(bins + M) instead of O(samples × M). The expected fraction is the time-weighted mean of
  * the model's per-length probabilities at each non-empty bin's centre. For the interval, at each of the M
- * equal-probability points of N the lengths are re-scaled by N̂/N; a region [a, b) of true length then
- * holds the time the estimate spends in [a·N/N̂, b·N/N̂), read off the cumulative histogram (uniform within
- * a bin, so within 1 nm of the exact thresholds). The 5th and 95th percentiles over the M points follow.
+ * equal-probability points of N the true lengths are the estimates × r (r = SL* ÷ SL there); a region [a, b)
+ * of true length then holds the time the estimate spends in [a/r, b/r), read off the cumulative histogram
+ * (uniform within a bin, so within 1 nm of the exact thresholds). The 5th and 95th percentiles over the M
+ * points follow, at the points' own positions (j + ½)/M.
  */
 export function histogramRegionProbability(
   curve: ForceLengthCurve,
   weights: Float64Array,
-  relativeSd: number,
+  spread: CountSpread,
   lo = 0,
   hi = weights.length - 1,
   quantilePointCount: number = DEFAULT_QUANTILE_POINTS,
 ): RegionProbabilityFigures | null {
-  if (!(relativeSd > 0) || hi < lo) return null;
+  if (!(spread.relativeSd > 0) || hi < lo) return null;
   const span = hi - lo + 1;
   // Scratch space shared by every call (synchronous, so never in use twice): no garbage per stride.
   const cumulative = scratch.cumulative;
@@ -106,7 +108,7 @@ export function histogramRegionProbability(
     const w = weights[lo + i] as number;
     cumulative[i + 1] = (cumulative[i] as number) + w;
     if (!(w > 0)) continue;
-    regionProbabilities(curve, (lo + i + 0.5) * HISTOGRAM_BIN_UM, relativeSd, p);
+    regionProbabilities(curve, (lo + i + 0.5) * HISTOGRAM_BIN_UM, spread, p);
     for (let r = 0; r < REGIONS; r++) expected[r] = (expected[r] as number) + w * (p[r] as number);
   }
   const total = cumulative[span] as number;
@@ -125,14 +127,15 @@ export function histogramRegionProbability(
   if (scratch.columns.length < REGIONS * m) scratch.columns = new Float64Array(REGIONS * m);
   const columns = Array.from({ length: REGIONS }, (_, r) => scratch.columns.subarray(r * m, (r + 1) * m));
   for (let j = 0; j < m; j++) {
-    const ratio = 1 + relativeSd * (z[j] as number);
+    const ratio = lengthRatioAt(spread, z[j] as number);
     if (!(ratio > 0)) {
-      for (let r = 0; r < REGIONS; r++) (columns[r] as Float64Array)[j] = r === REGIONS - 1 ? 1 : 0;
+      // A true length of zero or less (a length-normal spread's far tail): too short.
+      for (let r = 0; r < REGIONS; r++) (columns[r] as Float64Array)[j] = r === 0 ? 1 : 0;
       continue;
     }
     let previous = 0;
     for (let r = 0; r < REGIONS; r++) {
-      const upper = r + 1 < REGIONS ? below((bounds[r + 1] as number) * ratio) : total;
+      const upper = r + 1 < REGIONS ? below((bounds[r + 1] as number) / ratio) : total;
       (columns[r] as Float64Array)[j] = (upper - previous) / total;
       previous = upper;
     }
@@ -157,8 +160,8 @@ export function histogramRegionProbability(
       high[key] = min;
       continue;
     }
-    low[key] = quantileBySelection(column, 0.05);
-    high[key] = quantileBySelection(column, 0.95);
+    low[key] = quantileOfMidpointsBySelection(column, INTERVAL_LOW);
+    high[key] = quantileOfMidpointsBySelection(column, INTERVAL_HIGH);
   }
   return { expected: expectedRecord, low, high };
 }
@@ -230,7 +233,7 @@ export class SegmentAccumulator {
     if (velocityMmS > this.velocityMaxMmS) this.velocityMaxMmS = velocityMmS;
   }
 
-  finish(endS: number, curve: ForceLengthCurve, relativeSd: number): SegmentFigures {
+  finish(endS: number, curve: ForceLengthCurve, spread: CountSpread): SegmentFigures {
     const covered = this.coveredS;
     const regionFraction = zeroRegionRecord();
     for (let r = 0; r < REGIONS; r++) {
@@ -251,7 +254,7 @@ export class SegmentAccumulator {
       slP95Um: clampTo(histogramQuantile(h.weights, 0.95, h.lo, h.hi)),
       excursionUm: max - min,
       regionFraction,
-      regionProbability: histogramRegionProbability(curve, h.weights, relativeSd, h.lo, h.hi),
+      regionProbability: histogramRegionProbability(curve, h.weights, spread, h.lo, h.hi),
       forceMean: covered > 0 ? this.forceSeconds / covered : Number.NaN,
       forceLvMean: this.forceLvCoveredS > 0 ? this.forceLvSeconds / this.forceLvCoveredS : Number.NaN,
       forceTendonMean: this.forceTendonCoveredS > 0 ? this.forceTendonSeconds / this.forceTendonCoveredS : Number.NaN,

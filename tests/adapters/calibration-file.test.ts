@@ -67,6 +67,53 @@ describe('parseCalibration: valid calibrations', () => {
     });
   });
 
+  it('reads a prior from published architecture, a two-posture count with its constant part, activation and provenance', () => {
+    const r = parseCalibration({
+      muscles: {
+        calf: {
+          method: 'architecture_prior',
+          prior_fibre_mm: 44,
+          prior_fibre_sd_mm: 9.9,
+          prior_sarcomere_um: 2.7,
+          prior_source: 'an invented table',
+          between_fibre_sd_um: 0.21,
+          activation_shift: 0.15,
+          activation: 0.25,
+        },
+        thigh: {
+          method: 'sarcomere_count',
+          sarcomeres_in_series: 30_303,
+          sarcomeres_in_series_sd: 1200,
+          sarcomeres_in_series_sd_from: 'sarcomere_length',
+          fascicle_offset_mm: -6.1,
+          provenance: { method: 'two postures', source_sha256: 'a'.repeat(64), windows_s: [[1, 4], [10, 13]], sarcomere_lengths_um: [2.84, 3.17] },
+        },
+      },
+    });
+    expect(r.ok && r.spec.muscles).toEqual({
+      calf: {
+        species: 'human',
+        method: 'architecture_prior',
+        priorFibreMm: 44,
+        priorFibreSdMm: 9.9,
+        priorSarcomereUm: 2.7,
+        priorSource: 'an invented table',
+        dispersionSdUm: 0.21,
+        activationShift: 0.15,
+        activation: 0.25,
+      },
+      thigh: {
+        species: 'human',
+        method: 'sarcomere_count',
+        sarcomeresInSeries: 30_303,
+        sarcomeresInSeriesSd: 1200,
+        sarcomeresInSeriesSdFrom: 'sarcomere_length',
+        fascicleOffsetMm: -6.1,
+        provenance: { method: 'two postures', sourceSha256: 'a'.repeat(64), windowsS: [[1, 4], [10, 13]], sarcomereLengthsUm: [2.84, 3.17] },
+      },
+    });
+  });
+
   it('accepts an empty muscle list', () => {
     expect(parseCalibration({ muscles: {} })).toEqual({ ok: true, spec: { muscles: {} } });
   });
@@ -109,7 +156,7 @@ describe('parseCalibration: bad input', () => {
 
   it('names an unknown method', () => {
     expect(problemsOf({ muscles: { calf: { method: 'guess' } } })[0]).toBe(
-      'muscles.calf.method: unknown or missing "method"; accepted: "sarcomere_count", "reference", "optimal_length"',
+      'muscles.calf.method: unknown or missing "method"; accepted: "sarcomere_count", "reference", "optimal_length", "architecture_prior"',
     );
   });
 
@@ -135,7 +182,27 @@ describe('parseCalibration: bad input', () => {
   it('names a dispersion SD out of range', () => {
     expect(
       problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, dispersion_sd_um: 3 } } })[0],
-    ).toMatch(/dispersion_sd_um: too large; accepted: a sarcomere-length SD in µm/);
+    ).toMatch(/dispersion_sd_um: too large; accepted: an SD of sarcomere length between fibres in µm/);
+  });
+
+  it('refuses SDs that leave the count with a relative SD above 0.5, saying why', () => {
+    // Between-person SDs of two postures' sarcomere lengths (2.84 ± 0.16 and 3.17 ± 0.13 µm, Chen, Sanchez,
+    // Schnitzer & Delp 2016, J Biomech 49:2989–2994, abstract) leave their difference 0.33 ± 0.21 µm: 0.62.
+    const sd = Math.round(30_303 * (Math.hypot(0.16, 0.13) / 0.33));
+    const problems = problemsOf({ muscles: { thigh: { method: 'sarcomere_count', sarcomeres_in_series: 30_303, sarcomeres_in_series_sd: sd } } });
+    expect(problems[0]).toMatch(/^muscles.thigh: the stated SDs give the sarcomere count a relative SD of 0.62; accepted: 0 to 0.5\. .*not a between-person SD/);
+  });
+
+  it('refuses a between-fibre SD given under both its names with two values', () => {
+    const problems = problemsOf({
+      muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, between_fibre_sd_um: 0.2, dispersion_sd_um: 0.1 } },
+    });
+    expect(problems[0]).toMatch(/"between_fibre_sd_um" \(0.2\) and its older name "dispersion_sd_um" \(0.1\) disagree/);
+  });
+
+  it('asks a prior from published architecture for its source', () => {
+    const problems = problemsOf({ muscles: { calf: { method: 'architecture_prior', prior_fibre_mm: 44, prior_sarcomere_um: 2.7 } } });
+    expect(problems[0]).toMatch(/muscles.calf.prior_source: accepted: the publication the values come from/);
   });
 
   it('ends its list with the accepted shape of the whole file', () => {

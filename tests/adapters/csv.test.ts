@@ -67,7 +67,17 @@ describe('parseCsvHeaderRow', () => {
       quality: -1,
       event: 3,
       side: 0,
+      activation: -1,
     });
+  });
+
+  it('reads an activation column (0–1) carefully and refuses a value outside it', () => {
+    const parse = createCsvParser();
+    parse('time_s,muscle,fascicle_mm,activation', 1);
+    const sample = parse('0.01,calf,52.3,0.25', 2);
+    expect(sample).toMatchObject({ kind: 'sample', fascicleMm: 52.3, activation: 0.25 });
+    expect(parse('0.02,calf,52.4,', 3)).toMatchObject({ kind: 'sample', activation: Number.NaN });
+    expect(parse('0.03,calf,52.5,1.4', 4)).toMatchObject({ kind: 'rejection', reason: 'out_of_range', message: expect.stringMatching(/^activation is 1.4: must be a number from 0 to 1/) });
   });
 
   it('names every missing required column in one message', () => {

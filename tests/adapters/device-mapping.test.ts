@@ -89,6 +89,13 @@ describe('parseDeviceMapping', () => {
     expect(r.ok && r.mapping).toMatchObject({ lengthUnit: 'mm', angleUnit: 'deg', timeUnit: 's', timeOffsetS: 0, fields: { fascicle: 'fascicle_mm' } });
   });
 
+  it('maps a device field to the activation of a sample', () => {
+    const r = parseDeviceMapping({ format: 'lengthwise-mapping', version: 1, fields: { activation: 'emg_env' } });
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(applyMapping({ t: 1, muscle: 'calf', fascicle_mm: 50, emg_env: 0.3 }, r.mapping)).toEqual({ t: 1, muscle: 'calf', fascicle_mm: 50, activation: 0.3 });
+  });
+
   it.each([
     [{ format: 'lengthwise-mapping', version: 1, units: { length: 'inch' } }, /units\.length: accepted: "m", "cm" or "mm"/],
     [{ format: 'lengthwise-mapping', version: 2 }, /version: must be 1/],

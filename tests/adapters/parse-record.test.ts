@@ -34,6 +34,16 @@ describe('parseRecordValue: valid records', () => {
     expect(frame).toMatchObject({ kind: 'sample', tS: 1.5, muscle: 'thigh, front', fascicleMm: 80, pennationDeg: 12.5, quality: 0.4 });
   });
 
+  it('reads an activation (0–1), NaN when there is none, on the quick and the careful path alike', () => {
+    expect(parseRecordValue({ t: 1, muscle: 'calf', fascicle_mm: 50, activation: 0.25 }, 1, '')).toMatchObject({ kind: 'sample', activation: 0.25 });
+    expect(parseRecordValueBySchema({ t: 1, muscle: 'calf', fascicle_mm: 50, activation: 0.25 }, 1, '')).toMatchObject({ kind: 'sample', activation: 0.25 });
+    expect(parseRecordValue({ t: 1, muscle: 'calf', fascicle_mm: 50 }, 1, '')).toMatchObject({ kind: 'sample', activation: Number.NaN });
+    expect(rejection(parseRecordValue({ t: 1, muscle: 'calf', fascicle_mm: 50, activation: 1.2 }, 1, ''))).toMatchObject({
+      reason: 'out_of_range',
+      message: expect.stringMatching(/activation.*must be a number from 0 to 1/),
+    });
+  });
+
   it('accepts the edges of the ranges: pennation 0 and 90, quality 0 and 1, negative device time', () => {
     // A pennation angle is the angle between fascicle and aponeurosis, 0–90° by definition (common practice, no source).
     for (const extra of [{ pennation_deg: 0 }, { pennation_deg: 90 }, { quality: 0 }, { quality: 1 }, { t: -3 }]) {

@@ -31,4 +31,20 @@ describe('parseCommandArgs', () => {
     expect(parseCommandArgs('curve', 'usage: y', ['stray'], OPTIONS, d.io, { allowPositionals: false })).toBe(2);
     expect(d.err[0]).toContain('stray');
   });
+
+  it('refuses an option that takes one value given twice, naming both values, rather than keeping the last', () => {
+    const c = captureIo();
+    expect(parseCommandArgs('replay', 'usage: x', ['a.ndjson', '--speed', '4', '--speed=max'], OPTIONS, c.io)).toBe(2);
+    expect(c.err[0]).toBe('lengthwise replay: --speed was given 2 times ("4", "max"); it takes one value: give it once\n(lengthwise replay --help for the usage)');
+    const d = captureIo();
+    expect(parseCommandArgs('replay', 'usage: x', ['--plain', '--plain'], OPTIONS, d.io)).toBe(2);
+    expect(d.err[0]).toMatch(/--plain was given 2 times: give it once/);
+  });
+
+  it('takes an option declared as repeatable as often as it is given', () => {
+    const c = captureIo();
+    const parsed = parseCommandArgs('curve', 'usage: y', ['--sl', '2', '--sl', '3'], { sl: { type: 'string', multiple: true } }, c.io);
+    if (typeof parsed === 'number') throw new Error('expected values');
+    expect(parsed.values.sl).toEqual(['2', '3']);
+  });
 });

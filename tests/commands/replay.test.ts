@@ -167,6 +167,56 @@ describe('lengthwise replay --mapping', () => {
   });
 });
 
+describe('lengthwise replay: calibration methods, activation and estimated strides in the outputs', () => {
+  it('says a prior from published architecture with its caution, the activation shift, a whole-muscle shape and where estimated strides start', async () => {
+    const dir = await tmp();
+    // An invented trial: a steady 1.1 s cycle with no gait events, and an activation per sample (an EMG-like envelope).
+    const lines = [JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side: 'left' } } })];
+    for (let i = 0; i <= 1320; i++) {
+      const t = i / 100;
+      const activation = Number((0.2 + 0.15 * Math.cos((2 * Math.PI * t) / 1.1)).toFixed(3));
+      lines.push(JSON.stringify({ t, muscle: 'calf', fascicle_mm: Number((60 + 5 * Math.cos((2 * Math.PI * t) / 1.1)).toFixed(3)), activation }));
+    }
+    const trial = join(dir, 'walk.ndjson');
+    await writeFile(trial, `${lines.join('\n')}\n`);
+    const calibration = join(dir, 'cal.json');
+    await writeFile(
+      calibration,
+      JSON.stringify({
+        muscles: {
+          calf: { method: 'architecture_prior', prior_fibre_mm: 60, prior_fibre_sd_mm: 6, prior_sarcomere_um: 2.7, prior_source: 'an invented table', shape: 'gaussian', activation_shift: 0.15 },
+        },
+      }),
+    );
+    const summaryPath = join(dir, 'summary.json');
+    const reportPath = join(dir, 'report.html');
+    const ran = await lengthwise(['replay', trial, '--calibration', calibration, '--speed', 'max', '--plain', '--summary', summaryPath, '--report', reportPath]);
+    expect(ran.code).toBe(0);
+    const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
+    const calf = summary.muscles.calf;
+    expect(calf.calibration_method).toBe('prior from published architecture');
+    expect(calf.sarcomeres_in_series).toBeCloseTo(60_000 / 2.7, 6);
+    expect(calf.sarcomeres_in_series_relative_sd).toBeCloseTo(0.1, 12);
+    expect(calf.sarcomeres_in_series_distribution).toBe('lognormal');
+    expect(calf.shape).toBe('gaussian');
+    expect(calf.activation).toEqual({ shift: 0.15, assumed: 1, samples_with_activation: 1321 });
+    expect(calf.segmentation).toBe('estimated');
+    expect(calf.stride_start).toBe('fascicle_length_minimum');
+    // Minima at 0.55 + 1.1k s, k = 0…11: eleven full cycles, all counted.
+    expect(calf.trial.stride_count).toBe(11);
+    const warnings = summary.warnings.join('\n');
+    expect(warnings).toMatch(/calf: calibrated by a prior from published architecture \(an invented table\): cadaveric fibre length is not the living fascicle length/);
+    expect(warnings).toMatch(/calf: optimal length shifts with activation/);
+    expect(warnings).toMatch(/calf: force from the gaussian shape, a whole-muscle curve/);
+    expect(warnings).toMatch(/each starts at the fascicle-length minimum, not at a foot strike/);
+    const html = await readFile(reportPath, 'utf8');
+    expect(html).toContain('prior from published architecture: cadaveric fibre length is not the living fascicle length');
+    expect(html).toContain('each starts at the fascicle-length minimum, not at a foot strike');
+    expect(html).toContain('optimal length shifts with activation');
+    expect(html).toContain('force from the gaussian shape, a whole-muscle curve');
+  });
+});
+
 describe('parseSpeed', () => {
   it('takes a positive number or max', () => {
     expect(parseSpeed('4')).toEqual({ ok: true, speed: 4 });

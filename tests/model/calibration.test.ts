@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   checkCalibrationAgainstTrial,
+  fascicleOffsetMm,
   modelOptionsFor,
   muscleModelFor,
   sarcomereCountSpread,
@@ -111,5 +112,43 @@ describe('checkCalibrationAgainstTrial', () => {
   it('flags a non-positive or NaN count', () => {
     expect(checkCalibrationAgainstTrial('calf', 0, 40, 70).ok).toBe(false);
     expect(checkCalibrationAgainstTrial('calf', Number.NaN, 40, 70).ok).toBe(false);
+  });
+});
+
+describe('the count’s spread and the constant part of the tracked length', () => {
+  it('is lognormal for an error in the count, and normal in the length for an error in the reference sarcomere length', () => {
+    expect(sarcomereCountSpread({ species: 'human', method: 'sarcomere_count', sarcomeresInSeries: 20_000, sarcomeresInSeriesSd: 1000 }, human).shape).toBe('lognormal');
+    expect(
+      sarcomereCountSpread(
+        { species: 'human', method: 'sarcomere_count', sarcomeresInSeries: 20_000, sarcomeresInSeriesSd: 1000, sarcomeresInSeriesSdFrom: 'sarcomere_length' },
+        human,
+      ).shape,
+    ).toBe('length_normal');
+    expect(
+      sarcomereCountSpread({ species: 'human', method: 'reference', referenceFascicleMm: 80, referenceSarcomereUm: 2.5, referenceSarcomereSdUm: 0.1 }, human).shape,
+    ).toBe('length_normal');
+    expect(
+      sarcomereCountSpread(
+        { species: 'human', method: 'reference', referenceFascicleMm: 80, referenceSarcomereUm: 2.5, referenceSarcomereSdUm: 0.1, referenceFascicleSdMm: 2 },
+        human,
+      ).shape,
+    ).toBe('lognormal');
+  });
+
+  it('takes N from a published fibre length normalised to a sarcomere length, its SD from the fibre length’s', () => {
+    // An invented table entry: 60 mm ± 12 mm at 2.7 µm gives 22 222 sarcomeres, relative SD 0.2.
+    const s = sarcomereCountSpread(
+      { species: 'human', method: 'architecture_prior', priorFibreMm: 60, priorFibreSdMm: 12, priorSarcomereUm: 2.7, priorSource: 'invented' },
+      human,
+    );
+    expect(s.count).toBeCloseTo(60_000 / 2.7, 9);
+    expect(s.relativeSd).toBeCloseTo(0.2, 12);
+    expect(s.shape).toBe('lognormal');
+  });
+
+  it('subtracts the constant part of the tracked length before dividing by the count', () => {
+    expect(sarcomereUmFromFascicle(66, 20_000, 12)).toBeCloseTo(2.7, 12);
+    expect(fascicleOffsetMm({ species: 'human', method: 'sarcomere_count', sarcomeresInSeries: 20_000, fascicleOffsetMm: 12 })).toBe(12);
+    expect(fascicleOffsetMm({ species: 'human', method: 'optimal_length', optimalFascicleMm: 60 })).toBe(0);
   });
 });

@@ -71,6 +71,18 @@ describe('dispersed geometric force', () => {
     expect(model.forceAt(model.curve.descendingZeroUm)).toBeGreaterThan(0);
   });
 
+  it('spreads a Gaussian shape as the convolution of two Gaussians does, from 0.2 to 2.2 optimal lengths', () => {
+    // A Gaussian exp(−(l − 1)²/γ) convolved with a normal density of SD s is √(γ/(γ + 2s²))·exp(−(l − 1)²/(γ + 2s²))
+    // (the convolution of two Gaussians; common practice, no source). Here γ = 0.45 (Thelen 2003) and s = σ/L0.
+    const model = makeMuscleModel({ shape: 'gaussian', dispersionSdUm: 0.21 });
+    const s = 0.21 / model.optimalUm;
+    const widened = 0.45 + 2 * s * s;
+    for (const l of [0.25, 0.5, 1, 1.5, 1.9, 2.15]) {
+      const exact = Math.sqrt(0.45 / widened) * Math.exp(-((l - 1) ** 2) / widened);
+      expect(Math.abs(model.forceAt(l * model.optimalUm) - exact)).toBeLessThan(1e-5);
+    }
+  });
+
   it('stays within 0–1', () => {
     fc.assert(
       fc.property(speciesArb, fc.double({ min: 0.001, max: 0.6, noNaN: true }), fc.double({ min: -1, max: 8, noNaN: true }), (species, sd, sl) => {
@@ -81,8 +93,8 @@ describe('dispersed geometric force', () => {
     );
   });
 
-  it('with 0.2 µm SD (about the within-fibre spread, Cromie, Sanchez, Schnitzer & Delp 2013, Muscle Nerve 48:286–292) rounds the human plateau below 1', () => {
-    const model = makeMuscleModel({ dispersionSdUm: 0.2 });
+  it('with the between-fibre SD of 0.21 µm (Chen, Sanchez, Schnitzer & Delp 2016, J Biomech 49:2989–2994) rounds the human plateau below 1', () => {
+    const model = makeMuscleModel({ dispersionSdUm: 0.21 });
     const peak = model.forceAt(model.optimalUm);
     expect(peak).toBeLessThan(1);
     expect(peak).toBeGreaterThan(0.9);

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   DEFAULT_HILL_K,
   DEFAULT_LENGTHENING_PLATEAU,
+  DEFAULT_LENGTHENING_SLOPE_RATIO,
   DEFAULT_VMAX_L0_PER_S,
   alongTendonFactor,
   forceVelocityFactor,
@@ -55,7 +56,8 @@ describe('forceVelocityFactor: lengthening', () => {
     );
   });
 
-  it('leaves zero velocity twice as steeply as the shortening branch (Katz 1939, J Physiol 96:45–64 — from memory)', () => {
+  it('leaves zero velocity twice as steeply as the shortening branch: a modelling convention (e.g. van Soest & Bobbert 1993, Biol Cybern 69:195–204 — from memory), not a measurement', () => {
+    expect(DEFAULT_LENGTHENING_SLOPE_RATIO).toBe(2);
     const h = 1e-7;
     const lengthening = (forceVelocityFactor(h) - 1) / h;
     const shortening = (1 - forceVelocityFactor(-h)) / h;

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { THELEN_GAMMA, gaussianForceNorm, threeGaussianForceNorm } from '../../src/model/smooth-curves.ts';
+import { DE_GROOTE_2016, THELEN_GAMMA, gaussianForceNorm, threeGaussianForceNorm } from '../../src/model/smooth-curves.ts';
 
 describe('gaussianForceNorm (Thelen 2003, J Biomech Eng 125:70–77)', () => {
   it('uses γ = 0.45', () => {
@@ -27,6 +27,18 @@ describe('gaussianForceNorm (Thelen 2003, J Biomech Eng 125:70–77)', () => {
 });
 
 describe('threeGaussianForceNorm (De Groote, Kinney, Rao & Fregly 2016, Ann Biomed Eng 44:2922–2936)', () => {
+  it('uses the paper’s table: the third Gaussian in closed form (b33 = 0.5·√0.5 = 0.353553…), the others as recalled (from memory)', () => {
+    const [first, second, third] = DE_GROOTE_2016;
+    expect(third).toEqual([0.1, 1, 0.5 * Math.sqrt(0.5), 0]);
+    expect(third[2]).toBeCloseTo(0.353553390593274, 15);
+    // Its width term squared is exactly 1/8, so the third Gaussian is 0.1·exp(−4(l − 1)²).
+    expect(third[2] ** 2).toBeCloseTo(0.125, 15);
+    // The first two rows as recalled (the table not at hand): pinned so that a changed digit is seen.
+    expect(first).toEqual([0.814483478343008, 1.05503342897057, 0.162384573599574, 0.0633034484654646]);
+    expect(second).toEqual([0.433004984392647, 0.71677541339776, -0.0299471169706956, 0.200356847296188]);
+  });
+
+
   it('is about 1 at the optimal length', () => {
     expect(threeGaussianForceNorm(1)).toBeCloseTo(1, 2);
   });

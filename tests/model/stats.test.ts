@@ -6,7 +6,7 @@
 import fc from 'fast-check';
 import { median as d3Median, quantile as d3Quantile, quantileSorted as d3QuantileSorted } from 'd3-array';
 import { describe, expect, it } from 'vitest';
-import { binnedQuantile, median, medianSorted, quantile, quantileBySelection, quantileSorted } from '../../src/model/stats.ts';
+import { binnedQuantile, median, medianSorted, quantile, quantileBySelection, quantileOfMidpoints, quantileSorted } from '../../src/model/stats.ts';
 
 const values = fc.array(fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e6, max: 1e6 }), { minLength: 1, maxLength: 60 });
 const q = fc.double({ min: 0, max: 1, noNaN: true });
@@ -80,5 +80,24 @@ describe('binnedQuantile', () => {
     expect(binnedQuantile([0, 0], 0.5, 1)).toBeNaN();
     // An empty bin is jumped: half the weight lies in bin 0, so the median is the end of bin 0.
     expect(binnedQuantile([1, 0, 1], 0.5, 1)).toBe(1);
+  });
+});
+
+describe('quantileOfMidpoints', () => {
+  it('puts the i-th of M values at (i − ½)/M: type 5 of Hyndman & Fan 1996 (Am Stat 50:361–365 — from memory)', () => {
+    // Type 5 of 1…4: the 25th percentile is 1.5, the median 2.5, the 10th and 90th clamp to the ends.
+    expect(quantileOfMidpoints([1, 2, 3, 4], 0.25)).toBe(1.5);
+    expect(quantileOfMidpoints([1, 2, 3, 4], 0.5)).toBe(2.5);
+    expect(quantileOfMidpoints([1, 2, 3, 4], 0.1)).toBe(1);
+    expect(quantileOfMidpoints([1, 2, 3, 4], 0.9)).toBe(4);
+    expect(quantileOfMidpoints([], 0.5)).toBeNaN();
+  });
+
+  it('returns the 5th percentile of equal-probability points of a distribution at probability 0.05 exactly', () => {
+    // 200 points at (i − ½)/200 of the uniform distribution: the 5th percentile must be 0.05, which type 7 misses (0.05225).
+    const u = Array.from({ length: 200 }, (_, i) => (i + 0.5) / 200);
+    expect(quantileOfMidpoints(u, 0.05)).toBeCloseTo(0.05, 12);
+    expect(quantileOfMidpoints(u, 0.95)).toBeCloseTo(0.95, 12);
+    expect(quantileSorted(u, 0.05)).toBeCloseTo(0.05225, 12);
   });
 });

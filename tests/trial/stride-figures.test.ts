@@ -10,6 +10,7 @@ import {
   resampleCycle,
 } from '../../src/trial/stride-figures.ts';
 import { strideRegionFractions } from '../../src/model/region-probability.ts';
+import type { CountSpread } from '../../src/model/count-spread.ts';
 import { speciesCurve } from '../../src/model/species.ts';
 import { REGION_KEYS } from '../../src/model/regions.ts';
 import { CYCLE_POINTS, HISTOGRAM_BIN_UM } from '../../src/trial/state.ts';
@@ -62,20 +63,25 @@ describe('LengthHistogram and histogramQuantile', () => {
   });
 });
 
+function lognormal(relativeSd: number): CountSpread {
+  return { relativeSd, shape: 'lognormal' };
+}
+
 describe('histogramRegionProbability', () => {
   it('is null when the calibration states no uncertainty or nothing was seen', () => {
     const h = new LengthHistogram();
-    expect(histogramRegionProbability(human, h.weights, 0.05, h.lo, h.hi)).toBeNull();
+    expect(histogramRegionProbability(human, h.weights, lognormal(0.05), h.lo, h.hi)).toBeNull();
     h.add(2.7, 1);
-    expect(histogramRegionProbability(human, h.weights, 0, h.lo, h.hi)).toBeNull();
+    expect(histogramRegionProbability(human, h.weights, lognormal(0), h.lo, h.hi)).toBeNull();
   });
 
   it('gives Φ(1) for the region a length lies 1 SD inside (Abramowitz & Stegun 1964, Handbook of Mathematical Functions, Table 26.1: Φ(1) = 0.8413447 — from memory)', () => {
-    // Estimate 5% above the human plateau end (2.81 µm), count SD 5%: P(true SL ≥ 2.81) = Φ((SL/2.81 − 1)/0.05) = Φ(1).
-    const sl = human.plateauEndUm * 1.05;
+    // An estimate above the human plateau end (2.81 µm) by a factor e^s, with s = √ln(1 + 0.05²) the log-SD of a
+    // lognormal count of relative SD 5%: P(true SL ≥ 2.81) = Φ(ln(SL/2.81)/s) = Φ(1).
+    const sl = human.plateauEndUm * Math.exp(Math.sqrt(Math.log(1 + 0.05 ** 2)));
     const h = new LengthHistogram();
     h.add(sl, 1);
-    const p = histogramRegionProbability(human, h.weights, 0.05, h.lo, h.hi);
+    const p = histogramRegionProbability(human, h.weights, lognormal(0.05), h.lo, h.hi);
     const binCentre = (Math.floor(sl / HISTOGRAM_BIN_UM) + 0.5) * HISTOGRAM_BIN_UM;
     // The bin centre is at most half a bin from the length: about 0.004 in Φ at this slope.
     expect(Math.abs(binCentre - sl)).toBeLessThanOrEqual(HISTOGRAM_BIN_UM / 2);
@@ -91,14 +97,32 @@ describe('histogramRegionProbability', () => {
     const durations = new Float64Array(110).fill(0.01);
     const h = new LengthHistogram();
     sl.forEach((v) => h.add(v, 0.01));
-    for (const cv of [0.02, 0.05]) {
-      const ours = histogramRegionProbability(human, h.weights, cv, h.lo, h.hi);
-      const model = strideRegionFractions(human, sl, durations, cv);
+    for (const spread of [lognormal(0.02), lognormal(0.05), { relativeSd: 0.05, shape: 'length_normal' } as const]) {
+      const ours = histogramRegionProbability(human, h.weights, spread, h.lo, h.hi);
+      const model = strideRegionFractions(human, sl, durations, spread);
       for (const k of REGION_KEYS) {
         expect(Math.abs((ours?.expected[k] ?? 0) - model.expected[k])).toBeLessThan(2e-3);
         expect(Math.abs((ours?.low[k] ?? 0) - model.low[k])).toBeLessThan(0.02);
         expect(Math.abs((ours?.high[k] ?? 0) - model.high[k])).toBeLessThan(0.02);
       }
+    }
+  });
+});
+
+describe('histogramRegionProbability against the model’s interval', () => {
+  it('takes the 5th and 95th percentiles at the same positions as the model, so it too holds 90 % of N', () => {
+    // A fine invented stride spread evenly in log length across the plateau end: its descending-limb time moves
+    // smoothly with N, so a percentile taken at other positions (type 7: about 0.0523 and 0.9478) shows.
+    const n = 2000;
+    const sl = Float64Array.from({ length: n }, (_, i) => human.plateauEndUm * Math.exp(-0.18 + (0.36 * (i + 0.5)) / n));
+    const durations = new Float64Array(n).fill(0.0005);
+    const h = new LengthHistogram();
+    sl.forEach((v) => h.add(v, 0.0005));
+    for (const spread of [lognormal(0.05), { relativeSd: 0.05, shape: 'length_normal' } as const]) {
+      const ours = histogramRegionProbability(human, h.weights, spread, h.lo, h.hi);
+      const model = strideRegionFractions(human, sl, durations, spread);
+      expect(Math.abs((ours?.low.descending ?? 0) - model.low.descending)).toBeLessThan(0.002);
+      expect(Math.abs((ours?.high.descending ?? 0) - model.high.descending)).toBeLessThan(0.002);
     }
   });
 });

@@ -26,7 +26,8 @@ export function innerCols(panelCols: number): number {
 }
 
 /** How the panel names the muscle's calibration, in full and short, for narrow panels. */
-function calibrationText(source: string | null): { readonly full: string; readonly short: string } {
+function calibrationText(source: string | null, method: string | null): { readonly full: string; readonly short: string } {
+  if (method === 'architecture_prior' && source !== 'baseline') return { full: 'prior from published architecture', short: 'prior' };
   switch (source) {
     case null:
       return { full: 'calibration pending', short: 'pending' };
@@ -56,7 +57,8 @@ export default function MusclePanel({ muscle, layout, theme, focused = false }: 
   // The title depends on the muscle and its calibration only, so it stays still while the region changes.
   const titleText = `${focused ? '▸ ' : ''}${muscle.name}`;
   const room = Math.max(0, width - titleText.length - side.length - 4);
-  const cal = calibrationText(muscle.calibrationSource);
+  const cal = calibrationText(muscle.calibrationSource, muscle.calibrationMethod);
+  const optimum = muscle.optimum;
   const calText = cal.full.length <= room ? cal.full : cal.short.length <= room ? cal.short : '';
   return (
     <Box
@@ -97,6 +99,13 @@ export default function MusclePanel({ muscle, layout, theme, focused = false }: 
             <Text>{fixed(forceLv, 2)}</Text>
           </>
         ) : null}
+        {optimum === null ? null : (
+          <>
+            <Text {...theme.role('label')}>{'  L0 '}</Text>
+            <Text>{fixed(optimum.um, 2)}</Text>
+            <Text {...theme.role('label')}>{` at activation ${fixed(optimum.activation, 2)}`}</Text>
+          </>
+        )}
       </Text>
       <Text wrap="truncate-end">
         <Text {...theme.role('label')}>fascicle </Text>

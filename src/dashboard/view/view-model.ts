@@ -3,7 +3,8 @@
  * keeps the dashboard's own short memory (sparkline ring buffers, rates, how long a muscle has been
  * silent or of low quality). Pure apart from the tracker it is given; no React, no RxJS.
  */
-import type { ForceLengthCurve } from '../../model/geometry.ts';
+import { plateauMiddleUm, type ForceLengthCurve } from '../../model/geometry.ts';
+import { optimalLengthFactor } from '../../model/muscle-model.ts';
 import type { RegionKey } from '../../model/regions.ts';
 import type { Species } from '../../model/species.ts';
 import type { RejectReason } from '../../trial/reasons.ts';
@@ -59,6 +60,10 @@ export interface MuscleView {
   readonly species: Species;
   readonly curve: ForceLengthCurve;
   readonly calibrationSource: string | null;
+  /** The calibration's method (e.g. "architecture_prior"); null until known. */
+  readonly calibrationMethod: string | null;
+  /** Where the optimum lies at the latest sample's activation, when the optimal length shifts with activation. */
+  readonly optimum: { readonly um: number; readonly activation: number } | null;
   readonly latest: SampleView | null;
   /** The stride in progress (null before the first foot strike or before any length is known). */
   readonly current: RangeView | null;
@@ -77,6 +82,16 @@ export interface MuscleView {
   readonly regionProbability: Readonly<Record<RegionKey, number>> | null;
   /** Strides estimated from the fascicle signal rather than found from foot strikes. */
   readonly stridesEstimated: boolean;
+}
+
+/** L0 at the latest sample's activation (its own, else the calibration's, else 1); null when the shift is off. */
+function optimumOf(m: MuscleState): MuscleView['optimum'] {
+  const shift = m.activationShift ?? 0;
+  if (!(shift > 0)) return null;
+  const own = m.latest?.activation ?? Number.NaN;
+  const assumed = m.activation ?? Number.NaN;
+  const activation = !Number.isNaN(own) ? own : !Number.isNaN(assumed) ? assumed : 1;
+  return { um: plateauMiddleUm(m.curve) * optimalLengthFactor(activation, shift), activation };
 }
 
 export interface TrialView {
@@ -246,6 +261,8 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
       species: m.species,
       curve: m.curve,
       calibrationSource: m.calibrationSource,
+      calibrationMethod: m.calibrationMethod ?? null,
+      optimum: optimumOf(m),
       latest,
       current: m.current === null ? null : { index: m.current.index, slMinUm: m.current.slMinUm, slMaxUm: m.current.slMaxUm },
       previous: memory.previous,

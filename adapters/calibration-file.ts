@@ -51,13 +51,13 @@ const common = {
 const muscleCalibrationSchema = z.discriminatedUnion(
   'method',
   [
-    z.object({
+    z.strictObject({
       ...common,
       method: z.literal('sarcomere_count'),
       sarcomeres_in_series: within(100, 500_000, 'a count of sarcomeres in series'),
       sarcomeres_in_series_sd: within(0, 250_000, 'an SD of that count').optional(),
     }),
-    z.object({
+    z.strictObject({
       ...common,
       method: z.literal('reference'),
       reference_fascicle_mm: within(1, 1000, 'a fascicle length in mm'),
@@ -65,7 +65,7 @@ const muscleCalibrationSchema = z.discriminatedUnion(
       reference_sarcomere_sd_um: within(0, 1, 'an SD of the reference sarcomere length in µm').optional(),
       reference_fascicle_sd_mm: within(0, 100, 'an SD of the reference fascicle length in mm').optional(),
     }),
-    z.object({
+    z.strictObject({
       ...common,
       method: z.literal('optimal_length'),
       optimal_fascicle_mm: within(1, 1000, 'a fascicle length in mm'),
@@ -75,7 +75,7 @@ const muscleCalibrationSchema = z.discriminatedUnion(
   { error: 'unknown or missing "method"; accepted: "sarcomere_count", "reference", "optimal_length"' },
 );
 
-export const calibrationSchema = z.object({
+export const calibrationSchema = z.strictObject({
   muscles: z.record(z.string().min(1, { error: 'a muscle name must not be empty' }), muscleCalibrationSchema, {
     error: 'missing or not an object; accepted: {"muscles": {NAME: {...}, ...}}',
   }),
@@ -141,7 +141,7 @@ export const HOW_TO_FIX =
 /** Validates an already-parsed JSON value as a calibration. */
 export function parseCalibration(value: unknown): CalibrationResult {
   const parsed = calibrationSchema.safeParse(value);
-  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX) };
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX, calibrationSchema, value) };
   const muscles: Record<string, MuscleCalibration> = Object.create(null);
   const problems: string[] = [];
   for (const [name, m] of Object.entries(parsed.data.muscles)) {

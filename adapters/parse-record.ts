@@ -90,9 +90,10 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
 const RANGED_FIELDS: ReadonlySet<string> = new Set(['t', 'fascicle_mm', 'pennation_deg', 'quality', 'rate_hz']);
 
 /** A Rejection; the excerpt is cut to EXCERPT_CHARS and copied so it does not pin a large input string. */
-export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string): Rejection {
+export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string, field?: string): Rejection {
   const cut = excerpt.length > EXCERPT_CHARS ? excerpt.slice(0, EXCERPT_CHARS) : excerpt;
-  return { kind: 'rejection', reason, message, line, excerpt: freshCopy(cut) };
+  const rejection: Rejection = { kind: 'rejection', reason, message, line, excerpt: freshCopy(cut) };
+  return field === undefined ? rejection : { ...rejection, field };
 }
 
 /** The rejection of a line (or message) longer than the cap. */
@@ -276,10 +277,11 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
         'send other device events as markers ({"t": SECONDS, "marker": "TEXT"})',
       line,
       excerpt,
+      field,
     );
   }
   if (path.length === 1 && RANGED_FIELDS.has(field) && typeof value === 'number') {
-    return makeRejection('out_of_range', `${field} is ${describe(value)}: ${rule}`, line, excerpt);
+    return makeRejection('out_of_range', `${field} is ${describe(value)}: ${rule}`, line, excerpt, field);
   }
   if (field === 'version' && typeof value === 'number') {
     return makeRejection(
@@ -290,7 +292,7 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
     );
   }
   const problem = present ? `is ${describe(value)}` : 'is missing';
-  return makeRejection('schema', `${record} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt);
+  return makeRejection('schema', `${record} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt, where === '(top level)' ? undefined : where);
 }
 
 function headerFrame(data: z.output<typeof headerSchema>, line: number, excerpt: string): Frame {

@@ -5,6 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { detectFormat, fileSource, SourceFormatError } from '../../adapters/file-source.ts';
 import { LineReadError } from '../../adapters/read-lines.ts';
 import type { Batch, Frame } from '../../src/trial/records.ts';
+import { stringify } from 'csv-stringify/sync';
 import { csvTrial, ndjsonTrial, tempDir } from './invented-trial.ts';
 
 const tmp = tempDir();
@@ -94,7 +95,29 @@ describe('fileSource', () => {
     const error: unknown = await batchesOf(tmp.file('bad-header.csv', 'time_s,muscle\n0,calf\n')).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(SourceFormatError);
     expect(error).toMatchObject({ line: 1 });
-    expect((error as Error).message).toContain('lacks column fascicle_mm');
+    expect((error as Error).message).toContain('lacks column "fascicle_mm"');
+  });
+
+  it('keeps the first header row\'s columns to the end of a CSV file: a bare time_s line or a swapped header row mid-file is one rejected line', async () => {
+    const content = stringify([
+      ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg'],
+      ['0', 'calf', '50', '20'],
+      ['time_s'],
+      ['0.01', 'calf', '51', '21'],
+      ['time_s', 'muscle', 'pennation_deg', 'fascicle_mm'],
+      ['0.02', 'calf', '52', '22'],
+      ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg'],
+      ['0.03', 'calf', '53', '23'],
+    ]);
+    const frames = (await batchesOf(tmp.file('joined.csv', content))).flat();
+    expect(frames.map((f) => (f.kind === 'rejection' ? f.reason : f.kind))).toEqual(['header', 'sample', 'schema', 'sample', 'schema', 'sample', 'header', 'sample']);
+    const samples = frames.filter((f) => f.kind === 'sample');
+    expect(samples.map((f) => [f.fascicleMm, f.pennationDeg])).toEqual([
+      [50, 20],
+      [51, 21],
+      [52, 22],
+      [53, 23],
+    ]);
   });
 
   it('errors with a LineReadError when the file is missing', async () => {

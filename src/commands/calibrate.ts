@@ -3,7 +3,9 @@ import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import type { Parsed } from './option-values.ts';
 import type { Batch } from '../trial/records.ts';
-import { fileSource } from '../../adapters/file-source.ts';
+import { trialSource } from '../../adapters/trial-source.ts';
+import type { DeviceMapping } from '../../adapters/device-mapping.ts';
+import { mappingOption } from './option-files.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
 import { checkCalibrationAgainstTrial } from '../model/calibration.ts';
@@ -24,6 +26,8 @@ options:
   --sarcomere-length UM    the sarcomere length (µm) in that posture, e.g. from a biopsy or imaging
   --sd UM                  SD of that sarcomere length (µm); gives the count an SD too
   --species S              ${SPECIES.join(' | ')}  [default: ${DEFAULT_SPECIES}]
+  --mapping FILE           a trial in your own columns, units or table layout (lengthwise-mapping JSON)
+  --events FILE            gait events from another system, as for replay (read and checked; the window needs none)
   -h, --help               this text
 
 example:
@@ -61,10 +65,10 @@ interface TrialSamples {
 }
 
 /** Reads the trial file and keeps the muscle's samples that pass the quality gate. */
-function readTrial(path: string, muscle: string): Promise<TrialSamples> {
+function readTrial(path: string, muscle: string, mapping: DeviceMapping | null, eventsPath: string | undefined): Promise<TrialSamples> {
   const trial: TrialSamples = { tS: [], fascicleMm: [], skippedLowQuality: 0, muscles: new Set() };
   return new Promise((resolve, reject) => {
-    fileSource(path).subscribe({
+    trialSource(path, { mapping, eventsPath }).subscribe({
       next: (batch: Batch) => {
         for (const f of batch) {
           if (f.kind !== 'sample') continue;
@@ -106,6 +110,8 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     'sarcomere-length': { type: 'string' },
     sd: { type: 'string' },
     species: { type: 'string', default: DEFAULT_SPECIES },
+    mapping: { type: 'string' },
+    events: { type: 'string' },
   }, io);
   if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
@@ -144,9 +150,11 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     return 2;
   }
 
+  const mapping = await mappingOption('calibrate', values.mapping, io);
+  if (!mapping.ok) return 2;
   let trial: TrialSamples;
   try {
-    trial = await readTrial(path, muscle);
+    trial = await readTrial(path, muscle, mapping.value ?? null, values.events);
   } catch (error) {
     io.err(`lengthwise calibrate: ${(error as Error).message}`);
     return 1;

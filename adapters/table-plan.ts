@@ -72,11 +72,8 @@ export interface TableReading {
   readonly angleUnit: AngleUnit;
   readonly timeUnit: TimeUnit;
   readonly timeOffsetS: number;
-  readonly values: {
-    readonly event: Readonly<Record<string, string>>;
-    readonly side: Readonly<Record<string, string>>;
-    readonly muscle: Readonly<Record<string, string>>;
-  };
+  /** The file's words for ours, as in a mapping. */
+  readonly values: DeviceMapping['values'];
   /** Our own columns and units, no mapping: messages name the columns as the README does. */
   readonly own: boolean;
 }

@@ -1,31 +1,12 @@
-import { spawn } from 'node:child_process';
 import { mkdtemp, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { labTables, type LabTables } from '../helpers/lab-tables.ts';
+import { lengthwise } from '../helpers/lengthwise-process.ts';
 
-const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
 const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
-
-interface Ran {
-  readonly code: number | null;
-  readonly stdout: string;
-  readonly stderr: string;
-}
-
-function lengthwise(args: readonly string[]): Promise<Ran> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' } });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
-}
 
 let dir = '';
 let tables: LabTables;

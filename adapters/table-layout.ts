@@ -121,18 +121,23 @@ function missingColumns(candidates: readonly FirstLine[], delimiters: readonly D
       const cells = cellsOf(candidate.text, d);
       if (cells === null || cells.length < 2) continue;
       const count = query.identify.filter((c) => cells.includes(c.name)).length;
-      if (best === null || count > best.count) best = { line: candidate, cells, count };
+      if (best === null || count > best.count || (count === best.count && count === 0 && cells.length > best.cells.length)) best = { line: candidate, cells, count };
     }
   }
   const wanted = query.identify.map((c) => `"${c.name}" (${c.from})`).join(', ');
   if (best === null || best.count === 0) {
     const first = candidates[0];
+    const seen =
+      best !== null
+        ? `; line ${best.line.line}, the likeliest header row, has ${best.cells.map((c) => `"${c}"`).join(', ')}`
+        : first !== undefined
+          ? `; the first line reads ${shown(first.text)}`
+          : '; the file has no lines';
     return {
-      line: first?.line ?? 1,
+      line: best?.line.line ?? first?.line ?? 1,
       problem:
-        `no line among the first ${LAYOUT_LINES} names the columns ${wanted}` +
-        (first !== undefined ? `; the first line reads ${shown(first.text)}` : '; the file has no lines') +
-        '. If the columns are your own, give a mapping that names them (lengthwise inspect FILE --suggest-mapping prints one to start from)',
+        `no line among the first ${LAYOUT_LINES} names the columns ${wanted}${seen}. ` +
+        'If the columns are your own, give a mapping that names them (lengthwise inspect FILE --suggest-mapping prints one to start from)',
     };
   }
   const { line, cells } = best;

@@ -72,7 +72,7 @@ const common = {
 const muscleCalibrationSchema = z.discriminatedUnion(
   'method',
   [
-    z.object({
+    z.strictObject({
       ...common,
       method: z.literal('sarcomere_count'),
       sarcomeres_in_series: within(100, 500_000, 'a count of sarcomeres in series'),
@@ -82,7 +82,7 @@ const muscleCalibrationSchema = z.discriminatedUnion(
         .optional(),
       fascicle_offset_mm: within(-100, 100, 'the constant part of the tracked length in mm').optional(),
     }),
-    z.object({
+    z.strictObject({
       ...common,
       method: z.literal('reference'),
       reference_fascicle_mm: within(1, 1000, 'a fascicle length in mm'),
@@ -90,7 +90,7 @@ const muscleCalibrationSchema = z.discriminatedUnion(
       reference_sarcomere_sd_um: within(0, 1, 'an SD of the reference sarcomere length in µm').optional(),
       reference_fascicle_sd_mm: within(0, 100, 'an SD of the reference fascicle length in mm').optional(),
     }),
-    z.object({
+    z.strictObject({
       ...common,
       method: z.literal('optimal_length'),
       optimal_fascicle_mm: within(1, 1000, 'a fascicle length in mm'),
@@ -111,7 +111,7 @@ const muscleCalibrationSchema = z.discriminatedUnion(
   { error: 'unknown or missing "method"; accepted: "sarcomere_count", "reference", "optimal_length", "architecture_prior"' },
 );
 
-export const calibrationSchema = z.object({
+export const calibrationSchema = z.strictObject({
   muscles: z.record(z.string().min(1, { error: 'a muscle name must not be empty' }), muscleCalibrationSchema, {
     error: 'missing or not an object; accepted: {"muscles": {NAME: {...}, ...}}',
   }),
@@ -207,7 +207,7 @@ export const HOW_TO_FIX =
 /** Validates an already-parsed JSON value as a calibration. */
 export function parseCalibration(value: unknown): CalibrationResult {
   const parsed = calibrationSchema.safeParse(value);
-  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX) };
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX, calibrationSchema, value) };
   const muscles: Record<string, MuscleCalibration> = Object.create(null);
   const problems: string[] = [];
   for (const [name, m] of Object.entries(parsed.data.muscles)) {

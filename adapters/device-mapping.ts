@@ -9,7 +9,7 @@
  */
 import { readJsonFile, schemaProblems } from './json-file.ts';
 import { z } from 'zod';
-import type { Frame, Rejection, Sample } from '../src/trial/records.ts';
+import { SIDES, type Frame, type Rejection, type Sample, type Side } from '../src/trial/records.ts';
 import { MAX_LINE_BYTES } from './limits.ts';
 import { elementExcerpt, makeRejection, MAX_MESSAGE_CHARS, parseMessage, parseRecordValue, readJson } from './parse-record.ts';
 
@@ -39,9 +39,51 @@ const OUR_KEY: Readonly<Record<MappedField, string>> = {
 
 const OUR_KEYS: ReadonlySet<string> = new Set(Object.values(OUR_KEY));
 
-const MM_PER: Readonly<Record<LengthUnit, number>> = { m: 1000, cm: 10, mm: 1 };
-const DEG_PER: Readonly<Record<AngleUnit, number>> = { rad: 180 / Math.PI, deg: 1 };
-const S_PER: Readonly<Record<TimeUnit, number>> = { s: 1, ms: 1e-3, us: 1e-6, µs: 1e-6 };
+export const MM_PER: Readonly<Record<LengthUnit, number>> = { m: 1000, cm: 10, mm: 1 };
+export const DEG_PER: Readonly<Record<AngleUnit, number>> = { rad: 180 / Math.PI, deg: 1 };
+export const S_PER: Readonly<Record<TimeUnit, number>> = { s: 1, ms: 1e-3, us: 1e-6, µs: 1e-6 };
+
+/** Cell delimiters a table may use, and the decimal marks its numbers may use. */
+export const DELIMITERS = [',', ';', '\t', '|'] as const;
+export type Delimiter = (typeof DELIMITERS)[number];
+export const DECIMAL_MARKS = ['.', ','] as const;
+export type DecimalMark = (typeof DECIMAL_MARKS)[number];
+
+/** How a table is laid out; each key left out is found from the file itself. */
+export interface TableSettings {
+  readonly delimiter?: Delimiter;
+  readonly decimal?: DecimalMark;
+  /** Lines before the header row (blank lines included): the header row is line skipLines + 1. */
+  readonly skipLines?: number;
+}
+
+/** A muscle named in a mapping: its side, and (in a table with a column per muscle) its columns. */
+export interface MappedMuscle {
+  readonly side?: Side;
+  readonly fascicle?: string;
+  readonly pennation?: string;
+  readonly quality?: string;
+  readonly activation?: string;
+}
+
+/** Our fields of an events file a mapping may rename. */
+export const EVENT_FIELDS = ['t', 'event', 'side', 'marker'] as const;
+export type EventField = (typeof EVENT_FIELDS)[number];
+
+/** How to read the file given with --events. */
+export interface EventsMapping {
+  readonly table: TableSettings;
+  /** Our field → the file's field (column) name, only those the mapping gives. */
+  readonly given: Readonly<Partial<Record<EventField, string>>>;
+  readonly timeUnit: TimeUnit;
+  /** Added after the unit conversion, so the events land on the samples' clock. */
+  readonly timeOffsetS: number;
+  readonly values: {
+    readonly event: Readonly<Record<string, string>>;
+    readonly side: Readonly<Record<string, string>>;
+  };
+}
+
 
 /** A validated mapping, ready to apply. */
 export interface DeviceMapping {
@@ -49,6 +91,16 @@ export interface DeviceMapping {
   readonly device: string;
   /** Our field → the device's field name. Fields left out keep our own name. */
   readonly fields: Readonly<Record<MappedField, string>>;
+  /** The fields the mapping names itself (a table must have these columns; the others are used when present). */
+  readonly given: Readonly<Partial<Record<MappedField, string>>>;
+  /** How a table is laid out (delimiter, decimal mark, lines before the header row); empty: found from the file. */
+  readonly table: TableSettings;
+  /** Muscles the mapping names (our names): their sides, and their columns in a table with a column per muscle. */
+  readonly muscles: Readonly<Record<string, MappedMuscle>>;
+  /** 'wide' when muscles name their fascicle columns (a row per time, columns per muscle), else 'long' (a row per sample). */
+  readonly layout: 'long' | 'wide';
+  /** How to read the file given with --events; null: our own names and units. */
+  readonly events: EventsMapping | null;
   readonly lengthUnit: LengthUnit;
   readonly angleUnit: AngleUnit;
   readonly timeUnit: TimeUnit;
@@ -65,50 +117,74 @@ export interface DeviceMapping {
 const fieldName = z.string().min(1, { error: 'a device field name must not be empty' });
 const words = z.record(z.string(), z.string()).optional();
 
-export const deviceMappingSchema = z.strictObject(
-  {
-    format: z.literal('lengthwise-mapping', { error: 'must be "lengthwise-mapping"' }),
-    version: z.literal(1, { error: 'must be 1 (this reader reads version 1 of lengthwise-mapping)' }),
-    device: z.string().optional(),
-    fields: z
-      .strictObject(
-        {
-          t: fieldName.optional(),
-          muscle: fieldName.optional(),
-          fascicle: fieldName.optional(),
-          pennation: fieldName.optional(),
-          quality: fieldName.optional(),
-          activation: fieldName.optional(),
-          event: fieldName.optional(),
-          side: fieldName.optional(),
-          marker: fieldName.optional(),
-        },
-        { error: `unknown key in "fields"; accepted: ${MAPPED_FIELDS.join(', ')}` },
-      )
-      .optional(),
-    units: z
-      .strictObject(
-        {
-          length: z.enum(LENGTH_UNITS, { error: 'accepted: "m", "cm" or "mm"' }).optional(),
-          angle: z.enum(ANGLE_UNITS, { error: 'accepted: "rad" or "deg"' }).optional(),
-          time: z.enum(TIME_UNITS, { error: 'accepted: "s", "ms", "us" or "µs"' }).optional(),
-        },
-        { error: 'unknown key in "units"; accepted: length, angle, time' },
-      )
-      .optional(),
-    time_offset_s: z.number({ error: 'must be a number of seconds' }).finite({ error: 'must be finite' }).optional(),
-    values: z
-      .strictObject({ event: words, side: words, muscle: words }, { error: 'unknown key in "values"; accepted: event, side, muscle' })
-      .optional(),
-  },
-  { error: 'unknown key; accepted: format, version, device, fields, units, time_offset_s, values' },
-);
+const tableSchema = z.strictObject({
+  delimiter: z.enum(DELIMITERS, { error: 'accepted: ",", ";", "\\t" (tab) or "|"' }).optional(),
+  decimal: z.enum(DECIMAL_MARKS, { error: 'accepted: "." or ","' }).optional(),
+  skip_lines: z
+    .number({ error: 'must be a whole number of lines' })
+    .int({ error: 'must be a whole number of lines' })
+    .min(0, { error: 'must be 0 or more' })
+    .max(10_000, { error: 'at most 10000 lines may come before the header row' })
+    .optional(),
+});
+
+const muscleSchema = z.strictObject({
+  side: z.enum(SIDES, { error: 'accepted: "left" or "right"' }).optional(),
+  fascicle: fieldName.optional(),
+  pennation: fieldName.optional(),
+  quality: fieldName.optional(),
+  activation: fieldName.optional(),
+});
+
+const eventsSchema = z.strictObject({
+  table: tableSchema.optional(),
+  fields: z
+    .strictObject({ t: fieldName.optional(), event: fieldName.optional(), side: fieldName.optional(), marker: fieldName.optional() })
+    .optional(),
+  units: z.strictObject({ time: z.enum(TIME_UNITS, { error: 'accepted: "s", "ms", "us" or "µs"' }).optional() }).optional(),
+  time_offset_s: z.number({ error: 'must be a number of seconds' }).finite({ error: 'must be finite' }).optional(),
+  values: z.strictObject({ event: words, side: words }).optional(),
+});
+
+export const deviceMappingSchema = z.strictObject({
+  format: z.literal('lengthwise-mapping', { error: 'must be "lengthwise-mapping"' }),
+  version: z.literal(1, { error: 'must be 1 (this reader reads version 1 of lengthwise-mapping)' }),
+  device: z.string().optional(),
+  table: tableSchema.optional(),
+  fields: z
+    .strictObject({
+      t: fieldName.optional(),
+      muscle: fieldName.optional(),
+      fascicle: fieldName.optional(),
+      pennation: fieldName.optional(),
+      quality: fieldName.optional(),
+      activation: fieldName.optional(),
+      event: fieldName.optional(),
+      side: fieldName.optional(),
+      marker: fieldName.optional(),
+    })
+    .optional(),
+  units: z
+    .strictObject({
+      length: z.enum(LENGTH_UNITS, { error: 'accepted: "m", "cm" or "mm"' }).optional(),
+      angle: z.enum(ANGLE_UNITS, { error: 'accepted: "rad" or "deg"' }).optional(),
+      time: z.enum(TIME_UNITS, { error: 'accepted: "s", "ms", "us" or "µs"' }).optional(),
+    })
+    .optional(),
+  time_offset_s: z.number({ error: 'must be a number of seconds' }).finite({ error: 'must be finite' }).optional(),
+  muscles: z.record(z.string().min(1, { error: 'a muscle name must not be empty' }), muscleSchema).optional(),
+  values: z.strictObject({ event: words, side: words, muscle: words }).optional(),
+  events: eventsSchema.optional(),
+});
 
 export const MAPPING_HOW_TO =
   'accepted: {"format": "lengthwise-mapping", "version": 1, "device"?: TEXT, ' +
+  '"table"?: {"delimiter"?: ","|";"|"\\t"|"|", "decimal"?: "."|",", "skip_lines"?: N}, ' +
   `"fields"?: {OUR: DEVICE_FIELD} with OUR among ${MAPPED_FIELDS.join(', ')}, ` +
   '"units"?: {"length"?: "m"|"cm"|"mm", "angle"?: "rad"|"deg", "time"?: "s"|"ms"|"us"}, "time_offset_s"?: S, ' +
-  '"values"?: {"event"?: {DEVICE: "foot_strike"|"toe_off"}, "side"?: {DEVICE: "left"|"right"}, "muscle"?: {DEVICE: NAME}}} ' +
+  '"muscles"?: {NAME: {"side"?: "left"|"right", "fascicle"?: COLUMN, "pennation"?: COLUMN, "quality"?: COLUMN, "activation"?: COLUMN}}, ' +
+  '"values"?: {"event"?: {DEVICE: "foot_strike"|"toe_off"}, "side"?: {DEVICE: "left"|"right"}, "muscle"?: {DEVICE: NAME}}, ' +
+  '"events"?: {"table"?, "fields"?: {"t"?, "event"?, "side"?, "marker"?}, "units"?: {"time"?}, "time_offset_s"?, "values"?: {"event"?, "side"?}}} ' +
   '(examples in adapters/mappings/)';
 
 export type MappingResult = { readonly ok: true; readonly mapping: DeviceMapping } | { readonly ok: false; readonly problems: readonly string[] };
@@ -119,32 +195,160 @@ function record(entries: Record<string, string> | undefined): Readonly<Record<st
   return out;
 }
 
+function tableSettings(t: z.output<typeof tableSchema> | undefined): TableSettings {
+  return {
+    ...(t?.delimiter !== undefined ? { delimiter: t.delimiter } : {}),
+    ...(t?.decimal !== undefined ? { decimal: t.decimal } : {}),
+    ...(t?.skip_lines !== undefined ? { skipLines: t.skip_lines } : {}),
+  };
+}
+
+function givenFields<F extends string>(fields: Partial<Record<F, string | undefined>> | undefined, names: readonly F[]): Partial<Record<F, string>> {
+  const given: Partial<Record<F, string>> = {};
+  for (const f of names) {
+    const name = fields?.[f];
+    if (name !== undefined) given[f] = name;
+  }
+  return given;
+}
+
+/** What the muscles of a mapping say against its fields: a layout, or the problems that make it neither. */
+function musclesLayout(muscles: Readonly<Record<string, MappedMuscle>>, given: Partial<Record<MappedField, string>>): { layout: 'long' | 'wide'; problems: string[] } {
+  const entries = Object.entries(muscles);
+  const wide = entries.some(([, m]) => m.fascicle !== undefined);
+  const problems: string[] = [];
+  if (wide) {
+    for (const [name, m] of entries) {
+      if (m.fascicle === undefined) {
+        problems.push(`muscles.${name}: names no "fascicle" column, but other muscles do (a table with a column per muscle); give its fascicle column, or leave the muscle out`);
+      }
+    }
+    for (const f of ['muscle', 'fascicle', 'pennation', 'quality', 'activation'] as const) {
+      if (given[f] !== undefined) {
+        problems.push(`fields.${f}: a table with a column per muscle reads each muscle's columns from "muscles"; leave fields.${f} out (or name no fascicle columns in "muscles" for a table with a row per sample)`);
+      }
+    }
+  } else {
+    for (const [name, m] of entries) {
+      for (const f of ['pennation', 'quality', 'activation'] as const) {
+        if (m[f] !== undefined) problems.push(`muscles.${name}.${f}: names a column, but the muscle names no "fascicle" column; give "fascicle" too (a table with a column per muscle)`);
+      }
+    }
+  }
+  return { layout: wide ? 'wide' : 'long', problems };
+}
+
+/** Two of our fields (or two muscles' columns) may not read the same device field or column. */
+function sharedFieldProblems(fields: Readonly<Record<MappedField, string>>, muscles: Readonly<Record<string, MappedMuscle>>, layout: 'long' | 'wide'): string[] {
+  const seen = new Map<string, string>();
+  const problems: string[] = [];
+  const use = (who: string, name: string): void => {
+    const other = seen.get(name);
+    if (other === undefined) seen.set(name, who);
+    else {
+      const both = other.startsWith('"') && who.startsWith('"') ? `fields: ${other} and ${who}` : `${other} and ${who}`;
+      problems.push(`${both} both read the device field "${name}"; give each its own device field`);
+    }
+  };
+  for (const f of MAPPED_FIELDS) {
+    if (layout === 'wide' && (f === 'muscle' || f === 'fascicle' || f === 'pennation' || f === 'quality' || f === 'activation')) continue;
+    use(`"${f}"`, fields[f]);
+  }
+  if (layout === 'wide') {
+    for (const [name, m] of Object.entries(muscles)) {
+      for (const f of ['fascicle', 'pennation', 'quality', 'activation'] as const) {
+        const column = m[f];
+        if (column !== undefined) use(`muscles.${name}.${f}`, column);
+      }
+    }
+  }
+  return problems;
+}
+
 /** Validates an already-parsed JSON value as a mapping; failures are sentences, never a throw. */
 export function parseDeviceMapping(value: unknown): MappingResult {
   const parsed = deviceMappingSchema.safeParse(value);
-  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, MAPPING_HOW_TO) };
+  if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, MAPPING_HOW_TO, deviceMappingSchema, value) };
   const d = parsed.data;
   const fields = {} as Record<MappedField, string>;
   for (const f of MAPPED_FIELDS) fields[f] = d.fields?.[f] ?? OUR_KEY[f];
-  const seen = new Map<string, MappedField>();
-  for (const f of MAPPED_FIELDS) {
-    const other = seen.get(fields[f]);
-    if (other !== undefined) {
-      return { ok: false, problems: [`fields: "${other}" and "${f}" both read the device field "${fields[f]}"; give each of our fields its own device field`] };
-    }
-    seen.set(fields[f], f);
+  const given = givenFields(d.fields, MAPPED_FIELDS);
+  const muscles: Record<string, MappedMuscle> = Object.create(null);
+  for (const [name, m] of Object.entries(d.muscles ?? {})) {
+    muscles[name] = {
+      ...(m.side !== undefined ? { side: m.side } : {}),
+      ...(m.fascicle !== undefined ? { fascicle: m.fascicle } : {}),
+      ...(m.pennation !== undefined ? { pennation: m.pennation } : {}),
+      ...(m.quality !== undefined ? { quality: m.quality } : {}),
+      ...(m.activation !== undefined ? { activation: m.activation } : {}),
+    };
   }
+  const { layout, problems } = musclesLayout(muscles, given);
+  problems.push(...sharedFieldProblems(fields, muscles, layout));
+  if (problems.length > 0) return { ok: false, problems };
+  const e = d.events;
   return {
     ok: true,
     mapping: {
       device: d.device ?? 'device',
       fields,
+      given,
+      table: tableSettings(d.table),
+      muscles,
+      layout,
       lengthUnit: d.units?.length ?? 'mm',
       angleUnit: d.units?.angle ?? 'deg',
       timeUnit: d.units?.time ?? 's',
       timeOffsetS: d.time_offset_s ?? 0,
       values: { event: record(d.values?.event), side: record(d.values?.side), muscle: record(d.values?.muscle) },
+      events:
+        e === undefined
+          ? null
+          : {
+              table: tableSettings(e.table),
+              given: givenFields(e.fields, EVENT_FIELDS),
+              timeUnit: e.units?.time ?? 's',
+              timeOffsetS: e.time_offset_s ?? 0,
+              values: { event: record(e.values?.event), side: record(e.values?.side) },
+            },
     },
+  };
+}
+
+/** The sides a mapping declares for its muscles. */
+export function mappedSides(mapping: DeviceMapping | null | undefined): Record<string, Side> {
+  const sides: Record<string, Side> = Object.create(null);
+  if (mapping === null || mapping === undefined) return sides;
+  for (const [name, m] of Object.entries(mapping.muscles)) if (m.side !== undefined) sides[name] = m.side;
+  return sides;
+}
+
+/**
+ * The mapping an NDJSON events file is read through: the events block's fields, time unit, offset and
+ * words, our own names for the rest. null: the file is in our own names and units.
+ */
+export function eventsDeviceMapping(mapping: DeviceMapping | null): DeviceMapping | null {
+  const e = mapping?.events ?? null;
+  if (e === null) return null;
+  const fields = {} as Record<MappedField, string>;
+  for (const f of MAPPED_FIELDS) fields[f] = OUR_KEY[f];
+  for (const f of EVENT_FIELDS) {
+    const name = e.given[f];
+    if (name !== undefined) fields[f] = name;
+  }
+  return {
+    device: mapping?.device ?? 'device',
+    fields,
+    given: e.given,
+    table: e.table,
+    muscles: Object.create(null) as Record<string, MappedMuscle>,
+    layout: 'long',
+    lengthUnit: 'mm',
+    angleUnit: 'deg',
+    timeUnit: e.timeUnit,
+    timeOffsetS: e.timeOffsetS,
+    values: { event: e.values.event, side: e.values.side, muscle: Object.create(null) as Record<string, string> },
+    events: null,
   };
 }
 

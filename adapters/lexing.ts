@@ -99,9 +99,10 @@ export function readJsonNumberBytes(b: Buffer, i: number, end: number, out: Floa
  * A plain decimal filling text[start, end) (an optional sign, digits with at most one point anywhere —
  * "5", "5.", ".5" —, at least one and at most EXACT_DIGITS digits; no spaces, no exponent): true with its
  * value in out[0], the same double as Number() of that text; false (out untouched) for anything else,
- * which the caller then reads the careful way.
+ * which the caller then reads the careful way. `point` is the decimal mark's character code (46 ".",
+ * or 44 "," for tables written with decimal commas: "52,3" then reads as Number("52.3")).
  */
-export function readPlainDecimal(text: string, start: number, end: number, out: Float64Array): boolean {
+export function readPlainDecimal(text: string, start: number, end: number, out: Float64Array, point = 46): boolean {
   let i = start;
   let negative = false;
   const first = text.charCodeAt(i);
@@ -112,14 +113,14 @@ export function readPlainDecimal(text: string, start: number, end: number, out: 
   let m = 0;
   let digits = 0;
   let fraction = 0;
-  let point = false;
+  let seen = false;
   for (; i < end; i++) {
     const c = text.charCodeAt(i);
     if (c >= 48 && c <= 57) {
       m = m * 10 + (c - 48);
       digits++;
-      if (point) fraction++;
-    } else if (c === 46 && !point) point = true;
+      if (seen) fraction++;
+    } else if (c === point && !seen) seen = true;
     else return false;
   }
   if (digits === 0 || digits > EXACT_DIGITS) return false;
@@ -128,7 +129,7 @@ export function readPlainDecimal(text: string, start: number, end: number, out: 
 }
 
 /** readPlainDecimal on bytes b[start, end): the same values, the same refusals. */
-export function readPlainDecimalBytes(b: Buffer, start: number, end: number, out: Float64Array): boolean {
+export function readPlainDecimalBytes(b: Buffer, start: number, end: number, out: Float64Array, point = 46): boolean {
   let i = start;
   let negative = false;
   const first = i < end ? (b[i] as number) : -1;
@@ -139,14 +140,14 @@ export function readPlainDecimalBytes(b: Buffer, start: number, end: number, out
   let m = 0;
   let digits = 0;
   let fraction = 0;
-  let point = false;
+  let seen = false;
   for (; i < end; i++) {
     const c = b[i] as number;
     if (c >= 48 && c <= 57) {
       m = m * 10 + (c - 48);
       digits++;
-      if (point) fraction++;
-    } else if (c === 46 && !point) point = true;
+      if (seen) fraction++;
+    } else if (c === point && !seen) seen = true;
     else return false;
   }
   if (digits === 0 || digits > EXACT_DIGITS) return false;

@@ -28,6 +28,9 @@ export const MAX_PENNATION_DEG = 90;
 /** Tracking qualities a sample may carry: 0 (lost) to 1 (sure). */
 export const MIN_QUALITY = 0;
 export const MAX_QUALITY = 1;
+/** An activation (e.g. an EMG envelope normalised to its maximum) lies in 0–1. */
+export const MIN_ACTIVATION = 0;
+export const MAX_ACTIVATION = 1;
 
 const timeS = z.number();
 export const sampleSchema = z.object({
@@ -36,7 +39,7 @@ export const sampleSchema = z.object({
   fascicle_mm: z.number().positive(),
   pennation_deg: z.number().min(MIN_PENNATION_DEG).max(MAX_PENNATION_DEG).optional(),
   quality: z.number().min(MIN_QUALITY).max(MAX_QUALITY).optional(),
-  activation: z.number().min(0).max(1).optional(),
+  activation: z.number().min(MIN_ACTIVATION).max(MAX_ACTIVATION).optional(),
 });
 export const gaitEventSchema = z.object({ t: timeS, event: z.enum(GAIT_EVENT_NAMES), side: z.enum(SIDES) });
 export const markerSchema = z.object({ t: timeS, marker: z.string() });
@@ -73,7 +76,7 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
   fascicle_mm: 'must be a finite number > 0 (millimetres); if your device sends metres, use a device mapping',
   pennation_deg: `must be a number from ${MIN_PENNATION_DEG} to ${MAX_PENNATION_DEG} (degrees), or left out when there is none`,
   quality: `must be a number from ${MIN_QUALITY} to ${MAX_QUALITY}, or left out when there is none`,
-  activation: 'must be a number from 0 to 1 (e.g. an EMG envelope normalised to its maximum), or left out when there is none',
+  activation: `must be a number from ${MIN_ACTIVATION} to ${MAX_ACTIVATION} (e.g. an EMG envelope normalised to its maximum), or left out when there is none`,
   event: 'must be "foot_strike" or "toe_off"',
   side: 'must be "left" or "right"',
   marker: 'must be a string',
@@ -92,9 +95,10 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
 const RANGED_FIELDS: ReadonlySet<string> = new Set(['t', 'fascicle_mm', 'pennation_deg', 'quality', 'activation', 'rate_hz']);
 
 /** A Rejection; the excerpt is cut to EXCERPT_CHARS and copied so it does not pin a large input string. */
-export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string): Rejection {
+export function makeRejection(reason: RejectReason, message: string, line: number, excerpt: string, field?: string): Rejection {
   const cut = excerpt.length > EXCERPT_CHARS ? excerpt.slice(0, EXCERPT_CHARS) : excerpt;
-  return { kind: 'rejection', reason, message, line, excerpt: freshCopy(cut) };
+  const rejection: Rejection = { kind: 'rejection', reason, message, line, excerpt: freshCopy(cut) };
+  return field === undefined ? rejection : { ...rejection, field };
 }
 
 /** The rejection of a line (or message) longer than the cap. */
@@ -178,7 +182,7 @@ function quickSample(o: Record<string, unknown>, line: number): Frame | null {
   }
   let activation = Number.NaN;
   if (a !== undefined) {
-    if (typeof a !== 'number' || !(a >= 0 && a <= 1)) return null;
+    if (typeof a !== 'number' || !(a >= MIN_ACTIVATION && a <= MAX_ACTIVATION)) return null;
     activation = a;
   }
   return makeSample(t, muscle, fascicleMm, pennationDeg, quality, line, activation);
@@ -294,10 +298,11 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
         'send other device events as markers ({"t": SECONDS, "marker": "TEXT"})',
       line,
       excerpt,
+      field,
     );
   }
   if (path.length === 1 && RANGED_FIELDS.has(field) && typeof value === 'number') {
-    return makeRejection('out_of_range', `${field} is ${describe(value)}: ${rule}`, line, excerpt);
+    return makeRejection('out_of_range', `${field} is ${describe(value)}: ${rule}`, line, excerpt, field);
   }
   if (field === 'version' && typeof value === 'number') {
     return makeRejection(
@@ -308,7 +313,7 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
     );
   }
   const problem = present ? `is ${describe(value)}` : 'is missing';
-  return makeRejection('schema', `${record} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt);
+  return makeRejection('schema', `${record} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt, where === '(top level)' ? undefined : where);
 }
 
 function headerFrame(data: z.output<typeof headerSchema>, line: number, excerpt: string): Frame {

@@ -7,7 +7,7 @@
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or command, live, memory; several: --only replay,command
+ *   npm run bench -- --only replay # or table, command, live, memory; several: --only replay,command
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -24,6 +24,7 @@ import { median } from '../src/model/stats.ts';
 import { measureMemory, type MemoryResult } from './memory.ts';
 import { measureLive, type LiveResult } from './live.ts';
 import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
+import { measureTable, type TableResult } from './table.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -66,10 +67,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,command,live,memory').split(','));
+  const only = new Set((value('--only') ?? 'replay,table,command,live,memory').split(','));
   for (const part of only) {
-    if (!['replay', 'command', 'live', 'memory'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, command, live, memory (comma-separated)`);
+    if (!['replay', 'table', 'command', 'live', 'memory'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory (comma-separated)`);
       process.exit(2);
     }
   }
@@ -177,6 +178,26 @@ async function replayChild(format: BenchFormat, samples: number, pairs: number):
   }
 }
 
+/** The wide-table measurement in a fresh process of its own (bench/run.ts --table-child SAMPLES PAIRS). */
+async function tableInChild(samples: number, pairs: number): Promise<TableResult> {
+  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+  const { stdout } = await execFileAsync(
+    process.execPath,
+    ['--no-allocation-site-pretenuring', join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--table-child', String(samples), String(pairs)],
+    { maxBuffer: 16 * 1024 * 1024 },
+  );
+  return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as TableResult;
+}
+
+async function tableChild(samples: number, pairs: number): Promise<void> {
+  const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
+  try {
+    process.stdout.write(`${JSON.stringify(await measureTable(dir, samples, pairs))}\n`);
+  } finally {
+    await rm(dir, { recursive: true, force: true });
+  }
+}
+
 function cpuMs(): number {
   const u = process.cpuUsage();
   return (u.user + u.system) / 1000;
@@ -219,6 +240,16 @@ async function main(): Promise<void> {
         );
       }
       out['replay'] = replay;
+    }
+    if (args.only.has('table')) {
+      console.error(`bench: a ${args.samples}-sample wide table with decimal commas against the same trial in our CSV, ${args.pairs} alternating pairs, in a fresh process…`);
+      const t = await tableInChild(args.samples, args.pairs);
+      out['table'] = t;
+      lines.push(
+        `table   wide ";" table with decimal commas / our CSV: ${t.ratioMedian.toFixed(2)}× wall (${t.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
+          `${t.cpuRatioMedian.toFixed(2)}× CPU (${t.cpuRatios.map((x) => x.toFixed(2)).join(' ')}); CSV ${fmtRate(t.samples / (median(t.csvMs) / 1000))}, ` +
+          `wide ${fmtRate(t.samples / (median(t.wideMs) / 1000))}; figures ${t.differences.length === 0 ? 'agree' : `differ: ${t.differences.join('; ')}`}`,
+      );
     }
     if (args.only.has('command')) {
       const command: CommandResult[] = [];
@@ -274,7 +305,11 @@ async function main(): Promise<void> {
 }
 
 const child = process.argv.indexOf('--replay-child');
-if (child >= 0) {
+const tableChildAt = process.argv.indexOf('--table-child');
+if (tableChildAt >= 0) {
+  const [samples, pairs] = process.argv.slice(tableChildAt + 1);
+  await tableChild(Number(samples), Number(pairs));
+} else if (child >= 0) {
   const [format, samples, pairs] = process.argv.slice(child + 1);
   await replayChild(format === 'csv' ? 'csv' : 'ndjson', Number(samples), Number(pairs));
 } else {

@@ -4,6 +4,7 @@ import { paceReplay } from '../src/pipeline/pace-replay.ts';
 import { runTrial } from '../src/run/run-trial.ts';
 import { summaryJson, type SummaryJson } from '../src/output/summary-json.ts';
 import type { CalibrationSpec } from '../src/model/calibration.ts';
+import type { DeviceMapping } from '../adapters/device-mapping.ts';
 
 export interface ToolRun {
   readonly summary: SummaryJson;
@@ -12,9 +13,9 @@ export interface ToolRun {
 }
 
 /** Reads, parses, cleans, converts, evaluates, segments and summarizes one file. */
-export async function runToolReplay(path: string, calibration?: CalibrationSpec): Promise<ToolRun> {
+export async function runToolReplay(path: string, calibration?: CalibrationSpec, mapping?: DeviceMapping): Promise<ToolRun> {
   const t0 = performance.now();
-  const run = runTrial(fileSource(path).pipe(paceReplay('max')), {
+  const run = runTrial(fileSource(path, { mapping: mapping ?? null }).pipe(paceReplay('max')), {
     source: path,
     ...(calibration !== undefined ? { calibration } : {}),
   });

@@ -5,6 +5,7 @@ const COMMANDS = {
   replay: { summary: 'play a recorded trial (NDJSON or CSV) through the pipeline', load: () => import('./commands/replay.ts') },
   live: { summary: 'ingest a live stream over WebSocket (--connect URL or --listen PORT)', load: () => import('./commands/live.ts') },
   simulate: { summary: 'serve or push a synthetic gait stream, to try live mode with no hardware', load: () => import('./commands/simulate.ts') },
+  inspect: { summary: 'say how a file will be read (layout, columns, units, sides, counts), without running it', load: () => import('./commands/inspect.ts') },
   calibrate: { summary: 'make a calibration from a quiet window of a trial', load: () => import('./commands/calibrate.ts') },
   curve: { summary: 'print the force–length model: force and region at given sarcomere lengths', load: () => import('./commands/curve.ts') },
   summarize: { summary: 'summarise many trials into a study table and a report', load: () => import('./commands/summarize.ts') },

@@ -3,7 +3,9 @@ import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import type { Parsed } from './option-values.ts';
 import type { Batch } from '../trial/records.ts';
-import { fileSource } from '../../adapters/file-source.ts';
+import { trialSource } from '../../adapters/trial-source.ts';
+import type { DeviceMapping } from '../../adapters/device-mapping.ts';
+import { mappingOption } from './option-files.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
 import { ARCHITECTURE_PRIOR_CAUTION, METHOD_LABEL, checkCalibrationAgainstTrial } from '../model/calibration.ts';
@@ -51,6 +53,8 @@ options:
   --prior-sarcomere-length UM    the sarcomere length it is normalised to (µm)
   --prior-source TEXT            the publication: authors, year, journal, table
   --species S                    ${SPECIES.join(' | ')}  [default: ${DEFAULT_SPECIES}]
+  --mapping FILE                 a trial in your own columns, units or table layout (lengthwise-mapping JSON)
+  --events FILE                  gait events from another system, as for replay (read and checked; the window needs none)
   -h, --help                     this text
 
 examples:
@@ -89,10 +93,10 @@ interface TrialSamples {
 }
 
 /** Reads the trial file and keeps the muscle's samples that pass the quality gate. */
-function readTrial(path: string, muscle: string): Promise<TrialSamples> {
+function readTrial(path: string, muscle: string, mapping: DeviceMapping | null, eventsPath: string | undefined): Promise<TrialSamples> {
   const trial: TrialSamples = { tS: [], fascicleMm: [], skippedLowQuality: 0, muscles: new Set() };
   return new Promise((resolve, reject) => {
-    fileSource(path).subscribe({
+    trialSource(path, { mapping, eventsPath }).subscribe({
       next: (batch: Batch) => {
         for (const f of batch) {
           if (f.kind !== 'sample') continue;
@@ -235,6 +239,8 @@ type CalibrateValues = {
   readonly 'prior-sarcomere-length'?: string | undefined;
   readonly 'prior-source'?: string | undefined;
   readonly species: string;
+  readonly mapping?: string | undefined;
+  readonly events?: string | undefined;
 };
 
 export async function run(argv: string[], io: CommandIo): Promise<number> {
@@ -249,6 +255,8 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     'prior-sarcomere-length': { type: 'string' },
     'prior-source': { type: 'string' },
     species: { type: 'string', default: DEFAULT_SPECIES },
+    mapping: { type: 'string' },
+    events: { type: 'string' },
   }, io);
   if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
@@ -269,11 +277,13 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     return 2;
   }
 
+  const mapping = await mappingOption('calibrate', values.mapping, io);
+  if (!mapping.ok) return 2;
   let trial: TrialSamples | undefined;
   let sha256: string | undefined;
   if (path !== undefined) {
     try {
-      [trial, sha256] = await Promise.all([readTrial(path, muscle), sha256Of(path)]);
+      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events), sha256Of(path)]);
     } catch (error) {
       io.err(`lengthwise calibrate: ${(error as Error).message}`);
       return 1;

@@ -13,7 +13,7 @@ import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
-import { unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { unitHint, type DeviceMapping, mappedSides } from '../../adapters/device-mapping.ts';
 import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
 import { OLD_LINK_MARKER_PREFIX } from '../../adapters/old-link-marker.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
@@ -163,7 +163,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     tap((batch) => session.watchUnits(batch, mapping)),
     takeUntil(session.stop$),
   );
-  const trial = runTrial(records$, { source: label, ...(calibration !== undefined ? { calibration } : {}) });
+  const trial = runTrial(records$, { source: label, sides: mappedSides(mapping), ...(calibration !== undefined ? { calibration } : {}) });
   const final = await session.run(trial, label, duration !== null && duration.ok ? duration.value : null, () => log.flush());
   log.close();
   if (!log.complete && log.problem !== null) session.logProblem(log.problem);

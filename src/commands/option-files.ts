@@ -3,12 +3,41 @@
  * command: a file that is not accepted is said with each problem, and the command exits 2 (usage).
  */
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
-import { readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { mappedSides, readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { CommandIo } from '../run/io.ts';
+import type { Side } from '../trial/records.ts';
 
 /** --calibration and --mapping, the same in every command that runs trials; read them with trialFiles. */
 export const TRIAL_FILE_OPTIONS = { calibration: { type: 'string' }, mapping: { type: 'string' } } as const;
+
+/** --events (gait events from another system) and --side NAME=left|right (repeatable), for the commands that read recorded trials. */
+export const TRIAL_INPUT_OPTIONS = { events: { type: 'string' }, side: { type: 'string', multiple: true } } as const;
+
+/**
+ * Reads the --side values (NAME=left|right, each muscle once) over the sides the mapping gives: a muscle
+ * named by both takes --side. Null after saying what was wrong.
+ */
+export function sidesOption(command: string, mapping: DeviceMapping | undefined, given: readonly string[] | undefined, io: CommandIo): Record<string, Side> | null {
+  const sides = mappedSides(mapping);
+  const seen = new Set<string>();
+  for (const text of given ?? []) {
+    const at = text.lastIndexOf('=');
+    const name = at > 0 ? text.slice(0, at) : '';
+    const side = text.slice(at + 1);
+    if (name === '' || (side !== 'left' && side !== 'right')) {
+      io.err(`lengthwise ${command}: --side "${text}" is not a side: give NAME=left or NAME=right, e.g. --side calf=right (once per muscle)`);
+      return null;
+    }
+    if (seen.has(name)) {
+      io.err(`lengthwise ${command}: --side names "${name}" twice; give each muscle's side once`);
+      return null;
+    }
+    seen.add(name);
+    sides[name] = side;
+  }
+  return sides;
+}
 
 /** What a finished trial writes (--summary, --strides, --report; see finishTrial) and --plain, the same in live and replay. */
 export const TRIAL_OUTPUT_OPTIONS = {

@@ -2,9 +2,12 @@
 import { BehaviorSubject, interval, map, ReplaySubject, switchMap, take, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
-import { fileSource } from '../../adapters/file-source.ts';
+import { trialSource } from '../../adapters/trial-source.ts';
+import { RejectionTally } from '../trial/rejection-tally.ts';
+import { noUsableSample } from '../run/no-usable-sample.ts';
+import { namesMissingFromTrial } from '../run/named-muscles.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
 import type { RunStatus } from '../trial/run-status.ts';
 import { countLines } from './count-lines.ts';
@@ -15,12 +18,15 @@ import { finishTrial, plainReport } from '../run/finish-trial.ts';
 
 const HELP = `usage: lengthwise replay FILE [options]
 
-Plays a recorded trial (lengthwise-stream NDJSON, its CSV variant, or a session log) through the pipeline.
+Plays a recorded trial (lengthwise-stream NDJSON, its CSV variant, a session log, or a table or NDJSON
+in your own columns and units, through a mapping) through the pipeline.
 
 options:
   --speed N|max          play at N times recorded time (1 = real time), or as fast as possible  [default: 1]
   --calibration FILE     calibration JSON; wins over the stream header's calibration
-  --mapping FILE         an NDJSON file in a device's own field names and units (lengthwise-mapping JSON; see adapters/mappings/)
+  --mapping FILE         a file in your own columns, units or table layout (lengthwise-mapping JSON; see adapters/mappings/)
+  --events FILE          gait events from another system (CSV, TSV or NDJSON), merged in time order
+  --side NAME=left|right a muscle's side (repeatable); wins over the mapping and the stream header
   --summary FILE.json    write the per-stride and per-trial summary
   --strides FILE.csv     write one row per stride and muscle
   --report FILE.html     write a self-contained HTML report with plots of the trial
@@ -67,6 +73,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('replay', HELP, argv, {
     speed: { type: 'string', default: '1' },
     ...TRIAL_FILE_OPTIONS,
+    ...TRIAL_INPUT_OPTIONS,
     ...TRIAL_OUTPUT_OPTIONS,
   }, io);
   if (typeof parsed === 'number') return parsed;
@@ -85,6 +92,8 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   if (files === null) return 2;
   const calibration = files.calibration;
   const mapping = files.mapping ?? null;
+  const sides = sidesOption('replay', files.mapping, values.side, io);
+  if (sides === null) return 2;
 
   const speed$ = new BehaviorSubject<Speed>(speed.speed);
   const useDashboard = io.stdout.isTTY === true && !values.plain;
@@ -92,14 +101,17 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const shown$ = new ReplaySubject<void>(1);
   const valve = readAheadValve();
   let lastLine = 0;
-  const records$: Observable<Batch> = fileSource(path, { pause$: valve.pause$, mapping }).pipe(
+  const rejections = new RejectionTally();
+  const records$: Observable<Batch> = trialSource(path, { pause$: valve.pause$, mapping, eventsPath: values.events }).pipe(
     paceReplayWith(useDashboard ? speedOnceShown(shown$, speed$) : speed$, undefined, { onBacklog: valve.report }),
     tap((batch) => {
-      const last = batch.at(-1);
-      if (last !== undefined && 'line' in last && last.line > lastLine) lastLine = last.line;
+      for (const f of batch) {
+        if (f.kind === 'rejection') rejections.add(f);
+        else if (f.kind === 'sample' && f.line > lastLine) lastLine = f.line;
+      }
     }),
   );
-  const trial = runTrial(records$, { source: path, ...(calibration !== undefined ? { calibration } : {}) });
+  const trial = runTrial(records$, { source: path, sides, ...(calibration !== undefined ? { calibration } : {}) });
   const final = useDashboard
     ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next() })
     : await withStatusLines(trial, io);
@@ -108,6 +120,12 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise replay: ${final.message}`);
     return 1;
   }
+  const nothing = noUsableSample(path, final.state, rejections);
+  if (nothing !== null) {
+    io.err(`lengthwise replay: ${nothing}`);
+    return 1;
+  }
+  for (const warning of namesMissingFromTrial(final.state, { sides, calibration })) io.err(`warning: ${warning}`);
   return finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
 }
 

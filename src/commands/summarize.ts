@@ -1,7 +1,7 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { TRIAL_FILE_OPTIONS, trialFiles } from './option-files.ts';
+import { sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, trialFiles } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -11,15 +11,17 @@ import type { TrialOutcome } from '../study/summarize-trial.ts';
 
 const HELP = `usage: lengthwise summarize FILES... [options]
 
-Runs every trial file (lengthwise-stream NDJSON, its CSV variant, or session logs) through the same
-pipeline as replay, in parallel, and writes one study table: a row per trial and muscle, with the same
-figures as each trial's --summary.
+Runs every trial file (lengthwise-stream NDJSON, its CSV variant, session logs, or tables and NDJSON in
+your own columns through a mapping) through the same pipeline as replay, in parallel, and writes one
+study table: a row per trial and muscle, with the same figures as each trial's --summary.
 
 options:
   --out FILE.csv         write the study table here  [default: standard output]
   --report FILE.html     write one self-contained HTML report with plots of every trial and muscle
   --calibration FILE     calibration JSON for every trial; wins over each trial's header calibration
-  --mapping FILE         NDJSON trials in a device's own field names and units (lengthwise-mapping JSON)
+  --mapping FILE         trials in your own columns, units or table layout (lengthwise-mapping JSON)
+  --events FILE          gait events from another system (CSV, TSV or NDJSON), merged into every trial
+  --side NAME=left|right a muscle's side (repeatable); wins over the mapping and the stream headers
   --jobs N               trials summarised at once, one worker thread each  [default: ${defaultJobs()}, the cores]
   --plain                plain progress lines instead of a progress bar, even on a terminal
   -h, --help             this text
@@ -81,6 +83,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     out: { type: 'string' },
     report: { type: 'string' },
     ...TRIAL_FILE_OPTIONS,
+    ...TRIAL_INPUT_OPTIONS,
     jobs: { type: 'string' },
     plain: { type: 'boolean', default: false },
   }, io);
@@ -102,6 +105,8 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const files = await trialFiles('summarize', values, io);
   if (files === null) return 2;
   const { calibration, mapping } = files;
+  const sides = sidesOption('summarize', mapping, values.side, io);
+  if (sides === null) return 2;
 
   const started = performance.now();
   const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);
@@ -109,6 +114,8 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     jobs,
     ...(calibration !== undefined ? { calibration } : {}),
     ...(mapping !== undefined ? { mapping } : {}),
+    ...(values.events !== undefined ? { eventsPath: values.events } : {}),
+    sides,
     onEvent: reporter.onEvent,
     drawReport: values.report !== undefined,
   });

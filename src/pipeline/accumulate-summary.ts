@@ -1,6 +1,6 @@
 import { StrideList } from '../trial/stride-list.ts';
 import { Observable, type OperatorFunction } from 'rxjs';
-import type { Batch, CalibrationApplied, Frame, GaitEvent, Sample, StrideBoundary } from '../trial/records.ts';
+import type { Batch, CalibrationApplied, Frame, GaitEvent, Sample, Side, StrideBoundary } from '../trial/records.ts';
 import {
   CYCLE_POINTS,
   HISTOGRAM_BINS,
@@ -29,6 +29,8 @@ export interface AccumulateSummaryOptions {
    * figures and the cycle curve. @default 0.1
    */
   readonly maxGapFraction?: number;
+  /** Sides given outside the stream (a mapping, --side): they win over the stream header's. */
+  readonly sides?: Readonly<Record<string, Side>>;
 }
 
 /** Largest share of a stride that may be gap time before the stride is flagged. */
@@ -86,6 +88,9 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
       const probability = new Float64Array(REGION_KEYS.length);
       const resampled = new Float64Array(CYCLE_POINTS);
 
+      const sides = options.sides ?? {};
+      const fixedSide = (name: string): Side | null => (Object.hasOwn(sides, name) ? (sides[name] as Side) : null);
+
       const muscle = (name: string): MuscleAccumulator => {
         let acc = accumulators.get(name);
         if (acc === undefined) {
@@ -94,8 +99,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             strides,
             state: {
               name,
-              side: null,
-              sideSource: null,
+              side: fixedSide(name),
+              sideSource: fixedSide(name) === null ? null : 'declared',
               species: DEFAULT_SPECIES,
               curve: speciesCurve(DEFAULT_SPECIES),
               sarcomeresInSeries: Number.NaN,
@@ -313,7 +318,7 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             if (f.trial !== undefined) state.trial = f.trial;
             for (const [name, decl] of Object.entries(f.muscles)) {
               const m = muscle(name).state;
-              if (decl.side !== undefined) {
+              if (decl.side !== undefined && fixedSide(name) === null) {
                 m.side = decl.side;
                 m.sideSource = 'declared';
               }

@@ -1,6 +1,6 @@
 /** The whole pipeline, in the data's order. Live and replay both run exactly this. */
 import type { OperatorFunction } from 'rxjs';
-import type { Batch } from '../trial/records.ts';
+import type { Batch, Side } from '../trial/records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialState } from '../trial/state.ts';
 import { restoreGaps } from './restore-gaps.ts';
@@ -29,6 +29,8 @@ export interface PipelineOptions {
   readonly estimateWindowS?: number;
   /** Share of a stride that may be gap time before it is flagged and left out of the trial figures. @default 0.1 */
   readonly maxGapFraction?: number;
+  /** Muscles' sides given outside the stream (a mapping's muscles, --side): they win over the stream header's. */
+  readonly sides?: Readonly<Record<string, Side>>;
 }
 
 /** Validated records in, the trial's running state out (the same object, once per batch). */
@@ -58,12 +60,13 @@ export function pipeline(options: PipelineOptions): OperatorFunction<Batch, Tria
       )
       .pipe(
         // Strides and the summary.
-        segmentStrides(),
+        segmentStrides(options.sides !== undefined ? { sides: options.sides } : {}),
         estimateStrides(options.estimateWindowS !== undefined ? { windowS: options.estimateWindowS } : {}),
         accumulateSummary({
           source: options.source,
           ...gap,
           ...(options.maxGapFraction !== undefined ? { maxGapFraction: options.maxGapFraction } : {}),
+          ...(options.sides !== undefined ? { sides: options.sides } : {}),
         }),
       );
 }

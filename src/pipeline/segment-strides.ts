@@ -9,15 +9,22 @@ interface MuscleStrides {
   index: number;
 }
 
+export interface SegmentStridesOptions {
+  /** Sides given outside the stream (a mapping, --side): they win over the stream header's, and no side is guessed for them. */
+  readonly sides?: Readonly<Record<string, Side>>;
+}
+
 /**
  * Cuts each muscle's samples into strides from one foot strike of its side to the next: stamps
- * `strideIndex` on samples and says each boundary as a StrideBoundary frame. A muscle with no side in
- * the header takes the side of the first foot strike seen, and a Notice says so.
+ * `strideIndex` on samples and says each boundary as a StrideBoundary frame. A muscle with no side
+ * given (options.sides) or declared in the header takes the side of the first foot strike seen, and a
+ * Notice says so.
  */
-export function segmentStrides(): OperatorFunction<Batch, Batch> {
+export function segmentStrides(options: SegmentStridesOptions = {}): OperatorFunction<Batch, Batch> {
+  const fixed = new Map<string, Side>(Object.entries(options.sides ?? {}));
   return statefulStage(() => {
     const muscles = new Map<string, MuscleStrides>();
-    const declared = new Map<string, Side>();
+    const declared = new Map<string, Side>(fixed);
     let firstStrikeSide: Side | null = null;
 
     const muscleOf = (name: string, out: OutBatch): MuscleStrides => {
@@ -35,7 +42,7 @@ export function segmentStrides(): OperatorFunction<Batch, Batch> {
       out.insert({
         kind: 'notice',
         muscle: name,
-        text: `${name}: no side declared in the header, so it takes the side of the first foot strike seen (${side}); declare "muscles": {"${name}": {"side": "left"|"right"}} in the header to be sure`,
+        text: `${name}: no side declared in the header, so it takes the side of the first foot strike seen (${side}); give it with --side ${name}=left|right (or "muscles": {"${name}": {"side": …}} in a mapping or the stream header) to be sure`,
       });
     };
 
@@ -52,6 +59,7 @@ export function segmentStrides(): OperatorFunction<Batch, Batch> {
         if (f.kind === 'header') {
           // Declared muscles count strides from the first foot strike, even before their first sample.
           for (const [name, decl] of Object.entries(f.muscles)) {
+            if (fixed.has(name)) continue;
             if (decl.side !== undefined) declared.set(name, decl.side);
             const m = muscles.get(name);
             if (m === undefined) muscleOf(name, out);

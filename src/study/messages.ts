@@ -1,12 +1,17 @@
 /** What the study runner and its worker threads say to each other (structured-clone data only). */
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
+import type { Side } from '../trial/records.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
 
 export interface WorkerSetup {
   readonly calibration?: CalibrationSpec;
-  /** NDJSON trials in a device's own names and units. */
+  /** Trials in a device's own names, units and table layout. */
   readonly mapping?: DeviceMapping;
+  /** The --events file, for every trial. */
+  readonly eventsPath?: string;
+  /** Muscles' sides (--side and the mapping's). */
+  readonly sides?: Readonly<Record<string, Side>>;
   /** Samples between two progress messages of one trial. */
   readonly progressEverySamples: number;
   /** Draw each trial's report sections too, keyed by the job's place in the study (id + 1). */

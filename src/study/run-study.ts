@@ -8,6 +8,7 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
+import type { Side } from '../trial/records.ts';
 import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
 
@@ -32,6 +33,9 @@ export interface StudyOptions {
   readonly jobs?: number;
   readonly calibration?: CalibrationSpec;
   readonly mapping?: DeviceMapping;
+  /** Gait events from another system, for every trial (--events). */
+  readonly eventsPath?: string;
+  readonly sides?: Readonly<Record<string, Side>>;
   readonly onEvent?: (event: StudyEvent) => void;
   /** Stops the workers; trials not finished come back as failures saying so. */
   readonly signal?: AbortSignal;
@@ -95,6 +99,8 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
   const setup: WorkerSetup = {
     ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
     ...(options.mapping !== undefined ? { mapping: options.mapping } : {}),
+    ...(options.eventsPath !== undefined ? { eventsPath: options.eventsPath } : {}),
+    ...(options.sides !== undefined ? { sides: options.sides } : {}),
     progressEverySamples: options.progressEverySamples ?? 20_000,
     drawReport: options.drawReport ?? false,
   };

@@ -29,6 +29,8 @@ port.on('message', (job: JobMessage) => {
   void summarizeTrial(job.path, {
     ...(setup.calibration !== undefined ? { calibration: setup.calibration } : {}),
     ...(setup.mapping !== undefined ? { mapping: setup.mapping } : {}),
+    ...(setup.eventsPath !== undefined ? { eventsPath: setup.eventsPath } : {}),
+    ...(setup.sides !== undefined ? { sides: setup.sides } : {}),
     onProgress: ({ bytesRead, samples }) => {
       if (samples - posted < setup.progressEverySamples) return;
       posted = samples;

@@ -4,12 +4,15 @@
  */
 import { open, stat } from 'node:fs/promises';
 import { tap } from 'rxjs';
-import { fileSource } from '../../adapters/file-source.ts';
+import { trialSource } from '../../adapters/trial-source.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
-import { REASON_TEXT, type RejectReason } from '../trial/reasons.ts';
+import type { Side } from '../trial/records.ts';
+import { RejectionTally } from '../trial/rejection-tally.ts';
+import { noUsableSample } from '../run/no-usable-sample.ts';
 import { runTrial } from '../run/run-trial.ts';
 import { summaryJson, type SummaryJson } from '../output/summary-json.ts';
+import type { TrialState } from '../trial/state.ts';
 
 export type TrialOutcome =
   | {
@@ -35,8 +38,12 @@ export interface TrialProgress {
 export interface SummarizeTrialOptions {
   /** Wins over each trial's header calibration, as in `replay --calibration`. */
   readonly calibration?: CalibrationSpec;
-  /** NDJSON trials in a device's own names and units, as in `replay --mapping`. */
+  /** Trials in a device's own names, units and table layout, as in `replay --mapping`. */
   readonly mapping?: DeviceMapping;
+  /** Gait events from another system, as in `replay --events`. */
+  readonly eventsPath?: string;
+  /** Muscles' sides, as in `replay --side` (the mapping's sides included). */
+  readonly sides?: Readonly<Record<string, Side>>;
   /** Called after each batch of input. */
   readonly onProgress?: (progress: TrialProgress) => void;
 }
@@ -62,13 +69,6 @@ function errorMessage(error: unknown): string {
   return error instanceof Error ? error.message : String(error);
 }
 
-function rejectionList(byReason: Record<string, number>): string {
-  return Object.entries(byReason)
-    .sort((a, b) => b[1] - a[1])
-    .map(([reason, n]) => `${n} ${reason} (${REASON_TEXT[reason as RejectReason] ?? reason})`)
-    .join('; ');
-}
-
 /** Runs one trial file through the pipeline and returns its summary, or what went wrong and how to fix it. */
 export async function summarizeTrial(path: string, options: SummarizeTrialOptions = {}): Promise<TrialOutcome> {
   let size: number;
@@ -92,32 +92,33 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
 
   let samples = 0;
   let lastLine = 0;
+  const rejections = new RejectionTally();
   const onProgress = options.onProgress;
-  const records$ = fileSource(path, { mapping: options.mapping ?? null }).pipe(
+  const records$ = trialSource(path, { mapping: options.mapping ?? null, eventsPath: options.eventsPath }).pipe(
     tap((batch) => {
       for (const frame of batch) {
-        if (frame.kind === 'sample') samples++;
-        if ('line' in frame && frame.line > lastLine) lastLine = frame.line;
+        if (frame.kind === 'sample') {
+          samples++;
+          if (frame.line > lastLine) lastLine = frame.line;
+        } else if (frame.kind === 'rejection') rejections.add(frame);
       }
       onProgress?.({ bytesRead: Math.min(size, lastLine * perLine), samples });
     }),
   );
-  const trial = runTrial(records$, { source: path, ...(options.calibration !== undefined ? { calibration: options.calibration } : {}) });
-  let summary: SummaryJson;
+  const trial = runTrial(records$, {
+    source: path,
+    ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
+    ...(options.sides !== undefined ? { sides: options.sides } : {}),
+  });
+  let state: TrialState;
   try {
-    summary = summaryJson(await trial.done);
+    state = await trial.done;
   } catch (error) {
     return { ok: false, path, bytes: size, message: errorMessage(error) };
   }
+  const nothing = noUsableSample(path, state, rejections);
+  if (nothing !== null) return { ok: false, path, bytes: size, message: nothing };
+  const summary = summaryJson(state);
   const f = summary.frames;
-  if (f.accepted === 0) {
-    const message =
-      f.received === 0
-        ? `${path} is empty: no records; give a lengthwise-stream trial (NDJSON or CSV)`
-        : `${path} has no valid sample in ${f.received} lines` +
-          (f.rejected > 0 ? ` (rejected: ${rejectionList(f.rejected_by_reason)})` : '') +
-          '; check that it is a lengthwise-stream trial (NDJSON, its CSV variant, or a session log)';
-    return { ok: false, path, bytes: size, message };
-  }
   return { ok: true, path, summary, samples: f.accepted, bytes: size };
 }

@@ -108,6 +108,8 @@ export interface Rejection {
   readonly line: number;
   /** The start of the offending input (at most 200 characters), for the log. */
   readonly excerpt: string;
+  /** The column or key at fault, as the input names it, when one is. */
+  readonly field?: string;
 }
 
 /**

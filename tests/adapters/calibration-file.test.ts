@@ -161,7 +161,8 @@ describe('parseCalibration: bad input', () => {
   });
 
   it('names a missing muscles object', () => {
-    expect(problemsOf({ calf: {} })[0]).toMatch(/^muscles: missing or not an object/);
+    expect(problemsOf({ calf: {} })).toEqual(expect.arrayContaining(['`calf`: unknown key; accepted here: muscles']));
+    expect(problemsOf({ calf: {} })[1]).toMatch(/^muscles: missing or not an object/);
     expect(problemsOf(null)[0]).toMatch(/^\(top level\)/);
   });
 
@@ -169,8 +170,23 @@ describe('parseCalibration: bad input', () => {
     const problems = problemsOf({
       muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, filaments: { myosin: 1.6 }, shape: 'bell' } },
     });
-    expect(problems.join('\n')).toMatch(/muscles.calf.filaments: unknown key in "filaments"; accepted: thick_um, thin_um/);
+    expect(problems.join('\n')).toMatch(/`muscles.calf.filaments.myosin`: unknown key; accepted here: thick_um, thin_um/);
     expect(problems.join('\n')).toMatch(/muscles.calf.shape: unknown curve shape "bell"; accepted: "geometric", "gaussian", "three-gaussian"/);
+  });
+
+  it('refuses a misspelled key with its full path and the nearest accepted key, instead of ignoring it', () => {
+    const problems = problemsOf({
+      muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, sarcomeres_in_series_sdd: 500 } },
+    });
+    expect(problems[0]).toBe(
+      '`muscles.calf.sarcomeres_in_series_sdd`: unknown key; did you mean `muscles.calf.sarcomeres_in_series_sd`?',
+    );
+    expect(problemsOf({ muscle: {} })[0]).toBe('`muscle`: unknown key; did you mean `muscles`?');
+  });
+
+  it("refuses a key of another method's, naming the keys of the method given", () => {
+    const problems = problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, optimal_fascicle_mm: 60 } } });
+    expect(problems[0]).toMatch(/^`muscles.calf.optimal_fascicle_mm`: unknown key; accepted here: species, filaments, .*sarcomeres_in_series, sarcomeres_in_series_sd\b/);
   });
 
   it('names filament lengths that are each in range but make no curve together', () => {
@@ -243,6 +259,25 @@ describe('readCalibrationFile', () => {
     await writeFile(path, JSON.stringify({ muscles: { calf: { species: 'cat', method: 'sarcomere_count', sarcomeres_in_series: 18000 } } }));
     const r = await readCalibrationFile(path);
     expect(r.ok === false && r.problems[0]).toBe(`${path}: muscles.calf.species: unknown species "cat"; accepted: "human", "frog"`);
+  });
+
+  it('refuses a file that names a muscle twice, instead of keeping the last silently', async () => {
+    const path = join(dir, 'twice.json');
+    await writeFile(
+      path,
+      '{"muscles": {\n  "calf": {"method": "sarcomere_count", "sarcomeres_in_series": 18000},\n' +
+        '  "calf": {"method": "sarcomere_count", "sarcomeres_in_series": 21000}\n}}\n',
+    );
+    const r = await readCalibrationFile(path);
+    expect(r.ok === false && r.problems).toEqual([
+      `${path}: \`muscles.calf\`: given twice (lines 2 and 3); a key may appear once in its object: keep the one you mean`,
+    ]);
+  });
+
+  it('reads a file that starts with a UTF-8 byte-order mark', async () => {
+    const path = join(dir, 'bom.json');
+    await writeFile(path, `\uFEFF${JSON.stringify({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 18000 } } })}`);
+    expect(await readCalibrationFile(path)).toMatchObject({ ok: true, spec: { muscles: { calf: { sarcomeresInSeries: 18000 } } } });
   });
 
   it('says when the file is missing', async () => {

@@ -28,13 +28,13 @@ const ending = fc.constantFrom('\n', '\r\n', '\n\n');
 /** What fileSource must give: the text lines of readLines, each read by the text parser. */
 async function reference(path: string, csv: boolean, options: { chunkBytes: number; maxLineBytes: number }): Promise<Frame[]> {
   const batches = await lastValueFrom(readLines(path, options).pipe(toArray()));
-  const parse = csv ? createCsvParser() : parseNdjsonLine;
+  const parse = csv ? createCsvParser() : (text: string, line: number): Frame[] => [parseNdjsonLine(text, line)];
   const frames: Frame[] = [];
   for (const b of batches) {
     b.texts.forEach((text, i) => {
       const line = b.lineNumbers[i] as number;
       const over = b.overLongBytes[i] as number;
-      frames.push(over > 0 ? tooLongRejection(line, over, options.maxLineBytes, text) : parse(text, line));
+      frames.push(...(over > 0 ? [tooLongRejection(line, over, options.maxLineBytes, text)] : parse(text, line)));
     });
   }
   return frames;

@@ -3,8 +3,10 @@ import { setTimeout as sleep } from 'node:timers/promises';
 import { paceReplay, readAheadValve } from '../../src/pipeline/pace-replay.ts';
 import { afterAll, describe, expect, it } from 'vitest';
 import { detectFormat, fileSource, SourceFormatError } from '../../adapters/file-source.ts';
+import { parseDeviceMapping } from '../../adapters/device-mapping.ts';
 import { LineReadError } from '../../adapters/read-lines.ts';
 import type { Batch, Frame } from '../../src/trial/records.ts';
+import { stringify } from 'csv-stringify/sync';
 import { csvTrial, ndjsonTrial, tempDir } from './invented-trial.ts';
 
 const tmp = tempDir();
@@ -94,7 +96,29 @@ describe('fileSource', () => {
     const error: unknown = await batchesOf(tmp.file('bad-header.csv', 'time_s,muscle\n0,calf\n')).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(SourceFormatError);
     expect(error).toMatchObject({ line: 1 });
-    expect((error as Error).message).toContain('lacks column fascicle_mm');
+    expect((error as Error).message).toContain('lacks column "fascicle_mm"');
+  });
+
+  it('keeps the first header row\'s columns to the end of a CSV file: a bare time_s line or a swapped header row mid-file is one rejected line', async () => {
+    const content = stringify([
+      ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg'],
+      ['0', 'calf', '50', '20'],
+      ['time_s'],
+      ['0.01', 'calf', '51', '21'],
+      ['time_s', 'muscle', 'pennation_deg', 'fascicle_mm'],
+      ['0.02', 'calf', '52', '22'],
+      ['time_s', 'muscle', 'fascicle_mm', 'pennation_deg'],
+      ['0.03', 'calf', '53', '23'],
+    ]);
+    const frames = (await batchesOf(tmp.file('joined.csv', content))).flat();
+    expect(frames.map((f) => (f.kind === 'rejection' ? f.reason : f.kind))).toEqual(['header', 'sample', 'schema', 'sample', 'schema', 'sample', 'header', 'sample']);
+    const samples = frames.filter((f) => f.kind === 'sample');
+    expect(samples.map((f) => [f.fascicleMm, f.pennationDeg])).toEqual([
+      [50, 20],
+      [51, 21],
+      [52, 22],
+      [53, 23],
+    ]);
   });
 
   it('errors with a LineReadError when the file is missing', async () => {
@@ -154,6 +178,37 @@ describe('fileSource', () => {
   it('can be told the format', async () => {
     const path = tmp.file('forced.csv', '{"t":0,"marker":"m"}\n');
     expect((await batchesOf(path, { format: 'ndjson' })).flat()).toMatchObject([{ kind: 'marker' }]);
+  });
+});
+
+describe('fileSource reading tables in any layout', () => {
+  const layouts = [',', ';', '\t', '|'].flatMap((delimiter) => (delimiter === ',' ? ['.'] : ['.', ',']).map((decimal) => ({ delimiter, decimal })));
+  const num = (x: number, decimal: string): string => String(x).replace('.', decimal);
+
+  it.each(layouts)('reads a long and a wide table split at $delimiter with decimal mark $decimal, under notes, with CRLF and a byte-order mark', async ({ delimiter, decimal }) => {
+    const notes = '\uFEFFInvented export, station 4\r\nunits in the header\r\n\r\n';
+    const longPath = tmp.file(
+      `long-${delimiter.charCodeAt(0)}-${decimal.charCodeAt(0)}.txt`,
+      notes +
+        stringify(
+          [
+            ['Time (s)', 'Muscle', 'Fascicle (mm)'],
+            [num(0.5, decimal), 'calf', num(52.25, decimal)],
+            [num(0.51, decimal), 'calf, medial', num(52.5, decimal)],
+          ],
+          { delimiter, record_delimiter: '\r\n' },
+        ),
+    );
+    const long = parseDeviceMapping({ format: 'lengthwise-mapping', version: 1, fields: { t: 'Time (s)', muscle: 'Muscle', fascicle: 'Fascicle (mm)' } });
+    const widePath = tmp.file(
+      `wide-${delimiter.charCodeAt(0)}-${decimal.charCodeAt(0)}.txt`,
+      notes + stringify([['t', 'A (mm)', 'B (mm)'], [num(0.5, decimal), num(41.5, decimal), num(60.25, decimal)], [num(0.51, decimal), '', num(60.5, decimal)]], { delimiter, record_delimiter: '\r\n' }),
+    );
+    const wide = parseDeviceMapping({ format: 'lengthwise-mapping', version: 1, fields: { t: 't' }, muscles: { a: { fascicle: 'A (mm)' }, b: { fascicle: 'B (mm)' } } });
+    if (!long.ok || !wide.ok) throw new Error('bad mapping');
+    const summary = (frames: Frame[]): string[] => frames.map((f) => (f.kind === 'sample' ? `${f.muscle}@${f.tS}=${f.fascicleMm}` : f.kind));
+    expect(summary((await batchesOf(longPath, { mapping: long.mapping })).flat())).toEqual(['header', 'calf@0.5=52.25', 'calf, medial@0.51=52.5']);
+    expect(summary((await batchesOf(widePath, { mapping: wide.mapping })).flat())).toEqual(['header', 'a@0.5=41.5', 'b@0.5=60.25', 'b@0.51=60.5']);
   });
 });
 

@@ -153,10 +153,11 @@ describe('lengthwise replay --mapping', () => {
     }
   });
 
-  it('refuses a CSV file with a mapping, saying why, and a mapping that is not one', async () => {
+  it('refuses a CSV file in columns the mapping does not name, saying which, and a mapping that is not one', async () => {
     const csv = await lengthwise(['replay', DEMO_CSV, '--mapping', MAPPING, '--speed', 'max', '--plain']);
     expect(csv.code).toBe(1);
-    expect(csv.stderr).toContain('a device mapping applies to NDJSON files, and this file is CSV');
+    expect(csv.stderr).toContain('no line among the first 64 names the columns "time_ms" (fields.t)');
+    expect(csv.stderr).toContain('line 1, the likeliest header row, has "time_s", "muscle", "fascicle_mm"');
     const dir = await tmp();
     const bad = join(dir, 'bad-mapping.json');
     await writeFile(bad, JSON.stringify({ format: 'lengthwise-mapping', version: 1, fields: { t: 3 } }));

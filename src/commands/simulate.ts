@@ -2,8 +2,8 @@
  * `lengthwise simulate`: a simulated device, to try live mode with no hardware. Serves (--listen) or
  * pushes (--connect) the synthetic gait stream of src/sim/ in real time, optionally with faults.
  */
-import { parseArgs } from 'node:util';
 import type { CommandIo } from '../run/io.ts';
+import { parseOptions } from './parse-command-args.ts';
 import { parseConnect, parseDuration, parseListen, type ListenAddress, type Parsed } from './option-values.ts';
 import { SCENARIOS, type Scenario } from '../sim/gait-generator.ts';
 import {
@@ -67,27 +67,18 @@ function numberOption(
 }
 
 export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
-  let values;
-  try {
-    ({ values } = parseArgs({
-      args: [...argv],
-      strict: true,
-      allowPositionals: false,
-      options: {
-        listen: { type: 'string' },
-        connect: { type: 'string' },
-        scenario: { type: 'string' },
-        rate: { type: 'string' },
-        muscles: { type: 'string' },
-        faults: { type: 'boolean' },
-        duration: { type: 'string' },
-        seed: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    }));
-  } catch (error) {
-    return { ok: false, problems: [`${(error as Error).message}; see lengthwise simulate --help for the options`] };
-  }
+  const result = parseOptions(argv, {
+    listen: { type: 'string' },
+    connect: { type: 'string' },
+    scenario: { type: 'string' },
+    rate: { type: 'string' },
+    muscles: { type: 'string' },
+    faults: { type: 'boolean' },
+    duration: { type: 'string' },
+    seed: { type: 'string' },
+  }, { allowPositionals: false });
+  if (!result.ok) return { ok: false, problems: [`${result.message}\n(lengthwise simulate --help lists every option)`] };
+  const { values } = result.parsed;
   if (values.help === true) return { ok: true, help: true };
   const problems: string[] = [];
   const value = <T>(parsed: Parsed<T> | null): T | null => {

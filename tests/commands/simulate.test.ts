@@ -77,7 +77,10 @@ describe('parseSimulateArgs', () => {
     });
     const unknown = parseSimulateArgs(['--listen', '0', '--colour']);
     expect(unknown.ok).toBe(false);
-    if (!unknown.ok) expect(unknown.problems[0]).toMatch(/--colour.*see lengthwise simulate --help/);
+    if (!unknown.ok) expect(unknown.problems[0]).toMatch(/`--colour`: unknown option\n\(lengthwise simulate --help lists every option\)/);
+    const near = parseSimulateArgs(['--listen', '0', '--scenaro', 'run']);
+    expect(near.ok).toBe(false);
+    if (!near.ok) expect(near.problems[0]).toContain('`--scenaro`: unknown option; did you mean `--scenario`?');
   });
 
   it('turns good options into simulator options', () => {

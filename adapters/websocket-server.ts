@@ -55,10 +55,14 @@ function sameText(a: string, b: string): boolean {
   return x.length === y.length && timingSafeEqual(x, y);
 }
 
+/** `Bearer CREDENTIALS`, the scheme in any letter case (an HTTP authentication scheme is case-insensitive). */
+const BEARER = /^\s*bearer +(\S.*)$/i;
+
 /** True when the upgrade request carries the token, in the Authorization header or the query. */
 export function hasToken(request: IncomingMessage, token: string): boolean {
   const auth = request.headers.authorization;
-  if (typeof auth === 'string' && auth.startsWith('Bearer ') && sameText(auth.slice(7).trim(), token)) return true;
+  const bearer = typeof auth === 'string' ? BEARER.exec(auth) : null;
+  if (bearer !== null && sameText((bearer[1] ?? '').trim(), token)) return true;
   const query = new URL(request.url ?? '/', 'ws://localhost').searchParams.get('token');
   return query !== null && sameText(query, token);
 }

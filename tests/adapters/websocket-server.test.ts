@@ -82,6 +82,17 @@ describe('websocketServer', () => {
     await until(() => samples(s.frames()) === 5, 4000, 'both');
   });
 
+  it('takes the Bearer scheme in any letter case', async () => {
+    // The authentication scheme is a case-insensitive token: RFC 9110 §11.1 (Fielding, Nottingham & Reschke 2022).
+    const s = await listen({ token: 'lab-secret-1' });
+    for (const scheme of ['bearer', 'BEARER', 'BeArEr']) {
+      expect(await upgradeStatus(s.url, { Authorization: `${scheme} lab-secret-1` }), scheme).toBeNull();
+    }
+    expect(await upgradeStatus(s.url, { Authorization: 'bearer lab-secret-2' })).toBe(401);
+    expect(await upgradeStatus(s.url, { Authorization: 'Bearerlab-secret-1' })).toBe(401);
+    expect(await upgradeStatus(s.url, { Authorization: 'Basic lab-secret-1' })).toBe(401);
+  });
+
   it('without a token, accepts any device', async () => {
     const s = await listen();
     expect(await upgradeStatus(s.url)).toBeNull();

@@ -8,7 +8,7 @@ import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer,
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
-import { parseConnect, parseDuration, parseListen } from './option-values.ts';
+import { isLoopbackHost, parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
@@ -31,11 +31,13 @@ Ingests a live fascicle stream over WebSocket and runs it through the same pipel
   --connect URL          connect to the acquisition computer's stream (ws:// or wss://); reconnects by
                          itself after a drop-out, each disconnection a gap in the data
   --listen [HOST:]PORT   be the server devices push to (several at once); binds 127.0.0.1 unless a host
-                         is given (0.0.0.0: every interface); PORT 0 picks a free port
+                         is given (0.0.0.0: every interface; needs --token); PORT 0 picks a free port
 
 options:
   --token T              --listen: refuse (401) a device without "Authorization: Bearer T" or ?token=T;
                          --connect: send that header
+  --no-token             --listen on an address other machines reach, with no token, on purpose: any
+                         machine that reaches the port can push data into the session (warned loudly)
   --mapping FILE         device field names and units (lengthwise-mapping JSON; see adapters/mappings/)
   --calibration FILE     calibration JSON; wins over the stream header's calibration
   --summary FILE.json    write the per-stride and per-trial summary at the end
@@ -99,6 +101,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     connect: { type: 'string' },
     listen: { type: 'string' },
     token: { type: 'string' },
+    'no-token': { type: 'boolean', default: false },
     ...TRIAL_FILE_OPTIONS,
     ...TRIAL_OUTPUT_OPTIONS,
     log: { type: 'string' },
@@ -123,6 +126,12 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     io.err('lengthwise live: --token is empty: give the token the devices send');
     return 2;
   }
+  const openListen = openListenProblem(listen !== null && listen.ok ? listen.value : null, values.token, values['no-token']);
+  if (openListen.refused !== null) {
+    io.err(`lengthwise live: ${openListen.refused}`);
+    return 2;
+  }
+  if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
   const files = await trialFiles('live', values, io);
   if (files === null) return 2;
   const calibration = files.calibration;
@@ -156,7 +165,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   } else {
     return 2;
   }
-  session.status({ sourceLabel: label, logPath });
+  session.status({ sourceLabel: label, logPath, ...(openListen.warning !== null ? { message: openListen.warning } : {}) });
 
   const records$ = merge(source$, session.extra$).pipe(
     writeSessionLog(log),
@@ -178,7 +187,33 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   const summary = values.summary ?? (log.complete ? summaryPathFor(log.path) : undefined);
   const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
+  if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
   return status;
+}
+
+/**
+ * Listening where other machines reach, with no token, is refused unless --no-token says it is meant;
+ * then it is a warning, said at the start and at the end. --no-token with anything else is refused.
+ */
+export function openListenProblem(
+  listen: { readonly host: string; readonly port: number } | null,
+  token: string | undefined,
+  noToken: boolean,
+): { readonly refused: string | null; readonly warning: string | null } {
+  if (noToken && token !== undefined) return { refused: 'give --token T or --no-token, not both', warning: null };
+  if (noToken && listen === null) return { refused: '--no-token is for --listen (with --connect, give --token T when the server asks for one)', warning: null };
+  if (listen === null || token !== undefined || isLoopbackHost(listen.host)) return { refused: null, warning: null };
+  const where = `${listen.host.includes(':') ? `[${listen.host}]` : listen.host}:${listen.port}`;
+  if (!noToken) {
+    return {
+      refused:
+        `--listen ${where} lets other machines connect, and no --token is given, so any of them could push data into the session. ` +
+        'Give --token T (each device then sends "Authorization: Bearer T" or ?token=T), listen on 127.0.0.1 (the default: --listen PORT), ' +
+        'or give --no-token to listen with no token on purpose',
+      warning: null,
+    };
+  }
+  return { refused: null, warning: `WARNING: listening on ${where} with NO TOKEN (--no-token): any machine that reaches this port can push data into the session` };
 }
 
 /** The summary written beside a session log when --summary is not given: LOG.summary.json. */

@@ -1,4 +1,5 @@
 /** Option values the commands share, each read one way everywhere: a value, or a message saying what is accepted. */
+import { BlockList, isIP } from 'node:net';
 
 export type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
 
@@ -15,6 +16,21 @@ export function parseListen(text: string): Parsed<ListenAddress> {
     return { ok: false, message: `--listen "${text}" is not an address: give PORT (e.g. 8765), HOST:PORT (e.g. 0.0.0.0:8765) or [IPv6]:PORT; PORT is 0–65535` };
   }
   return { ok: true, value: { host: m[1] ?? m[2] ?? '127.0.0.1', port } };
+}
+
+/** The loopback addresses: 127.0.0.0/8 and ::1 (IPv4-mapped 127.x included). */
+const LOOPBACK = new BlockList();
+LOOPBACK.addSubnet('127.0.0.0', 8, 'ipv4');
+LOOPBACK.addAddress('::1', 'ipv6');
+
+/**
+ * True when a host to listen on reaches this machine only: a loopback address, or `localhost`. Any
+ * other name is taken as reachable from elsewhere (what it resolves to is not known here).
+ */
+export function isLoopbackHost(host: string): boolean {
+  if (host.toLowerCase() === 'localhost') return true;
+  const family = isIP(host);
+  return family !== 0 && LOOPBACK.check(host, family === 4 ? 'ipv4' : 'ipv6');
 }
 
 /** Reads `--connect`: a ws:// or wss:// URL. */

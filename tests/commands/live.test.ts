@@ -113,6 +113,42 @@ describe('lengthwise live: options', () => {
   });
 });
 
+describe('lengthwise live --listen: secure by default', () => {
+  it.each([['0.0.0.0:0'], ['[::]:0'], ['lab-pc.invalid:0']])('refuses to listen on %s, where other machines reach, without a token', async (address) => {
+    const dir = await tmp();
+    const c = lengthwise(['live', '--listen', address, '--plain', '--log', join(dir, 'l.ndjson')]);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toContain('lets other machines connect, and no --token is given');
+    expect(c.stderr).toContain('--no-token');
+    expect(c.stderr).not.toContain('listening on');
+    expect(existsSync(join(dir, 'l.ndjson'))).toBe(false);
+  });
+
+  it('listens on every interface with --no-token, warning at the start and at the end', async () => {
+    const dir = await tmp();
+    const c = lengthwise(['live', '--listen', '0.0.0.0:0', '--no-token', '--plain', '--log', join(dir, 'l.ndjson'), '--summary', join(dir, 's.json'), '--duration', '2.5']);
+    await until(() => /listening on ws:\/\/0\.0\.0\.0:\d+/.test(c.stderr), 15_000, `the child to listen (stderr: ${c.stderr})`);
+    const port = Number(/listening on ws:\/\/0\.0\.0\.0:(\d+)/.exec(c.stderr)?.[1]);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, sampleTexts(5));
+    expect((await c.exited).code).toBe(0);
+    expect((await json(join(dir, 's.json'))).frames).toMatchObject({ accepted: 5 });
+    const warnings = c.stderr.split('\n').filter((l) => l.includes('WARNING: listening on 0.0.0.0:0 with NO TOKEN'));
+    expect(warnings).toHaveLength(2);
+    expect(c.stderr.indexOf('WARNING')).toBeLessThan(c.stderr.indexOf('listening on ws://'));
+  });
+
+  it.each([
+    [['--listen', '127.0.0.1:0', '--token', 't', '--no-token'], /--token T or --no-token, not both/],
+    [['--connect', 'ws://127.0.0.1:9', '--no-token'], /--no-token is for --listen/],
+  ])('refuses %j', async (args, message) => {
+    const c = lengthwise(['live', ...args]);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toMatch(message);
+  });
+});
+
 describe('lengthwise live --listen', () => {
   it('survives a killed process: the log of what was received replays with the same counts', async () => {
     const dir = await tmp();

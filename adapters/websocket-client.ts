@@ -9,6 +9,7 @@ import { WebSocket, type RawData } from 'ws';
 import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
+import { redactUrl } from './redact-url.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =
@@ -142,6 +143,8 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
   const random = options.random ?? Math.random;
   const pingMs = options.pingMs ?? 2000;
   const onLink = options.onLink ?? (() => undefined);
+  // Link events go to screens and messages: the address as it may be shown, a token in it hidden.
+  const shownUrl = redactUrl(options.url);
   return new Observable<Batch>((subscriber) => {
     const ingest = new Ingest(options);
     let socket: WebSocket | null = null;
@@ -154,7 +157,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
     const connect = (): void => {
       retry = null;
       if (stopped) return;
-      onLink({ kind: 'connecting', url: options.url, attempt });
+      onLink({ kind: 'connecting', url: shownUrl, attempt });
       const ws = new WebSocket(options.url, {
         maxPayload: ingest.maxMessageBytes,
         skipUTF8Validation: true,
@@ -169,7 +172,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
         opened = true;
         attempt = 0;
         connection++;
-        onLink({ kind: 'connected', connection, peer: options.url });
+        onLink({ kind: 'connected', connection, peer: shownUrl });
         ping = keepAlive(ws, pingMs, scheduler, (why) => (lastError = why));
       });
       ws.on('message', (data: RawData) => subscriber.next(ingest.message(data, peer)));

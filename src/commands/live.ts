@@ -15,6 +15,7 @@ import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
 import { unitHint, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { redactUrl } from '../../adapters/redact-url.ts';
 import { OLD_LINK_MARKER_PREFIX } from '../../adapters/old-link-marker.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
@@ -146,7 +147,8 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   let source$: Observable<Batch>;
   const onLink = (event: LinkEvent): void => session.link(event);
   if (connect !== null && connect.ok) {
-    label = connect.value;
+    // What is shown and written (summary source, report, screen, messages): the address with a token in it hidden.
+    label = redactUrl(connect.value);
     source$ = websocketClient({
       url: connect.value,
       mapping,

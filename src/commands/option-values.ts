@@ -1,5 +1,6 @@
 /** Option values the commands share, each read one way everywhere: a value, or a message saying what is accepted. */
 import { BlockList, isIP } from 'node:net';
+import { redactUrl } from '../../adapters/redact-url.ts';
 
 export type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
 
@@ -33,16 +34,17 @@ export function isLoopbackHost(host: string): boolean {
   return family !== 0 && LOOPBACK.check(host, family === 4 ? 'ipv4' : 'ipv6');
 }
 
-/** Reads `--connect`: a ws:// or wss:// URL. */
+/** Reads `--connect`: a ws:// or wss:// URL. A token in it is never repeated in a message. */
 export function parseConnect(text: string): Parsed<string> {
   let url: URL;
+  const shown = redactUrl(text);
   try {
     url = new URL(text);
   } catch {
-    return { ok: false, message: `--connect "${text}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
+    return { ok: false, message: `--connect "${shown}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
   }
   if (url.protocol !== 'ws:' && url.protocol !== 'wss:') {
-    return { ok: false, message: `--connect "${text}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
+    return { ok: false, message: `--connect "${shown}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
   }
   return { ok: true, value: url.href };
 }

@@ -377,3 +377,39 @@ describe('lengthwise live in-process, on virtual time', () => {
     expect(out.join('\n')).toContain('25 samples accepted');
   });
 });
+
+describe('lengthwise live --connect with a token in the URL', () => {
+  it('never shows the token: status lines, messages, summary source, report and log hide it', { timeout: 30_000 }, async () => {
+    const sim = await startSimulator({ port: 0, seed: 2, durationS: 1.5 });
+    stops.push(() => sim.stop());
+    const dir = await tmp();
+    const scheduler = new VirtualTimeScheduler(VirtualAction, 60_000);
+    const out: string[] = [];
+    const err: string[] = [];
+    const io: CommandIo = { out: (t) => out.push(t), err: (t) => err.push(t), stdout: process.stdout, stderr: process.stderr, stdin: process.stdin, env: { NO_COLOR: '1' } };
+    const url = `${sim.url}/?token=sekrit-42`;
+    const files = { log: join(dir, 'l.ndjson'), summary: join(dir, 's.json'), report: join(dir, 'r.html') };
+    const ran = run(['--connect', url, '--plain', '--duration', '30', '--log', files.log, '--summary', files.summary, '--report', files.report], io, { scheduler });
+    await sim.done;
+    await until(() => err.some((l) => l.startsWith('DISCONNECTED')), 15_000, 'the end of the stream');
+    // Thirty virtual seconds at once: status lines every 3 s, then the end.
+    scheduler.flush();
+    expect(await ran).toBe(0);
+    const shown = `${sim.url}/?token=***`;
+    const said = [...out, ...err].join('\n');
+    expect(said).toContain(`connecting to ${shown}`);
+    expect(err.some((l) => l.startsWith(`${shown} | `))).toBe(true);
+    expect((await json(files.summary))['source']).toBe(shown);
+    for (const text of [said, await readFile(files.summary, 'utf8'), await readFile(files.report, 'utf8'), await readFile(files.log, 'utf8')]) {
+      expect(text).not.toContain('sekrit-42');
+    }
+    expect(await readFile(files.report, 'utf8')).toContain('token=***');
+  });
+
+  it('does not repeat the token of a URL it refuses', async () => {
+    const c = lengthwise(['live', '--connect', 'http://127.0.0.1:9/?token=sekrit-42']);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toContain('"http://127.0.0.1:9/?token=***" is a http: URL');
+    expect(c.stderr).not.toContain('sekrit-42');
+  });
+});

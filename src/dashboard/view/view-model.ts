@@ -22,6 +22,7 @@ import {
   type Alert,
 } from './alerts.ts';
 import type { RunStatus } from '../../trial/run-status.ts';
+import { calibrationKnown } from '../../trial/calibration-known.ts';
 
 /** How many sarcomere lengths each muscle's sparkline remembers (about 10 s at the frame rate). */
 export const HISTORY_SIZE = 160;
@@ -83,7 +84,11 @@ export interface TrialView {
   readonly source: string;
   readonly subject: string | null;
   readonly trial: string | null;
-  readonly calibrated: boolean;
+  /**
+   * true: every muscle has a calibration from a file, the header or a capture; false: one runs on the
+   * assumed baseline; null: not known yet (no state, no muscle, or a muscle whose calibration has not come).
+   */
+  readonly calibrated: boolean | null;
   readonly ended: boolean;
   readonly received: number;
   readonly accepted: number;
@@ -190,7 +195,7 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
       source: '',
       subject: null,
       trial: null,
-      calibrated: false,
+      calibrated: null,
       ended: false,
       received: 0,
       accepted: 0,
@@ -262,7 +267,7 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
     source: state.source,
     subject: state.subject,
     trial: state.trial,
-    calibrated: state.calibrated,
+    calibrated: calibrationKnown(state),
     ended: state.ended,
     received: state.frames.received,
     accepted: state.frames.accepted,
@@ -284,7 +289,7 @@ export function detectAlerts(view: TrialView, status: RunStatus, canCalibrate: b
   const found: (Alert | null)[] = [
     streamErrorAlert(view.error),
     connectionAlert(status.connection),
-    uncalibratedAlert(view.calibrated, view.muscles.length, canCalibrate),
+    uncalibratedAlert(view.calibrated !== false, view.muscles.length, canCalibrate),
   ];
   const ages = new Map(view.muscles.map((m) => [m.name, m.lastSampleAgeMs] as const));
   found.push(...noSamplesAlerts(ages, view.ended, status.connection));

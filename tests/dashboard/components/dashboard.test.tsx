@@ -73,6 +73,33 @@ describe('Dashboard', () => {
     await shows(screen, 'waiting for the first samples');
   });
 
+  it('never says UNCALIBRATED for a calibrated trial, from its first frame on', async () => {
+    // Before the trial's first state, then with a muscle declared by the header but no calibration yet
+    // (it comes with the first sample), then calibrated from the header.
+    const state$ = new Subject<TrialState>();
+    const { screen, advance } = show(state$);
+    await advance(100);
+    const declared = makeTrialState([makeMuscle('calf', { calibrationSource: null })]);
+    declared.calibrated = true;
+    state$.next(declared);
+    await advance(100);
+    await shows(screen, 'calibration pending');
+    state$.next(walkingState());
+    await advance(300);
+    await frameWhere(screen, (f) => /calibrated · t/.test(plain(f)), 'calibrated in the status line');
+    expect(screen.out.frames.filter((f) => plain(f).includes('UNCALIBRATED'))).toEqual([]);
+  });
+
+  it('says UNCALIBRATED as soon as one muscle runs on the assumed baseline', async () => {
+    const state = walkingState();
+    state.muscles.set('shin', makeMuscle('shin', { side: 'right', calibrationSource: null }));
+    state.muscles.set('foot', makeMuscle('foot', { side: 'right', calibrationSource: 'baseline' }));
+    state.calibrated = false;
+    const { screen, advance } = show(new BehaviorSubject(state));
+    await advance(300);
+    await shows(screen, 'UNCALIBRATED');
+  });
+
   it('shows each muscle with its numbers and units', async () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()));
     await advance(300);

@@ -348,11 +348,11 @@ describe('Dashboard', () => {
     await waitFor(() => markers.length === 2, 'two markers');
     expect(markers).toEqual(['marker 1 at trial time 0:05.0 (14:03:09)', 'marker 2 at trial time 0:05.0 (14:03:09)']);
     await advance(100);
-    await shows(screen, 'marker 2 dropped');
+    await shows(screen, 'marker 2 placed');
     await screen.press(' ');
     await shows(screen, 'FROZEN');
     await advance(3000);
-    await hides(screen, 'marker 2 dropped');
+    await hides(screen, 'marker 2 placed');
   });
 
   it('asks the sarcomere length on c and calibrates the focused muscle, 2.7 µm by default', async () => {

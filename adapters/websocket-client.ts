@@ -8,7 +8,7 @@ import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscriptio
 import { WebSocket, type RawData } from 'ws';
 import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
-import { closeGently, keepAlive } from './socket-care.ts';
+import { closeGently, keepAlive, refusalReason } from './socket-care.ts';
 import { redactUrl } from './redact-url.ts';
 
 /** What a link is doing, for the screen and the status lines. */
@@ -168,6 +168,15 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
       const peer = newPeerTrack();
       let opened = false;
       let lastError = '';
+      let refused = false;
+      // The server answered with an HTTP status of its own (401 without the right token): its reason, in full.
+      ws.on('unexpected-response', (_request, response) => {
+        void refusalReason(response).then((reason) => {
+          refused = true;
+          lastError = `the server refused the connection: ${reason}`;
+          ws.terminate();
+        });
+      });
       ws.on('open', () => {
         opened = true;
         attempt = 0;
@@ -178,7 +187,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
       ws.on('message', (data: RawData) => subscriber.next(ingest.message(data, peer)));
       ws.on('error', (error: Error & { code?: string }) => {
         if (error.code === 'WS_ERR_UNSUPPORTED_MESSAGE_LENGTH') subscriber.next(ingest.oversize());
-        lastError = error.code !== undefined && error.code.startsWith('WS_') ? error.message : `${error.message}`;
+        if (!refused) lastError = error.message;
       });
       ws.on('close', (code: number, reason: Buffer) => {
         ping?.unsubscribe();

@@ -54,12 +54,14 @@ options:
 The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
 closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
 
-function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefined {
+/** The connection as the screen shows it; `connectedBefore`: a connection was made once this session. */
+function connectionOf(event: LinkEvent, open: number, connectedBefore: boolean): ConnectionStatus | undefined {
   switch (event.kind) {
     case 'connecting':
-      return event.attempt === 0 ? { state: 'reconnecting', detail: `connecting to ${event.url}` } : undefined;
+      if (event.attempt !== 0) return undefined;
+      return connectedBefore ? { state: 'reconnecting', detail: `connecting to ${event.url}` } : { state: 'connecting', detail: `connecting to ${event.url}` };
     case 'retrying':
-      return { state: 'reconnecting', retryInS: event.inMs / 1000, detail: event.detail };
+      return { state: connectedBefore ? 'reconnecting' : 'connecting', retryInS: event.inMs / 1000, detail: event.detail };
     case 'connected':
       return { state: 'connected', detail: open > 1 ? `${open} devices` : event.peer };
     case 'disconnected':
@@ -72,7 +74,7 @@ function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefi
   }
 }
 
-function linkText(event: LinkEvent): string | null {
+function linkText(event: LinkEvent, connectedBefore: boolean): string | null {
   switch (event.kind) {
     case 'connecting':
       return event.attempt === 0 ? `connecting to ${event.url}` : null;
@@ -81,7 +83,10 @@ function linkText(event: LinkEvent): string | null {
     case 'disconnected':
       return `DISCONNECTED: ${event.detail}`;
     case 'retrying':
-      return event.attempt === 0 || event.attempt % 5 === 0 ? `reconnecting in ${(event.inMs / 1000).toFixed(1)} s (${event.detail})` : null;
+      if (!(event.attempt === 0 || event.attempt % 5 === 0)) return null;
+      return connectedBefore
+        ? `reconnecting in ${(event.inMs / 1000).toFixed(1)} s (${event.detail})`
+        : `not connected: ${event.detail}; trying again in ${(event.inMs / 1000).toFixed(1)} s`;
     case 'listening':
       return `listening on ${event.url}`;
     case 'refused':
@@ -233,6 +238,9 @@ class LiveSession {
   private readonly status$ = new BehaviorSubject<RunStatus>({});
   private readonly hinted = new Set<string>();
   private open = 0;
+  private connectedBefore = false;
+  /** The first link line (connecting to…, listening on…) is said at once, before the screen is up. */
+  private saidFirstLink = false;
   private logNoticeSent = false;
   private logMessage: string | null = null;
   private stopped = false;
@@ -257,10 +265,13 @@ class LiveSession {
     if (event.kind === 'connected') this.open++;
     if (event.kind === 'disconnected') this.open = Math.max(0, this.open - 1);
     if (event.kind === 'listening') this.status({ sourceLabel: event.url });
-    const connection = connectionOf(event, this.open);
+    const connection = connectionOf(event, this.open, this.connectedBefore);
+    const text = linkText(event, this.connectedBefore);
+    if (event.kind === 'connected') this.connectedBefore = true;
     if (connection !== undefined && !this.stopped) this.status({ connection });
-    const text = linkText(event);
-    if (text !== null && this.plain) this.io.err(text);
+    const first = !this.saidFirstLink && (event.kind === 'connecting' || event.kind === 'listening');
+    if (first) this.saidFirstLink = true;
+    if (text !== null && (this.plain || first)) this.io.err(first && !this.plain ? `lengthwise live: ${text}` : text);
   }
 
   /** The log stopped being complete: said loudly now, and once in the trial's warnings (the summary). */

@@ -12,6 +12,8 @@ export function connectionText(status: RunStatus): string | null {
   const c = status.connection;
   if (c === undefined) return null;
   switch (c.state) {
+    case 'connecting':
+      return c.retryInS === undefined ? 'connecting' : `NOT CONNECTED, trying again in ${Math.max(0, Math.ceil(c.retryInS))} s`;
     case 'connected':
       return 'connected';
     case 'listening':

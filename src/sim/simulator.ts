@@ -6,7 +6,6 @@
  * and stalls then bursts. It counts what it sent, so tests can check that accepted equals sent.
  */
 import { WebSocket, WebSocketServer } from 'ws';
-import type { IncomingMessage } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { performance } from 'node:perf_hooks';
 import type { RejectReason } from '../trial/reasons.ts';
@@ -17,6 +16,7 @@ import type { DropoutSpec, Scenario, TrialSpec } from './gait-generator.ts';
 import { DEFAULT_MUSCLES, scenarioSpec } from './scenarios.ts';
 import { isWireEvent, isWireMarker, isWireSample, type WireHeader, type WireRecord } from './wire.ts';
 import { ndjsonLine } from './writers.ts';
+import { refusalReason } from '../../adapters/socket-care.ts';
 
 export const FAULT_KINDS = ['malformed', 'burst', 'time_jump', 'resent_header', 'disconnect', 'device_restart'] as const;
 export type FaultKind = (typeof FAULT_KINDS)[number];
@@ -597,22 +597,4 @@ export async function pushSimulator(options: PushOptions): Promise<RunningSimula
   });
   connect();
   return running(engine, shown, 0, () => (ws !== null && ws.readyState === WebSocket.OPEN ? 1 : 0), () => refusal);
-}
-
-/** Longest part of a refusal's body kept in its reason, characters. */
-const REFUSAL_BODY_CHARS = 300;
-
-/** "HTTP 401 Unauthorized: BODY": the status and the start of the body, on one line. */
-async function refusalReason(response: IncomingMessage): Promise<string> {
-  let body = '';
-  try {
-    for await (const chunk of response as AsyncIterable<Buffer>) {
-      body += chunk.toString('utf8');
-      if (body.length > REFUSAL_BODY_CHARS) break;
-    }
-  } catch {
-    // The body is a courtesy: the status alone says it.
-  }
-  const text = body.replace(/\s+/g, ' ').trim().slice(0, REFUSAL_BODY_CHARS);
-  return `HTTP ${response.statusCode ?? '?'} ${response.statusMessage ?? ''}`.trim() + (text.length > 0 ? `: ${text}` : '');
 }

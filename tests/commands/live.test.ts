@@ -321,6 +321,26 @@ describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : 
     spawnSync('tmux', ['-L', socket, 'kill-server']);
   });
 
+  it('says "connecting to" before the screen is up, then a refusal with its reason in full on the screen', { timeout: 40_000 }, async () => {
+    const refusing = lengthwise(['live', '--listen', '127.0.0.1:0', '--token', 'lab-7', '--plain', '--log', join(await tmp(), 'server.ndjson')]);
+    const port = await listeningPort(refusing);
+    const dir = await tmp();
+    const script = `cd '${REPO}' && unset CI; export NO_COLOR=1; node bin/lengthwise.js live --connect 'ws://127.0.0.1:${port}/?token=wrong' --log '${join(dir, 'l.ndjson')}'; sleep 30`;
+    tmux('new-session', '-d', '-s', 'refused', '-x', '80', '-y', '24', script);
+    const screen = (): string => tmux('capture-pane', '-p', '-J', '-S', '-100', '-t', 'refused');
+    // The first thing on the terminal, before the screen's thread has drawn anything.
+    await until(() => screen().trim() !== '', 20_000, 'anything on the terminal');
+    expect(screen().trim().split('\n')[0]).toBe(`lengthwise live: connecting to ws://127.0.0.1:${port}/?token=***`);
+    const flat = (): string => screen().replace(/\s+/g, ' ');
+    await until(
+      () => flat().includes('NOT CONNECTED, trying again in') && flat().includes('HTTP 401 Unauthorized: Unauthorized: send "Authorization: Bearer TOKEN" or ?token=TOKEN'),
+      20_000,
+      `the refusal in full on the screen (screen: ${screen()})`,
+    );
+    expect(screen()).not.toContain('DISCONNECTED');
+    tmux('send-keys', '-t', 'refused', 'q');
+  });
+
   it('shows the connection and the log path, and q ends the session with the summary written', { timeout: 40_000 }, async () => {
     const sim = await startSimulator({ port: 0, seed: 5 });
     stops.push(() => sim.stop());
@@ -404,6 +424,23 @@ describe('lengthwise live --connect with a token in the URL', () => {
       expect(text).not.toContain('sekrit-42');
     }
     expect(await readFile(files.report, 'utf8')).toContain('token=***');
+  });
+
+  it('says at once that it is connecting, and a refused connection with the server\'s reason in full', async () => {
+    const refusing = lengthwise(['live', '--listen', '127.0.0.1:0', '--token', 'lab-7', '--plain', '--log', join(await tmp(), 'server.ndjson')]);
+    const port = await listeningPort(refusing);
+    const dir = await tmp();
+    const c = lengthwise(['live', '--connect', `ws://127.0.0.1:${port}/?token=wrong-one`, '--plain', '--log', join(dir, 'l.ndjson')]);
+    await until(() => c.stderr.includes('not connected:'), 15_000, `the refusal (stderr: ${c.stderr})`);
+    c.child.kill('SIGTERM');
+    expect((await c.exited).code).toBe(0);
+    const lines = c.stderr.split('\n');
+    expect(lines[0]).toBe(`connecting to ws://127.0.0.1:${port}/?token=***`);
+    expect(lines[1]).toMatch(
+      /^not connected: the server refused the connection: HTTP 401 Unauthorized: Unauthorized: send "Authorization: Bearer TOKEN" or \?token=TOKEN; trying again in \d\.\d s$/,
+    );
+    expect(c.stderr).not.toContain('DISCONNECTED');
+    expect(c.stderr).not.toContain('wrong-one');
   });
 
   it('does not repeat the token of a URL it refuses', async () => {

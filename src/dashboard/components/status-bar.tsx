@@ -27,6 +27,7 @@ function connectionShort(status: RunStatus): string | null {
   const c = status.connection;
   if (c === undefined) return null;
   if (c.state === 'reconnecting') return c.retryInS === undefined ? 'reconnecting' : `reconnecting in ${Math.max(0, Math.ceil(c.retryInS))} s`;
+  if (c.state === 'connecting') return c.retryInS === undefined ? 'connecting' : `not connected, trying again in ${Math.max(0, Math.ceil(c.retryInS))} s`;
   return connectionText(status);
 }
 
@@ -52,7 +53,12 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
   const samplesText = `${view.accepted} samples`;
   const lowText = view.lowQuality > 0 ? ` (${view.lowQuality} low quality)` : '';
   const logRoom = columns - (rate.length + 3 + samplesText.length + lowText.length + 3 + rejected.length + ' · log '.length);
-  const connectionStyle = status.connection?.state === 'reconnecting' ? theme.role('critical') : theme.role('good');
+  const connectionStyle =
+    status.connection?.state === 'reconnecting' || (status.connection?.state === 'connecting' && status.connection.retryInS !== undefined)
+      ? theme.role('critical')
+      : status.connection?.state === 'connecting'
+        ? theme.role('label')
+        : theme.role('good');
   return (
     <Box flexDirection="column" width={columns}>
       <Box>

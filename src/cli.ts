@@ -8,7 +8,7 @@ const COMMANDS = {
   simulate: { summary: 'serve or push a synthetic gait stream, to try live mode with no hardware', load: () => import('./commands/simulate.ts') },
   calibrate: { summary: 'make a calibration from a quiet window of a trial', load: () => import('./commands/calibrate.ts') },
   curve: { summary: 'print the force–length model: force and region at given sarcomere lengths', load: () => import('./commands/curve.ts') },
-  summarize: { summary: 'summarise many trials into a study table and a report', load: () => import('./commands/summarize.ts') },
+  summarize: { summary: 'summarize many trials into a study table and a report', load: () => import('./commands/summarize.ts') },
 } as const satisfies Record<string, { summary: string; load: () => Promise<{ run: (argv: string[], io: CommandIo) => Promise<number> }> }>;
 
 type CommandName = keyof typeof COMMANDS;

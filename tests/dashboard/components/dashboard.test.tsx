@@ -428,6 +428,16 @@ describe('Dashboard', () => {
     expect(calls).toEqual([['calf', 2.6]]);
   });
 
+  it('shows each region\'s fill character in the help when there is no colour', async () => {
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { color: false });
+    await advance(100);
+    await screen.press('?');
+    await shows(screen, 'reading a panel');
+    const text = plain(screen.lastFrame());
+    expect(text).toContain('too short · ▓ steep ascending · ▒ shallow ascending');
+    expect(text).toContain('█ plateau · ░ descending · no overlap');
+  });
+
   it('opens and closes the help on ?', async () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()));
     await advance(100);

@@ -4,6 +4,7 @@ import type { ForceLengthCurve } from '../model/geometry.ts';
 import type { StrideListView } from '../trial/stride-list.ts';
 import { CYCLE_POINTS, HISTOGRAM_BIN_UM, type MuscleState, type RegionProbabilityFigures, type SegmentFigures, type StrideSummary, type TrialState } from '../trial/state.ts';
 import { cycleSd, histogramQuantile, histogramRegionProbability } from '../trial/stride-figures.ts';
+import { roundFigures } from './output-precision.ts';
 
 /** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
 export type RegionIntervalJson = Record<RegionKey, [number | null, number | null]>;
@@ -376,11 +377,12 @@ function muscleJson(m: MuscleState): MuscleJson {
   };
 }
 
+/** The summary of a trial, every figure rounded to its unit's precision (src/output/output-precision.ts). */
 export function summaryJson(state: TrialState): SummaryJson {
   const muscles: Record<string, MuscleJson> = {};
   for (const [name, m] of state.muscles) muscles[name] = muscleJson(m);
   const f = state.frames;
-  return {
+  return roundFigures<SummaryJson>({
     format: 'lengthwise-summary',
     version: 1,
     source: state.source,
@@ -400,5 +402,5 @@ export function summaryJson(state: TrialState): SummaryJson {
     muscles,
     warnings: [...state.warnings],
     ended: state.ended,
-  };
+  });
 }

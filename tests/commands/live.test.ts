@@ -326,6 +326,10 @@ describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : 
     const port = await listeningPort(refusing);
     const dir = await tmp();
     const script = `cd '${REPO}' && unset CI; export NO_COLOR=1; node bin/lengthwise.js live --connect 'ws://127.0.0.1:${port}/?token=wrong' --log '${join(dir, 'l.ndjson')}'; sleep 30`;
+    // A tmux server of its own: the other test's server may still be going away.
+    const own = `${socket}-refused`;
+    stops.push(() => spawnSync('tmux', ['-L', own, 'kill-server']));
+    const tmux = (...args: string[]): string => execFileSync('tmux', ['-L', own, ...args], { encoding: 'utf8' });
     tmux('new-session', '-d', '-s', 'refused', '-x', '80', '-y', '24', script);
     const screen = (): string => tmux('capture-pane', '-p', '-J', '-S', '-100', '-t', 'refused');
     // The first thing on the terminal, before the screen's thread has drawn anything.

@@ -18,7 +18,9 @@ export type LinkEvent =
   | { readonly kind: 'disconnected'; readonly connection: number; readonly detail: string }
   | { readonly kind: 'retrying'; readonly inMs: number; readonly attempt: number; readonly detail: string }
   | { readonly kind: 'listening'; readonly url: string; readonly port: number }
-  | { readonly kind: 'refused'; readonly peer: string; readonly detail: string };
+  | { readonly kind: 'refused'; readonly peer: string; readonly detail: string }
+  /** A device's header declared another device's muscle: that declaration was refused (see MuscleOwners). */
+  | { readonly kind: 'conflict'; readonly peer: string; readonly detail: string };
 
 /**
  * The record that says a connection was lost, after the last time it carried; `restoreGaps`

@@ -70,6 +70,7 @@ function connectionOf(event: LinkEvent, open: number, connectedBefore: boolean):
     case 'listening':
       return { state: 'listening', detail: event.url };
     case 'refused':
+    case 'conflict':
       return undefined;
   }
 }
@@ -91,6 +92,8 @@ function linkText(event: LinkEvent, connectedBefore: boolean): string | null {
       return `listening on ${event.url}`;
     case 'refused':
       return `refused a connection from ${event.peer}: ${event.detail}`;
+    case 'conflict':
+      return event.detail;
   }
 }
 
@@ -272,6 +275,11 @@ class LiveSession {
     const first = !this.saidFirstLink && (event.kind === 'connecting' || event.kind === 'listening');
     if (first) this.saidFirstLink = true;
     if (text !== null && (this.plain || first)) this.io.err(first && !this.plain ? `lengthwise live: ${text}` : text);
+    if (event.kind === 'conflict') {
+      // On the screen now, and again among the notes at the end.
+      if (!this.plain) this.status({ message: event.detail });
+      this.hints.push(event.detail);
+    }
   }
 
   /** The log stopped being complete: said loudly now, and once in the trial's warnings (the summary). */

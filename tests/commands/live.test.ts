@@ -217,6 +217,36 @@ describe('lengthwise live --listen', () => {
     expect((summary['warnings'] as string[]).some((w) => /session log is incomplete/.test(w))).toBe(true);
   });
 
+  it('keeps a muscle\'s side and strides when a second device declares it otherwise, says so, and the log replays the same', async () => {
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
+    const port = await listeningPort(c);
+    const a = await wsClient(`ws://127.0.0.1:${port}`);
+    const b = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => a.terminate(), () => b.terminate());
+    const header = (side: string): string => JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side } } });
+    const left = [0.2, 1.2, 2.2].map((t) => JSON.stringify({ t, event: 'foot_strike', side: 'left' }));
+    const right = [0.5, 0.9, 1.3, 1.7].map((t) => JSON.stringify({ t, event: 'foot_strike', side: 'right' }));
+    await sendAll(a, [header('left'), ...sampleTexts(100, 'calf'), left[0] as string]);
+    await logHolds(log, 100);
+    // The second device tries to make calf a right muscle, cut by its own foot strikes.
+    await sendAll(b, [header('right'), ...right]);
+    await until(() => c.stderr.includes('refused the header of device 2'), 15_000, 'the refusal');
+    await sendAll(a, [...sampleTexts(150, 'calf', 1), ...left.slice(1)]);
+    await logHolds(log, 250);
+    c.child.kill('SIGTERM');
+    expect((await c.exited).code).toBe(0);
+    expect(c.stderr).toMatch(/refused the header of device 2 \(127\.0\.0\.1:\d+\) for muscle "calf" as right: device 1 carries it \(left\)/);
+    expect(c.stderr).toMatch(/^note: refused the header of device 2/m);
+    const live = await json(join(dir, 'live.json'));
+    const calf = (live['muscles'] as Record<string, { side: string; strides: { start_s: number }[] }>)['calf'];
+    expect(calf?.side).toBe('left');
+    expect(calf?.strides.map((s) => s.start_s)).toEqual([0.2, 1.2]);
+    const replay = await replaySummary(log, dir, 'replay.json');
+    expect(withoutSource(replay)).toEqual(withoutSource(live));
+  });
+
   it('refuses a device without the token with 401 and takes one with it', async () => {
     const dir = await tmp();
     const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--token', 'bench-7', '--log', join(dir, 'l.ndjson'), '--plain', '--summary', join(dir, 's.json'), '--duration', '3']);

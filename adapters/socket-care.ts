@@ -1,4 +1,8 @@
-/** What the WebSocket client and server both do to a socket: find a dead peer, and close without hanging. */
+/**
+ * What the WebSocket client and server both do to a socket: find a dead peer, close without hanging,
+ * and say why a server refused a connection.
+ */
+import type { IncomingMessage } from 'node:http';
 import { interval, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket } from 'ws';
 
@@ -40,4 +44,25 @@ export function closeGently(ws: WebSocket, code: number, reason: string): void {
   const cut = setTimeout(() => ws.terminate(), 1000);
   cut.unref();
   ws.on('close', () => clearTimeout(cut));
+}
+
+/** Longest part of a refusal's body kept in its reason, characters. */
+const REFUSAL_BODY_CHARS = 300;
+
+/**
+ * Why a server answered a WebSocket upgrade with an HTTP status of its own (401 without the right
+ * token): "HTTP 401 Unauthorized: BODY", the body's start on one line. Never rejects.
+ */
+export async function refusalReason(response: IncomingMessage): Promise<string> {
+  let body = '';
+  try {
+    for await (const chunk of response as AsyncIterable<Buffer>) {
+      body += chunk.toString('utf8');
+      if (body.length > REFUSAL_BODY_CHARS) break;
+    }
+  } catch {
+    // The body is a courtesy: the status alone says it.
+  }
+  const text = body.replace(/\s+/g, ' ').trim().slice(0, REFUSAL_BODY_CHARS);
+  return `HTTP ${response.statusCode ?? '?'} ${response.statusMessage ?? ''}`.trim() + (text.length > 0 ? `: ${text}` : '');
 }

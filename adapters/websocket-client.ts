@@ -8,7 +8,8 @@ import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscriptio
 import { WebSocket, type RawData } from 'ws';
 import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
-import { closeGently, keepAlive } from './socket-care.ts';
+import { closeGently, keepAlive, refusalReason } from './socket-care.ts';
+import { redactUrl } from './redact-url.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =
@@ -17,7 +18,9 @@ export type LinkEvent =
   | { readonly kind: 'disconnected'; readonly connection: number; readonly detail: string }
   | { readonly kind: 'retrying'; readonly inMs: number; readonly attempt: number; readonly detail: string }
   | { readonly kind: 'listening'; readonly url: string; readonly port: number }
-  | { readonly kind: 'refused'; readonly peer: string; readonly detail: string };
+  | { readonly kind: 'refused'; readonly peer: string; readonly detail: string }
+  /** A device's header declared another device's muscle: that declaration was refused (see MuscleOwners). */
+  | { readonly kind: 'conflict'; readonly peer: string; readonly detail: string };
 
 /**
  * The record that says a connection was lost, after the last time it carried; `restoreGaps`
@@ -142,6 +145,8 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
   const random = options.random ?? Math.random;
   const pingMs = options.pingMs ?? 2000;
   const onLink = options.onLink ?? (() => undefined);
+  // Link events go to screens and messages: the address as it may be shown, a token in it hidden.
+  const shownUrl = redactUrl(options.url);
   return new Observable<Batch>((subscriber) => {
     const ingest = new Ingest(options);
     let socket: WebSocket | null = null;
@@ -154,7 +159,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
     const connect = (): void => {
       retry = null;
       if (stopped) return;
-      onLink({ kind: 'connecting', url: options.url, attempt });
+      onLink({ kind: 'connecting', url: shownUrl, attempt });
       const ws = new WebSocket(options.url, {
         maxPayload: ingest.maxMessageBytes,
         skipUTF8Validation: true,
@@ -165,17 +170,26 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
       const peer = newPeerTrack();
       let opened = false;
       let lastError = '';
+      let refused = false;
+      // The server answered with an HTTP status of its own (401 without the right token): its reason, in full.
+      ws.on('unexpected-response', (_request, response) => {
+        void refusalReason(response).then((reason) => {
+          refused = true;
+          lastError = `the server refused the connection: ${reason}`;
+          ws.terminate();
+        });
+      });
       ws.on('open', () => {
         opened = true;
         attempt = 0;
         connection++;
-        onLink({ kind: 'connected', connection, peer: options.url });
+        onLink({ kind: 'connected', connection, peer: shownUrl });
         ping = keepAlive(ws, pingMs, scheduler, (why) => (lastError = why));
       });
       ws.on('message', (data: RawData) => subscriber.next(ingest.message(data, peer)));
       ws.on('error', (error: Error & { code?: string }) => {
         if (error.code === 'WS_ERR_UNSUPPORTED_MESSAGE_LENGTH') subscriber.next(ingest.oversize());
-        lastError = error.code !== undefined && error.code.startsWith('WS_') ? error.message : `${error.message}`;
+        if (!refused) lastError = error.message;
       });
       ws.on('close', (code: number, reason: Buffer) => {
         ping?.unsubscribe();

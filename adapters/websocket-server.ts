@@ -4,6 +4,7 @@
  * with a token, an upgrade without it is refused with 401; a message over the cap is refused by the
  * socket with close code 1009 and counted as line_too_long. A device's disconnection is a Disconnection
  * record naming the muscles it carried, so only their filters restart (the other devices' go on).
+ * A device's header sets sides only for its own muscles: another's declaration is refused (MuscleOwners).
  */
 import { timingSafeEqual } from 'node:crypto';
 import type { IncomingMessage } from 'node:http';
@@ -13,6 +14,7 @@ import { WebSocket, WebSocketServer, type RawData } from 'ws';
 import type { Batch } from '../src/trial/records.ts';
 import { closeDetail, Ingest, newPeerTrack, type IngestOptions, type LinkEvent } from './websocket-client.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
+import { conflictText, MuscleOwners } from './muscle-owners.ts';
 
 /** Largest message a pushing device may send, bytes. */
 export const SERVER_MAX_PAYLOAD_BYTES = 256 * 1024;
@@ -55,10 +57,14 @@ function sameText(a: string, b: string): boolean {
   return x.length === y.length && timingSafeEqual(x, y);
 }
 
+/** `Bearer CREDENTIALS`, the scheme in any letter case (an HTTP authentication scheme is case-insensitive). */
+const BEARER = /^\s*bearer +(\S.*)$/i;
+
 /** True when the upgrade request carries the token, in the Authorization header or the query. */
 export function hasToken(request: IncomingMessage, token: string): boolean {
   const auth = request.headers.authorization;
-  if (typeof auth === 'string' && auth.startsWith('Bearer ') && sameText(auth.slice(7).trim(), token)) return true;
+  const bearer = typeof auth === 'string' ? BEARER.exec(auth) : null;
+  if (bearer !== null && sameText((bearer[1] ?? '').trim(), token)) return true;
   const query = new URL(request.url ?? '/', 'ws://localhost').searchParams.get('token');
   return query !== null && sameText(query, token);
 }
@@ -79,6 +85,7 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
   const onLink = options.onLink ?? (() => undefined);
   return new Observable<Batch>((subscriber) => {
     const ingest = new Ingest({ ...options, maxMessageBytes: options.maxMessageBytes ?? SERVER_MAX_PAYLOAD_BYTES });
+    const owners = new MuscleOwners();
     let connection = 0;
     let stopped = false;
     const token = options.token;
@@ -118,7 +125,11 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
       onLink({ kind: 'connected', connection: number, peer: name });
       const ping = keepAlive(ws, pingMs, scheduler, (why) => (lastError = why));
       pings.add(ping);
-      ws.on('message', (data: RawData) => subscriber.next(ingest.message(data, peer)));
+      ws.on('message', (data: RawData) => {
+        const checked = owners.check(number, ingest.message(data, peer));
+        for (const c of checked.conflicts) onLink({ kind: 'conflict', peer: name, detail: conflictText(c, name) });
+        subscriber.next(checked.frames);
+      });
       ws.on('error', (error: Error & { code?: string }) => {
         if (error.code === 'WS_ERR_UNSUPPORTED_MESSAGE_LENGTH') subscriber.next(ingest.oversize());
         lastError = error.message;
@@ -126,6 +137,7 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
       ws.on('close', (code: number, reason: Buffer) => {
         ping.unsubscribe();
         pings.delete(ping);
+        owners.release(number);
         if (stopped) return;
         const detail = `device ${number} (${name}) ${lastError !== '' && code === 1006 ? lastError : closeDetail(code, reason)}`;
         onLink({ kind: 'disconnected', connection: number, detail });

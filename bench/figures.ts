@@ -1,5 +1,6 @@
 /** The figures the tool and the plain loop must agree on, so the speed comparison is honest. */
 import type { SummaryJson } from '../src/output/summary-json.ts';
+import { decimalsFor } from '../src/output/output-precision.ts';
 
 export interface MuscleFigures {
   /** Complete strides (flagged ones included). */
@@ -43,10 +44,13 @@ export function figuresFromSummary(summary: SummaryJson): BenchFigures {
   };
 }
 
+/** The summary key each compared mean is written under, for its precision (src/output/output-precision.ts). */
+const SUMMARY_KEY = { slMeanUm: 'sl_mean_um', forceMean: 'force_mean', plateauFraction: 'plateau' } as const;
+
 /**
- * Where two sets of figures differ (relative tolerance for the means); empty when they agree. The tool
- * keeps completed strides' lengths and forces to about 7 significant digits (src/trial/stride-list.ts), so
- * its trial means agree with the plain loop's to about 1e-7.
+ * Where two sets of figures differ; empty when they agree. The tool keeps completed strides' lengths and
+ * forces to about 7 significant digits (src/trial/stride-list.ts) and writes each mean rounded to its
+ * unit's decimals, so a mean may differ by half its last decimal plus a relative `relativeTolerance`.
  */
 export function figureDifferences(a: BenchFigures, b: BenchFigures, relativeTolerance = 1e-6): string[] {
   const out: string[] = [];
@@ -70,7 +74,8 @@ export function figureDifferences(a: BenchFigures, b: BenchFigures, relativeTole
         if (u !== v) out.push(`${name} ${key}: ${String(u)} vs ${String(v)}`);
         continue;
       }
-      if (!(Math.abs(u - v) <= relativeTolerance * Math.max(1, Math.abs(u), Math.abs(v)))) out.push(`${name} ${key}: ${u} vs ${v}`);
+      const written = 0.5 * 10 ** -decimalsFor(SUMMARY_KEY[key]);
+      if (!(Math.abs(u - v) <= written + relativeTolerance * Math.max(1, Math.abs(u), Math.abs(v)))) out.push(`${name} ${key}: ${u} vs ${v}`);
     }
   }
   return out;

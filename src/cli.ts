@@ -1,4 +1,5 @@
 /** The `lengthwise` command: dispatches to one file per sub-command in src/commands/. */
+import { readFileSync } from 'node:fs';
 import type { CommandIo } from './run/io.ts';
 
 const COMMANDS = {
@@ -8,14 +9,32 @@ const COMMANDS = {
   inspect: { summary: 'say how a file will be read (layout, columns, units, sides, counts), without running it', load: () => import('./commands/inspect.ts') },
   calibrate: { summary: 'make a calibration from a quiet window of a trial', load: () => import('./commands/calibrate.ts') },
   curve: { summary: 'print the force–length model: force and region at given sarcomere lengths', load: () => import('./commands/curve.ts') },
-  summarize: { summary: 'summarise many trials into a study table and a report', load: () => import('./commands/summarize.ts') },
+  summarize: { summary: 'summarize many trials into a study table and a report', load: () => import('./commands/summarize.ts') },
 } as const satisfies Record<string, { summary: string; load: () => Promise<{ run: (argv: string[], io: CommandIo) => Promise<number> }> }>;
 
 type CommandName = keyof typeof COMMANDS;
 
 function usage(): string {
   const rows = Object.entries(COMMANDS).map(([name, c]) => `  ${name.padEnd(10)} ${c.summary}`);
-  return ['usage: lengthwise <command> [options]   (lengthwise <command> --help for its options)', '', 'commands:', ...rows].join('\n');
+  return [
+    'usage: lengthwise <command> [options]   (lengthwise help <command>, or lengthwise <command> --help, for its options)',
+    '       lengthwise --version',
+    '',
+    'commands:',
+    ...rows,
+  ].join('\n');
+}
+
+/** The version in package.json: one folder above this module, in the sources (src/) as in the build (dist/). */
+function version(): string {
+  const text = readFileSync(new URL('../package.json', import.meta.url), 'utf8');
+  return String((JSON.parse(text) as { version?: unknown }).version);
+}
+
+/** "; did you mean `NAME`?" for a near command; loaded only then, so --help and --version load no package. */
+async function nearestCommand(given: string): Promise<string> {
+  const { didYouMean } = await import('./commands/parse-command-args.ts');
+  return didYouMean(given, Object.keys(COMMANDS));
 }
 
 function isCommand(name: string): name is CommandName {
@@ -24,12 +43,22 @@ function isCommand(name: string): name is CommandName {
 
 export async function main(argv: readonly string[], io: CommandIo = processIo()): Promise<number> {
   const [name, ...rest] = argv;
+  if (name === '--version') {
+    io.out(`lengthwise ${version()}`);
+    return 0;
+  }
+  if (name === 'help' && rest.length > 0) {
+    const [topic] = rest;
+    if (topic !== undefined && isCommand(topic)) return main([topic, '--help'], io);
+    io.err(`lengthwise help: unknown command "${topic}"${await nearestCommand(topic ?? '')}\n\n${usage()}`);
+    return 2;
+  }
   if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
     io.out(usage());
     return name === undefined ? 2 : 0;
   }
   if (!isCommand(name)) {
-    io.err(`lengthwise: unknown command "${name}".\n\n${usage()}`);
+    io.err(`lengthwise: unknown command "${name}"${await nearestCommand(name)}\n\n${usage()}`);
     return 2;
   }
   const mod = await COMMANDS[name].load();

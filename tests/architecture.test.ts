@@ -18,7 +18,7 @@ const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   'src/pipeline': ['src/trial', 'src/model'],
   'src/output': ['src/trial', 'src/model'],
   'src/report': ['src/output', 'src/trial', 'src/model'],
-  'src/sim': ['src/trial', 'src/model'],
+  'src/sim': ['adapters', 'src/trial', 'src/model'],
   'src/session-log': ['adapters', 'src/trial', 'src/model'],
   'src/run': ['src/pipeline', 'src/output', 'src/report', 'src/trial', 'src/model'],
   'src/dashboard/view': ['src/output', 'src/trial', 'src/model'],

@@ -69,6 +69,33 @@ describe('lengthwise (the command)', () => {
     expect(c.err.join('\n')).toContain('replay');
   });
 
+  it('names the nearest command for a slip of the keyboard', async () => {
+    const c = captureIo();
+    expect(await main(['sumarize'], c.io)).toBe(2);
+    expect(c.err.join('\n')).toContain('unknown command "sumarize"; did you mean `summarize`?');
+  });
+
+  it('prints the version of package.json on --version and exits 0', async () => {
+    const c = captureIo();
+    expect(await main(['--version'], c.io)).toBe(0);
+    const pkg = JSON.parse(await readFile(join(ROOT, 'package.json'), 'utf8')) as { version: string };
+    expect(c.out).toEqual([`lengthwise ${pkg.version}`]);
+  });
+
+  it('prints a command\'s own help on `help COMMAND`, as `COMMAND --help` does', async () => {
+    for (const name of ['replay', 'live', 'simulate', 'calibrate', 'curve', 'summarize']) {
+      const viaHelp = captureIo();
+      expect(await main(['help', name], viaHelp.io)).toBe(0);
+      const viaFlag = captureIo();
+      expect(await main([name, '--help'], viaFlag.io)).toBe(0);
+      expect(viaHelp.out.join('\n')).toMatch(new RegExp(`^usage: lengthwise ${name}`));
+      expect(viaHelp.out).toEqual(viaFlag.out);
+    }
+    const unknown = captureIo();
+    expect(await main(['help', 'replya'], unknown.io)).toBe(2);
+    expect(unknown.err.join('\n')).toContain('did you mean `replay`?');
+  });
+
   it('does not take inherited object keys for commands', async () => {
     const c = captureIo();
     expect(await main(['toString'], c.io)).toBe(2);
@@ -76,6 +103,12 @@ describe('lengthwise (the command)', () => {
 });
 
 describe('lengthwise as installed (the build in dist/)', () => {
+  it('prints its version from plain JavaScript', async () => {
+    const { stdout, packages } = await packagesLoaded('version', ['--version']);
+    expect(stdout).toMatch(/^lengthwise \d+\.\d+\.\d+\n$/);
+    expect([...packages]).toEqual([]);
+  });
+
   it('prints its help from plain JavaScript, loading one file of the build and no package', async () => {
     const { stdout, packages, files } = await packagesLoaded('help', ['--help']);
     expect(stdout).toContain('usage: lengthwise <command>');

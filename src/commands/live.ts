@@ -8,13 +8,14 @@ import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer,
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
-import { parseConnect, parseDuration, parseListen } from './option-values.ts';
+import { isLoopbackHost, parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
 import { unitHint, type DeviceMapping, mappedSides } from '../../adapters/device-mapping.ts';
 import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
+import { redactUrl } from '../../adapters/redact-url.ts';
 import { OLD_LINK_MARKER_PREFIX } from '../../adapters/old-link-marker.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import { defaultLogPath, openSessionLog } from '../session-log/session-log.ts';
@@ -31,11 +32,13 @@ Ingests a live fascicle stream over WebSocket and runs it through the same pipel
   --connect URL          connect to the acquisition computer's stream (ws:// or wss://); reconnects by
                          itself after a drop-out, each disconnection a gap in the data
   --listen [HOST:]PORT   be the server devices push to (several at once); binds 127.0.0.1 unless a host
-                         is given (0.0.0.0: every interface); PORT 0 picks a free port
+                         is given (0.0.0.0: every interface; needs --token); PORT 0 picks a free port
 
 options:
   --token T              --listen: refuse (401) a device without "Authorization: Bearer T" or ?token=T;
                          --connect: send that header
+  --no-token             --listen on an address other machines reach, with no token, on purpose: any
+                         machine that reaches the port can push data into the session (warned loudly)
   --mapping FILE         device field names and units (lengthwise-mapping JSON; see adapters/mappings/)
   --calibration FILE     calibration JSON; wins over the stream header's calibration
   --summary FILE.json    write the per-stride and per-trial summary at the end
@@ -51,12 +54,14 @@ options:
 The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
 closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
 
-function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefined {
+/** The connection as the screen shows it; `connectedBefore`: a connection was made once this session. */
+function connectionOf(event: LinkEvent, open: number, connectedBefore: boolean): ConnectionStatus | undefined {
   switch (event.kind) {
     case 'connecting':
-      return event.attempt === 0 ? { state: 'reconnecting', detail: `connecting to ${event.url}` } : undefined;
+      if (event.attempt !== 0) return undefined;
+      return connectedBefore ? { state: 'reconnecting', detail: `connecting to ${event.url}` } : { state: 'connecting', detail: `connecting to ${event.url}` };
     case 'retrying':
-      return { state: 'reconnecting', retryInS: event.inMs / 1000, detail: event.detail };
+      return { state: connectedBefore ? 'reconnecting' : 'connecting', retryInS: event.inMs / 1000, detail: event.detail };
     case 'connected':
       return { state: 'connected', detail: open > 1 ? `${open} devices` : event.peer };
     case 'disconnected':
@@ -65,11 +70,12 @@ function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefi
     case 'listening':
       return { state: 'listening', detail: event.url };
     case 'refused':
+    case 'conflict':
       return undefined;
   }
 }
 
-function linkText(event: LinkEvent): string | null {
+function linkText(event: LinkEvent, connectedBefore: boolean): string | null {
   switch (event.kind) {
     case 'connecting':
       return event.attempt === 0 ? `connecting to ${event.url}` : null;
@@ -78,11 +84,16 @@ function linkText(event: LinkEvent): string | null {
     case 'disconnected':
       return `DISCONNECTED: ${event.detail}`;
     case 'retrying':
-      return event.attempt === 0 || event.attempt % 5 === 0 ? `reconnecting in ${(event.inMs / 1000).toFixed(1)} s (${event.detail})` : null;
+      if (!(event.attempt === 0 || event.attempt % 5 === 0)) return null;
+      return connectedBefore
+        ? `reconnecting in ${(event.inMs / 1000).toFixed(1)} s (${event.detail})`
+        : `not connected: ${event.detail}; trying again in ${(event.inMs / 1000).toFixed(1)} s`;
     case 'listening':
       return `listening on ${event.url}`;
     case 'refused':
       return `refused a connection from ${event.peer}: ${event.detail}`;
+    case 'conflict':
+      return event.detail;
   }
 }
 
@@ -99,6 +110,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     connect: { type: 'string' },
     listen: { type: 'string' },
     token: { type: 'string' },
+    'no-token': { type: 'boolean', default: false },
     ...TRIAL_FILE_OPTIONS,
     ...TRIAL_OUTPUT_OPTIONS,
     log: { type: 'string' },
@@ -123,6 +135,12 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     io.err('lengthwise live: --token is empty: give the token the devices send');
     return 2;
   }
+  const openListen = openListenProblem(listen !== null && listen.ok ? listen.value : null, values.token, values['no-token']);
+  if (openListen.refused !== null) {
+    io.err(`lengthwise live: ${openListen.refused}`);
+    return 2;
+  }
+  if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
   const files = await trialFiles('live', values, io);
   if (files === null) return 2;
   const calibration = files.calibration;
@@ -137,7 +155,8 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   let source$: Observable<Batch>;
   const onLink = (event: LinkEvent): void => session.link(event);
   if (connect !== null && connect.ok) {
-    label = connect.value;
+    // What is shown and written (summary source, report, screen, messages): the address with a token in it hidden.
+    label = redactUrl(connect.value);
     source$ = websocketClient({
       url: connect.value,
       mapping,
@@ -156,7 +175,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   } else {
     return 2;
   }
-  session.status({ sourceLabel: label, logPath });
+  session.status({ sourceLabel: label, logPath, ...(openListen.warning !== null ? { message: openListen.warning } : {}) });
 
   const records$ = merge(source$, session.extra$).pipe(
     writeSessionLog(log),
@@ -178,7 +197,33 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   const summary = values.summary ?? (log.complete ? summaryPathFor(log.path) : undefined);
   const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
+  if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
   return status;
+}
+
+/**
+ * Listening where other machines reach, with no token, is refused unless --no-token says it is meant;
+ * then it is a warning, said at the start and at the end. --no-token with anything else is refused.
+ */
+export function openListenProblem(
+  listen: { readonly host: string; readonly port: number } | null,
+  token: string | undefined,
+  noToken: boolean,
+): { readonly refused: string | null; readonly warning: string | null } {
+  if (noToken && token !== undefined) return { refused: 'give --token T or --no-token, not both', warning: null };
+  if (noToken && listen === null) return { refused: '--no-token is for --listen (with --connect, give --token T when the server asks for one)', warning: null };
+  if (listen === null || token !== undefined || isLoopbackHost(listen.host)) return { refused: null, warning: null };
+  const where = `${listen.host.includes(':') ? `[${listen.host}]` : listen.host}:${listen.port}`;
+  if (!noToken) {
+    return {
+      refused:
+        `--listen ${where} lets other machines connect, and no --token is given, so any of them could push data into the session. ` +
+        'Give --token T (each device then sends "Authorization: Bearer T" or ?token=T), listen on 127.0.0.1 (the default: --listen PORT), ' +
+        'or give --no-token to listen with no token on purpose',
+      warning: null,
+    };
+  }
+  return { refused: null, warning: `WARNING: listening on ${where} with NO TOKEN (--no-token): any machine that reaches this port can push data into the session` };
 }
 
 /** The summary written beside a session log when --summary is not given: LOG.summary.json. */
@@ -196,6 +241,9 @@ class LiveSession {
   private readonly status$ = new BehaviorSubject<RunStatus>({});
   private readonly hinted = new Set<string>();
   private open = 0;
+  private connectedBefore = false;
+  /** The first link line (connecting to…, listening on…) is said at once, before the screen is up. */
+  private saidFirstLink = false;
   private logNoticeSent = false;
   private logMessage: string | null = null;
   private stopped = false;
@@ -220,10 +268,18 @@ class LiveSession {
     if (event.kind === 'connected') this.open++;
     if (event.kind === 'disconnected') this.open = Math.max(0, this.open - 1);
     if (event.kind === 'listening') this.status({ sourceLabel: event.url });
-    const connection = connectionOf(event, this.open);
+    const connection = connectionOf(event, this.open, this.connectedBefore);
+    const text = linkText(event, this.connectedBefore);
+    if (event.kind === 'connected') this.connectedBefore = true;
     if (connection !== undefined && !this.stopped) this.status({ connection });
-    const text = linkText(event);
-    if (text !== null && this.plain) this.io.err(text);
+    const first = !this.saidFirstLink && (event.kind === 'connecting' || event.kind === 'listening');
+    if (first) this.saidFirstLink = true;
+    if (text !== null && (this.plain || first)) this.io.err(first && !this.plain ? `lengthwise live: ${text}` : text);
+    if (event.kind === 'conflict') {
+      // On the screen now, and again among the notes at the end.
+      if (!this.plain) this.status({ message: event.detail });
+      this.hints.push(event.detail);
+    }
   }
 
   /** The log stopped being complete: said loudly now, and once in the trial's warnings (the summary). */

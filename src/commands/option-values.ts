@@ -1,4 +1,6 @@
 /** Option values the commands share, each read one way everywhere: a value, or a message saying what is accepted. */
+import { BlockList, isIP } from 'node:net';
+import { redactUrl } from '../../adapters/redact-url.ts';
 
 export type Parsed<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly message: string };
 
@@ -17,16 +19,32 @@ export function parseListen(text: string): Parsed<ListenAddress> {
   return { ok: true, value: { host: m[1] ?? m[2] ?? '127.0.0.1', port } };
 }
 
-/** Reads `--connect`: a ws:// or wss:// URL. */
+/** The loopback addresses: 127.0.0.0/8 and ::1 (IPv4-mapped 127.x included). */
+const LOOPBACK = new BlockList();
+LOOPBACK.addSubnet('127.0.0.0', 8, 'ipv4');
+LOOPBACK.addAddress('::1', 'ipv6');
+
+/**
+ * True when a host to listen on reaches this machine only: a loopback address, or `localhost`. Any
+ * other name is taken as reachable from elsewhere (what it resolves to is not known here).
+ */
+export function isLoopbackHost(host: string): boolean {
+  if (host.toLowerCase() === 'localhost') return true;
+  const family = isIP(host);
+  return family !== 0 && LOOPBACK.check(host, family === 4 ? 'ipv4' : 'ipv6');
+}
+
+/** Reads `--connect`: a ws:// or wss:// URL. A token in it is never repeated in a message. */
 export function parseConnect(text: string): Parsed<string> {
   let url: URL;
+  const shown = redactUrl(text);
   try {
     url = new URL(text);
   } catch {
-    return { ok: false, message: `--connect "${text}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
+    return { ok: false, message: `--connect "${shown}" is not a URL: give ws://HOST:PORT/PATH, e.g. ws://127.0.0.1:8765` };
   }
   if (url.protocol !== 'ws:' && url.protocol !== 'wss:') {
-    return { ok: false, message: `--connect "${text}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
+    return { ok: false, message: `--connect "${shown}" is a ${url.protocol} URL: give a ws:// or wss:// URL, e.g. ws://127.0.0.1:8765` };
   }
   return { ok: true, value: url.href };
 }

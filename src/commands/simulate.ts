@@ -2,8 +2,9 @@
  * `lengthwise simulate`: a simulated device, to try live mode with no hardware. Serves (--listen) or
  * pushes (--connect) the synthetic gait stream of src/sim/ in real time, optionally with faults.
  */
-import { parseArgs } from 'node:util';
 import type { CommandIo } from '../run/io.ts';
+import { parseOptions } from './parse-command-args.ts';
+import { redactUrl } from '../../adapters/redact-url.ts';
 import { parseConnect, parseDuration, parseListen, type ListenAddress, type Parsed } from './option-values.ts';
 import { SCENARIOS, type Scenario } from '../sim/gait-generator.ts';
 import {
@@ -24,6 +25,8 @@ time, as a device would. Everything it sends is invented by the generator; nothi
                          every client that connects gets the header, then the stream from that moment
   --connect URL          push the stream to a WebSocket server (ws://… or wss://…), e.g. one started by
                          \`lengthwise live --listen PORT\`; reconnects whenever the connection ends
+  --token T              --connect: send "Authorization: Bearer T" (for a server started with --token T);
+                         a server that refuses the connection (401) is said with its reason, and pushing stops
   --scenario walk|run    treadmill walking (stride 1.1 s) or running (stride 0.72 s)   [default: walk]
   --rate HZ              samples per second per muscle, 1–2000                        [default: 100]
   --muscles A,B          muscle names; the first gets a calf-like trajectory, the second a thigh-like one
@@ -46,6 +49,7 @@ type SimulateArgs =
       readonly help: false;
       readonly listen: ListenAddress | null;
       readonly connect: string | null;
+      readonly token: string | null;
       readonly sim: SimulatorOptions;
     }
   | { readonly ok: false; readonly problems: readonly string[] };
@@ -67,27 +71,19 @@ function numberOption(
 }
 
 export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
-  let values;
-  try {
-    ({ values } = parseArgs({
-      args: [...argv],
-      strict: true,
-      allowPositionals: false,
-      options: {
-        listen: { type: 'string' },
-        connect: { type: 'string' },
-        scenario: { type: 'string' },
-        rate: { type: 'string' },
-        muscles: { type: 'string' },
-        faults: { type: 'boolean' },
-        duration: { type: 'string' },
-        seed: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    }));
-  } catch (error) {
-    return { ok: false, problems: [`${(error as Error).message}; see lengthwise simulate --help for the options`] };
-  }
+  const result = parseOptions(argv, {
+    listen: { type: 'string' },
+    connect: { type: 'string' },
+    scenario: { type: 'string' },
+    rate: { type: 'string' },
+    muscles: { type: 'string' },
+    faults: { type: 'boolean' },
+    duration: { type: 'string' },
+    seed: { type: 'string' },
+    token: { type: 'string' },
+  }, { allowPositionals: false });
+  if (!result.ok) return { ok: false, problems: [`${result.message}\n(lengthwise simulate --help lists every option)`] };
+  const { values } = result.parsed;
   if (values.help === true) return { ok: true, help: true };
   const problems: string[] = [];
   const value = <T>(parsed: Parsed<T> | null): T | null => {
@@ -102,6 +98,8 @@ export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
   if ((values.listen === undefined) === (values.connect === undefined)) {
     problems.push('give exactly one of --listen [HOST:]PORT (serve the stream) or --connect URL (push it to a server)');
   }
+  if (values.token !== undefined && values.connect === undefined) problems.push('--token is for --connect (the token the server asks for)');
+  if (values.token === '') problems.push('--token is empty: give the token the server asks for');
   let scenario: Scenario | undefined;
   if (values.scenario !== undefined) {
     if ((SCENARIOS as readonly string[]).includes(values.scenario)) scenario = values.scenario as Scenario;
@@ -126,7 +124,7 @@ export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
     ...(muscles === undefined ? {} : { muscles }),
     faults: values.faults === true,
   };
-  return { ok: true, help: false, listen, connect, sim };
+  return { ok: true, help: false, listen, connect, token: values.token ?? null, sim };
 }
 
 function summaryLine(s: Readonly<SimulatorStats>): string {
@@ -157,7 +155,13 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     sim =
       parsed.listen !== null
         ? await startSimulator({ ...parsed.sim, host: parsed.listen.host, port: parsed.listen.port, log })
-        : await pushSimulator({ ...parsed.sim, url: parsed.connect as string, log });
+        : await pushSimulator({
+            ...parsed.sim,
+            url: parsed.connect as string,
+            shownUrl: redactUrl(parsed.connect as string),
+            ...(parsed.token !== null ? { token: parsed.token } : {}),
+            log,
+          });
   } catch (error) {
     if (error instanceof SimulatorError) {
       io.err(`lengthwise simulate: ${error.message}`);
@@ -182,6 +186,15 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     process.off('SIGTERM', onSignal);
   }
   io.err(summaryLine(sim.stats));
+  if (sim.refusal !== null) {
+    const hint = /^.* refused the connection: HTTP 401\b/.test(sim.refusal)
+      ? parsed.token === null
+        ? '; give the server\'s token with --token T'
+        : '; check that --token is the server\'s token'
+      : '';
+    io.err(`lengthwise simulate: ${sim.refusal}${hint}`);
+    return 1;
+  }
   if (parsed.connect !== null && sim.stats.connections === 0) {
     io.err(`lengthwise simulate: never connected to ${sim.url}; check that a server listens there (e.g. lengthwise live --listen PORT)`);
     return 1;

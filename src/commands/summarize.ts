@@ -8,6 +8,7 @@ import { studyCsv } from '../study/study-csv.ts';
 import { progressBar, progressFigures, rateText } from '../study/progress-line.ts';
 import type { SummaryJson } from '../output/summary-json.ts';
 import type { TrialOutcome } from '../study/summarize-trial.ts';
+import { trialWarnings } from '../study/trial-warnings.ts';
 
 const HELP = `usage: lengthwise summarize FILES... [options]
 
@@ -22,12 +23,12 @@ options:
   --mapping FILE         trials in your own columns, units or table layout (lengthwise-mapping JSON)
   --events FILE          gait events from another system (CSV, TSV or NDJSON), merged into every trial
   --side NAME=left|right a muscle's side (repeatable); wins over the mapping and the stream headers
-  --jobs N               trials summarised at once, one worker thread each  [default: ${defaultJobs()}, the cores]
+  --jobs N               trials summarized at once, one worker thread each  [default: ${defaultJobs()}, the cores]
   --plain                plain progress lines instead of a progress bar, even on a terminal
   -h, --help             this text
 
 A file that cannot be read or has no valid sample is named with the reason and left out; the others
-go on. Exit status: 0 all trials summarised, 1 some failed or a file could not be written, 2 usage.`;
+go on. Exit status: 0 all trials summarized, 1 some failed or a file could not be written, 2 usage.`;
 
 /** Reads `--jobs`: a whole number from 1 up. */
 export function parseJobs(text: string): { ok: true; jobs: number } | { ok: false; message: string } {
@@ -36,12 +37,17 @@ export function parseJobs(text: string): { ok: true; jobs: number } | { ok: fals
   return { ok: false, message: `--jobs "${text}" is not a number of workers: give a whole number from 1 up (the machine has ${defaultJobs()} cores)` };
 }
 
-/** Shows progress on standard error: a redrawn bar on a terminal, a line per finished trial otherwise. */
+/**
+ * Shows progress on standard error: a redrawn bar on a terminal, a line per finished trial otherwise.
+ * A trial's warnings (uncalibrated, side assumed, strides estimated) are in its plain line; with the
+ * bar, a line of their own above it, and the bar counts the trials that had some.
+ */
 function progressReporter(io: CommandIo, bar: boolean): { readonly onEvent: (event: StudyEvent) => void; readonly end: () => void } {
   const started = performance.now();
   const elapsedS = (): number => (performance.now() - started) / 1000;
   let lastDraw = Number.NEGATIVE_INFINITY;
   let drawn = false;
+  let warned = 0;
   const clear = (): void => {
     if (drawn) io.stderr.write('\r\x1b[2K');
     drawn = false;
@@ -50,16 +56,21 @@ function progressReporter(io: CommandIo, bar: boolean): { readonly onEvent: (eve
     const now = performance.now();
     if (!force && now - lastDraw < 100) return;
     lastDraw = now;
-    io.stderr.write(`\r\x1b[2K${progressBar(p, elapsedS(), io.stderr.columns ?? 80)}`);
+    io.stderr.write(`\r\x1b[2K${progressBar(p, elapsedS(), io.stderr.columns ?? 80, warned)}`);
     drawn = true;
   };
   const failure = (outcome: TrialOutcome): string => (outcome.ok ? '' : `lengthwise summarize: ${outcome.message}`);
   return {
     onEvent: (event) => {
+      const warnings = event.type === 'trial' && event.outcome.ok ? trialWarnings(event.outcome.summary) : [];
+      if (warnings.length > 0) warned++;
       if (bar) {
         if (event.type === 'trial' && !event.outcome.ok) {
           clear();
           io.err(failure(event.outcome));
+        } else if (event.type === 'trial' && warnings.length > 0) {
+          clear();
+          io.err(`${event.outcome.path}: ${warnings.join(' · ')}`);
         }
         draw(event.progress, event.type === 'trial');
         return;
@@ -71,7 +82,11 @@ function progressReporter(io: CommandIo, bar: boolean): { readonly onEvent: (eve
       else {
         const muscles = Object.values(event.outcome.summary.muscles);
         const strides = muscles.reduce((n, m) => n + m.trial.stride_count, 0);
-        io.err(`${count} ${event.outcome.path}: ${muscles.length} muscles, ${strides} strides, ${event.outcome.samples} samples · ${progressFigures(p, elapsedS())}`);
+        const said = warnings.map((w) => ` · ${w}`).join('');
+        io.err(
+          `${count} ${event.outcome.path}: ${muscles.length} muscle${muscles.length === 1 ? '' : 's'}, ${strides} stride${strides === 1 ? '' : 's'}, ` +
+            `${event.outcome.samples} samples${said} · ${progressFigures(p, elapsedS(), warned)}`,
+        );
       }
     },
     end: () => clear(),
@@ -137,8 +152,9 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     } else failed.push(o.path);
   });
   let status = failed.length > 0 ? 1 : 0;
+  const workers = Math.min(jobs, outcomes.length);
   io.err(
-    `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${Math.min(jobs, outcomes.length)} workers)` +
+    `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${workers} worker${workers === 1 ? '' : 's'})` +
       (failed.length > 0 ? `; ${failed.length} failed: ${failed.join(', ')}` : ''),
   );
 

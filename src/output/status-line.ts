@@ -6,11 +6,14 @@ import { REGION_LABEL } from '../model/regions.ts';
 import type { TrialState } from '../trial/state.ts';
 import { elapsed, fixed } from './format.ts';
 import type { RunStatus } from '../trial/run-status.ts';
+import { calibrationKnown } from '../trial/calibration-known.ts';
 
 export function connectionText(status: RunStatus): string | null {
   const c = status.connection;
   if (c === undefined) return null;
   switch (c.state) {
+    case 'connecting':
+      return c.retryInS === undefined ? 'connecting' : `NOT CONNECTED, trying again in ${Math.max(0, Math.ceil(c.retryInS))} s`;
     case 'connected':
       return 'connected';
     case 'listening':
@@ -42,7 +45,8 @@ export function statusLine(state: TrialState, status: RunStatus = {}): string {
   parts.push(`${state.frames.accepted} samples`);
   if (state.frames.rejected > 0) parts.push(`${state.frames.rejected} rejected${topReason(state)}`);
   if (state.frames.lowQuality > 0) parts.push(`${state.frames.lowQuality} low quality`);
-  parts.push(state.calibrated ? 'calibrated' : 'UNCALIBRATED');
+  const calibrated = calibrationKnown(state);
+  parts.push(calibrated === null ? 'calibration pending' : calibrated ? 'calibrated' : 'UNCALIBRATED');
   for (const m of state.muscles.values()) {
     const s = m.latest;
     const side = m.side === null ? '' : ` ${m.side}`;

@@ -4,6 +4,7 @@
  */
 import { REGION_KEYS } from '../model/regions.ts';
 import type { SegmentFigures, StrideSummary, TrialState } from '../trial/state.ts';
+import { decimalsFor, roundTo } from './output-precision.ts';
 
 /** Figures a stride and each of its phases have, in column order (names without the phase prefix). */
 const PHASE_FIELDS = [
@@ -120,10 +121,19 @@ function strideFields(name: string, side: string | null, s: StrideSummary): Fiel
   ];
 }
 
+/** Each column's decimals (src/output/output-precision.ts), found once. */
+const COLUMN_DECIMALS = STRIDE_COLUMNS.map(decimalsFor);
+
+/** A row's fields as text, each number rounded to its column's precision. */
+function rowText(fields: readonly Field[]): string {
+  return fields.map((f, i) => csvField(typeof f === 'number' ? roundTo(f, COLUMN_DECIMALS[i] ?? 6) : f)).join(',');
+}
+
+/** The stride table of a trial, every figure rounded to its unit's precision. */
 export function stridesCsv(state: TrialState): string {
   const rows = [STRIDE_COLUMNS.join(',')];
   for (const [name, m] of state.muscles) {
-    for (const s of m.strides) rows.push(strideFields(name, m.side, s).map(csvField).join(','));
+    for (const s of m.strides) rows.push(rowText(strideFields(name, m.side, s)));
   }
   return `${rows.join('\r\n')}\r\n`;
 }

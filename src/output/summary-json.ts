@@ -8,6 +8,7 @@ import type { CountSpread, SpreadShape } from '../model/count-spread.ts';
 import { METHOD_LABEL } from '../model/calibration.ts';
 import type { CurveShape } from '../model/muscle-model.ts';
 import { provenanceJson, type ProvenanceJson } from './provenance-json.ts';
+import { roundFigures } from './output-precision.ts';
 
 /** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
 export type RegionIntervalJson = Record<RegionKey, [number | null, number | null]>;
@@ -412,11 +413,12 @@ function muscleJson(m: MuscleState): MuscleJson {
   };
 }
 
+/** The summary of a trial, every figure rounded to its unit's precision (src/output/output-precision.ts). */
 export function summaryJson(state: TrialState): SummaryJson {
   const muscles: Record<string, MuscleJson> = {};
   for (const [name, m] of state.muscles) muscles[name] = muscleJson(m);
   const f = state.frames;
-  return {
+  return roundFigures<SummaryJson>({
     format: 'lengthwise-summary',
     version: 1,
     source: state.source,
@@ -436,5 +438,5 @@ export function summaryJson(state: TrialState): SummaryJson {
     muscles,
     warnings: [...state.warnings],
     ended: state.ended,
-  };
+  });
 }

@@ -283,7 +283,7 @@ export async function reportHtml(summaries: readonly SummaryJson[], options: Rep
   const rows = overviewRows(list);
   const overview =
     list.length === 0
-      ? '<p class="note">No trial was summarised, so there is nothing to plot.</p>'
+      ? '<p class="note">No trial was summarized, so there is nothing to plot.</p>'
       : [
           '<div class="plots">',
           figure(await renderSvg(regionShareSpec(rows), 'share of time in each region, per trial and muscle', warnings), 'Share of stride time in each region of the force–length curve.', 'overview-regions', true),

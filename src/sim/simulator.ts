@@ -16,6 +16,7 @@ import type { DropoutSpec, Scenario, TrialSpec } from './gait-generator.ts';
 import { DEFAULT_MUSCLES, scenarioSpec } from './scenarios.ts';
 import { isWireEvent, isWireMarker, isWireSample, type WireHeader, type WireRecord } from './wire.ts';
 import { ndjsonLine } from './writers.ts';
+import { refusalReason } from '../../adapters/socket-care.ts';
 
 export const FAULT_KINDS = ['malformed', 'burst', 'time_jump', 'resent_header', 'disconnect', 'device_restart'] as const;
 export type FaultKind = (typeof FAULT_KINDS)[number];
@@ -60,6 +61,10 @@ export interface ServeOptions extends SimulatorOptions {
 export interface PushOptions extends SimulatorOptions {
   /** ws:// or wss:// address of a receiving server. */
   readonly url: string;
+  /** The address as lines and `url` show it (a token in it hidden). @default url */
+  readonly shownUrl?: string;
+  /** Sent with every connection as "Authorization: Bearer TOKEN". */
+  readonly token?: string;
   /** Wall milliseconds before reconnecting after a connection ends. @default 500 */
   readonly reconnectMs?: number;
 }
@@ -92,6 +97,8 @@ export interface RunningSimulator {
   readonly sentSamples: number;
   /** Open connections now. */
   readonly openConnections: number;
+  /** Why the server refused the connection (its HTTP status and reason), when it did; pushing stops then. */
+  readonly refusal: string | null;
   /** Settles when the simulator has stopped (duration over, or stop()) and every socket is closed. */
   readonly done: Promise<void>;
   /** Stops sending, closes every connection (code 1000) and the server; idempotent. */
@@ -420,10 +427,13 @@ class Engine {
   }
 }
 
-function running(engine: Engine, url: string, port: number, open: () => number): RunningSimulator {
+function running(engine: Engine, url: string, port: number, open: () => number, refusal: () => string | null = () => null): RunningSimulator {
   return {
     url,
     port,
+    get refusal() {
+      return refusal();
+    },
     stats: engine.stats,
     get sentRecords() {
       const s = engine.stats;
@@ -529,20 +539,33 @@ export async function pushSimulator(options: PushOptions): Promise<RunningSimula
   const engine = new Engine(options);
   const log = options.log ?? (() => {});
   const reconnectMs = options.reconnectMs ?? 500;
+  const shown = options.shownUrl ?? options.url;
   let ws: WebSocket | null = null;
   let reconnectTimer: NodeJS.Timeout | null = null;
   let lastError = '';
+  let refusal: string | null = null;
 
   const connect = (): void => {
     reconnectTimer = null;
     if (engine.isStopping()) return;
-    const socket = new WebSocket(options.url);
+    const socket = new WebSocket(options.url, options.token !== undefined ? { headers: { Authorization: `Bearer ${options.token}` } } : {});
     ws = socket;
+    // The server answered the upgrade with an HTTP status of its own (401 without the right token): a
+    // refusal, said with its reason; connecting again the same way would be refused again, so pushing stops.
+    socket.on('unexpected-response', (_request, response) => {
+      void refusalReason(response).then((reason) => {
+        refusal = `${shown} refused the connection: ${reason}`;
+        log(`${engine.stamp()} ${refusal}`);
+        if (ws === socket) ws = null;
+        void engine.stop();
+        socket.terminate();
+      });
+    });
     socket.on('open', () => {
       engine.stats.connections++;
       engine.start();
       lastError = '';
-      log(`${engine.stamp()} connected to ${options.url}`);
+      log(`${engine.stamp()} connected to ${shown}`);
       engine.sendHeader(socket);
     });
     socket.on('error', (error) => {
@@ -573,5 +596,5 @@ export async function pushSimulator(options: PushOptions): Promise<RunningSimula
     },
   });
   connect();
-  return running(engine, options.url, 0, () => (ws !== null && ws.readyState === WebSocket.OPEN ? 1 : 0));
+  return running(engine, shown, 0, () => (ws !== null && ws.readyState === WebSocket.OPEN ? 1 : 0), () => refusal);
 }

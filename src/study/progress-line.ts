@@ -26,15 +26,16 @@ export function secondsLeft(p: StudyProgress, elapsedS: number): number {
   return (elapsedS * (p.bytesTotal - p.bytesDone)) / p.bytesDone;
 }
 
-/** The figures after the bar: trials done, failures, samples per second, time left. */
-export function progressFigures(p: StudyProgress, elapsedS: number): string {
+/** The figures after the bar: trials done, failures, trials with warnings (`warned`), samples per second, time left. */
+export function progressFigures(p: StudyProgress, elapsedS: number, warned = 0): string {
   const failed = p.trialsFailed > 0 ? `, ${p.trialsFailed} failed` : '';
-  return `${p.trialsDone}/${p.trialsTotal} trials${failed} · ${rateText(p.samples / elapsedS)} · ${durationText(secondsLeft(p, elapsedS))} left`;
+  const warnings = warned > 0 ? `, ${warned} with warnings` : '';
+  return `${p.trialsDone}/${p.trialsTotal} trials${failed}${warnings} · ${rateText(p.samples / elapsedS)} · ${durationText(secondsLeft(p, elapsedS))} left`;
 }
 
 /** A bar that fills with the bytes read, then the figures; at most `columns` characters wide. */
-export function progressBar(p: StudyProgress, elapsedS: number, columns: number): string {
-  const figures = progressFigures(p, elapsedS);
+export function progressBar(p: StudyProgress, elapsedS: number, columns: number, warned = 0): string {
+  const figures = progressFigures(p, elapsedS, warned);
   const barWidth = Math.max(0, Math.min(40, columns - figures.length - 3));
   const fraction = p.bytesTotal > 0 ? p.bytesDone / p.bytesTotal : p.trialsDone / Math.max(1, p.trialsTotal);
   const filled = Math.round(Math.max(0, Math.min(1, fraction)) * barWidth);

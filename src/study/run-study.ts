@@ -73,7 +73,7 @@ interface Slot {
   job: number;
 }
 
-/** Summarises every file on worker threads; resolves with one outcome per file, in the files' order. */
+/** Summarizes every file on worker threads; resolves with one outcome per file, in the files' order. */
 export async function runStudy(paths: readonly string[], options: StudyOptions = {}): Promise<TrialOutcome[]> {
   const total = paths.length;
   const outcomes: (TrialOutcome | undefined)[] = new Array<TrialOutcome | undefined>(total).fill(undefined);
@@ -117,7 +117,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
       options.signal?.removeEventListener('abort', onAbort);
       for (const slot of slots) void slot.worker.terminate();
       slots.clear();
-      resolve(outcomes.map((o, i) => o ?? { ok: false, path: paths[i] as string, bytes: 0, message: `${paths[i]} was not summarised: the study was stopped first` }));
+      resolve(outcomes.map((o, i) => o ?? { ok: false, path: paths[i] as string, bytes: 0, message: `${paths[i]} was not summarized: the study was stopped first` }));
     };
 
     const record = (index: number, outcome: TrialOutcome): void => {
@@ -167,7 +167,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
         slots.delete(slot);
         const job = slot.job;
         if (job >= 0) {
-          record(job, { ok: false, path: paths[job] as string, bytes: 0, message: `${paths[job]} could not be summarised: its worker thread stopped (${why})` });
+          record(job, { ok: false, path: paths[job] as string, bytes: 0, message: `${paths[job]} could not be summarized: its worker thread stopped (${why})` });
         }
         if (!settled && next < total) start();
       };

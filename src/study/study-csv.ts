@@ -6,6 +6,7 @@
 import { REGION_KEYS } from '../model/regions.ts';
 import { csvField } from '../output/strides-csv.ts';
 import type { MuscleJson, SummaryJson } from '../output/summary-json.ts';
+import { muscleSideAssumed, muscleStridesEstimated, muscleUncalibrated } from './trial-warnings.ts';
 
 type Cell = string | number | boolean | null;
 
@@ -24,16 +25,6 @@ function field(obj: unknown, key: string): unknown {
 
 function numberOrNull(value: unknown): number | null {
   return typeof value === 'number' && Number.isFinite(value) ? value : null;
-}
-
-function isUncalibrated(row: RowContext): boolean {
-  return row.m.calibration_source === null || row.m.calibration_source === 'baseline';
-}
-
-/** True/false when the summary says how strides were found, empty when it does not. */
-function segmentationEstimated(row: RowContext): boolean | null {
-  const segmentation = field(row.m, 'segmentation');
-  return typeof segmentation === 'string' ? segmentation !== 'events' : null;
 }
 
 /** Strides the summary flags (too much gap time), from its count or its strides; empty when it does not flag. */
@@ -95,9 +86,10 @@ const FLAG_COLUMNS: readonly Column[] = [
   ['trial_samples_accepted', (r) => r.summary.frames.accepted],
   ['trial_samples_low_quality', (r) => r.summary.frames.low_quality],
   ['trial_lines_rejected', (r) => r.summary.frames.rejected],
-  ['uncalibrated', isUncalibrated],
-  ['side_assumed', (r) => r.m.side_source === 'assumed'],
-  ['segmentation_estimated', segmentationEstimated],
+  ['uncalibrated', (r) => muscleUncalibrated(r.m)],
+  ['side_assumed', (r) => muscleSideAssumed(r.m)],
+  // Empty when the summary does not say how strides were found.
+  ['segmentation_estimated', (r) => muscleStridesEstimated(r.m)],
   ['trial_ended', (r) => r.summary.ended],
 ];
 

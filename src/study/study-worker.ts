@@ -1,4 +1,4 @@
-/** A study worker thread: summarises each trial it is sent, one at a time, and posts progress and outcomes. */
+/** A study worker thread: summarizes each trial it is sent, one at a time, and posts progress and outcomes. */
 import { parentPort, workerData } from 'node:worker_threads';
 import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
 import { summarizeTrial, type TrialOutcome } from './summarize-trial.ts';
@@ -41,7 +41,7 @@ port.on('message', (job: JobMessage) => {
       ok: false as const,
       path: job.path,
       bytes: 0,
-      message: `${job.path} could not be summarised: ${error instanceof Error ? error.message : String(error)}`,
+      message: `${job.path} could not be summarized: ${error instanceof Error ? error.message : String(error)}`,
     }))
     .then((outcome) => (setup.drawReport ? withReport(outcome, job.id + 1) : outcome))
     .then((outcome) => post({ type: 'done', id: job.id, outcome }));

@@ -1,6 +1,6 @@
 /**
  * One trial file → its summary JSON (the same object `--summary` writes), or the reason it could not be
- * summarised. Runs the whole pipeline unpaced; never throws for a bad file.
+ * summarized. Runs the whole pipeline unpaced; never throws for a bad file.
  */
 import { open, stat } from 'node:fs/promises';
 import { tap } from 'rxjs';

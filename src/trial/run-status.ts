@@ -5,11 +5,12 @@
  * producers can each send only their own fields. Send a field as `undefined` to clear it.
  */
 
-export type ConnectionState = 'connected' | 'reconnecting' | 'ended' | 'listening';
+/** 'connecting': not connected yet (first attempt, or retrying before any connection); 'reconnecting': connected once, then lost. */
+export type ConnectionState = 'connecting' | 'connected' | 'reconnecting' | 'ended' | 'listening';
 
 export interface ConnectionStatus {
   readonly state: ConnectionState;
-  /** Seconds until the next reconnection attempt (reconnecting only). */
+  /** Seconds until the next attempt (connecting after a failed attempt, reconnecting). */
   readonly retryInS?: number | undefined;
   /** A short free text, e.g. the peer address or the last error. */
   readonly detail?: string | undefined;

@@ -63,6 +63,21 @@ describe('backoffDelayMs', () => {
 });
 
 describe('websocketClient', () => {
+  it('says a refused upgrade with the server\'s status and reason, and hides a token of its URL in link events', async () => {
+    const { WebSocketServer } = await import('ws');
+    const refusing = new WebSocketServer({ host: '127.0.0.1', port: 0, verifyClient: (_info, done) => done(false, 401, 'Unauthorized: the lab token is needed') });
+    await new Promise<void>((resolve) => refusing.once('listening', () => resolve()));
+    cleanups.push(() => new Promise<void>((resolve) => refusing.close(() => resolve())));
+    const port = (refusing.address() as { port: number }).port;
+    const c = subscribeClient(`ws://127.0.0.1:${port}/?token=sekrit`);
+    await until(() => c.links.some((e) => e.kind === 'retrying'), 5000, 'the first retry');
+    const retry = c.links.find((e) => e.kind === 'retrying');
+    expect(retry).toMatchObject({ detail: 'the server refused the connection: HTTP 401 Unauthorized: Unauthorized: the lab token is needed' });
+    expect(c.links[0]).toEqual({ kind: 'connecting', url: `ws://127.0.0.1:${port}/?token=***`, attempt: 0 });
+    expect(JSON.stringify(c.links)).not.toContain('sekrit');
+    expect(c.frames()).toEqual([]);
+  });
+
   it('emits nothing before a message and one batch per message, with every valid sample sent', async () => {
     const { server: s, url } = await server();
     const connected = nextConnection(s);

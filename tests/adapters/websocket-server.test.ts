@@ -82,6 +82,40 @@ describe('websocketServer', () => {
     await until(() => samples(s.frames()) === 5, 4000, 'both');
   });
 
+  it('lets a device\'s header set sides only for its own muscles: another device\'s is refused and said', async () => {
+    const s = await listen();
+    const a = await device(s.url);
+    await sendAll(a, [JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side: 'left' } } }), ...sampleTexts(3, 'calf')]);
+    await until(() => samples(s.frames()) === 3, 4000, 'the first device');
+    const b = await device(s.url);
+    await sendAll(b, [JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side: 'right' }, thigh: { side: 'right' } } })]);
+    await until(() => s.frames().filter((f) => f.kind === 'header').length === 2, 4000, 'the second header');
+    const second = s.frames().filter((f) => f.kind === 'header')[1];
+    expect(second?.kind === 'header' && second.muscles).toEqual({ thigh: { side: 'right' } });
+    const conflicts = s.links.filter((e) => e.kind === 'conflict');
+    expect(conflicts).toEqual([{ kind: 'conflict', peer: expect.stringMatching(/^127\.0\.0\.1:\d+$/), detail: expect.stringContaining('device 2') }]);
+    expect(conflicts[0]?.kind === 'conflict' && conflicts[0].detail).toMatch(/for muscle "calf" as right: device 1 carries it \(left\)/);
+    // Once the first device is gone, its muscles are free.
+    a.terminate();
+    await until(() => s.frames().some((f) => f.kind === 'disconnection'), 4000, 'the disconnection');
+    await sendAll(b, [JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side: 'right' } } })]);
+    await until(() => s.frames().filter((f) => f.kind === 'header').length === 3, 4000, 'the third header');
+    const third = s.frames().filter((f) => f.kind === 'header')[2];
+    expect(third?.kind === 'header' && third.muscles).toEqual({ calf: { side: 'right' } });
+    expect(s.links.filter((e) => e.kind === 'conflict')).toHaveLength(1);
+  });
+
+  it('takes the Bearer scheme in any letter case', async () => {
+    // The authentication scheme is a case-insensitive token: RFC 9110 §11.1 (Fielding, Nottingham & Reschke 2022).
+    const s = await listen({ token: 'lab-secret-1' });
+    for (const scheme of ['bearer', 'BEARER', 'BeArEr']) {
+      expect(await upgradeStatus(s.url, { Authorization: `${scheme} lab-secret-1` }), scheme).toBeNull();
+    }
+    expect(await upgradeStatus(s.url, { Authorization: 'bearer lab-secret-2' })).toBe(401);
+    expect(await upgradeStatus(s.url, { Authorization: 'Bearerlab-secret-1' })).toBe(401);
+    expect(await upgradeStatus(s.url, { Authorization: 'Basic lab-secret-1' })).toBe(401);
+  });
+
   it('without a token, accepts any device', async () => {
     const s = await listen();
     expect(await upgradeStatus(s.url)).toBeNull();

@@ -57,6 +57,9 @@ describe('figureDifferences', () => {
     expect(figureDifferences(base, base)).toEqual([]);
     const other = { ...base, muscles: { calf: { ...base.muscles.calf, slMeanUm: 2.6 } } };
     expect(figureDifferences(base, other)).toEqual(['calf slMeanUm: 2.5 vs 2.6']);
+    // The tool writes a mean length to 4 decimals: half of the last one is no difference.
+    const written = { ...base, muscles: { calf: { ...base.muscles.calf, slMeanUm: 2.50004 } } };
+    expect(figureDifferences(base, written)).toEqual([]);
   });
 
   it('names a muscle present in only one', () => {

@@ -152,10 +152,11 @@ describe('lengthwise curve: bad input', () => {
     expect((await curve('--filaments', 'thick=2.8', '--sl', '2')).err).toMatch(/must be shorter than 2 × thin \+ Z-disc/);
   });
 
-  it('shows the usage for an unknown option', async () => {
+  it('names an unknown option and where the options are listed', async () => {
     const r = await curve('--colour');
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/Unknown option '--colour'[\s\S]*usage: lengthwise curve/);
+    expect(r.err).toMatch(/`--colour`: unknown option\n\(lengthwise curve --help lists every option\)/);
+    expect((await curve('--spicies', 'frog')).err).toContain('`--spicies`: unknown option; did you mean `--species`?');
   });
 
   it('prints its help with --help', async () => {

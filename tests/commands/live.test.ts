@@ -113,6 +113,42 @@ describe('lengthwise live: options', () => {
   });
 });
 
+describe('lengthwise live --listen: secure by default', () => {
+  it.each([['0.0.0.0:0'], ['[::]:0'], ['lab-pc.invalid:0']])('refuses to listen on %s, where other machines reach, without a token', async (address) => {
+    const dir = await tmp();
+    const c = lengthwise(['live', '--listen', address, '--plain', '--log', join(dir, 'l.ndjson')]);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toContain('lets other machines connect, and no --token is given');
+    expect(c.stderr).toContain('--no-token');
+    expect(c.stderr).not.toContain('listening on');
+    expect(existsSync(join(dir, 'l.ndjson'))).toBe(false);
+  });
+
+  it('listens on every interface with --no-token, warning at the start and at the end', async () => {
+    const dir = await tmp();
+    const c = lengthwise(['live', '--listen', '0.0.0.0:0', '--no-token', '--plain', '--log', join(dir, 'l.ndjson'), '--summary', join(dir, 's.json'), '--duration', '2.5']);
+    await until(() => /listening on ws:\/\/0\.0\.0\.0:\d+/.test(c.stderr), 15_000, `the child to listen (stderr: ${c.stderr})`);
+    const port = Number(/listening on ws:\/\/0\.0\.0\.0:(\d+)/.exec(c.stderr)?.[1]);
+    const ws = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, sampleTexts(5));
+    expect((await c.exited).code).toBe(0);
+    expect((await json(join(dir, 's.json'))).frames).toMatchObject({ accepted: 5 });
+    const warnings = c.stderr.split('\n').filter((l) => l.includes('WARNING: listening on 0.0.0.0:0 with NO TOKEN'));
+    expect(warnings).toHaveLength(2);
+    expect(c.stderr.indexOf('WARNING')).toBeLessThan(c.stderr.indexOf('listening on ws://'));
+  });
+
+  it.each([
+    [['--listen', '127.0.0.1:0', '--token', 't', '--no-token'], /--token T or --no-token, not both/],
+    [['--connect', 'ws://127.0.0.1:9', '--no-token'], /--no-token is for --listen/],
+  ])('refuses %j', async (args, message) => {
+    const c = lengthwise(['live', ...args]);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toMatch(message);
+  });
+});
+
 describe('lengthwise live --listen', () => {
   it('survives a killed process: the log of what was received replays with the same counts', async () => {
     const dir = await tmp();
@@ -179,6 +215,36 @@ describe('lengthwise live --listen', () => {
     const summary = await json(join(dir, 's.json'));
     expect(summary.frames).toMatchObject({ accepted: 10 });
     expect((summary['warnings'] as string[]).some((w) => /session log is incomplete/.test(w))).toBe(true);
+  });
+
+  it('keeps a muscle\'s side and strides when a second device declares it otherwise, says so, and the log replays the same', async () => {
+    const dir = await tmp();
+    const log = join(dir, 'session.ndjson');
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
+    const port = await listeningPort(c);
+    const a = await wsClient(`ws://127.0.0.1:${port}`);
+    const b = await wsClient(`ws://127.0.0.1:${port}`);
+    stops.push(() => a.terminate(), () => b.terminate());
+    const header = (side: string): string => JSON.stringify({ format: 'lengthwise-stream', version: 1, muscles: { calf: { side } } });
+    const left = [0.2, 1.2, 2.2].map((t) => JSON.stringify({ t, event: 'foot_strike', side: 'left' }));
+    const right = [0.5, 0.9, 1.3, 1.7].map((t) => JSON.stringify({ t, event: 'foot_strike', side: 'right' }));
+    await sendAll(a, [header('left'), ...sampleTexts(100, 'calf'), left[0] as string]);
+    await logHolds(log, 100);
+    // The second device tries to make calf a right muscle, cut by its own foot strikes.
+    await sendAll(b, [header('right'), ...right]);
+    await until(() => c.stderr.includes('refused the header of device 2'), 15_000, 'the refusal');
+    await sendAll(a, [...sampleTexts(150, 'calf', 1), ...left.slice(1)]);
+    await logHolds(log, 250);
+    c.child.kill('SIGTERM');
+    expect((await c.exited).code).toBe(0);
+    expect(c.stderr).toMatch(/refused the header of device 2 \(127\.0\.0\.1:\d+\) for muscle "calf" as right: device 1 carries it \(left\)/);
+    expect(c.stderr).toMatch(/^note: refused the header of device 2/m);
+    const live = await json(join(dir, 'live.json'));
+    const calf = (live['muscles'] as Record<string, { side: string; strides: { start_s: number }[] }>)['calf'];
+    expect(calf?.side).toBe('left');
+    expect(calf?.strides.map((s) => s.start_s)).toEqual([0.2, 1.2]);
+    const replay = await replaySummary(log, dir, 'replay.json');
+    expect(withoutSource(replay)).toEqual(withoutSource(live));
   });
 
   it('refuses a device without the token with 401 and takes one with it', async () => {
@@ -285,6 +351,30 @@ describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : 
     spawnSync('tmux', ['-L', socket, 'kill-server']);
   });
 
+  it('says "connecting to" before the screen is up, then a refusal with its reason in full on the screen', { timeout: 40_000 }, async () => {
+    const refusing = lengthwise(['live', '--listen', '127.0.0.1:0', '--token', 'lab-7', '--plain', '--log', join(await tmp(), 'server.ndjson')]);
+    const port = await listeningPort(refusing);
+    const dir = await tmp();
+    const script = `cd '${REPO}' && unset CI; export NO_COLOR=1; node bin/lengthwise.js live --connect 'ws://127.0.0.1:${port}/?token=wrong' --log '${join(dir, 'l.ndjson')}'; sleep 30`;
+    // A tmux server of its own: the other test's server may still be going away.
+    const own = `${socket}-refused`;
+    stops.push(() => spawnSync('tmux', ['-L', own, 'kill-server']));
+    const tmux = (...args: string[]): string => execFileSync('tmux', ['-L', own, ...args], { encoding: 'utf8' });
+    tmux('new-session', '-d', '-s', 'refused', '-x', '80', '-y', '24', script);
+    const screen = (): string => tmux('capture-pane', '-p', '-J', '-S', '-100', '-t', 'refused');
+    // The first thing on the terminal, before the screen's thread has drawn anything.
+    await until(() => screen().trim() !== '', 20_000, 'anything on the terminal');
+    expect(screen().trim().split('\n')[0]).toBe(`lengthwise live: connecting to ws://127.0.0.1:${port}/?token=***`);
+    const flat = (): string => screen().replace(/\s+/g, ' ');
+    await until(
+      () => flat().includes('NOT CONNECTED, trying again in') && flat().includes('HTTP 401 Unauthorized: Unauthorized: send "Authorization: Bearer TOKEN" or ?token=TOKEN'),
+      20_000,
+      `the refusal in full on the screen (screen: ${screen()})`,
+    );
+    expect(screen()).not.toContain('DISCONNECTED');
+    tmux('send-keys', '-t', 'refused', 'q');
+  });
+
   it('shows the connection and the log path, and q ends the session with the summary written', { timeout: 40_000 }, async () => {
     const sim = await startSimulator({ port: 0, seed: 5 });
     stops.push(() => sim.stop());
@@ -339,5 +429,58 @@ describe('lengthwise live in-process, on virtual time', () => {
     expect(statusLines()).toBe(n);
     expect((await json(join(dir, 's.json'))).frames).toMatchObject({ accepted: 25 });
     expect(out.join('\n')).toContain('25 samples accepted');
+  });
+});
+
+describe('lengthwise live --connect with a token in the URL', () => {
+  it('never shows the token: status lines, messages, summary source, report and log hide it', { timeout: 30_000 }, async () => {
+    const sim = await startSimulator({ port: 0, seed: 2, durationS: 1.5 });
+    stops.push(() => sim.stop());
+    const dir = await tmp();
+    const scheduler = new VirtualTimeScheduler(VirtualAction, 60_000);
+    const out: string[] = [];
+    const err: string[] = [];
+    const io: CommandIo = { out: (t) => out.push(t), err: (t) => err.push(t), stdout: process.stdout, stderr: process.stderr, stdin: process.stdin, env: { NO_COLOR: '1' } };
+    const url = `${sim.url}/?token=sekrit-42`;
+    const files = { log: join(dir, 'l.ndjson'), summary: join(dir, 's.json'), report: join(dir, 'r.html') };
+    const ran = run(['--connect', url, '--plain', '--duration', '30', '--log', files.log, '--summary', files.summary, '--report', files.report], io, { scheduler });
+    await sim.done;
+    await until(() => err.some((l) => l.startsWith('DISCONNECTED')), 15_000, 'the end of the stream');
+    // Thirty virtual seconds at once: status lines every 3 s, then the end.
+    scheduler.flush();
+    expect(await ran).toBe(0);
+    const shown = `${sim.url}/?token=***`;
+    const said = [...out, ...err].join('\n');
+    expect(said).toContain(`connecting to ${shown}`);
+    expect(err.some((l) => l.startsWith(`${shown} | `))).toBe(true);
+    expect((await json(files.summary))['source']).toBe(shown);
+    for (const text of [said, await readFile(files.summary, 'utf8'), await readFile(files.report, 'utf8'), await readFile(files.log, 'utf8')]) {
+      expect(text).not.toContain('sekrit-42');
+    }
+    expect(await readFile(files.report, 'utf8')).toContain('token=***');
+  });
+
+  it('says at once that it is connecting, and a refused connection with the server\'s reason in full', async () => {
+    const refusing = lengthwise(['live', '--listen', '127.0.0.1:0', '--token', 'lab-7', '--plain', '--log', join(await tmp(), 'server.ndjson')]);
+    const port = await listeningPort(refusing);
+    const dir = await tmp();
+    const c = lengthwise(['live', '--connect', `ws://127.0.0.1:${port}/?token=wrong-one`, '--plain', '--log', join(dir, 'l.ndjson')]);
+    await until(() => c.stderr.includes('not connected:'), 15_000, `the refusal (stderr: ${c.stderr})`);
+    c.child.kill('SIGTERM');
+    expect((await c.exited).code).toBe(0);
+    const lines = c.stderr.split('\n');
+    expect(lines[0]).toBe(`connecting to ws://127.0.0.1:${port}/?token=***`);
+    expect(lines[1]).toMatch(
+      /^not connected: the server refused the connection: HTTP 401 Unauthorized: Unauthorized: send "Authorization: Bearer TOKEN" or \?token=TOKEN; trying again in \d\.\d s$/,
+    );
+    expect(c.stderr).not.toContain('DISCONNECTED');
+    expect(c.stderr).not.toContain('wrong-one');
+  });
+
+  it('does not repeat the token of a URL it refuses', async () => {
+    const c = lengthwise(['live', '--connect', 'http://127.0.0.1:9/?token=sekrit-42']);
+    expect((await c.exited).code).toBe(2);
+    expect(c.stderr).toContain('"http://127.0.0.1:9/?token=***" is a http: URL');
+    expect(c.stderr).not.toContain('sekrit-42');
   });
 });

@@ -23,22 +23,62 @@ describe('parseCommandArgs', () => {
     }
   });
 
-  it('says what was wrong, then the help, and ends with 2 on an unknown option or a refused positional', () => {
+  it('names an unknown option and the nearest one, and ends with 2', () => {
     const c = captureIo();
     expect(parseCommandArgs('replay', 'usage: x', ['--sped', '2'], OPTIONS, c.io)).toBe(2);
-    expect(c.err[0]).toMatch(/^lengthwise replay: .*--sped[\s\S]*usage: x$/);
+    expect(c.err).toEqual(['lengthwise replay: `--sped`: unknown option; did you mean `--speed`?\n(lengthwise replay --help lists every option)']);
+    const far = captureIo();
+    expect(parseCommandArgs('replay', 'usage: x', ['--colour'], OPTIONS, far.io)).toBe(2);
+    expect(far.err[0]).toMatch(/^lengthwise replay: `--colour`: unknown option\n/);
+  });
+
+  it('refuses a positional where the command takes none, naming it', () => {
     const d = captureIo();
     expect(parseCommandArgs('curve', 'usage: y', ['stray'], OPTIONS, d.io, { allowPositionals: false })).toBe(2);
-    expect(d.err[0]).toContain('stray');
+    expect(d.err[0]).toMatch(/^lengthwise curve: `stray`: this command takes options only/);
+  });
+
+  it.each([['-1.5'], ['-.5'], ['-1-4'], ['-2,3'], ['-0']])('takes the negative number %s as the value of an option before it', (value) => {
+    const c = captureIo();
+    const parsed = parseCommandArgs('replay', 'usage: x', ['--speed', value, 'a.ndjson'], OPTIONS, c.io);
+    if (typeof parsed === 'number') throw new Error(c.err.join('\n'));
+    expect(parsed.values.speed).toBe(value);
+    expect(parsed.positionals).toEqual(['a.ndjson']);
+  });
+
+  it('never takes an option for the value of the option before it', () => {
+    const c = captureIo();
+    expect(parseCommandArgs('replay', 'usage: x', ['--speed', '--plain'], OPTIONS, c.io)).toBe(2);
+    expect(c.err[0]).toContain('`--speed` needs a value, and `--plain` looks like an option');
+    const d = captureIo();
+    const parsed = parseCommandArgs('replay', 'usage: x', ['--speed=--plain'], OPTIONS, d.io);
+    if (typeof parsed === 'number') throw new Error(d.err.join('\n'));
+    expect(parsed.values.speed).toBe('--plain');
+  });
+
+  it('says that an option lacks its value, or that a switch takes none', () => {
+    const c = captureIo();
+    expect(parseCommandArgs('replay', 'usage: x', ['--speed'], OPTIONS, c.io)).toBe(2);
+    expect(c.err[0]).toContain('`--speed` needs a value: give `--speed VALUE`');
+    const d = captureIo();
+    expect(parseCommandArgs('replay', 'usage: x', ['--plain=yes'], OPTIONS, d.io)).toBe(2);
+    expect(d.err[0]).toContain('`--plain` takes no value');
+  });
+
+  it('takes everything after -- as positionals', () => {
+    const c = captureIo();
+    const parsed = parseCommandArgs('replay', 'usage: x', ['--', '--odd-name.ndjson'], OPTIONS, c.io);
+    if (typeof parsed === 'number') throw new Error(c.err.join('\n'));
+    expect(parsed.positionals).toEqual(['--odd-name.ndjson']);
   });
 
   it('refuses an option that takes one value given twice, naming both values, rather than keeping the last', () => {
     const c = captureIo();
     expect(parseCommandArgs('replay', 'usage: x', ['a.ndjson', '--speed', '4', '--speed=max'], OPTIONS, c.io)).toBe(2);
-    expect(c.err[0]).toBe('lengthwise replay: --speed was given 2 times ("4", "max"); it takes one value: give it once\n(lengthwise replay --help for the usage)');
+    expect(c.err[0]).toBe('lengthwise replay: `--speed` was given 2 times ("4", "max"); it takes one value: give it once\n(lengthwise replay --help lists every option)');
     const d = captureIo();
     expect(parseCommandArgs('replay', 'usage: x', ['--plain', '--plain'], OPTIONS, d.io)).toBe(2);
-    expect(d.err[0]).toMatch(/--plain was given 2 times: give it once/);
+    expect(d.err[0]).toMatch(/`--plain` was given 2 times: give it once/);
   });
 
   it('takes an option declared as repeatable as often as it is given', () => {

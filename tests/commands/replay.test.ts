@@ -122,11 +122,18 @@ describe('lengthwise replay', () => {
     expect(ran.stderr).toContain('sarcomeres_in_series');
   });
 
-  it('refuses a bad speed and unknown options with usage', async () => {
+  it('refuses a bad speed, and names the nearest option for an unknown one', async () => {
     expect((await lengthwise(['replay', DEMO, '--speed', 'fast'])).stderr).toContain('positive number');
     const unknown = await lengthwise(['replay', DEMO, '--sped', '2']);
     expect(unknown.code).toBe(2);
-    expect(unknown.stderr).toContain('usage: lengthwise replay');
+    expect(unknown.stderr).toContain('`--sped`: unknown option; did you mean `--speed`?');
+    expect(unknown.stderr).toContain('lengthwise replay --help lists every option');
+  });
+
+  it('takes a negative number for a value and says why it is refused', async () => {
+    const negative = await lengthwise(['replay', DEMO, '--speed', '-1']);
+    expect(negative.code).toBe(2);
+    expect(negative.stderr).toContain('--speed "-1" is not a speed');
   });
 });
 
@@ -196,7 +203,7 @@ describe('lengthwise replay: calibration methods, activation and estimated strid
     const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
     const calf = summary.muscles.calf;
     expect(calf.calibration_method).toBe('prior from published architecture');
-    expect(calf.sarcomeres_in_series).toBeCloseTo(60_000 / 2.7, 6);
+    expect(calf.sarcomeres_in_series).toBeCloseTo(60_000 / 2.7, 2); // the count is written to 2 decimals
     expect(calf.sarcomeres_in_series_relative_sd).toBeCloseTo(0.1, 12);
     expect(calf.sarcomeres_in_series_distribution).toBe('lognormal');
     expect(calf.shape).toBe('gaussian');

@@ -7,6 +7,8 @@ import { WebSocket, WebSocketServer } from 'ws';
 import type { CommandIo } from '../../src/run/io.ts';
 import { parseSimulateArgs, run } from '../../src/commands/simulate.ts';
 import { createCollector } from '../sim/ws-collector.ts';
+import { websocketServer } from '../../adapters/websocket-server.ts';
+import type { Frame } from '../../src/trial/records.ts';
 
 const REPO = join(import.meta.dirname, '..', '..');
 
@@ -77,7 +79,10 @@ describe('parseSimulateArgs', () => {
     });
     const unknown = parseSimulateArgs(['--listen', '0', '--colour']);
     expect(unknown.ok).toBe(false);
-    if (!unknown.ok) expect(unknown.problems[0]).toMatch(/--colour.*see lengthwise simulate --help/);
+    if (!unknown.ok) expect(unknown.problems[0]).toMatch(/`--colour`: unknown option\n\(lengthwise simulate --help lists every option\)/);
+    const near = parseSimulateArgs(['--listen', '0', '--scenaro', 'run']);
+    expect(near.ok).toBe(false);
+    if (!near.ok) expect(near.problems[0]).toContain('`--scenaro`: unknown option; did you mean `--scenario`?');
   });
 
   it('turns good options into simulator options', () => {
@@ -86,6 +91,7 @@ describe('parseSimulateArgs', () => {
       help: false,
       listen: null,
       connect: 'ws://127.0.0.1:9',
+      token: null,
       sim: { scenario: 'run', rateHz: 50, durationS: 3, seed: 4, muscles: ['x', 'y'], faults: true },
     });
   });
@@ -149,6 +155,68 @@ describe('lengthwise simulate', () => {
     } finally {
       await new Promise<void>((resolve) => wss.close(() => resolve()));
     }
+  });
+
+  /** A receiving server asking for a token (the live adapter, on a real socket); its URL and what it received. */
+  async function tokenServer(token: string) {
+    const frames: Frame[] = [];
+    let url = '';
+    const sub = websocketServer({ port: 0, token, onLink: (e) => (e.kind === 'listening' ? (url = e.url) : undefined) }).subscribe((b) => frames.push(...b));
+    await until(() => (url === '' ? undefined : url));
+    return { url, frames, stop: () => sub.unsubscribe() };
+  }
+
+  it('pushes with --token to a server that asks for one', async () => {
+    const server = await tokenServer('lab-7');
+    try {
+      const t = testIo();
+      expect(await run(['--connect', server.url, '--token', 'lab-7', '--duration', '0.8'], t.io)).toBe(0);
+      await until(() => (server.frames.some((f) => f.kind === 'header') ? true : undefined));
+      expect(t.err.join('\n')).not.toMatch(/refused/);
+    } finally {
+      server.stop();
+    }
+  });
+
+  it('says a refusal (401) with the server\'s reason, stops pushing and exits 1', async () => {
+    const server = await tokenServer('lab-7');
+    try {
+      // No --duration: the refusal ends it.
+      for (const [args, hint] of [
+        [[], "give the server's token with --token T"],
+        [['--token', 'wrong'], "check that --token is the server's token"],
+      ] as const) {
+        const t = testIo();
+        expect(await run(['--connect', server.url, ...args], t.io)).toBe(1);
+        expect(t.err.at(-1)).toBe(
+          `lengthwise simulate: ${server.url} refused the connection: HTTP 401 Unauthorized: Unauthorized: send "Authorization: Bearer TOKEN" or ?token=TOKEN; ${hint}`,
+        );
+      }
+      expect(server.frames).toEqual([]);
+    } finally {
+      server.stop();
+    }
+  });
+
+  it('never shows a token given in the URL', async () => {
+    const server = await tokenServer('lab-secret-9');
+    try {
+      const t = testIo();
+      expect(await run(['--connect', `${server.url}/?token=lab-secret-9`, '--duration', '0.8'], t.io)).toBe(0);
+      await until(() => (server.frames.some((f) => f.kind === 'header') ? true : undefined));
+      const said = [...t.out, ...t.err].join('\n');
+      expect(said).toContain(`${server.url}/?token=***`);
+      expect(said).not.toContain('lab-secret-9');
+      const refused = testIo();
+      expect(await run(['--connect', `${server.url}/?token=wrong-secret`], refused.io)).toBe(1);
+      expect([...refused.out, ...refused.err].join('\n')).not.toContain('wrong-secret');
+    } finally {
+      server.stop();
+    }
+  });
+
+  it('takes --token only with --connect', () => {
+    expect(parseSimulateArgs(['--listen', '0', '--token', 'x'])).toMatchObject({ ok: false, problems: ['--token is for --connect (the token the server asks for)'] });
   });
 
   it('exits 1 when --connect never reached a server', async () => {

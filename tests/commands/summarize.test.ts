@@ -106,10 +106,30 @@ describe('lengthwise summarize', () => {
     expect(ran.code).toBe(0);
     const rows = csvRecords(ran.stdout);
     expect(rows.map((r) => r.muscle)).toEqual(['calf', 'thigh']);
-    expect(ran.stderr).toMatch(/summarized 1 of 1 trials/);
+    expect(ran.stderr).toMatch(/summarized 1 of 1 trials in [\d.]+ s \(.*, 1 worker\)/);
   });
 
-  it('summarises many trials on worker threads, names a missing and a corrupt file with reasons, and exits 1', async () => {
+  it('says each trial\'s warnings in its plain line: uncalibrated, side assumed, strides estimated', async () => {
+    // No gait events in 14 s: strides estimated from the fascicle signal.
+    const long = await folder.trial('s05-walk-long.ndjson', { seed: 45, durationS: 14 });
+    const noEvents = (await readFile(long.path, 'utf8')).split('\n').filter((l) => !l.includes('"event"')).join('\n');
+    const estimated = await folder.file('s05-no-events.ndjson', noEvents);
+    const ran = await lengthwise(['summarize', trials[0]!, trials[2]!, estimated, '--jobs', '1', '--plain']);
+    expect(ran.code).toBe(0);
+    const lines = ran.stderr.split('\n');
+    const lineOf = (path: string): string => lines.find((l) => l.includes(`${path}:`)) ?? '';
+    expect(lineOf(trials[0]!)).not.toMatch(/UNCALIBRATED|assumed|estimated/);
+    // The CSV trial has no header: no calibration, no sides.
+    expect(lineOf(trials[2]!)).toMatch(/samples · UNCALIBRATED: calf, thigh · side assumed: calf, thigh · /);
+    expect(lineOf(estimated)).toMatch(/samples · strides estimated: calf, thigh · /);
+    expect(lineOf(estimated)).toContain('2 with warnings');
+    // The same flags as the table's columns.
+    const rows = csvRecords(ran.stdout);
+    expect(rows.filter((r) => r.uncalibrated === 'true').map((r) => r.muscle)).toEqual(['calf', 'thigh']);
+    expect(rows.filter((r) => r.segmentation_estimated === 'true').map((r) => r.muscle)).toEqual(['calf', 'thigh']);
+  });
+
+  it('summarizes many trials on worker threads, names a missing and a corrupt file with reasons, and exits 1', async () => {
     const out = join(folder.dir, 'out', 'study.csv');
     const report = join(folder.dir, 'out', 'study.html');
     const ran = await lengthwise(['summarize', trials[0]!, missing, trials[1]!, corrupt, trials[2]!, trials[3]!, '--out', out, '--report', report, '--jobs', '2']);
@@ -123,7 +143,7 @@ describe('lengthwise summarize', () => {
 
     const rows = csvRecords(await readFile(out, 'utf8'));
     expect(rows).toHaveLength(8);
-    // One report over the trials summarised: three plots per trial × muscle and two overviews.
+    // One report over the trials summarized: three plots per trial × muscle and two overviews.
     const html = await readFile(report, 'utf8');
     expect(html.startsWith('<!DOCTYPE html>')).toBe(true);
     expect(html.match(/<section class="entry"/g)).toHaveLength(8);
@@ -208,8 +228,11 @@ describe.skipIf(!hasTmux())('lengthwise summarize on a terminal (tmux)', () => {
       const fileText = (path: string) => () => readFile(path, 'utf8').catch(() => '');
       expect(await readWhere(fileText(done), (t) => t !== '', 'the end of summarize')).toContain('exit=0');
       const shown = await readWhere(async () => screen(), (t) => /summarized 4 of 4 trials/.test(t), 'the tally on screen');
-      // The bar is drawn over itself and cleared: no per-trial lines are left on screen.
+      // The bar is drawn over itself and cleared: no per-trial lines are left on screen, but a trial's warnings are.
       expect(shown).not.toMatch(/^\[\d\/4\]/m);
+      // (joined, should the terminal have wrapped the line)
+      expect(shown.replaceAll('\n', '')).toContain(`${trials[2]}: UNCALIBRATED: calf, thigh · side assumed: calf, thigh`);
+      expect(shown).toMatch(/, 2 workers\)/);
       const bar = /█*░+ \d\/4 trials · .* samples\/s · .* left/;
       const written = await readWhere(fileText(raw), (t) => t.includes('\r\x1b[2K') && bar.test(t), 'the bar drawn on the terminal');
       expect(written).toContain('\r\x1b[2K');

@@ -135,7 +135,7 @@ describe.skipIf(!HAS_TMUX)(title, () => {
     // The confirmation stays a few seconds of wall time: it is looked for in everything drawn since the key.
     const drawing = recordDrawing('demo');
     keys('demo', 'm');
-    await drawn(drawing, 'marker 1 dropped', 'demo');
+    await drawn(drawing, 'marker 1 placed', 'demo');
 
     keys('demo', 'q');
     expect((await fileWhere(status, 'the exit status')).trim()).toBe('0');

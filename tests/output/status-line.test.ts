@@ -23,6 +23,15 @@ describe('statusLine', () => {
     expect(line).not.toMatch(/\u001B/);
   });
 
+  it('claims neither calibrated nor UNCALIBRATED before a muscle\'s calibration is known', () => {
+    const empty = statusLine(makeTrialState([]));
+    const waiting = statusLine(makeTrialState([makeMuscle('calf', { calibrationSource: null })]));
+    for (const line of [empty, waiting]) {
+      expect(line).toContain('calibration pending');
+      expect(line).not.toMatch(/\| (calibrated|UNCALIBRATED)/);
+    }
+  });
+
   it('is loud when uncalibrated and names the commonest rejection', () => {
     const state = makeTrialState([makeMuscle('calf', { calibrationSource: 'baseline' })]);
     pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.6 });

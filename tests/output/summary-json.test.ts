@@ -111,7 +111,8 @@ describe('summaryJson: flags, phases and the cycle curve', () => {
     (m.strides as StrideSummary[]).push({ ...stride(2, 3, 4, 1.9, 3.9, 2.0, 0, 0.5), flagged: true });
     const t = summaryJson(s).muscles['calf, medial']?.trial;
     expect(t).toMatchObject({ stride_count: 3, flagged_count: 1, strides_used: 2, sl_min_um: 2.5, sl_max_um: 3.2 });
-    expect(t?.sl_mean_um).toBeCloseTo((2.7 * 1 + 2.9 * 2) / 3, 12);
+    // (2.7 × 1 + 2.9 × 2) / 3 = 2.8333…, written to 4 decimals.
+    expect(t?.sl_mean_um).toBe(2.8333);
     expect(summaryJson(s).muscles['calf, medial']?.strides[2]).toMatchObject({ flagged: true, gap_fraction: 0.5 });
   });
 

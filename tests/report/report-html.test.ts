@@ -88,7 +88,7 @@ describe('reportHtml', () => {
     expect(html).not.toMatch(/@import|url\(|https?:\/\//i);
   });
 
-  it('summarises every trial × muscle in a table row that links to its plots', () => {
+  it('summarizes every trial × muscle in a table row that links to its plots', () => {
     const rows = checked.elements.filter((e) => e.name === 'tr' && e.ancestors.includes('tbody'));
     expect(rows).toHaveLength(6);
     const links = checked.elements.filter((e) => e.name === 'a' && e.ancestors.includes('table')).map((e) => e.attributes.href);

@@ -29,6 +29,8 @@ describe('progress line', () => {
   it('says trials done, failures, rate and time left', () => {
     expect(progressFigures(half, 4)).toBe('5/10 trials · 50.0 k samples/s · 0:04 left');
     expect(progressFigures({ ...half, trialsFailed: 2 }, 4)).toContain('5/10 trials, 2 failed');
+    expect(progressFigures({ ...half, trialsFailed: 2 }, 4, 3)).toContain('5/10 trials, 2 failed, 3 with warnings ·');
+    expect(progressBar(half, 4, 100, 1)).toContain('5/10 trials, 1 with warnings');
   });
 
   it('fills the bar with the bytes read and never passes the terminal width', () => {

@@ -63,7 +63,7 @@ describe('runStudy', () => {
     expect(plain[0]).not.toHaveProperty('reportSections');
   });
 
-  it('names a missing and a corrupt file with their reasons and summarises the rest', async () => {
+  it('names a missing and a corrupt file with their reasons and summarizes the rest', async () => {
     const corrupt = await folder.file('corrupt.ndjson', 'this is not a trial\n\u0000\u0001\u0002\n{"t":\n');
     const missing = `${folder.dir}/missing.ndjson`;
     const events: StudyEvent[] = [];
@@ -88,7 +88,7 @@ describe('runStudy', () => {
     expect(end.samples).toBe(outcomes.reduce((n, o) => n + (o.ok ? o.samples : 0), 0));
   });
 
-  it('stops its workers when aborted and says which trials were not summarised', async () => {
+  it('stops its workers when aborted and says which trials were not summarized', async () => {
     const before = await settledWorkerCount();
     let during = 0;
     const controller = new AbortController();
@@ -104,7 +104,7 @@ describe('runStudy', () => {
     });
     const outcomes = await pending;
     expect(outcomes).toHaveLength(3);
-    expect(outcomes.some((o) => !o.ok && /was not summarised: the study was stopped first/.test(o.message))).toBe(true);
+    expect(outcomes.some((o) => !o.ok && /was not summarized: the study was stopped first/.test(o.message))).toBe(true);
     expect(during).toBeGreaterThan(before);
     // Workers end asynchronously once terminated.
     for (const end = Date.now() + 10_000; workerCount() > before && Date.now() < end; ) await new Promise((resolve) => setTimeout(resolve, 20));

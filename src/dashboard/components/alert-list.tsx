@@ -1,7 +1,7 @@
-/** The alerts, one line each, critical first; lines beyond `maxRows` are counted, not shown. */
+/** The alerts, one row each (a connection's may take two), critical first; alerts beyond `maxRows` are counted, not shown. */
 import { Box, Text } from 'ink';
 import { memo } from 'react';
-import type { Alert } from '../view/alerts.ts';
+import { alertLines, type Alert } from '../view/alerts.ts';
 import type { Theme } from '../view/theme.ts';
 
 export interface Props {
@@ -18,11 +18,13 @@ function AlertList({ alerts, theme, columns, maxRows = 3 }: Props) {
   const shown = overflow ? alerts.slice(0, maxRows - 1) : alerts;
   return (
     <Box flexDirection="column" width={columns}>
-      {shown.map((alert) => (
-        <Text key={`${alert.kind}:${alert.muscle ?? ''}`} wrap="truncate-end" {...theme.role(alert.severity)}>
-          {` ! ${alert.text} `}
-        </Text>
-      ))}
+      {shown.flatMap((alert) =>
+        alertLines(alert, columns).map((line, row) => (
+          <Text key={`${alert.kind}:${alert.muscle ?? ''}:${row}`} wrap="truncate-end" {...theme.role(alert.severity)}>
+            {line}
+          </Text>
+        )),
+      )}
       {overflow ? <Text {...theme.role('warning')}>{` ! and ${alerts.length - shown.length} more alerts `}</Text> : null}
     </Box>
   );

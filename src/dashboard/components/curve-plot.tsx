@@ -1,5 +1,6 @@
 /**
- * Paints a curve drawing (see curve-drawing.ts): regions in their colours, the marker bright. The curve
+ * Paints a curve drawing (see curve-drawing.ts): regions in their colours (without colour, in their
+ * fill characters), the marker bright. The curve
  * rows and the axis are drawn once per curve and size and never repainted; the marker's column is laid
  * over them, and the band row is drawn again only when the columns it covers change.
  */
@@ -22,7 +23,8 @@ export interface Props {
 }
 
 export default function CurvePlot({ curve, widthCols, heightRows, sarcomereUm, current, previous, theme }: Props) {
-  const layers = curveLayers(curve, widthCols, heightRows);
+  // Without colour, the regions are told apart by their fill characters.
+  const layers = curveLayers(curve, widthCols, heightRows, theme.color ? 'blocks' : 'patterns');
   const markerRaw = markerRawCol(sarcomereUm, layers);
   const bothChar = theme.color ? '▀' : '█';
   const key = `${bandKey(layers, markerRaw, current, previous)}|${bothChar}`;

@@ -23,7 +23,7 @@ import { useTerminalSize } from '../hooks/use-terminal-size.ts';
 import { firstFrame, trialFrames, type TrialFrame } from '../view/trial-frames.ts';
 import { useFrames } from '../hooks/use-frames.ts';
 import { detectAlerts } from '../view/view-model.ts';
-import { sameAlerts, type Alert } from '../view/alerts.ts';
+import { alertListRows, sameAlerts, type Alert } from '../view/alerts.ts';
 
 export interface Props {
   /** The pipeline's state, turned into frames on this thread (with status$). */
@@ -158,7 +158,7 @@ export default function Dashboard(props: Props) {
     { isActive: isRawModeSupported === true },
   );
 
-  const alertRows = Math.min(alerts.length, MAX_ALERT_ROWS);
+  const alertRows = alertListRows(alerts, size.columns, MAX_ALERT_ROWS);
   const promptRows = mode.kind === 'calibrate' ? 2 : 0;
   const reserved = 2 + (status.replay === undefined ? 0 : 1) + alertRows + promptRows + 1;
   // One row short of the terminal: a frame as tall as the terminal makes Ink clear the screen each frame.

@@ -1,4 +1,4 @@
-/** The keys that work here, and the last short message (marker dropped, calibration asked…). */
+/** The keys that work here, and the last short message (marker placed, calibration asked…). */
 import { Box, Text } from 'ink';
 import { memo } from 'react';
 import type { KeyHelp } from '../view/keys.ts';

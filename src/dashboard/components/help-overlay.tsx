@@ -1,7 +1,8 @@
 /** The help screen: every key, and how to read a panel. */
 import { Box, Text } from 'ink';
 import { REGION_KEYS, REGION_LABEL } from '../../model/regions.ts';
-import { MARKER_IN_BAND, MARKER_LEFT, MARKER_RIGHT, MARKER_STEM } from '../view/curve-drawing.ts';
+import { FILLED_REGIONS, MARKER_IN_BAND, MARKER_LEFT, MARKER_RIGHT, MARKER_STEM, REGION_FILL } from '../view/curve-drawing.ts';
+import type { RegionKey } from '../../model/regions.ts';
 import type { KeyHelp } from '../view/keys.ts';
 import type { Theme } from '../view/theme.ts';
 
@@ -9,6 +10,12 @@ export interface Props {
   readonly keys: readonly KeyHelp[];
   readonly theme: Theme;
   readonly columns: number;
+}
+
+/** A region's swatch before its name: a block in its colour, or without colour its fill character; none for a region with no area. */
+function swatch(region: RegionKey, theme: Theme): string {
+  if (!(FILLED_REGIONS as readonly RegionKey[]).includes(region)) return '';
+  return `${theme.color ? '█' : REGION_FILL[region]} `;
 }
 
 export default function HelpOverlay({ keys, theme, columns }: Props) {
@@ -40,7 +47,7 @@ export default function HelpOverlay({ keys, theme, columns }: Props) {
         {REGION_KEYS.slice(0, 3).map((r, i) => (
           <Text key={r}>
             {i === 0 ? '' : ' · '}
-            <Text {...theme.region(r)}>{REGION_LABEL[r]}</Text>
+            <Text {...theme.region(r)}>{`${swatch(r, theme)}${REGION_LABEL[r]}`}</Text>
           </Text>
         ))}
       </Text>
@@ -49,7 +56,7 @@ export default function HelpOverlay({ keys, theme, columns }: Props) {
         {REGION_KEYS.slice(3).map((r, i) => (
           <Text key={r}>
             {i === 0 ? '' : ' · '}
-            <Text {...theme.region(r)}>{REGION_LABEL[r]}</Text>
+            <Text {...theme.region(r)}>{`${swatch(r, theme)}${REGION_LABEL[r]}`}</Text>
           </Text>
         ))}
       </Text>

@@ -18,6 +18,8 @@ export interface Props {
 const FROZEN = ' FROZEN ';
 const CALIBRATED = 'calibrated';
 const UNCALIBRATED = ' UNCALIBRATED ';
+/** Before any muscle's calibration is known: neither claim is made. */
+const PENDING = 'calibration pending';
 const ENDED = ' · trial ended';
 
 /** The connection in a few words; the alert line says the rest. */
@@ -25,7 +27,12 @@ function connectionShort(status: RunStatus): string | null {
   const c = status.connection;
   if (c === undefined) return null;
   if (c.state === 'reconnecting') return c.retryInS === undefined ? 'reconnecting' : `reconnecting in ${Math.max(0, Math.ceil(c.retryInS))} s`;
+  if (c.state === 'connecting') return c.retryInS === undefined ? 'connecting' : `not connected, trying again in ${Math.max(0, Math.ceil(c.retryInS))} s`;
   return connectionText(status);
+}
+
+function calibrationWord(calibrated: boolean | null): string {
+  return calibrated === null ? PENDING : calibrated ? CALIBRATED : UNCALIBRATED;
 }
 
 export default function StatusBar({ title, view, status, theme, frozen, columns }: Props) {
@@ -34,7 +41,7 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
   const elapsedText = elapsed(view.elapsedS);
   // What must always show (calibration, time) is laid out first; the source takes what is left.
   const right =
-    2 + (frozen ? FROZEN.length + 1 : 0) + (view.calibrated ? CALIBRATED : UNCALIBRATED).length + 5 + elapsedText.length + (view.ended ? ENDED.length : 0);
+    2 + (frozen ? FROZEN.length + 1 : 0) + calibrationWord(view.calibrated).length + 5 + elapsedText.length + (view.ended ? ENDED.length : 0);
   const connectionCols = connection === null ? 0 : 3 + connection.length;
   const titleText = title.length + connectionCols + right <= columns ? title : `${title.slice(0, Math.max(4, columns - connectionCols - right - 1))}…`;
   const left = titleText.length + connectionCols;
@@ -46,7 +53,12 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
   const samplesText = `${view.accepted} samples`;
   const lowText = view.lowQuality > 0 ? ` (${view.lowQuality} low quality)` : '';
   const logRoom = columns - (rate.length + 3 + samplesText.length + lowText.length + 3 + rejected.length + ' · log '.length);
-  const connectionStyle = status.connection?.state === 'reconnecting' ? theme.role('critical') : theme.role('good');
+  const connectionStyle =
+    status.connection?.state === 'reconnecting' || (status.connection?.state === 'connecting' && status.connection.retryInS !== undefined)
+      ? theme.role('critical')
+      : status.connection?.state === 'connecting'
+        ? theme.role('label')
+        : theme.role('good');
   return (
     <Box flexDirection="column" width={columns}>
       <Box>
@@ -71,7 +83,13 @@ export default function StatusBar({ title, view, status, theme, frozen, columns 
               <Text> </Text>
             </>
           ) : null}
-          {view.calibrated ? <Text {...theme.role('good')}>{CALIBRATED}</Text> : <Text {...theme.role('critical')}>{UNCALIBRATED}</Text>}
+          {view.calibrated === null ? (
+            <Text {...theme.role('label')}>{PENDING}</Text>
+          ) : view.calibrated ? (
+            <Text {...theme.role('good')}>{CALIBRATED}</Text>
+          ) : (
+            <Text {...theme.role('critical')}>{UNCALIBRATED}</Text>
+          )}
           <Text {...theme.role('label')}> · t </Text>
           <Text>{elapsedText}</Text>
           {view.ended ? <Text {...theme.role('label')}>{ENDED}</Text> : null}

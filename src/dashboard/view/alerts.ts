@@ -24,6 +24,8 @@ export interface Alert {
   readonly severity: 'critical' | 'warning';
   /** What is wrong and what to do, in one line. */
   readonly text: string;
+  /** Rows the text may take when it does not fit in one (the rest is cut). @default 1 */
+  readonly rows?: number;
 }
 
 /** Tracking quality must stay low this long (device seconds) before it is raised. */
@@ -125,15 +127,31 @@ export function uncalibratedAlert(calibrated: boolean, muscleCount: number, canC
   };
 }
 
+/**
+ * A lost connection, or one never made: what failed comes in full (a server's refusal says why), so
+ * this alert may take a second row.
+ */
 export function connectionAlert(connection: ConnectionStatus | undefined): Alert | null {
-  if (connection?.state !== 'reconnecting') return null;
+  if (connection === undefined) return null;
   const when = connection.retryInS === undefined ? 'soon' : `in ${Math.max(0, Math.ceil(connection.retryInS))} s`;
+  if (connection.state === 'connecting') {
+    if (connection.retryInS === undefined) return null;
+    return {
+      kind: 'disconnected',
+      muscle: null,
+      severity: 'critical',
+      text: `NOT CONNECTED, trying again ${when}: ${connection.detail ?? 'the connection failed'}`,
+      rows: 3,
+    };
+  }
+  if (connection.state !== 'reconnecting') return null;
   const detail = connection.detail === undefined ? '' : ` (${connection.detail})`;
   return {
     kind: 'disconnected',
     muscle: null,
     severity: 'critical',
     text: `DISCONNECTED — reconnecting ${when}; the gap is not filled in${detail}`,
+    rows: 3,
   };
 }
 
@@ -159,7 +177,35 @@ export function sameAlerts(a: readonly Alert[], b: readonly Alert[]): boolean {
     const x = a[i];
     const y = b[i];
     if (x === undefined || y === undefined) return false;
-    if (x.kind !== y.kind || x.muscle !== y.muscle || x.severity !== y.severity || x.text !== y.text) return false;
+    if (x.kind !== y.kind || x.muscle !== y.muscle || x.severity !== y.severity || x.text !== y.text || x.rows !== y.rows) return false;
   }
   return true;
+}
+
+/**
+ * The rows an alert is drawn on, `columns` wide: ` ! TEXT `, broken between words onto at most
+ * `alert.rows` rows (continuation rows indented under the text); what does not fit is cut by the screen.
+ */
+export function alertLines(alert: Alert, columns: number): string[] {
+  const whole = ` ! ${alert.text} `;
+  const rows = alert.rows ?? 1;
+  if (rows <= 1 || whole.length <= columns) return [whole];
+  const lines: string[] = [];
+  let rest = whole;
+  while (lines.length < rows - 1 && rest.length > columns) {
+    const room = rest.slice(0, columns);
+    const cut = room.lastIndexOf(' ', columns);
+    const at = cut > columns / 2 ? cut : columns;
+    lines.push(rest.slice(0, at));
+    rest = `   ${rest.slice(at).trimStart()}`;
+  }
+  lines.push(rest);
+  return lines;
+}
+
+/** Rows the alert list takes: each shown alert's rows, and one row saying how many more when they do not all fit. */
+export function alertListRows(alerts: readonly Alert[], columns: number, maxAlerts: number): number {
+  const overflow = alerts.length > maxAlerts;
+  const shown = overflow ? alerts.slice(0, maxAlerts - 1) : alerts;
+  return shown.reduce((n, a) => n + alertLines(a, columns).length, 0) + (overflow ? 1 : 0);
 }

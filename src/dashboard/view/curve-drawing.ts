@@ -1,6 +1,6 @@
 /**
  * The force–length curve as rows of characters: the area under the geometric curve in eighth blocks,
- * one tone per region, a marker column at the current sarcomere length, a band row for the current stride
+ * one tone per region (without colour, each region's full cells in a fill character of its own), a marker column at the current sarcomere length, a band row for the current stride
  * (upper half blocks) and the previous stride (lower half blocks), and an axis row in µm.
  * Pure: the component only paints the runs.
  */
@@ -32,6 +32,8 @@ export interface CurveDrawingInput {
    * background (painted by the theme) shows the previous stride. @default '█'
    */
   readonly bothChar?: string;
+  /** @default 'blocks' */
+  readonly fill?: CurveFill;
 }
 
 export interface CurveDrawing {
@@ -44,6 +46,34 @@ export interface CurveDrawing {
 }
 
 const EIGHTHS = [' ', '▁', '▂', '▃', '▄', '▅', '▆', '▇', '█'] as const;
+
+/**
+ * How the area under the curve is drawn: 'blocks', every region alike (colour tells them apart), or
+ * 'patterns', for a screen without colour: a region's full cells in its REGION_FILL character (the
+ * cells at the top edge stay eighth blocks, so the curve keeps its shape).
+ */
+export type CurveFill = 'blocks' | 'patterns';
+
+/**
+ * The full cells of each region under 'patterns', denser towards peak force; neighbours always differ.
+ * The regions short of the steep limb and past overlap have no force, so no area to fill.
+ */
+export const REGION_FILL: Readonly<Record<RegionKey, string>> = {
+  too_short: '█',
+  steep_ascending: '▓',
+  shallow_ascending: '▒',
+  plateau: '█',
+  descending: '░',
+  no_overlap: '█',
+};
+
+/** The regions that have an area under the curve, so a fill of their own. */
+export const FILLED_REGIONS = ['steep_ascending', 'shallow_ascending', 'plateau', 'descending'] as const satisfies readonly RegionKey[];
+
+/** A filled cell's character: an eighth block, or the region's fill for a full cell under 'patterns'. */
+function cellChar(level: number, region: RegionKey, fill: CurveFill): string {
+  return level >= 8 && fill === 'patterns' ? REGION_FILL[region] : (EIGHTHS[level] ?? '█');
+}
 export const MARKER_IN_BAND = '◆';
 export const MARKER_LEFT = '◀';
 export const MARKER_RIGHT = '▶';
@@ -119,6 +149,7 @@ export interface CurveLayers {
   readonly heightRows: number;
   readonly minUm: number;
   readonly maxUm: number;
+  readonly fill: CurveFill;
   /** Filled eighths (0–8) of each cell, row by row from the top. */
   readonly levels: readonly Uint8Array[];
   readonly regions: readonly RegionKey[];
@@ -129,7 +160,7 @@ export interface CurveLayers {
   markerColumn(col: number): readonly string[];
 }
 
-function buildLayers(curve: ForceLengthCurve, widthCols: number, heightRows: number): CurveLayers {
+function buildLayers(curve: ForceLengthCurve, widthCols: number, heightRows: number, fill: CurveFill): CurveLayers {
   const { minUm, maxUm } = drawingRange(curve);
   const eighths: number[] = [];
   const regions: RegionKey[] = [];
@@ -147,7 +178,8 @@ function buildLayers(curve: ForceLengthCurve, widthCols: number, heightRows: num
     for (let col = 0; col < widthCols; col++) {
       const level = Math.min(8, Math.max(0, (eighths[col] ?? 0) - floor));
       rowLevels[col] = level;
-      cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: EIGHTHS[level] ?? '█', tone: regions[col] ?? 'no_overlap' });
+      const region = regions[col] ?? 'no_overlap';
+      cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: cellChar(level, region, fill), tone: region });
     }
     levels.push(rowLevels);
     body.push(toRuns(cells));
@@ -158,6 +190,7 @@ function buildLayers(curve: ForceLengthCurve, widthCols: number, heightRows: num
     heightRows,
     minUm,
     maxUm,
+    fill,
     levels,
     regions,
     body,
@@ -180,7 +213,7 @@ const layersByCurve = new WeakMap<ForceLengthCurve, Map<string, CurveLayers>>();
  * same curve object and size, so screens can skip repainting what did not change. Curves are few and
  * immutable; a curve no longer referenced takes its drawings with it.
  */
-export function curveLayers(curve: ForceLengthCurve, widthCols: number, heightRows: number): CurveLayers {
+export function curveLayers(curve: ForceLengthCurve, widthCols: number, heightRows: number, fill: CurveFill = 'blocks'): CurveLayers {
   const width = Math.max(1, Math.floor(widthCols));
   const height = Math.max(1, Math.floor(heightRows));
   let bySize = layersByCurve.get(curve);
@@ -188,10 +221,10 @@ export function curveLayers(curve: ForceLengthCurve, widthCols: number, heightRo
     bySize = new Map();
     layersByCurve.set(curve, bySize);
   }
-  const key = `${width}x${height}`;
+  const key = `${width}x${height}:${fill}`;
   let layers = bySize.get(key);
   if (layers === undefined) {
-    layers = buildLayers(curve, width, height);
+    layers = buildLayers(curve, width, height, fill);
     bySize.set(key, layers);
   }
   return layers;
@@ -246,7 +279,7 @@ export function bandKey(
 
 /** The whole drawing as rows of runs (the curve rows with the marker in them, the band, the axis). */
 export function drawCurve(input: CurveDrawingInput): CurveDrawing {
-  const layers = curveLayers(input.curve, input.widthCols, input.heightRows);
+  const layers = curveLayers(input.curve, input.widthCols, input.heightRows, input.fill);
   const { widthCols, minUm, maxUm } = layers;
   const markerRaw = markerRawCol(input.sarcomereUm, layers);
   const markerCol = markerRaw === null ? null : Math.min(widthCols - 1, Math.max(0, markerRaw));
@@ -261,7 +294,10 @@ export function drawCurve(input: CurveDrawingInput): CurveDrawing {
     for (let col = 0; col < widthCols; col++) {
       const level = rowLevels[col] ?? 0;
       if (col === markerCol) cells.push({ char: level === 0 ? MARKER_STEM : MARKER_IN_AREA, tone: 'marker' });
-      else cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: EIGHTHS[level] ?? '█', tone: layers.regions[col] ?? 'no_overlap' });
+      else {
+        const region = layers.regions[col] ?? 'no_overlap';
+        cells.push(level === 0 ? { char: ' ', tone: 'empty' } : { char: cellChar(level, region, layers.fill), tone: region });
+      }
     }
     rows.push(toRuns(cells));
   }

@@ -72,13 +72,13 @@ export function handleKey(ui: UiState, input: string, key: KeyInfo, ctx: KeyCont
   if (input === '?') return { ui: { ...ui, mode: { kind: 'help' } }, effects: [] };
   if (input === ' ') return { ui: { ...ui, frozen: !ui.frozen }, effects: [] };
   if (input === 'm') {
-    if (!ctx.canMark) return { ui, effects: [{ kind: 'say', text: 'markers cannot be dropped here' }] };
+    if (!ctx.canMark) return { ui, effects: [{ kind: 'say', text: 'markers cannot be placed here' }] };
     const n = ui.markerCount + 1;
     return {
       ui: { ...ui, markerCount: n },
       effects: [
         { kind: 'marker', text: `marker ${n} at trial time ${elapsed(ctx.elapsedS)} (${clockTime(ctx.now())})` },
-        { kind: 'say', text: `marker ${n} dropped` },
+        { kind: 'say', text: `marker ${n} placed` },
       ],
     };
   }

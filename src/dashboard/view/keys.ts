@@ -12,7 +12,7 @@ export interface KeyHelp {
 export const KEY_HELP: readonly KeyHelp[] = [
   { keys: 'q', short: 'quit', does: 'quit: stop the trial and write its summary' },
   { keys: 'space', short: 'freeze', does: 'freeze the display (ingestion goes on); space again resumes' },
-  { keys: 'm', short: 'marker', does: 'drop a timestamped marker into the trial', needs: 'onMarker' },
+  { keys: 'm', short: 'marker', does: 'place a timestamped marker in the trial', needs: 'onMarker' },
   {
     keys: 'c',
     short: 'calibrate',

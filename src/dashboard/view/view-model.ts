@@ -23,6 +23,7 @@ import {
   type Alert,
 } from './alerts.ts';
 import type { RunStatus } from '../../trial/run-status.ts';
+import { calibrationKnown } from '../../trial/calibration-known.ts';
 
 /** How many sarcomere lengths each muscle's sparkline remembers (about 10 s at the frame rate). */
 export const HISTORY_SIZE = 160;
@@ -98,7 +99,11 @@ export interface TrialView {
   readonly source: string;
   readonly subject: string | null;
   readonly trial: string | null;
-  readonly calibrated: boolean;
+  /**
+   * true: every muscle has a calibration from a file, the header or a capture; false: one runs on the
+   * assumed baseline; null: not known yet (no state, no muscle, or a muscle whose calibration has not come).
+   */
+  readonly calibrated: boolean | null;
   readonly ended: boolean;
   readonly received: number;
   readonly accepted: number;
@@ -205,7 +210,7 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
       source: '',
       subject: null,
       trial: null,
-      calibrated: false,
+      calibrated: null,
       ended: false,
       received: 0,
       accepted: 0,
@@ -279,7 +284,7 @@ export function observeTrial(tracker: Tracker, state: TrialState | null, nowMs: 
     source: state.source,
     subject: state.subject,
     trial: state.trial,
-    calibrated: state.calibrated,
+    calibrated: calibrationKnown(state),
     ended: state.ended,
     received: state.frames.received,
     accepted: state.frames.accepted,
@@ -301,7 +306,7 @@ export function detectAlerts(view: TrialView, status: RunStatus, canCalibrate: b
   const found: (Alert | null)[] = [
     streamErrorAlert(view.error),
     connectionAlert(status.connection),
-    uncalibratedAlert(view.calibrated, view.muscles.length, canCalibrate),
+    uncalibratedAlert(view.calibrated !== false, view.muscles.length, canCalibrate),
   ];
   const ages = new Map(view.muscles.map((m) => [m.name, m.lastSampleAgeMs] as const));
   found.push(...noSamplesAlerts(ages, view.ended, status.connection));

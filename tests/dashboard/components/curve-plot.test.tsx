@@ -2,7 +2,8 @@ import '../force-color.ts';
 import { afterEach, describe, expect, it } from 'vitest';
 import { Box } from 'ink';
 import CurvePlot from '../../../src/dashboard/components/curve-plot.tsx';
-import { curveLayers, drawCurve, type LengthRange } from '../../../src/dashboard/view/curve-drawing.ts';
+import { curveLayers, drawCurve, FILLED_REGIONS, REGION_FILL, type LengthRange } from '../../../src/dashboard/view/curve-drawing.ts';
+import type { RegionKey } from '../../../src/model/regions.ts';
 import RunsLine from '../../../src/dashboard/components/runs-line.tsx';
 import { createTheme } from '../../../src/dashboard/view/theme.ts';
 import { speciesCurve } from '../../../src/model/species.ts';
@@ -45,7 +46,7 @@ describe('CurvePlot', () => {
       for (const curve of [human, frog]) {
         for (const c of cases) {
           for (const [widthCols, heightRows] of [[56, 6], [36, 3], [1, 1]] as const) {
-            const drawing = drawCurve({ curve, widthCols, heightRows, ...c, bothChar: color ? '▀' : '█' });
+            const drawing = drawCurve({ curve, widthCols, heightRows, ...c, bothChar: color ? '▀' : '█', fill: color ? 'blocks' : 'patterns' });
             const expected = await frameOf(
               <Box flexDirection="column">
                 {drawing.rows.map((runs, row) => (
@@ -61,6 +62,48 @@ describe('CurvePlot', () => {
       if (color) expect(await frameOf(<CurvePlot curve={human} widthCols={56} heightRows={6} theme={theme} {...cases[0]!} />)).toMatch(COLOUR_SGR);
     });
   }
+});
+
+describe('CurvePlot without colour', () => {
+  /** The characters of each region's full cells, as painted (plain text), by region. */
+  async function fullCellChars(color: boolean, curve = human): Promise<Map<RegionKey, Set<string>>> {
+    const layers = curveLayers(curve, 56, 6, color ? 'blocks' : 'patterns');
+    const frame = await frameOf(<CurvePlot curve={curve} widthCols={56} heightRows={6} theme={createTheme(color)} sarcomereUm={Number.NaN} current={null} previous={null} />);
+    // eslint-disable-next-line no-control-regex -- colour codes are taken off to read the characters
+    const rows = frame.replace(/\u001B\[[\d;]*m/g, '').split('\n');
+    const chars = new Map<RegionKey, Set<string>>();
+    layers.levels.forEach((levels, row) => {
+      const text = [...(rows[row] ?? '')];
+      levels.forEach((level, col) => {
+        if (level < 8) return;
+        const region = layers.regions[col] as RegionKey;
+        const set = chars.get(region) ?? new Set<string>();
+        set.add(text[col] ?? '');
+        chars.set(region, set);
+      });
+    });
+    return chars;
+  }
+
+  it('tells the regions apart by the fill characters of their full cells', async () => {
+    for (const curve of [human, frog]) {
+      const chars = await fullCellChars(false, curve);
+      expect([...chars.keys()].sort()).toEqual([...FILLED_REGIONS].sort());
+      for (const region of FILLED_REGIONS) expect([...(chars.get(region) ?? [])]).toEqual([REGION_FILL[region]]);
+    }
+    expect(new Set(FILLED_REGIONS.map((r) => REGION_FILL[r])).size).toBe(FILLED_REGIONS.length);
+  });
+
+  it('keeps full blocks in colour, where colour tells the regions apart', async () => {
+    const chars = await fullCellChars(true);
+    for (const region of FILLED_REGIONS) expect([...(chars.get(region) ?? [])]).toEqual(['█']);
+  });
+
+  it('keeps the curve\'s shape: the cells at its top edge stay eighth blocks', () => {
+    const layers = curveLayers(human, 56, 6, 'patterns');
+    const partial = layers.body.flatMap((runs) => runs.map((r) => r.text)).join('');
+    expect(partial).toMatch(/[▁▂▃▄▅▆▇]/);
+  });
 });
 
 describe('curveLayers', () => {

@@ -73,6 +73,33 @@ describe('Dashboard', () => {
     await shows(screen, 'waiting for the first samples');
   });
 
+  it('never says UNCALIBRATED for a calibrated trial, from its first frame on', async () => {
+    // Before the trial's first state, then with a muscle declared by the header but no calibration yet
+    // (it comes with the first sample), then calibrated from the header.
+    const state$ = new Subject<TrialState>();
+    const { screen, advance } = show(state$);
+    await advance(100);
+    const declared = makeTrialState([makeMuscle('calf', { calibrationSource: null })]);
+    declared.calibrated = true;
+    state$.next(declared);
+    await advance(100);
+    await shows(screen, 'calibration pending');
+    state$.next(walkingState());
+    await advance(300);
+    await frameWhere(screen, (f) => /calibrated · t/.test(plain(f)), 'calibrated in the status line');
+    expect(screen.out.frames.filter((f) => plain(f).includes('UNCALIBRATED'))).toEqual([]);
+  });
+
+  it('says UNCALIBRATED as soon as one muscle runs on the assumed baseline', async () => {
+    const state = walkingState();
+    state.muscles.set('shin', makeMuscle('shin', { side: 'right', calibrationSource: null }));
+    state.muscles.set('foot', makeMuscle('foot', { side: 'right', calibrationSource: 'baseline' }));
+    state.calibrated = false;
+    const { screen, advance } = show(new BehaviorSubject(state));
+    await advance(300);
+    await shows(screen, 'UNCALIBRATED');
+  });
+
   it('shows each muscle with its numbers and units', async () => {
     const { screen, advance } = show(new BehaviorSubject(walkingState()));
     await advance(300);
@@ -321,11 +348,11 @@ describe('Dashboard', () => {
     await waitFor(() => markers.length === 2, 'two markers');
     expect(markers).toEqual(['marker 1 at trial time 0:05.0 (14:03:09)', 'marker 2 at trial time 0:05.0 (14:03:09)']);
     await advance(100);
-    await shows(screen, 'marker 2 dropped');
+    await shows(screen, 'marker 2 placed');
     await screen.press(' ');
     await shows(screen, 'FROZEN');
     await advance(3000);
-    await hides(screen, 'marker 2 dropped');
+    await hides(screen, 'marker 2 placed');
   });
 
   it('asks the sarcomere length on c and calibrates the focused muscle, 2.7 µm by default', async () => {
@@ -399,6 +426,16 @@ describe('Dashboard', () => {
     await screen.press('c2.6\r');
     await waitFor(() => calls.length === 1, 'the calibration');
     expect(calls).toEqual([['calf', 2.6]]);
+  });
+
+  it('shows each region\'s fill character in the help when there is no colour', async () => {
+    const { screen, advance } = show(new BehaviorSubject(walkingState()), { color: false });
+    await advance(100);
+    await screen.press('?');
+    await shows(screen, 'reading a panel');
+    const text = plain(screen.lastFrame());
+    expect(text).toContain('too short · ▓ steep ascending · ▒ shallow ascending');
+    expect(text).toContain('█ plateau · ░ descending · no overlap');
   });
 
   it('opens and closes the help on ?', async () => {

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
+  alertLines,
+  alertListRows,
   BASELINE_SHIFT_FRACTION,
   baselineShiftAlert,
   connectionAlert,
@@ -122,14 +124,53 @@ describe('uncalibratedAlert', () => {
 });
 
 describe('connectionAlert', () => {
-  it('is quiet without a connection or while connected, listening or ended', () => {
+  it('is quiet without a connection, while connected, listening or ended, and during a first attempt', () => {
     expect(connectionAlert(undefined)).toBeNull();
-    for (const state of ['connected', 'listening', 'ended'] as const) expect(connectionAlert({ state })).toBeNull();
+    for (const state of ['connected', 'listening', 'ended', 'connecting'] as const) expect(connectionAlert({ state })).toBeNull();
+  });
+  it('says a connection never made as NOT CONNECTED with what failed, not as a disconnection', () => {
+    const alert = connectionAlert({ state: 'connecting', retryInS: 1.6, detail: 'connect ECONNREFUSED 127.0.0.1:9' });
+    expect(alert?.text).toBe('NOT CONNECTED, trying again in 2 s: connect ECONNREFUSED 127.0.0.1:9');
+    expect(alert?.severity).toBe('critical');
   });
   it('says when the next attempt comes while reconnecting', () => {
     expect(connectionAlert({ state: 'reconnecting', retryInS: 2.2 })?.text).toContain('reconnecting in 3 s');
     expect(connectionAlert({ state: 'reconnecting' })?.text).toContain('reconnecting soon');
     expect(connectionAlert({ state: 'reconnecting', retryInS: 1, detail: 'connection refused' })?.text).toContain('(connection refused)');
+  });
+});
+
+describe('alertLines', () => {
+  const refusal = connectionAlert({
+    state: 'connecting',
+    retryInS: 4,
+    detail: 'the server refused the connection: HTTP 401 Unauthorized: Unauthorized: send "Authorization: Bearer TOKEN" or ?token=TOKEN',
+  }) as Alert;
+
+  it('keeps a short alert on one row', () => {
+    expect(alertLines({ kind: 'uncalibrated', muscle: null, severity: 'critical', text: 'UNCALIBRATED' }, 80)).toEqual([' ! UNCALIBRATED ']);
+  });
+
+  it('breaks a connection alert between words onto more rows, so an 80-column screen shows the reason whole', () => {
+    const lines = alertLines(refusal, 80);
+    expect(lines.length).toBeGreaterThan(1);
+    expect(lines.length).toBeLessThanOrEqual(3);
+    for (const line of lines) expect(line.length).toBeLessThanOrEqual(80);
+    expect(lines.join(' ').replace(/\s+/g, ' ').trim()).toBe(`! ${refusal.text}`);
+    expect(lines[1]).toMatch(/^ {3}\S/);
+  });
+
+  it('gives an alert that may not wrap one row, however long', () => {
+    expect(alertLines({ kind: 'stream_error', muscle: null, severity: 'critical', text: 'x '.repeat(100) }, 80)).toHaveLength(1);
+  });
+
+  it('counts the rows of the list: each alert\'s rows, and one for those that do not fit', () => {
+    const short: Alert = { kind: 'uncalibrated', muscle: null, severity: 'critical', text: 'u' };
+    const refusalRows = alertLines(refusal, 80).length;
+    expect(alertListRows([refusal, short], 80, 3)).toBe(refusalRows + 1);
+    expect(alertListRows([refusal, short], 200, 3)).toBe(2);
+    expect(alertListRows([refusal, short, short, short], 80, 3)).toBe(refusalRows + 1 + 1);
+    expect(alertListRows([], 80, 3)).toBe(0);
   });
 });
 

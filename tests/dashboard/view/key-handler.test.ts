@@ -61,7 +61,7 @@ describe('handleKey', () => {
 
   it('says so when markers, calibration or speed are not offered', () => {
     const bare = { ...CTX, canMark: false, canCalibrate: false, canChangeSpeed: false };
-    expect(type(['m'], bare).effects).toEqual([{ kind: 'say', text: 'markers cannot be dropped here' }]);
+    expect(type(['m'], bare).effects).toEqual([{ kind: 'say', text: 'markers cannot be placed here' }]);
     expect(type(['c'], bare).effects).toEqual([{ kind: 'say', text: 'calibration cannot be captured here' }]);
     expect(type(['+', '-'], bare).effects).toEqual([]);
   });

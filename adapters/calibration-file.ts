@@ -144,7 +144,20 @@ export function parseCalibration(value: unknown): CalibrationResult {
   if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX) };
   const muscles: Record<string, MuscleCalibration> = Object.create(null);
   const problems: string[] = [];
-  for (const [name, m] of Object.entries(parsed.data.muscles)) {
+  // The names as the file gives them: zod's record leaves a key named __proto__ out of what it returns
+  // (unchecked), and a muscle may have any name, so such an entry is checked here on its own.
+  const given = (value as { muscles: Record<string, unknown> }).muscles;
+  for (const name of Object.keys(given)) {
+    let m: ParsedMuscle;
+    if (Object.hasOwn(parsed.data.muscles, name)) m = parsed.data.muscles[name] as ParsedMuscle;
+    else {
+      const one = muscleCalibrationSchema.safeParse(given[name]);
+      if (!one.success) {
+        for (const issue of one.error.issues) problems.push(`${['muscles', name, ...issue.path.map(String)].join('.')}: ${issue.message}`);
+        continue;
+      }
+      m = one.data;
+    }
     const cal = toMuscleCalibration(m);
     // Filament lengths may each be in range yet not make a curve together (e.g. thick ≥ 2 × thin).
     for (const p of muscleModelProblems({ species: cal.species, ...(cal.filaments !== undefined ? { filaments: cal.filaments } : {}) })) {

@@ -377,8 +377,8 @@ function muscleJson(m: MuscleState): MuscleJson {
 }
 
 export function summaryJson(state: TrialState): SummaryJson {
-  const muscles: Record<string, MuscleJson> = {};
-  for (const [name, m] of state.muscles) muscles[name] = muscleJson(m);
+  // Own properties for every name, __proto__ included (an assignment would set the object's prototype).
+  const muscles: Record<string, MuscleJson> = Object.fromEntries([...state.muscles].map(([name, m]) => [name, muscleJson(m)]));
   const f = state.frames;
   return {
     format: 'lengthwise-summary',

@@ -30,6 +30,11 @@ export interface ConvertSarcomereOptions {
 
 export const DEFAULT_BASELINE_S = 3;
 
+/** A muscle's own entry of a calibration (never a property every object has, such as "constructor"). */
+function ownCalibration(spec: CalibrationSpec | undefined, muscle: string): MuscleCalibration | undefined {
+  return spec !== undefined && Object.hasOwn(spec.muscles, muscle) ? spec.muscles[muscle] : undefined;
+}
+
 interface Collecting {
   readonly startS: number;
   readonly fascicleMm: number[];
@@ -90,8 +95,8 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
 
     /** First sample of a muscle: take its calibration (file, then header) or start its baseline window. */
     const start = (s: Sample, out: Frame[]): void => {
-      const fromFile = fileSpec?.muscles[s.muscle];
-      const calibration = fromFile ?? headerSpec?.muscles[s.muscle];
+      const fromFile = ownCalibration(fileSpec, s.muscle);
+      const calibration = fromFile ?? ownCalibration(headerSpec, s.muscle);
       if (calibration === undefined) {
         collecting.set(s.muscle, { startS: s.tS, fascicleMm: [] });
         return;

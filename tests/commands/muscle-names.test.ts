@@ -1,0 +1,82 @@
+import { spawn } from 'node:child_process';
+import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+
+const ROOT = join(import.meta.dirname, '..', '..');
+const BIN = join(ROOT, 'bin', 'lengthwise.js');
+const DEMO = join(ROOT, 'replays', 'demo-walk.ndjson');
+
+function lengthwise(args: readonly string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' } });
+    let stdout = '';
+    let stderr = '';
+    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
+    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+    child.on('error', reject);
+    child.on('close', (code) => resolve({ code, stdout, stderr }));
+  });
+}
+
+let dir = '';
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'lengthwise-names-'));
+});
+
+describe('muscle names that are names of object properties', () => {
+  /** The demo walk with its muscles renamed; the header no longer declares them (a header may not hold such keys). */
+  async function renamedDemo(names: Record<string, string>): Promise<string> {
+    const lines: string[] = [];
+    for (const line of (await readFile(DEMO, 'utf8')).split('\n')) {
+      let record: Record<string, unknown>;
+      try {
+        record = JSON.parse(line) as Record<string, unknown>;
+      } catch {
+        lines.push(line);
+        continue;
+      }
+      if (record['format'] === 'lengthwise-stream') {
+        delete record['muscles'];
+        delete record['calibration'];
+      }
+      const muscle = record['muscle'];
+      if (typeof muscle === 'string' && Object.hasOwn(names, muscle)) record['muscle'] = names[muscle];
+      lines.push(JSON.stringify(record));
+    }
+    const path = join(dir, 'renamed.ndjson');
+    await writeFile(path, lines.join('\n'));
+    return path;
+  }
+
+  it('keeps __proto__ and constructor as muscles like any other: in the summary, the stride table, the study table, and with their calibration', async () => {
+    const trial = await renamedDemo({ calf: '__proto__', thigh: 'constructor' });
+    const calibration = join(dir, 'cal.json');
+    await writeFile(
+      calibration,
+      '{"muscles": {"__proto__": {"species": "human", "method": "sarcomere_count", "sarcomeres_in_series": 17500},' +
+        ' "constructor": {"species": "human", "method": "sarcomere_count", "sarcomeres_in_series": 30000}}}',
+    );
+    const summaryPath = join(dir, 'summary.json');
+    const stridesPath = join(dir, 'strides.csv');
+    const ran = await lengthwise(['replay', trial, '--speed', 'max', '--plain', '--calibration', calibration, '--summary', summaryPath, '--strides', stridesPath]);
+    expect(ran.code, ran.stderr).toBe(0);
+    const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
+    expect(Object.keys(summary.muscles).sort()).toEqual(['__proto__', 'constructor']);
+    expect(summary.calibrated).toBe(true);
+    const proto = Object.getOwnPropertyDescriptor(summary.muscles, '__proto__')?.value;
+    expect(proto).toMatchObject({ calibration_source: 'file', sarcomeres_in_series: 17500 });
+    expect(summary.muscles.constructor).toMatchObject({ calibration_source: 'file', sarcomeres_in_series: 30000 });
+    expect(proto.trial.stride_count).toBeGreaterThan(40);
+    const rows = (await readFile(stridesPath, 'utf8')).split('\r\n').slice(1).filter((r) => r !== '');
+    expect(rows.filter((r) => r.startsWith('__proto__,')).length).toBe(proto.strides.length);
+    expect(rows.filter((r) => r.startsWith('constructor,')).length).toBe(summary.muscles.constructor.strides.length);
+
+    const study = await lengthwise(['summarize', trial, '--calibration', calibration, '--plain', '--jobs', '1']);
+    expect(study.code, study.stderr).toBe(0);
+    const table = study.stdout.trim().split(/\r?\n/);
+    const muscleColumn = (table[0] as string).split(',').indexOf('muscle');
+    expect(table.slice(1).map((row) => row.split(',')[muscleColumn]).sort()).toEqual(['__proto__', 'constructor']);
+  });
+});

@@ -7,6 +7,7 @@
 import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, type RawData } from 'ws';
 import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
+import { MuscleRoster, tooManyMuscles } from '../src/trial/muscle-roster.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
 
@@ -58,9 +59,13 @@ export class Ingest {
       frames = decodeMessage(buffer.toString('utf8'), this.nextLine, this.mapping);
     }
     this.nextLine += frames.length;
-    for (const f of frames) {
+    for (let i = 0; i < frames.length; i++) {
+      const f = frames[i] as Frame;
       if (f.kind === 'sample') {
-        peer.muscles.add(f.muscle);
+        if (!peer.muscles.admit(f.muscle)) {
+          frames[i] = tooManyMuscles(f, peer.muscles.max, 'device');
+          continue;
+        }
         if (!(f.tS < peer.lastTS)) peer.lastTS = f.tS;
       } else if (f.kind === 'event' && !(f.tS < peer.lastTS)) peer.lastTS = f.tS;
     }
@@ -76,21 +81,22 @@ export class Ingest {
 
   /** The connection is gone: its Disconnection record. */
   disconnected(peer: PeerTrack, allMuscles: boolean, detail: string): Batch {
-    const frame = disconnection(allMuscles ? null : [...peer.muscles], peer.lastTS, detail, this.nextLine);
+    const frame = disconnection(allMuscles ? null : peer.muscles.list(), peer.lastTS, detail, this.nextLine);
     this.nextLine++;
     return [frame];
   }
 }
 
-/** What one connection carried so far. */
+/** What one connection carried so far: its muscles (at most MAX_MUSCLES_PER_TRIAL) and its last device time. */
 export interface PeerTrack {
-  readonly muscles: Set<string>;
+  readonly muscles: MuscleRoster;
   lastTS: number;
 }
 
 export function newPeerTrack(): PeerTrack {
-  return { muscles: new Set(), lastTS: Number.NaN };
+  return { muscles: new MuscleRoster(), lastTS: Number.NaN };
 }
+
 
 /** A close code and reason as a short text. */
 export function closeDetail(code: number, reason: Buffer | string): string {

@@ -36,6 +36,12 @@ export interface SessionLog {
   readonly linesLost: number;
   /** Queues one line (without its line ending). */
   append(line: string): void;
+  /**
+   * Adds `count` to a tally kept until the next write, which then writes one line for it: `line(total)`,
+   * as given by the first call with this key since the last write. Many like things received within a
+   * write (rejections of one reason) are one line.
+   */
+  tally(key: string, count: number, line: (total: number) => string): void;
   /** Writes the queued lines now. */
   flush(): void;
   /** Flushes, syncs and closes the file; idempotent. */
@@ -76,6 +82,7 @@ class FileSessionLog implements SessionLog {
   private fd: number | null = null;
   private queue: string[] = [];
   private queuedBytes = 0;
+  private tallies = new Map<string, { total: number; readonly line: (total: number) => string }>();
   private goodBytes = 0;
   private timer: Subscription | null = null;
   private closed = false;
@@ -104,9 +111,10 @@ class FileSessionLog implements SessionLog {
   private fail(error: unknown, what: string): void {
     const code = (error as NodeJS.ErrnoException).code ?? 'EUNKNOWN';
     this.complete = false;
-    this.linesLost += this.queue.length;
+    this.linesLost += this.queue.length + this.tallies.size;
     this.queue = [];
     this.queuedBytes = 0;
+    this.tallies.clear();
     this.problem =
       `session log ${this.path} ${what} (${code}: ${hint(code)}); ingestion goes on without it, ` +
       `the log holds ${this.linesWritten} lines and is INCOMPLETE`;
@@ -140,8 +148,23 @@ class FileSessionLog implements SessionLog {
     if (this.queuedBytes >= (this.options.maxQueuedBytes ?? 256 * 1024)) this.flush();
   }
 
+  tally(key: string, count: number, line: (total: number) => string): void {
+    if (this.fd === null) {
+      this.linesLost++;
+      return;
+    }
+    const entry = this.tallies.get(key);
+    if (entry === undefined) this.tallies.set(key, { total: count, line });
+    else entry.total += count;
+  }
+
   flush(): void {
-    if (this.fd === null || this.queue.length === 0) return;
+    if (this.fd === null) return;
+    if (this.tallies.size > 0) {
+      for (const entry of this.tallies.values()) this.queue.push(entry.line(entry.total));
+      this.tallies.clear();
+    }
+    if (this.queue.length === 0) return;
     const lines = this.queue;
     const buffer = Buffer.from(`${lines.join('\n')}\n`, 'utf8');
     this.queue = [];

@@ -106,6 +106,8 @@ export interface Rejection {
   readonly line: number;
   /** The start of the offending input (at most 200 characters), for the log. */
   readonly excerpt: string;
+  /** How many rejected records it stands for (a session log's line for one reason); absent: one. */
+  readonly count?: number;
 }
 
 /**
@@ -188,4 +190,9 @@ export function makeSample(
     forceTendon: Number.NaN,
     strideIndex: -1,
   };
+}
+
+/** A sample as a rejection's excerpt shows it: its time, muscle and fascicle length, at most 200 characters. */
+export function sampleExcerpt(s: Sample): string {
+  return JSON.stringify({ t: s.tS, muscle: s.muscle, fascicle_mm: s.fascicleMm }).slice(0, 200);
 }

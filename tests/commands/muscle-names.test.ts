@@ -3,6 +3,7 @@ import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/limits.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const BIN = join(ROOT, 'bin', 'lengthwise.js');
@@ -78,5 +79,23 @@ describe('muscle names that are names of object properties', () => {
     const table = study.stdout.trim().split(/\r?\n/);
     const muscleColumn = (table[0] as string).split(',').indexOf('muscle');
     expect(table.slice(1).map((row) => row.split(',')[muscleColumn]).sort()).toEqual(['__proto__', 'constructor']);
+  });
+});
+
+describe('a trial that makes up a new muscle name for every sample', () => {
+  it(`takes its first ${MAX_MUSCLES_PER_TRIAL} muscles and counts every further one's samples as too_many_muscles`, async () => {
+    const path = join(dir, 'names.ndjson');
+    const lines: string[] = [];
+    for (let i = 0; i < 10_000; i++) lines.push(JSON.stringify({ t: i / 100, muscle: `m${i}`, fascicle_mm: 50 }));
+    // Later samples of a muscle taken are still taken.
+    lines.push(JSON.stringify({ t: 100, muscle: 'm0', fascicle_mm: 51 }));
+    await writeFile(path, lines.join('\n'));
+    const summaryPath = join(dir, 'names.json');
+    const ran = await lengthwise(['replay', path, '--speed', 'max', '--plain', '--summary', summaryPath]);
+    expect(ran.code, ran.stderr).toBe(0);
+    const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
+    expect(Object.keys(summary.muscles)).toHaveLength(MAX_MUSCLES_PER_TRIAL);
+    expect(summary.frames).toMatchObject({ accepted: MAX_MUSCLES_PER_TRIAL + 1, rejected: 10_000 - MAX_MUSCLES_PER_TRIAL, rejected_by_reason: { too_many_muscles: 10_000 - MAX_MUSCLES_PER_TRIAL } });
+    expect(ran.stdout).toContain('too_many_muscles');
   });
 });

@@ -7,7 +7,10 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { lstat } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { basename, join } from 'node:path';
+import { outputsApart, TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import { parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
@@ -42,14 +45,15 @@ options:
                          [default: beside the session log, LOG.summary.json]
   --strides FILE.csv     write one row per stride and muscle at the end
   --report FILE.html     write the self-contained HTML report at the end
-  --log FILE             the session log (every message received, valid or not; a replay file)
-                         [default: sessions/<UTC date-time>Z.ndjson]
+  --log FILE             the session log (every message received, valid or not; a replay file); never
+                         an existing file  [default: sessions/<UTC date-time>Z.ndjson, a new name]
   --duration S           end by itself after S seconds
   --plain                plain status lines instead of the dashboard, even on a terminal
   -h, --help             this text
 
 The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
-closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
+closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.
+Exit status: 0 done, 1 the session log or an output could not be written in full, 2 a usage error.`;
 
 function connectionOf(event: LinkEvent, open: number): ConnectionStatus | undefined {
   switch (event.kind) {
@@ -123,14 +127,26 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     io.err('lengthwise live: --token is empty: give the token the devices send');
     return 2;
   }
+  if (values.log !== undefined && (await lstat(values.log).then(() => true, () => false))) {
+    io.err(`lengthwise live: the session log ${values.log} exists already, and a session log is never appended to: give --log a new name, or leave --log out for a new sessions/<date-time>Z.ndjson`);
+    return 2;
+  }
+  const logInput = values.log !== undefined ? [{ path: values.log, role: 'the session log (--log)' }] : [];
+  const besideLog = values.log !== undefined && values.summary === undefined ? [{ path: summaryPathFor(values.log), role: 'the summary beside the session log' }] : [];
+  if (!(await outputsApart('live', [...trialInputPaths(values), ...logInput], [...trialOutputPaths(values), ...besideLog], io))) return 2;
   const files = await trialFiles('live', values, io);
   if (files === null) return 2;
   const calibration = files.calibration;
   const mapping = files.mapping ?? null;
 
   const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
-  const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());
-  const log = openSessionLog({ path: logPath, onProblem: (message) => session.logProblem(message) });
+  const log = openSessionLog({
+    path: values.log ?? defaultLogPath(process.cwd(), Date.now()),
+    // Two sessions started in the same second never share a default name.
+    nextFreeName: values.log === undefined,
+    onProblem: (message) => session.logProblem(message),
+  });
+  const logPath = log.path;
   if (!log.complete && log.problem !== null) session.logProblem(log.problem);
 
   let label: string;
@@ -174,11 +190,14 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   }
   if (session.plain) io.out(plainReport(final.state));
   for (const hint of session.hints) io.err(`note: ${hint}`);
-  // A live session cannot be run again: its summary is written even when not asked for, beside the log.
-  const summary = values.summary ?? (log.complete ? summaryPathFor(log.path) : undefined);
-  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report }, io);
+  // A live session cannot be run again: its summary is always written, beside the log when not asked
+  // for, and in the system's temporary folder should its own place fail.
+  const summary = values.summary ?? summaryPathFor(log.path);
+  const summaryFallback = join(tmpdir(), `${basename(summary).replace(/\.json$/, '')}-${process.pid}.json`);
+  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report, summaryFallback }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
-  return status;
+  // An incomplete log is an output not written in full.
+  return log.complete ? status : 1;
 }
 
 /** The summary written beside a session log when --summary is not given: LOG.summary.json. */

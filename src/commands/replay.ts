@@ -2,7 +2,7 @@
 import { BehaviorSubject, interval, map, ReplaySubject, switchMap, take, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { outputsApart, TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { paceReplayWith, readAheadValve, type ReplaySpeed } from '../pipeline/pace-replay.ts';
@@ -81,6 +81,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise replay: ${speed.message}`);
     return 2;
   }
+  if (!(await outputsApart('replay', [{ path, role: 'the trial file' }, ...trialInputPaths(values)], trialOutputPaths(values), io))) return 2;
   const files = await trialFiles('replay', values, io);
   if (files === null) return 2;
   const calibration = files.calibration;

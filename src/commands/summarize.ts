@@ -1,7 +1,7 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { TRIAL_FILE_OPTIONS, trialFiles } from './option-files.ts';
+import { outputsApart, TRIAL_FILE_OPTIONS, trialFiles, trialInputPaths } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -99,6 +99,11 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }
     jobs = parsedJobs.jobs;
   }
+  const outputs = [
+    ...(values.out !== undefined ? [{ path: values.out, role: '--out' }] : []),
+    ...(values.report !== undefined ? [{ path: values.report, role: '--report' }] : []),
+  ];
+  if (!(await outputsApart('summarize', [...positionals.map((path) => ({ path, role: 'a trial file' })), ...trialInputPaths(values)], outputs, io))) return 2;
   const files = await trialFiles('summarize', values, io);
   if (files === null) return 2;
   const { calibration, mapping } = files;

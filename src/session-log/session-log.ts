@@ -20,6 +20,11 @@ export interface SessionLogOptions {
   readonly maxQueuedBytes?: number;
   /** Refuse a file that exists already (a new session never appends to an old log). @default true */
   readonly exclusive?: boolean;
+  /**
+   * When the file exists already, take the first free name of `NAME-2.ndjson`, `NAME-3.ndjson`, … instead
+   * (for default names, so two sessions started in the same second never share one). @default false
+   */
+  readonly nextFreeName?: boolean;
   /** Said once, when the log stops being complete. */
   readonly onProblem?: (message: string) => void;
 }
@@ -48,7 +53,10 @@ export interface SessionLog {
   close(): void;
 }
 
-/** The default log path: sessions/<UTC date-time>.ndjson under `dir`. */
+/** Names tried after the given one when it is taken (nextFreeName). */
+const MAX_NAME_TRIES = 1000;
+
+/** The default log path: sessions/<UTC date-time>.ndjson under `dir` (with nextFreeName, -2, -3, … when taken). */
 export function defaultLogPath(dir: string, nowMs: number): string {
   const stamp = new Date(nowMs).toISOString().slice(0, 19).replace(/:/g, '-');
   return join(dir, 'sessions', `${stamp}Z.ndjson`);
@@ -88,7 +96,7 @@ class FileSessionLog implements SessionLog {
   private closed = false;
 
   constructor(
-    readonly path: string,
+    public path: string,
     private readonly options: SessionLogOptions,
   ) {
     try {
@@ -99,11 +107,19 @@ class FileSessionLog implements SessionLog {
       this.fail(code === 'EEXIST' ? { code: 'ENOTDIR' } : error, 'could not be opened');
       return;
     }
-    try {
-      this.fd = openSync(path, options.exclusive === false ? 'a' : 'wx');
-    } catch (error) {
-      this.fail(error, 'could not be opened');
-      return;
+    const exclusive = options.exclusive !== false;
+    for (let n = 1; ; n++) {
+      try {
+        this.fd = openSync(this.path, exclusive ? 'wx' : 'a');
+        break;
+      } catch (error) {
+        if (exclusive && options.nextFreeName === true && (error as NodeJS.ErrnoException).code === 'EEXIST' && n < MAX_NAME_TRIES) {
+          this.path = `${path.replace(/\.ndjson$/, '')}-${n + 1}.ndjson`;
+          continue;
+        }
+        this.fail(error, 'could not be opened');
+        return;
+      }
     }
     this.timer = interval(options.flushMs ?? 1000, options.scheduler ?? asyncScheduler).subscribe(() => this.flush());
   }

@@ -39,6 +39,20 @@ describe('openSessionLog', () => {
     expect(log.linesWritten).toBe(4);
   });
 
+  it('takes the next free name when asked and the name is taken, so two sessions never share a default log', async () => {
+    const path = join(await dir(), 'sessions', '2026-12-02T07-00-00Z.ndjson');
+    const first = openSessionLog({ path, nextFreeName: true });
+    const second = openSessionLog({ path, nextFreeName: true });
+    const third = openSessionLog({ path, nextFreeName: true });
+    expect([first.path, second.path, third.path]).toEqual([path, path.replace(/\.ndjson$/, '-2.ndjson'), path.replace(/\.ndjson$/, '-3.ndjson')]);
+    for (const log of [first, second, third]) {
+      log.append('{"a":1}');
+      log.close();
+      expect(log.complete).toBe(true);
+      expect(await readFile(log.path, 'utf8')).toBe('{"a":1}\n');
+    }
+  });
+
   it('holds lines at most one flush interval, then writes them whole and in order', async () => {
     const path = join(await dir(), 'log.ndjson');
     const scheduler = clockUntil(1000);

@@ -25,6 +25,7 @@ import { writeSessionLog } from '../session-log/write-session-log.ts';
 import { watchLag } from '../session-log/watch-lag.ts';
 import { runTrial, type TrialRun } from '../run/run-trial.ts';
 import { finishTrial, plainReport } from '../run/finish-trial.ts';
+import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise live --connect ws://HOST:PORT/PATH [options]
        lengthwise live --listen [HOST:]PORT [options]
@@ -294,9 +295,7 @@ class LiveSession {
       this.status({ connection: { state: 'ended' } });
       this.stop$.next();
     };
-    const onSignal = (): void => stop();
-    process.on('SIGINT', onSignal);
-    process.on('SIGTERM', onSignal);
+    const listening = stopOnSignals(stop);
     if (durationS !== null) subscriptions.push(timer(durationS * 1000, this.scheduler).subscribe(stop));
     subscriptions.push(
       watchLag({
@@ -344,8 +343,7 @@ class LiveSession {
       final = { ok: false, message: error instanceof Error ? error.message : String(error) };
     }
     this.stopped = true;
-    process.off('SIGINT', onSignal);
-    process.off('SIGTERM', onSignal);
+    listening();
     for (const s of subscriptions) s.unsubscribe();
     if (dashboard !== null) {
       dashboard.unmount();

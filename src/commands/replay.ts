@@ -12,6 +12,7 @@ import { applyCapture } from '../run/apply-capture.ts';
 import { runTrial, type TrialRun } from '../run/run-trial.ts';
 import type { TrialState } from '../trial/state.ts';
 import { finishTrial, plainReport } from '../run/finish-trial.ts';
+import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise replay FILE [options]
 
@@ -28,7 +29,8 @@ options:
   -h, --help             this text
 
 On a terminal the dashboard shows each muscle's operating region live (q quits and still writes the
-summary); otherwise a status line every few seconds and a report at the end.`;
+summary); otherwise a status line every few seconds and a report at the end. Ctrl+C or SIGTERM stop it
+as q does.`;
 
 export type Speed = ReplaySpeed;
 
@@ -101,15 +103,25 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }),
   );
   const trial = runTrial(records$, { source: path, ...(calibration !== undefined ? { calibration } : {}) });
-  const final = useDashboard
-    ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next() })
-    : await withStatusLines(trial, io);
-  speed$.complete();
-  if (!final.ok) {
-    io.err(`lengthwise replay: ${final.message}`);
-    return 1;
+  // Ctrl+C and SIGTERM stop the trial as q does, with or without a screen that takes keys.
+  const stopped = new ReplaySubject<void>(1);
+  const listening = stopOnSignals(() => {
+    trial.stop();
+    stopped.next();
+  });
+  try {
+    const final = useDashboard
+      ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next(), stopped$: stopped })
+      : await withStatusLines(trial, io);
+    speed$.complete();
+    if (!final.ok) {
+      io.err(`lengthwise replay: ${final.message}`);
+      return 1;
+    }
+    return await finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
+  } finally {
+    listening();
   }
-  return finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
 }
 
 /** Fraction of the file's lines played so far (NaN until the line count is known). */
@@ -148,6 +160,8 @@ interface ReplayControls {
   readonly progress: () => number;
   /** Called once the dashboard is drawn (or has failed to start). */
   readonly shown: () => void;
+  /** Says when a signal stopped the replay: the dashboard closes without waiting for q. */
+  readonly stopped$: Observable<void>;
 }
 
 async function withDashboard(trial: TrialRun, path: string, io: CommandIo, controls: ReplayControls): Promise<Final> {
@@ -179,8 +193,10 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
     },
   });
   void dashboard.shown.then(controls.shown);
+  const closing = controls.stopped$.pipe(take(1)).subscribe(() => dashboard.unmount());
   const final = await settle(trial);
   // At the end of a replay the dashboard stays up until the user quits, so the last figures can be read.
   await dashboard.waitUntilExit();
+  closing.unsubscribe();
   return final;
 }

@@ -8,6 +8,7 @@ import { studyCsv } from '../study/study-csv.ts';
 import { progressBar, progressFigures, rateText } from '../study/progress-line.ts';
 import type { SummaryJson } from '../output/summary-json.ts';
 import type { TrialOutcome } from '../study/summarize-trial.ts';
+import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise summarize FILES... [options]
 
@@ -25,7 +26,8 @@ options:
   -h, --help             this text
 
 A file that cannot be read or has no valid sample is named with the reason and left out; the others
-go on. Exit status: 0 all trials summarised, 1 some failed or a file could not be written, 2 usage.`;
+go on. Ctrl+C or SIGTERM stop the study: the trials finished so far are written. Exit status: 0 all
+trials summarised, 1 some failed or were not summarised or a file could not be written, 2 usage.`;
 
 /** Reads `--jobs`: a whole number from 1 up. */
 export function parseJobs(text: string): { ok: true; jobs: number } | { ok: false; message: string } {
@@ -110,12 +112,20 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
 
   const started = performance.now();
   const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);
+  // Ctrl+C and SIGTERM stop the study: what finished is written, the rest is named as not summarised.
+  const stop = new AbortController();
+  let stoppedBy: string | null = null;
+  const listening = stopOnSignals((signal) => {
+    stoppedBy = signal;
+    stop.abort();
+  });
   const outcomes = await runStudy(positionals, {
     jobs,
     ...(calibration !== undefined ? { calibration } : {}),
     ...(mapping !== undefined ? { mapping } : {}),
     onEvent: reporter.onEvent,
     drawReport: values.report !== undefined,
+    signal: stop.signal,
   });
   reporter.end();
   const elapsedS = (performance.now() - started) / 1000;
@@ -135,6 +145,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     } else failed.push(o.path);
   });
   let status = failed.length > 0 ? 1 : 0;
+  if (stoppedBy !== null) io.err(`lengthwise summarize: stopped by ${stoppedBy}: the table holds the ${summaries.length} trials finished before it`);
   io.err(
     `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${Math.min(jobs, outcomes.length)} workers)` +
       (failed.length > 0 ? `; ${failed.length} failed: ${failed.join(', ')}` : ''),
@@ -159,5 +170,6 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       status = 1;
     }
   }
+  listening();
   return status;
 }

@@ -56,6 +56,15 @@ export const rejectedSchema = z.object({
   message: z.string().optional(),
   excerpt: z.string().optional(),
 });
+/** A live device whose clock restarted, as the session log writes it (its later records carry shifted times). */
+export const clockResetSchema = z.object({
+  t: timeS,
+  clock_reset: z.object({
+    offset_s: z.number(),
+    muscles: z.array(z.string().min(1, 'must be a non-empty muscle name')).nullable(),
+    detail: z.string(),
+  }),
+});
 export const headerSchema = z.object({
   format: z.literal('lengthwise-stream'),
   version: z.literal(1),
@@ -67,13 +76,14 @@ export const headerSchema = z.object({
   calibration: z.unknown().optional(),
 });
 
-type Kind = 'sample' | 'event' | 'marker' | 'disconnection' | 'header' | 'rejected';
+type Kind = 'sample' | 'event' | 'marker' | 'disconnection' | 'clock_reset' | 'header' | 'rejected';
 
 const SHAPE: Readonly<Record<Kind, string>> = {
   sample: '{"t": SECONDS, "muscle": "NAME", "fascicle_mm": MM, "pennation_deg"?: DEG, "quality"?: 0..1}',
   event: '{"t": SECONDS, "event": "foot_strike"|"toe_off", "side": "left"|"right"}',
   marker: '{"t": SECONDS, "marker": "TEXT"}',
   disconnection: '{"t"?: SECONDS, "disconnected": {"muscles": ["NAME", …] | null, "detail": "TEXT"}}',
+  clock_reset: '{"t": SECONDS, "clock_reset": {"offset_s": SECONDS, "muscles": ["NAME", …] | null, "detail": "TEXT"}}',
   header: '{"format": "lengthwise-stream", "version": 1, "subject"?, "trial"?, "rate_hz"?, "muscles"?, "calibration"?}',
   rejected: '{"rejected": "REASON", "count"?: N, "message"?: "TEXT", "excerpt"?: "TEXT"}',
 };
@@ -91,6 +101,10 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
   disconnected: 'must be an object {"muscles": ["NAME", …] | null, "detail": "TEXT"}',
   'disconnected.muscles': 'must be a list of muscle names, or null for every muscle',
   'disconnected.detail': 'must be a string',
+  clock_reset: 'must be an object {"offset_s": SECONDS, "muscles": ["NAME", …] | null, "detail": "TEXT"}',
+  'clock_reset.offset_s': 'must be a number (seconds added to the device\'s times)',
+  'clock_reset.muscles': 'must be a list of muscle names, or null for every muscle',
+  'clock_reset.detail': 'must be a string',
   format: 'must be "lengthwise-stream"',
   version: 'must be 1 (this reader reads version 1 of lengthwise-stream)',
   subject: 'must be a string, or left out',
@@ -248,6 +262,7 @@ function scanRejection(problem: ScanProblem, line: number, excerpt: string): Rej
 function kindOf(o: Record<string, unknown>): Kind | null {
   if (Object.hasOwn(o, 'format')) return 'header';
   if (Object.hasOwn(o, 'disconnected')) return 'disconnection';
+  if (Object.hasOwn(o, 'clock_reset')) return 'clock_reset';
   if (Object.hasOwn(o, 'event')) return 'event';
   if (Object.hasOwn(o, 'marker')) return 'marker';
   if (Object.hasOwn(o, 'muscle') || Object.hasOwn(o, 'fascicle_mm')) return 'sample';
@@ -307,7 +322,7 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
     );
   }
   const problem = present ? `is ${describe(value)}` : 'is missing';
-  const named = kind === 'rejected' ? 'rejection record' : record;
+  const named = kind === 'rejected' ? 'rejection record' : kind === 'clock_reset' ? 'clock reset' : record;
   return makeRejection('schema', `${named} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt);
 }
 
@@ -379,6 +394,12 @@ export function parseRecordValueBySchema(value: unknown, line: number, excerpt: 
       if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
       const { muscles, detail } = r.data.disconnected;
       return { kind: 'disconnection', tS: r.data.t ?? Number.NaN, muscles, detail, line };
+    }
+    case 'clock_reset': {
+      const r = clockResetSchema.safeParse(value);
+      if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
+      const { offset_s: offsetS, muscles, detail } = r.data.clock_reset;
+      return { kind: 'clock_reset', tS: r.data.t, offsetS, muscles, detail, line };
     }
     case 'header': {
       const r = headerSchema.safeParse(value);

@@ -10,6 +10,7 @@ import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
 import { MuscleRoster, tooManyMuscles } from '../src/trial/muscle-roster.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
+import { DeviceClocks, newConnectionClock, type ConnectionClock } from './device-clocks.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =
@@ -42,14 +43,25 @@ export interface IngestOptions {
 export class Ingest {
   private nextLine = 1;
   private readonly mapping: DeviceMapping | null;
+  private readonly clocks: DeviceClocks;
   readonly maxMessageBytes: number;
 
-  constructor(options: IngestOptions) {
+  /**
+   * @param onePeer a client's one acquisition computer (true), or a server's devices, each known by its
+   * muscles (false, the default): whose clock a restarted connection continues (see DeviceClocks).
+   * @param nowMs the receive clock, ms.
+   */
+  constructor(
+    options: IngestOptions,
+    onePeer = false,
+    private readonly nowMs: () => number = Date.now,
+  ) {
     this.mapping = options.mapping ?? null;
     this.maxMessageBytes = options.maxMessageBytes ?? MAX_MESSAGE_BYTES;
+    this.clocks = new DeviceClocks(onePeer);
   }
 
-  /** One message → its frames; notes muscles and time on `peer`. Never throws. */
+  /** One message → its frames, times on the session's timeline; notes muscles and time on `peer`. Never throws. */
   message(data: RawData, peer: PeerTrack): Batch {
     const buffer = Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data);
     let frames: Frame[];
@@ -58,17 +70,13 @@ export class Ingest {
     } else {
       frames = decodeMessage(buffer.toString('utf8'), this.nextLine, this.mapping);
     }
-    this.nextLine += frames.length;
     for (let i = 0; i < frames.length; i++) {
       const f = frames[i] as Frame;
-      if (f.kind === 'sample') {
-        if (!peer.muscles.admit(f.muscle)) {
-          frames[i] = tooManyMuscles(f, peer.muscles.max, 'device');
-          continue;
-        }
-        if (!(f.tS < peer.lastTS)) peer.lastTS = f.tS;
-      } else if (f.kind === 'event' && !(f.tS < peer.lastTS)) peer.lastTS = f.tS;
+      if (f.kind === 'sample' && !peer.muscles.admit(f.muscle)) frames[i] = tooManyMuscles(f, peer.muscles.max, 'device');
     }
+    frames = this.clocks.take(frames, peer.clock, this.nowMs(), this.nextLine + frames.length);
+    this.nextLine += frames.length;
+    for (const f of frames) if ((f.kind === 'sample' || f.kind === 'event') && !(f.tS < peer.lastTS)) peer.lastTS = f.tS;
     return frames;
   }
 
@@ -87,14 +95,15 @@ export class Ingest {
   }
 }
 
-/** What one connection carried so far: its muscles (at most MAX_MUSCLES_PER_TRIAL) and its last device time. */
+/** What one connection carried so far: its muscles (at most MAX_MUSCLES_PER_TRIAL), its last time, its clock. */
 export interface PeerTrack {
   readonly muscles: MuscleRoster;
   lastTS: number;
+  readonly clock: ConnectionClock;
 }
 
 export function newPeerTrack(): PeerTrack {
-  return { muscles: new MuscleRoster(), lastTS: Number.NaN };
+  return { muscles: new MuscleRoster(), lastTS: Number.NaN, clock: newConnectionClock() };
 }
 
 
@@ -149,7 +158,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
   const pingMs = options.pingMs ?? 2000;
   const onLink = options.onLink ?? (() => undefined);
   return new Observable<Batch>((subscriber) => {
-    const ingest = new Ingest(options);
+    const ingest = new Ingest(options, true, () => scheduler.now());
     let socket: WebSocket | null = null;
     let retry: Subscription | null = null;
     let ping: Subscription | null = null;

@@ -178,6 +178,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   const records$ = merge(source$, session.extra$).pipe(
     writeSessionLog(log),
     tap((batch) => session.watchUnits(batch, mapping)),
+    tap((batch) => session.watchClocks(batch)),
     takeUntil(session.stop$),
   );
   const trial = runTrial(records$, { source: label, ...(calibration !== undefined ? { calibration } : {}) });
@@ -270,6 +271,13 @@ class LiveSession {
       this.hints.push(hint);
       this.io.err(`lengthwise live: ${hint}`);
       this.status({ message: hint });
+    }
+  }
+
+  /** A device whose clock restarted is said once, when its connection says so. */
+  watchClocks(batch: Batch): void {
+    for (const f of batch) {
+      if (f.kind === 'clock_reset') this.say(`device clock restarted: ${f.detail}; its times go on shifted by ${f.offsetS} s (kept so in the session log)`);
     }
   }
 

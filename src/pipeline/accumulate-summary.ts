@@ -294,7 +294,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             return;
           case 'marker':
           case 'disconnection':
-            // A lost connection counts among the markers, as it did when it was one.
+          case 'clock_reset':
+            // A lost connection counts among the markers, as it did when it was one; a device's clock restart too.
             state.frames.received++;
             state.frames.markers++;
             return;

@@ -12,7 +12,7 @@ import { plateauMiddleUm } from '../model/geometry.ts';
 import { median } from '../model/stats.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
-import { MAX_HELD_FRAMES } from '../trial/limits.ts';
+import { MAX_HELD_FRAMES } from '../trial/settings.ts';
 
 export interface ConvertSarcomereOptions {
   /** A calibration given by the user (a file); it wins over the stream header's. */

@@ -2,7 +2,7 @@ import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
 import type { Batch, Frame, Sample, Side, StrideBoundary } from '../trial/records.ts';
 import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from '../model/stride-period.ts';
-import { MAX_HELD_FRAMES } from '../trial/limits.ts';
+import { MAX_HELD_FRAMES } from '../trial/settings.ts';
 
 export interface EstimateStridesOptions {
   /**

@@ -1,6 +1,6 @@
 import type { OperatorFunction } from 'rxjs';
 import type { Batch, Frame, Header } from '../trial/records.ts';
-import { MAX_MUSCLES_PER_TRIAL } from '../trial/limits.ts';
+import { MAX_MUSCLES_PER_TRIAL } from '../trial/settings.ts';
 import { MuscleRoster, tooManyMuscles } from '../trial/muscle-roster.ts';
 import { statefulStage } from './stateful-stage.ts';
 

@@ -8,6 +8,9 @@
  *   log: `{"rejected": REASON, "count": N, "rx", "message", "excerpt"}` (the first one's message and
  *   excerpt), which the reader counts as N rejections for that reason, so a replay counts the same
  *   rejections and the log grows with what was received, never with how many ways it was wrong;
+ * - a device whose clock restarted (a ClockReset record) is a line of its own kind, `{"t", "clock_reset":
+ *   {"offset_s", "muscles": [NAME, …] | null, "detail"}, "rx"}`, and that device's records after it are
+ *   written with their times shifted by the offset, as the session took them;
  * - a lost connection (a Disconnection record) is a line of its own kind, `{"t", "disconnected":
  *   {"muscles": [NAME, …] | null, "detail"}, "rx"}` (`t` left out when the connection carried no time);
  *   logs written before this line existed carry a `[link] disconnected` marker instead, which the
@@ -71,6 +74,8 @@ export function logLine(f: Frame, rxMs: number): string | null {
       return `{"t":${num(f.tS)},"event":"${f.event}","side":"${f.side}","rx":${rx}}`;
     case 'marker':
       return `{"t":${num(f.tS)},"marker":${JSON.stringify(f.marker)},"rx":${rx}}`;
+    case 'clock_reset':
+      return `{"t":${num(f.tS)},"clock_reset":{"offset_s":${num(f.offsetS)},"muscles":${JSON.stringify(f.muscles)},"detail":${JSON.stringify(f.detail)}},"rx":${rx}}`;
     case 'disconnection': {
       const t = Number.isNaN(f.tS) ? '' : `"t":${num(f.tS)},`;
       return `{${t}"disconnected":{"muscles":${JSON.stringify(f.muscles)},"detail":${JSON.stringify(f.detail)}},"rx":${rx}}`;

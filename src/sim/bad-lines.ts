@@ -6,7 +6,7 @@
 import { REJECT_REASONS, type RejectReason } from '../trial/reasons.ts';
 import type { WireSample } from './wire.ts';
 import { formatNumber } from './format-number.ts';
-import { MAX_MUSCLES_PER_TRIAL } from '../trial/limits.ts';
+import { MAX_MUSCLES_PER_TRIAL } from '../trial/settings.ts';
 
 export interface BadLineContext {
   /** Time to write into the line (s): between two sample ticks, so order checks never fire first. */

@@ -1,4 +1,4 @@
-import { MAX_MUSCLES_PER_TRIAL } from './limits.ts';
+import { MAX_MUSCLES_PER_TRIAL } from './settings.ts';
 import { sampleExcerpt, type Rejection, type Sample } from './records.ts';
 
 /**

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { killServer, nextConnection, sampleTexts, sendAll, until, wsClient, wsServer } from '../adapters/ws-peers.ts';
 import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSource, type Child } from '../helpers/command-child.ts';
-import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/limits.ts';
+import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
 
 const children: Child[] = [];
 const stops: (() => unknown)[] = [];

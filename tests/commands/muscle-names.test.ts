@@ -3,7 +3,7 @@ import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/limits.ts';
+import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const BIN = join(ROOT, 'bin', 'lengthwise.js');

@@ -73,6 +73,13 @@ describe('logLine: valid records', () => {
     expect(parseNdjsonLine(line(device), 4)).toEqual(device);
   });
 
+  it('writes a device clock restart as a line of its own kind, which reads back as the same record', () => {
+    const reset: Frame = { kind: 'clock_reset', tS: 12.5, offsetS: 12.49, muscles: ['calf'], detail: 'the device of "calf" began a connection with a header and t=0.01 s, after t=10 s', line: 6 };
+    expect(JSON.parse(line(reset))).toEqual({ t: 12.5, clock_reset: { offset_s: 12.49, muscles: ['calf'], detail: reset.kind === 'clock_reset' ? reset.detail : '' }, rx: 1_764_000_000.123 });
+    expect(parseNdjsonLine(line(reset), 6)).toEqual(reset);
+    expect(parseNdjsonLine('{"t":1,"clock_reset":{"offset_s":"x","muscles":null,"detail":""}}', 1)).toMatchObject({ reason: 'schema', message: expect.stringContaining('clock reset clock_reset.offset_s') });
+  });
+
   it('leaves out the time of a connection that carried none, and the reader gives it back as none', () => {
     const early = disconnection(null, Number.NaN, 'code 1006', 2);
     expect(JSON.parse(line(early))).not.toHaveProperty('t');

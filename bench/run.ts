@@ -7,7 +7,8 @@
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or command, live, memory; several: --only replay,command
+ *   npm run bench -- --only replay # or command, live, memory, floods; several: --only replay,command
+ *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -24,6 +25,7 @@ import { median } from '../src/model/stats.ts';
 import { measureMemory, type MemoryResult } from './memory.ts';
 import { measureLive, type LiveResult } from './live.ts';
 import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
+import { floodLines, measureFloods } from './floods.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -58,6 +60,8 @@ interface Args {
   readonly commandPairs: number;
   /** Pairs of `lengthwise --help` and `node -e 0`. */
   readonly startPairs: number;
+  /** The command the floods run (another build, for before/after figures); undefined: this one. */
+  readonly bin: string | undefined;
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -66,10 +70,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,command,live,memory').split(','));
+  const only = new Set((value('--only') ?? 'replay,command,live,memory,floods').split(','));
   for (const part of only) {
-    if (!['replay', 'command', 'live', 'memory'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, command, live, memory (comma-separated)`);
+    if (!['replay', 'command', 'live', 'memory', 'floods'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, command, live, memory, floods (comma-separated)`);
       process.exit(2);
     }
   }
@@ -81,6 +85,7 @@ function parseArgs(argv: readonly string[]): Args {
     memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
     commandPairs: Number(value('--command-pairs') ?? (quick ? 2 : 5)),
     startPairs: Number(value('--start-pairs') ?? (quick ? 10 : 20)),
+    bin: value('--bin'),
   };
 }
 
@@ -259,6 +264,12 @@ async function main(): Promise<void> {
           `${memory.rssGrowthMb.toFixed(1)} MB, peak ${memory.peakRssMb.toFixed(0)} MB), heap ${memory.heapStartMb.toFixed(1)} → ${memory.heapEndMb.toFixed(1)} MB, ` +
           `${memory.strides} strides kept`,
       );
+    }
+    if (args.only.has('floods')) {
+      console.error(`bench: floods that look legitimate, each in a fresh process of ${args.bin ?? 'the command'}…`);
+      const floods = await measureFloods(dir, { quick: args.quick, ...(args.bin !== undefined ? { bin: args.bin } : {}) });
+      out['floods'] = { bin: args.bin ?? 'bin/lengthwise.js', results: floods };
+      for (const l of floodLines(floods)) lines.push(l);
     }
   } finally {
     await rm(dir, { recursive: true, force: true });

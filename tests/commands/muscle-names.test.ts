@@ -1,24 +1,16 @@
-import { spawn } from 'node:child_process';
 import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
+import { lengthwise as start } from '../helpers/command-child.ts';
 
-const ROOT = join(import.meta.dirname, '..', '..');
-const BIN = join(ROOT, 'bin', 'lengthwise.js');
-const DEMO = join(ROOT, 'replays', 'demo-walk.ndjson');
+const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
 
-function lengthwise(args: readonly string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' } });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
+async function lengthwise(args: readonly string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
+  const c = start(args);
+  const { code } = await c.exited;
+  return { code, stdout: c.stdout, stderr: c.stderr };
 }
 
 let dir = '';

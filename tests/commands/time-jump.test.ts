@@ -1,21 +1,9 @@
-import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { sendAll, until, wsClient } from '../adapters/ws-peers.ts';
-
-const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
-
-function lengthwise(args: readonly string[]): Promise<{ code: number | null; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'ignore', 'pipe'], env: { ...process.env, NO_COLOR: '1' } });
-    let stderr = '';
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, stderr }));
-  });
-}
+import { killChild, lengthwise, listeningPort, type Child } from '../helpers/command-child.ts';
 
 /** An invented walk of one muscle: 100 Hz samples with a 1.1 s cycle, from fromS for durationS. */
 function walkLines(fromS: number, durationS: number, muscle = 'calf'): string[] {
@@ -33,8 +21,8 @@ describe('a valid sample that claims a huge jump of device time', () => {
     const trial = join(dir, 'jump.ndjson');
     await writeFile(trial, [...walkLines(0, 0.01), ...walkLines(jumpS, 30)].join('\n'));
     const summaryPath = join(dir, 's.json');
-    const ran = await lengthwise(['replay', trial, '--speed', 'max', '--plain', '--summary', summaryPath]);
-    expect(ran.code, ran.stderr).toBe(0);
+    const ran = lengthwise(['replay', trial, '--speed', 'max', '--plain', '--summary', summaryPath]);
+    expect((await ran.exited).code, ran.stderr).toBe(0);
     const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
     expect(summary.frames).toMatchObject({ accepted: 3001, rejected: 0 });
     // Its strides are found from its own signal after the jump (no gait events in this trial).
@@ -44,23 +32,17 @@ describe('a valid sample that claims a huge jump of device time', () => {
 });
 
 describe('a live device that sends one sample with a huge jump of device time', () => {
-  let child: ChildProcess | null = null;
+  let child: Child | null = null;
   afterEach(() => {
-    if (child !== null && child.exitCode === null) child.kill('SIGKILL');
+    if (child !== null) killChild(child);
   });
 
   it('ends nothing: every device goes on, and the summary counts both', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'lengthwise-jump-live-'));
     const summaryPath = join(dir, 's.json');
-    child = spawn(process.execPath, [BIN, 'live', '--listen', '127.0.0.1:0', '--plain', '--log', join(dir, 'l.ndjson'), '--summary', summaryPath], {
-      stdio: ['ignore', 'ignore', 'pipe'],
-      env: { ...process.env, NO_COLOR: '1' },
-    });
-    let stderr = '';
-    child.stderr?.on('data', (d: Buffer) => (stderr += d.toString()));
-    const exited = new Promise<number | null>((resolve) => child?.on('exit', (code) => resolve(code)));
-    await until(() => /listening on ws:\/\/127\.0\.0\.1:\d+/.test(stderr), 15_000, 'the session to listen');
-    const url = `ws://127.0.0.1:${/listening on ws:\/\/127\.0\.0\.1:(\d+)/.exec(stderr)?.[1]}`;
+    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--plain', '--log', join(dir, 'l.ndjson'), '--summary', summaryPath]);
+    child = c;
+    const url = `ws://127.0.0.1:${await listeningPort(c)}`;
     const a = await wsClient(url);
     const b = await wsClient(url);
     await sendAll(a, [`[${walkLines(0, 0.01, 'calf').join(',')}]`, `[${walkLines(1e8, 0.01, 'calf').join(',')}]`]);
@@ -71,9 +53,9 @@ describe('a live device that sends one sample with a huge jump of device time', 
     await sendAll(b, [walkLines(12, 0.01, 'shin').join('')]);
     a.close();
     b.close();
-    await until(() => (stderr.match(/DISCONNECTED/g) ?? []).length >= 2, 10_000, 'both devices to leave');
-    child.kill('SIGTERM');
-    expect(await exited, stderr).toBe(0);
+    await until(() => (c.stderr.match(/DISCONNECTED/g) ?? []).length >= 2, 10_000, 'both devices to leave');
+    c.child.kill('SIGTERM');
+    expect((await c.exited).code, c.stderr).toBe(0);
     const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
     expect(summary.frames).toMatchObject({ accepted: 2 + 1200 + 1200 + 1, rejected: 0 });
     expect(Object.keys(summary.muscles).sort()).toEqual(['calf', 'shin']);

@@ -210,7 +210,20 @@ export function parseCalibration(value: unknown): CalibrationResult {
   if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, HOW_TO_FIX, calibrationSchema, value) };
   const muscles: Record<string, MuscleCalibration> = Object.create(null);
   const problems: string[] = [];
-  for (const [name, m] of Object.entries(parsed.data.muscles)) {
+  // The names as the file gives them: zod's record leaves a key named __proto__ out of what it returns
+  // (unchecked), and a muscle may have any name, so such an entry is checked here on its own.
+  const given = (value as { muscles: Record<string, unknown> }).muscles;
+  for (const name of Object.keys(given)) {
+    let m: ParsedMuscle;
+    if (Object.hasOwn(parsed.data.muscles, name)) m = parsed.data.muscles[name] as ParsedMuscle;
+    else {
+      const one = muscleCalibrationSchema.safeParse(given[name]);
+      if (!one.success) {
+        for (const issue of one.error.issues) problems.push(`${['muscles', name, ...issue.path.map(String)].join('.')}: ${issue.message}`);
+        continue;
+      }
+      m = one.data;
+    }
     if (m.between_fibre_sd_um !== undefined && m.dispersion_sd_um !== undefined && m.between_fibre_sd_um !== m.dispersion_sd_um) {
       problems.push(
         `muscles.${name}: "between_fibre_sd_um" (${m.between_fibre_sd_um}) and its older name "dispersion_sd_um" (${m.dispersion_sd_um}) disagree; give one of them`,

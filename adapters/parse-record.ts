@@ -9,7 +9,7 @@
  */
 import { z } from 'zod';
 import { GAIT_EVENT_NAMES, makeSample, SIDES, type Frame, type Header, type MuscleDeclaration, type Rejection } from '../src/trial/records.ts';
-import type { RejectReason } from '../src/trial/reasons.ts';
+import { REJECT_REASONS, type RejectReason } from '../src/trial/reasons.ts';
 import { parseCalibration } from './calibration-file.ts';
 import { markerFrame } from './old-link-marker.ts';
 import { freshCopy } from './lexing.ts';
@@ -48,6 +48,27 @@ export const disconnectionSchema = z.object({
   t: timeS.optional(),
   disconnected: z.object({ muscles: z.array(z.string().min(1, 'must be a non-empty muscle name')).nullable(), detail: z.string() }),
 });
+/** Most records one rejection record may stand for. */
+export const MAX_REJECTED_COUNT = 1_000_000_000;
+/**
+ * Records a session log received and rejected, one line per reason (see src/session-log/log-line.ts):
+ * the reader counts them by their reason, so a replay of the log counts what the live session did.
+ */
+export const rejectedSchema = z.object({
+  rejected: z.enum(REJECT_REASONS),
+  count: z.number().int().min(1).max(MAX_REJECTED_COUNT).optional(),
+  message: z.string().optional(),
+  excerpt: z.string().optional(),
+});
+/** A live device whose clock restarted, as the session log writes it (its later records carry shifted times). */
+export const clockResetSchema = z.object({
+  t: timeS,
+  clock_reset: z.object({
+    offset_s: z.number(),
+    muscles: z.array(z.string().min(1, 'must be a non-empty muscle name')).nullable(),
+    detail: z.string(),
+  }),
+});
 export const headerSchema = z.object({
   format: z.literal('lengthwise-stream'),
   version: z.literal(1),
@@ -59,14 +80,16 @@ export const headerSchema = z.object({
   calibration: z.unknown().optional(),
 });
 
-type Kind = 'sample' | 'event' | 'marker' | 'disconnection' | 'header';
+type Kind = 'sample' | 'event' | 'marker' | 'disconnection' | 'clock_reset' | 'header' | 'rejected';
 
 const SHAPE: Readonly<Record<Kind, string>> = {
   sample: '{"t": SECONDS, "muscle": "NAME", "fascicle_mm": MM, "pennation_deg"?: DEG, "quality"?: 0..1, "activation"?: 0..1}',
   event: '{"t": SECONDS, "event": "foot_strike"|"toe_off", "side": "left"|"right"}',
   marker: '{"t": SECONDS, "marker": "TEXT"}',
   disconnection: '{"t"?: SECONDS, "disconnected": {"muscles": ["NAME", …] | null, "detail": "TEXT"}}',
+  clock_reset: '{"t": SECONDS, "clock_reset": {"offset_s": SECONDS, "muscles": ["NAME", …] | null, "detail": "TEXT"}}',
   header: '{"format": "lengthwise-stream", "version": 1, "subject"?, "trial"?, "rate_hz"?, "muscles"?, "calibration"?}',
+  rejected: '{"rejected": "REASON", "count"?: N, "message"?: "TEXT", "excerpt"?: "TEXT"}',
 };
 
 /** What each field accepts, said the same way in every message. */
@@ -83,12 +106,18 @@ export const FIELD_RULE: Readonly<Record<string, string>> = {
   disconnected: 'must be an object {"muscles": ["NAME", …] | null, "detail": "TEXT"}',
   'disconnected.muscles': 'must be a list of muscle names, or null for every muscle',
   'disconnected.detail': 'must be a string',
+  clock_reset: 'must be an object {"offset_s": SECONDS, "muscles": ["NAME", …] | null, "detail": "TEXT"}',
+  'clock_reset.offset_s': 'must be a number (seconds added to the device\'s times)',
+  'clock_reset.muscles': 'must be a list of muscle names, or null for every muscle',
+  'clock_reset.detail': 'must be a string',
   format: 'must be "lengthwise-stream"',
   version: 'must be 1 (this reader reads version 1 of lengthwise-stream)',
   subject: 'must be a string, or left out',
   trial: 'must be a string, or left out',
   rate_hz: 'must be a finite number > 0 (samples per second), or left out',
   muscles: 'must be an object {NAME: {"side"?: "left"|"right"}}, or left out',
+  rejected: `must be a reason code: ${REJECT_REASONS.join(', ')}`,
+  count: `must be a whole number from 1 to ${MAX_REJECTED_COUNT}, or left out for one`,
 };
 
 /** Fields whose numeric values have a physically possible range: a number outside it is out_of_range. */
@@ -255,9 +284,12 @@ function scanRejection(problem: ScanProblem, line: number, excerpt: string): Rej
 function kindOf(o: Record<string, unknown>): Kind | null {
   if (Object.hasOwn(o, 'format')) return 'header';
   if (Object.hasOwn(o, 'disconnected')) return 'disconnection';
+  if (Object.hasOwn(o, 'clock_reset')) return 'clock_reset';
   if (Object.hasOwn(o, 'event')) return 'event';
   if (Object.hasOwn(o, 'marker')) return 'marker';
   if (Object.hasOwn(o, 'muscle') || Object.hasOwn(o, 'fascicle_mm')) return 'sample';
+  // Last: a record of another kind with a field of this name stays what it is.
+  if (Object.hasOwn(o, 'rejected')) return 'rejected';
   return null;
 }
 
@@ -313,7 +345,8 @@ function issueRejection(kind: Kind, o: Record<string, unknown>, issue: z.core.$Z
     );
   }
   const problem = present ? `is ${describe(value)}` : 'is missing';
-  return makeRejection('schema', `${record} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt, where === '(top level)' ? undefined : where);
+  const named = kind === 'rejected' ? 'rejection record' : kind === 'clock_reset' ? 'clock reset' : record;
+  return makeRejection('schema', `${named} ${where} ${problem}: ${rule}; accepted: ${SHAPE[kind]}`, line, excerpt, where === '(top level)' ? undefined : where);
 }
 
 function headerFrame(data: z.output<typeof headerSchema>, line: number, excerpt: string): Frame {
@@ -385,10 +418,23 @@ export function parseRecordValueBySchema(value: unknown, line: number, excerpt: 
       const { muscles, detail } = r.data.disconnected;
       return { kind: 'disconnection', tS: r.data.t ?? Number.NaN, muscles, detail, line };
     }
+    case 'clock_reset': {
+      const r = clockResetSchema.safeParse(value);
+      if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
+      const { offset_s: offsetS, muscles, detail } = r.data.clock_reset;
+      return { kind: 'clock_reset', tS: r.data.t, offsetS, muscles, detail, line };
+    }
     case 'header': {
       const r = headerSchema.safeParse(value);
       if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
       return headerFrame(r.data, line, excerpt);
+    }
+    case 'rejected': {
+      const r = rejectedSchema.safeParse(value);
+      if (!r.success) return issueRejection(kind, value, firstIssue(r.error), line, excerpt);
+      const d = r.data;
+      const rejection = makeRejection(d.rejected, d.message ?? `rejected as ${d.rejected} when it was received`, line, d.excerpt ?? '');
+      return d.count === undefined || d.count === 1 ? rejection : { ...rejection, count: d.count };
     }
   }
 }

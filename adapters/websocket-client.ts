@@ -7,9 +7,11 @@
 import { Observable, asyncScheduler, timer, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, type RawData } from 'ws';
 import type { Batch, Disconnection, Frame } from '../src/trial/records.ts';
+import { MuscleRoster, tooManyMuscles } from '../src/trial/muscle-roster.ts';
 import { decodeMessage, MAX_MESSAGE_BYTES, oversizeRejection, type DeviceMapping } from './device-mapping.ts';
 import { closeGently, keepAlive, refusalReason } from './socket-care.ts';
 import { redactUrl } from './redact-url.ts';
+import { DeviceClocks, newConnectionClock, type ConnectionClock } from './device-clocks.ts';
 
 /** What a link is doing, for the screen and the status lines. */
 export type LinkEvent =
@@ -44,14 +46,25 @@ export interface IngestOptions {
 export class Ingest {
   private nextLine = 1;
   private readonly mapping: DeviceMapping | null;
+  private readonly clocks: DeviceClocks;
   readonly maxMessageBytes: number;
 
-  constructor(options: IngestOptions) {
+  /**
+   * @param onePeer a client's one acquisition computer (true), or a server's devices, each known by its
+   * muscles (false, the default): whose clock a restarted connection continues (see DeviceClocks).
+   * @param nowMs the receive clock, ms.
+   */
+  constructor(
+    options: IngestOptions,
+    onePeer = false,
+    private readonly nowMs: () => number = Date.now,
+  ) {
     this.mapping = options.mapping ?? null;
     this.maxMessageBytes = options.maxMessageBytes ?? MAX_MESSAGE_BYTES;
+    this.clocks = new DeviceClocks(onePeer);
   }
 
-  /** One message → its frames; notes muscles and time on `peer`. Never throws. */
+  /** One message → its frames, times on the session's timeline; notes muscles and time on `peer`. Never throws. */
   message(data: RawData, peer: PeerTrack): Batch {
     const buffer = Array.isArray(data) ? Buffer.concat(data) : Buffer.isBuffer(data) ? data : Buffer.from(data);
     let frames: Frame[];
@@ -60,13 +73,13 @@ export class Ingest {
     } else {
       frames = decodeMessage(buffer.toString('utf8'), this.nextLine, this.mapping);
     }
-    this.nextLine += frames.length;
-    for (const f of frames) {
-      if (f.kind === 'sample') {
-        peer.muscles.add(f.muscle);
-        if (!(f.tS < peer.lastTS)) peer.lastTS = f.tS;
-      } else if (f.kind === 'event' && !(f.tS < peer.lastTS)) peer.lastTS = f.tS;
+    for (let i = 0; i < frames.length; i++) {
+      const f = frames[i] as Frame;
+      if (f.kind === 'sample' && !peer.muscles.admit(f.muscle)) frames[i] = tooManyMuscles(f, peer.muscles.max, 'device');
     }
+    frames = this.clocks.take(frames, peer.clock, this.nowMs(), this.nextLine + frames.length);
+    this.nextLine += frames.length;
+    for (const f of frames) if ((f.kind === 'sample' || f.kind === 'event') && !(f.tS < peer.lastTS)) peer.lastTS = f.tS;
     return frames;
   }
 
@@ -79,21 +92,23 @@ export class Ingest {
 
   /** The connection is gone: its Disconnection record. */
   disconnected(peer: PeerTrack, allMuscles: boolean, detail: string): Batch {
-    const frame = disconnection(allMuscles ? null : [...peer.muscles], peer.lastTS, detail, this.nextLine);
+    const frame = disconnection(allMuscles ? null : peer.muscles.list(), peer.lastTS, detail, this.nextLine);
     this.nextLine++;
     return [frame];
   }
 }
 
-/** What one connection carried so far. */
+/** What one connection carried so far: its muscles (at most MAX_MUSCLES_PER_TRIAL), its last time, its clock. */
 export interface PeerTrack {
-  readonly muscles: Set<string>;
+  readonly muscles: MuscleRoster;
   lastTS: number;
+  readonly clock: ConnectionClock;
 }
 
 export function newPeerTrack(): PeerTrack {
-  return { muscles: new Set(), lastTS: Number.NaN };
+  return { muscles: new MuscleRoster(), lastTS: Number.NaN, clock: newConnectionClock() };
 }
+
 
 /** A close code and reason as a short text. */
 export function closeDetail(code: number, reason: Buffer | string): string {
@@ -148,7 +163,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
   // Link events go to screens and messages: the address as it may be shown, a token in it hidden.
   const shownUrl = redactUrl(options.url);
   return new Observable<Batch>((subscriber) => {
-    const ingest = new Ingest(options);
+    const ingest = new Ingest(options, true, () => scheduler.now());
     let socket: WebSocket | null = null;
     let retry: Subscription | null = null;
     let ping: Subscription | null = null;

@@ -84,7 +84,7 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
   const pingMs = options.pingMs ?? 2000;
   const onLink = options.onLink ?? (() => undefined);
   return new Observable<Batch>((subscriber) => {
-    const ingest = new Ingest({ ...options, maxMessageBytes: options.maxMessageBytes ?? SERVER_MAX_PAYLOAD_BYTES });
+    const ingest = new Ingest({ ...options, maxMessageBytes: options.maxMessageBytes ?? SERVER_MAX_PAYLOAD_BYTES }, false, () => scheduler.now());
     const owners = new MuscleOwners();
     let connection = 0;
     let stopped = false;

@@ -7,7 +7,8 @@
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or table, command, live, memory; several: --only replay,command
+ *   npm run bench -- --only replay # or table, command, live, memory, floods; several: --only replay,command
+ *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -25,6 +26,7 @@ import { measureMemory, type MemoryResult } from './memory.ts';
 import { measureLive, type LiveResult } from './live.ts';
 import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
 import { measureTable, type TableResult } from './table.ts';
+import { floodLines, measureFloods } from './floods.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -59,6 +61,8 @@ interface Args {
   readonly commandPairs: number;
   /** Pairs of `lengthwise --help` and `node -e 0`. */
   readonly startPairs: number;
+  /** The command the floods run (another build, for before/after figures); undefined: this one. */
+  readonly bin: string | undefined;
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -67,10 +71,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,table,command,live,memory').split(','));
+  const only = new Set((value('--only') ?? 'replay,table,command,live,memory,floods').split(','));
   for (const part of only) {
-    if (!['replay', 'table', 'command', 'live', 'memory'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory (comma-separated)`);
+    if (!['replay', 'table', 'command', 'live', 'memory', 'floods'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory, floods (comma-separated)`);
       process.exit(2);
     }
   }
@@ -82,6 +86,7 @@ function parseArgs(argv: readonly string[]): Args {
     memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
     commandPairs: Number(value('--command-pairs') ?? (quick ? 2 : 5)),
     startPairs: Number(value('--start-pairs') ?? (quick ? 10 : 20)),
+    bin: value('--bin'),
   };
 }
 
@@ -290,6 +295,12 @@ async function main(): Promise<void> {
           `${memory.rssGrowthMb.toFixed(1)} MB, peak ${memory.peakRssMb.toFixed(0)} MB), heap ${memory.heapStartMb.toFixed(1)} → ${memory.heapEndMb.toFixed(1)} MB, ` +
           `${memory.strides} strides kept`,
       );
+    }
+    if (args.only.has('floods')) {
+      console.error(`bench: floods that look legitimate, each in a fresh process of ${args.bin ?? 'the command'}…`);
+      const floods = await measureFloods(dir, { quick: args.quick, ...(args.bin !== undefined ? { bin: args.bin } : {}) });
+      out['floods'] = { bin: args.bin ?? 'bin/lengthwise.js', results: floods };
+      for (const l of floodLines(floods)) lines.push(l);
     }
   } finally {
     await rm(dir, { recursive: true, force: true });

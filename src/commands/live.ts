@@ -7,7 +7,10 @@
 import { asyncScheduler, BehaviorSubject, merge, Subject, takeUntil, tap, timer, type Observable, type SchedulerLike, type Subscription } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { lstat } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { basename, join } from 'node:path';
+import { outputsApart, TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import { isLoopbackHost, parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
@@ -23,6 +26,7 @@ import { writeSessionLog } from '../session-log/write-session-log.ts';
 import { watchLag } from '../session-log/watch-lag.ts';
 import { runTrial, type TrialRun } from '../run/run-trial.ts';
 import { finishTrial, plainReport } from '../run/finish-trial.ts';
+import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise live --connect ws://HOST:PORT/PATH [options]
        lengthwise live --listen [HOST:]PORT [options]
@@ -45,14 +49,15 @@ options:
                          [default: beside the session log, LOG.summary.json]
   --strides FILE.csv     write one row per stride and muscle at the end
   --report FILE.html     write the self-contained HTML report at the end
-  --log FILE             the session log (every message received, valid or not; a replay file)
-                         [default: sessions/<UTC date-time>Z.ndjson]
+  --log FILE             the session log (every message received, valid or not; a replay file); never
+                         an existing file  [default: sessions/<UTC date-time>Z.ndjson, a new name]
   --duration S           end by itself after S seconds
   --plain                plain status lines instead of the dashboard, even on a terminal
   -h, --help             this text
 
 The session ends on q, Ctrl+C, SIGTERM or after --duration; the summary is always written and the log
-closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.`;
+closed. \`lengthwise replay LOG --speed max\` of the session log gives the same summary.
+Exit status: 0 done, 1 the session log or an output could not be written in full, 2 a usage error.`;
 
 /** The connection as the screen shows it; `connectedBefore`: a connection was made once this session. */
 function connectionOf(event: LinkEvent, open: number, connectedBefore: boolean): ConnectionStatus | undefined {
@@ -141,14 +146,26 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     return 2;
   }
   if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
+  if (values.log !== undefined && (await lstat(values.log).then(() => true, () => false))) {
+    io.err(`lengthwise live: the session log ${values.log} exists already, and a session log is never appended to: give --log a new name, or leave --log out for a new sessions/<date-time>Z.ndjson`);
+    return 2;
+  }
+  const logInput = values.log !== undefined ? [{ path: values.log, role: 'the session log (--log)' }] : [];
+  const besideLog = values.log !== undefined && values.summary === undefined ? [{ path: summaryPathFor(values.log), role: 'the summary beside the session log' }] : [];
+  if (!(await outputsApart('live', [...trialInputPaths(values), ...logInput], [...trialOutputPaths(values), ...besideLog], io))) return 2;
   const files = await trialFiles('live', values, io);
   if (files === null) return 2;
   const calibration = files.calibration;
   const mapping = files.mapping ?? null;
 
   const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
-  const logPath = values.log ?? defaultLogPath(process.cwd(), Date.now());
-  const log = openSessionLog({ path: logPath, onProblem: (message) => session.logProblem(message) });
+  const log = openSessionLog({
+    path: values.log ?? defaultLogPath(process.cwd(), Date.now()),
+    // Two sessions started in the same second never share a default name.
+    nextFreeName: values.log === undefined,
+    onProblem: (message) => session.logProblem(message),
+  });
+  const logPath = log.path;
   if (!log.complete && log.problem !== null) session.logProblem(log.problem);
 
   let label: string;
@@ -180,6 +197,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   const records$ = merge(source$, session.extra$).pipe(
     writeSessionLog(log),
     tap((batch) => session.watchUnits(batch, mapping)),
+    tap((batch) => session.watchClocks(batch)),
     takeUntil(session.stop$),
   );
   const trial = runTrial(records$, { source: label, sides: mappedSides(mapping), ...(calibration !== undefined ? { calibration } : {}) });
@@ -193,12 +211,15 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   }
   if (session.plain) io.out(plainReport(final.state));
   for (const hint of session.hints) io.err(`note: ${hint}`);
-  // A live session cannot be run again: its summary is written even when not asked for, beside the log.
-  const summary = values.summary ?? (log.complete ? summaryPathFor(log.path) : undefined);
-  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report }, io);
+  // A live session cannot be run again: its summary is always written, beside the log when not asked
+  // for, and in the system's temporary folder should its own place fail.
+  const summary = values.summary ?? summaryPathFor(log.path);
+  const summaryFallback = join(tmpdir(), `${basename(summary).replace(/\.json$/, '')}-${process.pid}.json`);
+  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report, summaryFallback }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
   if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
-  return status;
+  // An incomplete log is an output not written in full.
+  return log.complete ? status : 1;
 }
 
 /**
@@ -309,6 +330,13 @@ class LiveSession {
     }
   }
 
+  /** A device whose clock restarted is said once, when its connection says so. */
+  watchClocks(batch: Batch): void {
+    for (const f of batch) {
+      if (f.kind === 'clock_reset') this.say(`device clock restarted: ${f.detail}; its times go on shifted by ${f.offsetS} s (kept so in the session log)`);
+    }
+  }
+
   private marker(text: string): void {
     const tS = this.latest !== null && Number.isFinite(this.latest.lastTS) ? this.latest.lastTS : 0;
     // A marker with the old link text would be read back from the log as a lost connection.
@@ -331,9 +359,7 @@ class LiveSession {
       this.status({ connection: { state: 'ended' } });
       this.stop$.next();
     };
-    const onSignal = (): void => stop();
-    process.on('SIGINT', onSignal);
-    process.on('SIGTERM', onSignal);
+    const listening = stopOnSignals(stop);
     if (durationS !== null) subscriptions.push(timer(durationS * 1000, this.scheduler).subscribe(stop));
     subscriptions.push(
       watchLag({
@@ -381,8 +407,7 @@ class LiveSession {
       final = { ok: false, message: error instanceof Error ? error.message : String(error) };
     }
     this.stopped = true;
-    process.off('SIGINT', onSignal);
-    process.off('SIGTERM', onSignal);
+    listening();
     for (const s of subscriptions) s.unsubscribe();
     if (dashboard !== null) {
       dashboard.unmount();

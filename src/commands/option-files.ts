@@ -7,6 +7,7 @@ import { mappedSides, readDeviceMapping, type DeviceMapping } from '../../adapte
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { CommandIo } from '../run/io.ts';
 import type { Side } from '../trial/records.ts';
+import { pathClash, type NamedPath } from '../run/output-paths.ts';
 
 /** --calibration and --mapping, the same in every command that runs trials; read them with trialFiles. */
 export const TRIAL_FILE_OPTIONS = { calibration: { type: 'string' }, mapping: { type: 'string' } } as const;
@@ -84,4 +85,34 @@ export async function trialFiles(
   const mapping = await mappingOption(command, values.mapping, io);
   if (!mapping.ok) return null;
   return { calibration: calibration.value, mapping: mapping.value };
+}
+
+/** The paths among `values` of the given options, each named by its option. */
+function optionPaths(options: object, values: Readonly<Record<string, unknown>>): NamedPath[] {
+  const out: NamedPath[] = [];
+  for (const key of Object.keys(options)) {
+    const path = values[key];
+    if (typeof path === 'string') out.push({ path, role: `--${key}` });
+  }
+  return out;
+}
+
+/** The files a trial's options name for reading (TRIAL_FILE_OPTIONS and TRIAL_INPUT_OPTIONS' --events). */
+export function trialInputPaths(values: Readonly<Record<string, unknown>>): NamedPath[] {
+  return optionPaths({ ...TRIAL_FILE_OPTIONS, events: TRIAL_INPUT_OPTIONS.events }, values);
+}
+
+/** The files a finished trial writes (TRIAL_OUTPUT_OPTIONS). */
+export function trialOutputPaths(values: Readonly<Record<string, unknown>>): NamedPath[] {
+  return optionPaths(TRIAL_OUTPUT_OPTIONS, values);
+}
+
+/**
+ * Refuses, before any work, an output path that is an input, the session log or another output of the
+ * run (see pathClash): says which and how to fix it. True when the paths are fine.
+ */
+export async function outputsApart(command: string, inputs: readonly NamedPath[], outputs: readonly NamedPath[], io: CommandIo): Promise<boolean> {
+  const clash = await pathClash(inputs, outputs);
+  if (clash !== null) io.err(`lengthwise ${command}: ${clash}`);
+  return clash === null;
 }

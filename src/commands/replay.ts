@@ -2,7 +2,7 @@
 import { BehaviorSubject, interval, map, ReplaySubject, switchMap, take, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { outputsApart, sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
 import { trialSource } from '../../adapters/trial-source.ts';
 import { RejectionTally } from '../trial/rejection-tally.ts';
@@ -15,6 +15,7 @@ import { applyCapture } from '../run/apply-capture.ts';
 import { runTrial, type TrialRun } from '../run/run-trial.ts';
 import type { TrialState } from '../trial/state.ts';
 import { finishTrial, plainReport } from '../run/finish-trial.ts';
+import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise replay FILE [options]
 
@@ -34,7 +35,8 @@ options:
   -h, --help             this text
 
 On a terminal the dashboard shows each muscle's operating region live (q quits and still writes the
-summary); otherwise a status line every few seconds and a report at the end.`;
+summary); otherwise a status line every few seconds and a report at the end. Ctrl+C or SIGTERM stop it
+as q does.`;
 
 export type Speed = ReplaySpeed;
 
@@ -88,6 +90,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise replay: ${speed.message}`);
     return 2;
   }
+  if (!(await outputsApart('replay', [{ path, role: 'the trial file' }, ...trialInputPaths(values)], trialOutputPaths(values), io))) return 2;
   const files = await trialFiles('replay', values, io);
   if (files === null) return 2;
   const calibration = files.calibration;
@@ -112,21 +115,31 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }),
   );
   const trial = runTrial(records$, { source: path, sides, ...(calibration !== undefined ? { calibration } : {}) });
-  const final = useDashboard
-    ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next() })
-    : await withStatusLines(trial, io);
-  speed$.complete();
-  if (!final.ok) {
-    io.err(`lengthwise replay: ${final.message}`);
-    return 1;
+  // Ctrl+C and SIGTERM stop the trial as q does, with or without a screen that takes keys.
+  const stopped = new ReplaySubject<void>(1);
+  const listening = stopOnSignals(() => {
+    trial.stop();
+    stopped.next();
+  });
+  try {
+    const final = useDashboard
+      ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next(), stopped$: stopped })
+      : await withStatusLines(trial, io);
+    speed$.complete();
+    if (!final.ok) {
+      io.err(`lengthwise replay: ${final.message}`);
+      return 1;
+    }
+    const nothing = noUsableSample(path, final.state, rejections);
+    if (nothing !== null) {
+      io.err(`lengthwise replay: ${nothing}`);
+      return 1;
+    }
+    for (const warning of namesMissingFromTrial(final.state, { sides, calibration })) io.err(`warning: ${warning}`);
+    return await finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
+  } finally {
+    listening();
   }
-  const nothing = noUsableSample(path, final.state, rejections);
-  if (nothing !== null) {
-    io.err(`lengthwise replay: ${nothing}`);
-    return 1;
-  }
-  for (const warning of namesMissingFromTrial(final.state, { sides, calibration })) io.err(`warning: ${warning}`);
-  return finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
 }
 
 /** Fraction of the file's lines played so far (NaN until the line count is known). */
@@ -165,6 +178,8 @@ interface ReplayControls {
   readonly progress: () => number;
   /** Called once the dashboard is drawn (or has failed to start). */
   readonly shown: () => void;
+  /** Says when a signal stopped the replay: the dashboard closes without waiting for q. */
+  readonly stopped$: Observable<void>;
 }
 
 async function withDashboard(trial: TrialRun, path: string, io: CommandIo, controls: ReplayControls): Promise<Final> {
@@ -196,8 +211,10 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
     },
   });
   void dashboard.shown.then(controls.shown);
+  const closing = controls.stopped$.pipe(take(1)).subscribe(() => dashboard.unmount());
   const final = await settle(trial);
   // At the end of a replay the dashboard stays up until the user quits, so the last figures can be read.
   await dashboard.waitUntilExit();
+  closing.unsubscribe();
   return final;
 }

@@ -1,7 +1,7 @@
 /** `lengthwise summarize FILES...`: many trials in parallel → one tidy study table. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, trialFiles } from './option-files.ts';
+import { outputsApart, sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, trialFiles, trialInputPaths } from './option-files.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { defaultJobs, runStudy, type StudyEvent, type StudyProgress } from '../study/run-study.ts';
 import { studyCsv } from '../study/study-csv.ts';
@@ -9,6 +9,7 @@ import { progressBar, progressFigures, rateText } from '../study/progress-line.t
 import type { SummaryJson } from '../output/summary-json.ts';
 import type { TrialOutcome } from '../study/summarize-trial.ts';
 import { trialWarnings } from '../study/trial-warnings.ts';
+import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise summarize FILES... [options]
 
@@ -28,7 +29,8 @@ options:
   -h, --help             this text
 
 A file that cannot be read or has no valid sample is named with the reason and left out; the others
-go on. Exit status: 0 all trials summarized, 1 some failed or a file could not be written, 2 usage.`;
+go on. Ctrl+C or SIGTERM stop the study: the trials finished so far are written. Exit status: 0 all
+trials summarized, 1 some failed or were not summarized or a file could not be written, 2 usage.`;
 
 /** Reads `--jobs`: a whole number from 1 up. */
 export function parseJobs(text: string): { ok: true; jobs: number } | { ok: false; message: string } {
@@ -117,6 +119,11 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     }
     jobs = parsedJobs.jobs;
   }
+  const outputs = [
+    ...(values.out !== undefined ? [{ path: values.out, role: '--out' }] : []),
+    ...(values.report !== undefined ? [{ path: values.report, role: '--report' }] : []),
+  ];
+  if (!(await outputsApart('summarize', [...positionals.map((path) => ({ path, role: 'a trial file' })), ...trialInputPaths(values)], outputs, io))) return 2;
   const files = await trialFiles('summarize', values, io);
   if (files === null) return 2;
   const { calibration, mapping } = files;
@@ -125,6 +132,13 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
 
   const started = performance.now();
   const reporter = progressReporter(io, io.stderr.isTTY === true && !values.plain);
+  // Ctrl+C and SIGTERM stop the study: what finished is written, the rest is named as not summarised.
+  const stop = new AbortController();
+  let stoppedBy: string | null = null;
+  const listening = stopOnSignals((signal) => {
+    stoppedBy = signal;
+    stop.abort();
+  });
   const outcomes = await runStudy(positionals, {
     jobs,
     ...(calibration !== undefined ? { calibration } : {}),
@@ -133,6 +147,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     sides,
     onEvent: reporter.onEvent,
     drawReport: values.report !== undefined,
+    signal: stop.signal,
   });
   reporter.end();
   const elapsedS = (performance.now() - started) / 1000;
@@ -153,6 +168,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   });
   let status = failed.length > 0 ? 1 : 0;
   const workers = Math.min(jobs, outcomes.length);
+  if (stoppedBy !== null) io.err(`lengthwise summarize: stopped by ${stoppedBy}: the table holds the ${summaries.length} trials finished before it`);
   io.err(
     `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${workers} worker${workers === 1 ? '' : 's'})` +
       (failed.length > 0 ? `; ${failed.length} failed: ${failed.join(', ')}` : ''),
@@ -177,5 +193,6 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       status = 1;
     }
   }
+  listening();
   return status;
 }

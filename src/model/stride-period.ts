@@ -13,12 +13,19 @@ export interface PeriodOptions {
   readonly gridS?: number;
   /** Smallest normalized autocorrelation at the period for the signal to count as periodic. @default 0.3 */
   readonly minCorrelation?: number;
+  /**
+   * Most points of the resampled grid: a signal longer than this many grid steps is read from its start
+   * only, so the work and memory are bounded by a count, never by the span its times claim. @default 65536
+   */
+  readonly maxGridPoints?: number;
 }
 
 export const DEFAULT_MIN_PERIOD_S = 0.4;
 /** Grid step (s) of the resampled signal: a numerical resolution (with the parabola through the peak, 10 and 50 ms find the same period to 1 ms on smooth signals). */
 export const DEFAULT_GRID_S = 0.01;
 export const DEFAULT_MAX_PERIOD_S = 3;
+/** Most points of the resampled grid (over ten minutes at the default 10 ms step). */
+export const DEFAULT_MAX_GRID_POINTS = 1 << 16;
 
 export interface PeriodEstimate {
   readonly periodS: number;
@@ -28,12 +35,16 @@ export interface PeriodEstimate {
   readonly rangeP5P95: number;
 }
 
-/** Linear resampling of (t, x) points, times ascending, to a grid from the first time in steps of gridS. */
-export function resampleUniform(tS: ArrayLike<number>, x: ArrayLike<number>, n: number, gridS: number): Float64Array {
+/**
+ * Linear resampling of (t, x) points, times ascending, to a grid from the first time in steps of gridS,
+ * of at most maxPoints points (the grid stops there however far the last time lies).
+ */
+export function resampleUniform(tS: ArrayLike<number>, x: ArrayLike<number>, n: number, gridS: number, maxPoints = DEFAULT_MAX_GRID_POINTS): Float64Array {
   if (n === 0) return new Float64Array(0);
   const t0 = tS[0] as number;
   const span = (tS[n - 1] as number) - t0;
-  const m = Math.floor(span / gridS) + 1;
+  const points = Math.floor(span / gridS) + 1;
+  const m = points >= 1 ? Math.min(points, maxPoints) : 1;
   const out = new Float64Array(m);
   let j = 0;
   for (let i = 0; i < m; i++) {
@@ -85,7 +96,7 @@ export function autocorrelation(x: Float64Array, maxLag: number): Float64Array {
 export function dominantPeriod(tS: ArrayLike<number>, x: ArrayLike<number>, n: number, options: PeriodOptions = {}): PeriodEstimate | null {
   const gridS = options.gridS ?? DEFAULT_GRID_S;
   const minLag = Math.max(2, Math.round((options.minPeriodS ?? DEFAULT_MIN_PERIOD_S) / gridS));
-  const grid = resampleUniform(tS, x, n, gridS);
+  const grid = resampleUniform(tS, x, n, gridS, options.maxGridPoints ?? DEFAULT_MAX_GRID_POINTS);
   // At least two whole periods must fit, so the longest lag looked for is half the signal.
   const maxLag = Math.min(Math.round((options.maxPeriodS ?? DEFAULT_MAX_PERIOD_S) / gridS), Math.floor(grid.length / 2));
   if (maxLag <= minLag) return null;

@@ -415,8 +415,8 @@ function muscleJson(m: MuscleState): MuscleJson {
 
 /** The summary of a trial, every figure rounded to its unit's precision (src/output/output-precision.ts). */
 export function summaryJson(state: TrialState): SummaryJson {
-  const muscles: Record<string, MuscleJson> = {};
-  for (const [name, m] of state.muscles) muscles[name] = muscleJson(m);
+  // Own properties for every name, __proto__ included (an assignment would set the object's prototype).
+  const muscles: Record<string, MuscleJson> = Object.fromEntries([...state.muscles].map(([name, m]) => [name, muscleJson(m)]));
   const f = state.frames;
   return roundFigures<SummaryJson>({
     format: 'lengthwise-summary',

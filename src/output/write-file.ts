@@ -1,11 +1,12 @@
-import { mkdir, rename, writeFile } from 'node:fs/promises';
+import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { dirname } from 'node:path';
 
 export type WriteResult = { readonly ok: true; readonly path: string } | { readonly ok: false; readonly path: string; readonly message: string };
 
 /**
  * Writes a whole file atomically (a temporary file renamed over the target), so a reader never sees half
- * a summary. Creates missing folders. Failures come back as data with what to check.
+ * a summary. Creates missing folders. Failures come back as data with what to check, and leave no
+ * temporary file behind.
  */
 export async function writeFileAtomic(path: string, text: string): Promise<WriteResult> {
   const tmp = `${path}.${process.pid}.tmp`;
@@ -15,6 +16,7 @@ export async function writeFileAtomic(path: string, text: string): Promise<Write
     await rename(tmp, path);
     return { ok: true, path };
   } catch (error) {
+    await rm(tmp, { force: true }).catch(() => undefined);
     const code = (error as NodeJS.ErrnoException).code ?? 'unknown error';
     return { ok: false, path, message: `could not write ${path} (${code}); check that the folder exists and is writable, and that the disk has room` };
   }

@@ -293,9 +293,10 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             return;
           case 'rejection': {
             const counts = state.frames;
-            counts.received++;
-            counts.rejected++;
-            counts.rejectedByReason[f.reason] = (counts.rejectedByReason[f.reason] ?? 0) + 1;
+            const n = f.count ?? 1;
+            counts.received += n;
+            counts.rejected += n;
+            counts.rejectedByReason[f.reason] = (counts.rejectedByReason[f.reason] ?? 0) + n;
             return;
           }
           case 'event':
@@ -307,7 +308,8 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             return;
           case 'marker':
           case 'disconnection':
-            // A lost connection counts among the markers, as it did when it was one.
+          case 'clock_reset':
+            // A lost connection counts among the markers, as it did when it was one; a device's clock restart too.
             state.frames.received++;
             state.frames.markers++;
             return;
@@ -332,7 +334,11 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             return;
           case 'gap':
             if (f.muscle === null) for (const acc of accumulators.values()) acc.heldTS = Number.NaN;
-            else muscle(f.muscle).heldTS = Number.NaN;
+            else {
+              // A gap of a muscle never seen (a lost connection names what it carried) starts nothing.
+              const acc = accumulators.get(f.muscle);
+              if (acc !== undefined) acc.heldTS = Number.NaN;
+            }
             return;
           case 'notice':
             if (!state.warnings.includes(f.text)) state.warnings.push(f.text);

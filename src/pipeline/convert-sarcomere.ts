@@ -15,6 +15,7 @@ import { plateauMiddleUm } from '../model/geometry.ts';
 import { median } from '../model/stats.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
+import { MAX_HELD_FRAMES } from '../trial/settings.ts';
 
 export interface ConvertSarcomereOptions {
   /** A calibration given by the user (a file); it wins over the stream header's. */
@@ -26,9 +27,16 @@ export interface ConvertSarcomereOptions {
   readonly baselineS?: number;
   /** Quality below which a sample does not count towards the baseline median. @default 0.2 */
   readonly skipBelow?: number;
+  /** Most frames held at once; when more wait, every baseline window closes on what it holds. @default MAX_HELD_FRAMES */
+  readonly maxHeldFrames?: number;
 }
 
 export const DEFAULT_BASELINE_S = 3;
+
+/** A muscle's own entry of a calibration (never a property every object has, such as "constructor"). */
+function ownCalibration(spec: CalibrationSpec | undefined, muscle: string): MuscleCalibration | undefined {
+  return spec !== undefined && Object.hasOwn(spec.muscles, muscle) ? spec.muscles[muscle] : undefined;
+}
 
 interface Collecting {
   readonly startS: number;
@@ -39,12 +47,14 @@ interface Collecting {
  * Fascicle length → estimated sarcomere length through each muscle's sarcomeres in series. Says each
  * muscle's calibration once, as a CalibrationApplied frame ahead of its first converted sample. A muscle
  * with no calibration gets one from its baseline window, loudly (a Notice says so); while a window fills,
- * every frame is held back in order, never dropped.
+ * every frame is held back in order, never dropped. A window closes by the stream's time, or once
+ * maxHeldFrames frames wait; rejections are never held (they only need counting).
  */
 export function convertSarcomere(options: ConvertSarcomereOptions = {}): OperatorFunction<Batch, Batch> {
   const baselineS = options.baselineS ?? DEFAULT_BASELINE_S;
   const skipBelow = options.skipBelow ?? DEFAULT_SKIP_BELOW;
   const fileSpec = options.calibration;
+  const maxHeldFrames = options.maxHeldFrames ?? MAX_HELD_FRAMES;
 
   return holdingStage(() => {
     /** Sarcomeres in series (and the constant part of the tracked length, mm) of each muscle whose calibration is known. */
@@ -88,8 +98,8 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
 
     /** First sample of a muscle: take its calibration (file, then header) or start its baseline window. */
     const start = (s: Sample, out: Frame[]): void => {
-      const fromFile = fileSpec?.muscles[s.muscle];
-      const calibration = fromFile ?? headerSpec?.muscles[s.muscle];
+      const fromFile = ownCalibration(fileSpec, s.muscle);
+      const calibration = fromFile ?? ownCalibration(headerSpec, s.muscle);
       if (calibration === undefined) {
         collecting.set(s.muscle, { startS: s.tS, fascicleMm: [] });
         return;
@@ -116,6 +126,10 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
 
     /** The general path for one frame; `out` receives what can go now. */
     const step = (f: Frame, out: Frame[]): void => {
+      if (f.kind === 'rejection') {
+        out.push(f);
+        return;
+      }
       if (f.kind === 'header' && f.calibration !== undefined) headerSpec = f.calibration;
       if (f.kind === 'calibration' && f.source === 'runtime') {
         // Captured while running (e.g. from the dashboard): replaces the muscle's calibration from here on.
@@ -131,12 +145,19 @@ export function convertSarcomere(options: ConvertSarcomereOptions = {}): Operato
         for (const [muscle, w] of collecting) if (f.tS - w.startS >= baselineS) finishBaseline(muscle, w);
         if (window !== undefined || collecting.size > 0 || decided.length > 0) {
           held.push(f);
+          if (collecting.size > 0 && held.length >= maxHeldFrames) for (const [muscle, w] of [...collecting]) finishBaseline(muscle, w);
           if (collecting.size === 0) flushInto(out);
           return;
         }
       }
-      if (collecting.size > 0) held.push(f);
-      else {
+      if (collecting.size > 0) {
+        held.push(f);
+        if (held.length >= maxHeldFrames) {
+          // Too much waits: every window closes on what it holds.
+          for (const [muscle, w] of [...collecting]) finishBaseline(muscle, w);
+          flushInto(out);
+        }
+      } else {
         if (f.kind === 'sample') convert(f);
         out.push(f);
       }

@@ -2,6 +2,7 @@ import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
 import type { Batch, Frame, Sample, Side, StrideBoundary } from '../trial/records.ts';
 import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from '../model/stride-period.ts';
+import { MAX_HELD_FRAMES } from '../trial/settings.ts';
 
 export interface EstimateStridesOptions {
   /**
@@ -14,6 +15,8 @@ export interface EstimateStridesOptions {
   readonly minPeriodS?: number;
   /** Longest stride period looked for (s). @default 3 */
   readonly maxPeriodS?: number;
+  /** Most frames held at once; when more wait, every pending decision is taken from what is held. @default MAX_HELD_FRAMES */
+  readonly maxHeldFrames?: number;
 }
 
 export const DEFAULT_ESTIMATE_WINDOW_S = 10;
@@ -47,7 +50,10 @@ interface Detector {
 
 interface MuscleStrides {
   mode: Mode;
-  readonly firstS: number;
+  /** Start of the window: the muscle's first sample, or its first after a hole longer than the longest period. */
+  firstS: number;
+  /** Its latest sample's time while undecided. */
+  lastS: number;
   /** The window's smoothed lengths while undecided (bounded by the window). */
   windowTS: number[];
   windowMm: number[];
@@ -68,11 +74,17 @@ interface MuscleStrides {
  * all of them while a muscle's window fills, then from the oldest undecided sample of an estimated muscle
  * — about half a stride. A Notice says what was done. Order is kept and nothing is dropped, except foot
  * strike boundaries for a muscle whose strides are already estimated (a Notice says so).
+ *
+ * What is held is bounded by time and by count, never by the span a sample's time claims: a hole in a
+ * muscle's samples longer than the longest period looked for starts its window again after the hole
+ * (the stretch before it is not part of the same steady walk), and once maxHeldFrames frames wait, every
+ * pending decision is taken from what is held. Rejections are never held: they only need counting.
  */
 export function estimateStrides(options: EstimateStridesOptions = {}): OperatorFunction<Batch, Batch> {
   const windowS = options.windowS ?? DEFAULT_ESTIMATE_WINDOW_S;
   const minPeriodS = options.minPeriodS ?? DEFAULT_MIN_PERIOD_S;
   const maxPeriodS = options.maxPeriodS ?? DEFAULT_MAX_PERIOD_S;
+  const maxHeldFrames = options.maxHeldFrames ?? MAX_HELD_FRAMES;
 
   return holdingStage(() => {
     const muscles = new Map<string, MuscleStrides>();
@@ -82,6 +94,8 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
     /** Frames not yet released, in order, from `head`. */
     let held: Frame[] = [];
     let head = 0;
+    /** The newest sample time seen, any muscle. */
+    let latestS = Number.NEGATIVE_INFINITY;
 
     const notice = (muscle: string, text: string): void => {
       held.push({ kind: 'notice', muscle, text });
@@ -197,31 +211,49 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         if (m === own) continue;
         if (m.mode === 'undecided' && tS - m.firstS >= windowS) decide(name, m);
         else if (m.mode === 'estimated') {
-          const d = m.detector;
-          const c = d?.candidate ?? null;
-          if (d === null || c === null || tS - c.tS < 0.5 * d.periodS + SILENCE_S) continue;
-          if (d.peakBeforeMm - c.smoothMm >= d.depthMm) commit(name, m, d);
-          else {
-            d.candidate = null;
-            d.searchFromS = tS;
-            d.runningMaxMm = Number.NEGATIVE_INFINITY;
-          }
+          const c = m.detector?.candidate ?? null;
+          if (c !== null && tS - c.tS >= 0.5 * (m.detector as Detector).periodS + SILENCE_S) settle(name, m, tS);
         }
+      }
+    };
+
+    /** A pending candidate is taken as a boundary now if the signal came down to it deep enough, else dropped, searching again from tS. */
+    const settle = (name: string, m: MuscleStrides, tS: number): void => {
+      const d = m.detector;
+      const c = d?.candidate ?? null;
+      if (d === null || c === null) return;
+      if (d.peakBeforeMm - c.smoothMm >= d.depthMm) commit(name, m, d);
+      else {
+        d.candidate = null;
+        d.searchFromS = tS;
+        d.runningMaxMm = Number.NEGATIVE_INFINITY;
+      }
+    };
+
+    /** Too many frames wait: every muscle still filling its window is decided from it, every pending candidate settled. */
+    const decideNow = (): void => {
+      for (const [name, m] of muscles) {
+        if (m.mode === 'undecided') decide(name, m);
+        else if (m.mode === 'estimated') settle(name, m, latestS);
       }
     };
 
     const muscleOf = (name: string, tS: number): MuscleStrides => {
       let m = muscles.get(name);
       if (m === undefined) {
-        m = { mode: 'undecided', firstS: tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false };
+        m = { mode: 'undecided', firstS: tS, lastS: tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false };
         muscles.set(name, m);
         undecided++;
       }
       return m;
     };
 
-    /** Takes one frame in; it waits in `held` until release. */
-    const step = (f: Frame): void => {
+    /** Takes one frame in; it waits in `held` until release, or goes into `out` at once (a rejection). */
+    const step = (f: Frame, out: Frame[]): void => {
+      if (f.kind === 'rejection') {
+        out.push(f);
+        return;
+      }
       if (f.kind === 'header') {
         for (const [name, decl] of Object.entries(f.muscles)) if (decl.side !== undefined) declared.set(name, decl.side);
       } else if (f.kind === 'stride' && f.segmentation !== 'estimated') {
@@ -233,7 +265,7 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
           }
           return;
         }
-        if (m === undefined) muscles.set(f.muscle, { mode: 'events', firstS: f.tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false });
+        if (m === undefined) muscles.set(f.muscle, { mode: 'events', firstS: f.tS, lastS: f.tS, windowTS: [], windowMm: [], detector: null, index: -1, releasedIndex: -1, toldLateEvents: false });
         else if (m.mode === 'undecided' || m.mode === 'none') {
           if (m.mode === 'undecided') undecided--;
           m.mode = 'events';
@@ -242,9 +274,17 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         }
       } else if (f.kind === 'sample') {
         const m = muscleOf(f.muscle, f.tS);
+        if (f.tS > latestS) latestS = f.tS;
         if (undecided > 0 || estimated > 0) settleOthers(m, f.tS);
         held.push(f);
         if (m.mode === 'undecided') {
+          if (f.tS - m.lastS > maxPeriodS) {
+            // A hole longer than any period: the window starts again after it.
+            m.firstS = f.tS;
+            m.windowTS = [];
+            m.windowMm = [];
+          }
+          m.lastS = f.tS;
           if (Number.isFinite(f.smoothMm)) {
             m.windowTS.push(f.tS);
             m.windowMm.push(f.smoothMm);
@@ -284,6 +324,11 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
       }
     };
 
+    /** Past maxHeldFrames waiting frames, what is pending is decided now. */
+    const bound = (): void => {
+      if (held.length - head > maxHeldFrames) decideNow();
+    };
+
     const process = (batch: Batch): Batch => {
       // Fast path: nothing held, nothing estimated, every muscle decided.
       if (held.length === 0 && estimated === 0 && undecided === 0) {
@@ -296,15 +341,18 @@ export function estimateStrides(options: EstimateStridesOptions = {}): OperatorF
         }
         if (i === batch.length) return batch;
         const out = batch.slice(0, i);
-        for (; i < batch.length; i++) step(batch[i] as Frame);
+        for (; i < batch.length; i++) step(batch[i] as Frame, out);
+        bound();
         release(out);
         return out;
       }
-      for (const f of batch) step(f);
       const out: Frame[] = [];
+      for (const f of batch) step(f, out);
+      bound();
       release(out);
       return out;
     };
+
 
     return {
       process,

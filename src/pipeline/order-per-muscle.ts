@@ -1,10 +1,6 @@
 import type { OperatorFunction } from 'rxjs';
-import type { Batch, Sample } from '../trial/records.ts';
+import { sampleExcerpt, type Batch } from '../trial/records.ts';
 import { statefulStage } from './stateful-stage.ts';
-
-function excerptOf(s: Sample): string {
-  return JSON.stringify({ t: s.tS, muscle: s.muscle, fascicle_mm: s.fascicleMm }).slice(0, 200);
-}
 
 /**
  * Rejects a sample whose time is not after the previous accepted sample of the same muscle:
@@ -36,7 +32,7 @@ export function orderPerMuscle(): OperatorFunction<Batch, Batch> {
             ? `muscle "${f.muscle}" already has a sample at t=${f.tS} s; each muscle's samples need distinct, increasing times (a device resending a message after reconnecting does this)`
             : `muscle "${f.muscle}" at t=${f.tS} s is earlier than its previous sample at t=${previous} s; samples of one muscle must go forward in time (check the device clock, or that two devices do not share a muscle name)`,
           line: f.line,
-          excerpt: excerptOf(f),
+          excerpt: sampleExcerpt(f),
         };
       }
       return batch;

@@ -88,6 +88,7 @@ function frameTimeS(frame: Frame): number {
     case 'event':
     case 'marker':
     case 'disconnection':
+    case 'clock_reset':
       return frame.tS;
     default:
       return Number.NaN;

@@ -3,6 +3,7 @@ import type { OperatorFunction } from 'rxjs';
 import type { Batch, Side } from '../trial/records.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { TrialState } from '../trial/state.ts';
+import { limitMuscles } from './limit-muscles.ts';
 import { restoreGaps } from './restore-gaps.ts';
 import { orderPerMuscle } from './order-per-muscle.ts';
 import { markGaps } from './mark-gaps.ts';
@@ -41,14 +42,15 @@ export function pipeline(options: PipelineOptions): OperatorFunction<Batch, Tria
     records$
       .pipe(
         // Cleaning.
+        limitMuscles(),
         restoreGaps(),
         orderPerMuscle(),
         markGaps(gap),
         gateQuality(),
         smoothKalman(options.smoothing ?? {}),
-        estimateVelocity(),
       )
       .pipe(
+        estimateVelocity(),
         // The muscle model.
         convertSarcomere({
           ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),

@@ -11,15 +11,23 @@ export interface FinishOptions {
   readonly strides?: string | undefined;
   /** A self-contained HTML report with plots of the trial. */
   readonly report?: string | undefined;
+  /** Where the summary goes when its own path cannot be written (a live session cannot be run again); the status is 1 all the same. */
+  readonly summaryFallback?: string | undefined;
 }
 
 /** Writes the summary, stride table and report if asked; exit status 1 when a file could not be written. */
 export async function finishTrial(state: TrialState, options: FinishOptions, io: CommandIo): Promise<number> {
   let status = 0;
   if (options.summary !== undefined) {
-    const result = await writeFileAtomic(options.summary, `${JSON.stringify(summaryJson(state), null, 2)}\n`);
-    if (result.ok) io.err(`summary written to ${result.path}`);
-    else {
+    const text = `${JSON.stringify(summaryJson(state), null, 2)}\n`;
+    let result = await writeFileAtomic(options.summary, text);
+    if (!result.ok && options.summaryFallback !== undefined) {
+      io.err(`lengthwise: ${result.message}`);
+      status = 1;
+      result = await writeFileAtomic(options.summaryFallback, text);
+      if (result.ok) io.err(`summary written to ${result.path} instead`);
+    } else if (result.ok) io.err(`summary written to ${result.path}`);
+    if (!result.ok) {
       io.err(`lengthwise: ${result.message}`);
       status = 1;
     }

@@ -1,16 +1,23 @@
 /** A short memory of each muscle's raw fascicle lengths, for capturing a calibration at the current posture. */
 import type { Batch } from '../trial/records.ts';
+import { MuscleRoster } from '../trial/muscle-roster.ts';
 
-/** Per muscle, the newest samples (time and fascicle length) in a fixed ring: bounded memory at any rate. */
+/**
+ * Per muscle, the newest samples (time and fascicle length) in a fixed ring: bounded memory at any rate.
+ * It reads the input before the pipeline, so it takes the trial's muscles by the pipeline's own rule
+ * (a MuscleRoster): no ring for a muscle the trial does not take.
+ */
 export class RecentFascicles {
   private readonly rings = new Map<string, { tS: Float64Array; mm: Float64Array; next: number; size: number }>();
+  private readonly roster = new MuscleRoster();
 
   /** @param capacity samples kept per muscle; 4096 holds 3 s even at 1 kHz. */
   constructor(private readonly capacity = 4096) {}
 
   record(batch: Batch): void {
     for (const f of batch) {
-      if (f.kind !== 'sample' || f.quality < 0.5) continue;
+      if (f.kind === 'header') this.roster.admitAll(Object.keys(f.muscles));
+      if (f.kind !== 'sample' || !this.roster.admit(f.muscle) || f.quality < 0.5) continue;
       let ring = this.rings.get(f.muscle);
       if (ring === undefined) {
         ring = { tS: new Float64Array(this.capacity), mm: new Float64Array(this.capacity), next: 0, size: 0 };

@@ -1,22 +1,27 @@
 /**
- * The session log's format (lengthwise-session-log, one line per frame received, in received order).
+ * The session log's format (lengthwise-session-log, one line per record received, in received order).
  *
  * The log is itself a lengthwise-stream NDJSON file, so `lengthwise replay` reads it:
  * - a valid record is written as the record, with one extra key `"rx"` (receive time, Unix seconds),
  *   which the record parser ignores;
- * - a rejected record is written as a line of our own shape, `{"rejected": REASON, "rx", "message",
- *   "excerpt", …}`, built so that the parser rejects it again for the same reason (the reason-specific
- *   tail below does that), so a replay counts the same rejections;
+ * - rejected records are summed up, one line per reason for what was received within a flush of the
+ *   log: `{"rejected": REASON, "count": N, "rx", "message", "excerpt"}` (the first one's message and
+ *   excerpt), which the reader counts as N rejections for that reason, so a replay counts the same
+ *   rejections and the log grows with what was received, never with how many ways it was wrong;
+ * - a device whose clock restarted (a ClockReset record) is a line of its own kind, `{"t", "clock_reset":
+ *   {"offset_s", "muscles": [NAME, …] | null, "detail"}, "rx"}`, and that device's records after it are
+ *   written with their times shifted by the offset, as the session took them;
  * - a lost connection (a Disconnection record) is a line of its own kind, `{"t", "disconnected":
  *   {"muscles": [NAME, …] | null, "detail"}, "rx"}` (`t` left out when the connection carried no time);
  *   logs written before this line existed carry a `[link] disconnected` marker instead, which the
  *   reader still takes for the same record.
- * Samples rejected later by the pipeline (time going backwards, duplicates) are written as received,
- * so the replay's pipeline rejects them again. Every line is a JSON object, so a line cut short by a
- * crash is never valid: at worst it is one not_json rejection.
+ * Samples rejected later by the pipeline (time going backwards, duplicates, too many muscles) are
+ * written as received, so the replay's pipeline rejects them again. Every line is a JSON object, so a
+ * line cut short by a crash is never valid: at worst it is one not_json rejection. Logs written before
+ * rejections were summed up have one line per rejection, built so that the reader rejects it again for
+ * the same reason; they replay as they always did.
  */
 import type { Frame, Header, Rejection } from '../trial/records.ts';
-import type { RejectReason } from '../trial/reasons.ts';
 import { headerJsonOf } from '../../adapters/device-mapping.ts';
 import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
 
@@ -25,34 +30,12 @@ export function rxText(rxMs: number): string {
   return (rxMs / 1000).toFixed(3);
 }
 
-/** The nesting that makes the parser say too_deep (deeper than its 8 levels). */
-const TOO_DEEP_TAIL = ',"nesting":[[[[[[[[[[]]]]]]]]]]';
+/** Longest line the log writes: the file reader's cap, so every line of the log replays. */
+export const MAX_LOG_LINE_BYTES = DEFAULT_MAX_LINE_BYTES;
 
-/** What each reason's line adds so that the record parser gives that reason again. */
-const REASON_TAIL: Readonly<Record<RejectReason, string>> = {
-  // A trailing comma: not JSON, and no prefix of the line is JSON either.
-  not_json: ',',
-  // An object of no record kind.
-  schema: '',
-  // A sample whose fascicle length is 0.
-  out_of_range: ',"t":0,"muscle":"(rejected)","fascicle_mm":0',
-  unknown_event: ',"t":0,"event":"(rejected)","side":"left"',
-  unsafe_key: ',"__proto__":null',
-  too_deep: TOO_DEEP_TAIL,
-  // Only made by the pipeline, never by an adapter: written as schema, should one ever reach the log.
-  time_not_increasing: '',
-  duplicate: '',
-  // Padded past the reader's line cap (below).
-  line_too_long: '',
-};
-
-function rejectionLine(r: Rejection, rx: string): string {
-  const head = `{"rejected":${JSON.stringify(r.reason)},"rx":${rx},"message":${JSON.stringify(r.message)},"excerpt":${JSON.stringify(r.excerpt)}`;
-  if (r.reason !== 'line_too_long') return `${head}${REASON_TAIL[r.reason]}}`;
-  const open = `${head},"padding":"`;
-  const close = '"}';
-  const used = Buffer.byteLength(open) + close.length;
-  return `${open}${' '.repeat(Math.max(0, DEFAULT_MAX_LINE_BYTES + 1 - used))}${close}`;
+/** The line that stands for `count` rejections of r's reason, with r's message and excerpt. */
+export function rejectionLine(r: Rejection, count: number, rxMs: number): string {
+  return `{"rejected":${JSON.stringify(r.reason)},"count":${count},"rx":${rxText(rxMs)},"message":${JSON.stringify(r.message)},"excerpt":${JSON.stringify(r.excerpt)}}`;
 }
 
 function headerLine(h: Header, rx: string): string {
@@ -75,7 +58,8 @@ function num(x: number): string {
 
 /**
  * One frame → its line of the session log (no line ending), or null for frames the pipeline derives
- * (gaps, notices, …), which a replay derives again.
+ * (gaps, notices, …), which a replay derives again. A rejection is its own line here; the session log
+ * sums rejections up by reason (see writeSessionLog).
  */
 export function logLine(f: Frame, rxMs: number): string | null {
   const rx = rxText(rxMs);
@@ -90,6 +74,8 @@ export function logLine(f: Frame, rxMs: number): string | null {
       return `{"t":${num(f.tS)},"event":"${f.event}","side":"${f.side}","rx":${rx}}`;
     case 'marker':
       return `{"t":${num(f.tS)},"marker":${JSON.stringify(f.marker)},"rx":${rx}}`;
+    case 'clock_reset':
+      return `{"t":${num(f.tS)},"clock_reset":{"offset_s":${num(f.offsetS)},"muscles":${JSON.stringify(f.muscles)},"detail":${JSON.stringify(f.detail)}},"rx":${rx}}`;
     case 'disconnection': {
       const t = Number.isNaN(f.tS) ? '' : `"t":${num(f.tS)},`;
       return `{${t}"disconnected":{"muscles":${JSON.stringify(f.muscles)},"detail":${JSON.stringify(f.detail)}},"rx":${rx}}`;
@@ -97,7 +83,7 @@ export function logLine(f: Frame, rxMs: number): string | null {
     case 'header':
       return headerLine(f, rx);
     case 'rejection':
-      return rejectionLine(f, rx);
+      return rejectionLine(f, f.count ?? 1, rxMs);
     default:
       return null;
   }

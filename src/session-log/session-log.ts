@@ -20,6 +20,11 @@ export interface SessionLogOptions {
   readonly maxQueuedBytes?: number;
   /** Refuse a file that exists already (a new session never appends to an old log). @default true */
   readonly exclusive?: boolean;
+  /**
+   * When the file exists already, take the first free name of `NAME-2.ndjson`, `NAME-3.ndjson`, … instead
+   * (for default names, so two sessions started in the same second never share one). @default false
+   */
+  readonly nextFreeName?: boolean;
   /** Said once, when the log stops being complete. */
   readonly onProblem?: (message: string) => void;
 }
@@ -36,13 +41,22 @@ export interface SessionLog {
   readonly linesLost: number;
   /** Queues one line (without its line ending). */
   append(line: string): void;
+  /**
+   * Adds `count` to a tally kept until the next write, which then writes one line for it: `line(total)`,
+   * as given by the first call with this key since the last write. Many like things received within a
+   * write (rejections of one reason) are one line.
+   */
+  tally(key: string, count: number, line: (total: number) => string): void;
   /** Writes the queued lines now. */
   flush(): void;
   /** Flushes, syncs and closes the file; idempotent. */
   close(): void;
 }
 
-/** The default log path: sessions/<UTC date-time>.ndjson under `dir`. */
+/** Names tried after the given one when it is taken (nextFreeName). */
+const MAX_NAME_TRIES = 1000;
+
+/** The default log path: sessions/<UTC date-time>.ndjson under `dir` (with nextFreeName, -2, -3, … when taken). */
 export function defaultLogPath(dir: string, nowMs: number): string {
   const stamp = new Date(nowMs).toISOString().slice(0, 19).replace(/:/g, '-');
   return join(dir, 'sessions', `${stamp}Z.ndjson`);
@@ -76,12 +90,13 @@ class FileSessionLog implements SessionLog {
   private fd: number | null = null;
   private queue: string[] = [];
   private queuedBytes = 0;
+  private tallies = new Map<string, { total: number; readonly line: (total: number) => string }>();
   private goodBytes = 0;
   private timer: Subscription | null = null;
   private closed = false;
 
   constructor(
-    readonly path: string,
+    public path: string,
     private readonly options: SessionLogOptions,
   ) {
     try {
@@ -92,11 +107,19 @@ class FileSessionLog implements SessionLog {
       this.fail(code === 'EEXIST' ? { code: 'ENOTDIR' } : error, 'could not be opened');
       return;
     }
-    try {
-      this.fd = openSync(path, options.exclusive === false ? 'a' : 'wx');
-    } catch (error) {
-      this.fail(error, 'could not be opened');
-      return;
+    const exclusive = options.exclusive !== false;
+    for (let n = 1; ; n++) {
+      try {
+        this.fd = openSync(this.path, exclusive ? 'wx' : 'a');
+        break;
+      } catch (error) {
+        if (exclusive && options.nextFreeName === true && (error as NodeJS.ErrnoException).code === 'EEXIST' && n < MAX_NAME_TRIES) {
+          this.path = `${path.replace(/\.ndjson$/, '')}-${n + 1}.ndjson`;
+          continue;
+        }
+        this.fail(error, 'could not be opened');
+        return;
+      }
     }
     this.timer = interval(options.flushMs ?? 1000, options.scheduler ?? asyncScheduler).subscribe(() => this.flush());
   }
@@ -104,9 +127,10 @@ class FileSessionLog implements SessionLog {
   private fail(error: unknown, what: string): void {
     const code = (error as NodeJS.ErrnoException).code ?? 'EUNKNOWN';
     this.complete = false;
-    this.linesLost += this.queue.length;
+    this.linesLost += this.queue.length + this.tallies.size;
     this.queue = [];
     this.queuedBytes = 0;
+    this.tallies.clear();
     this.problem =
       `session log ${this.path} ${what} (${code}: ${hint(code)}); ingestion goes on without it, ` +
       `the log holds ${this.linesWritten} lines and is INCOMPLETE`;
@@ -140,8 +164,23 @@ class FileSessionLog implements SessionLog {
     if (this.queuedBytes >= (this.options.maxQueuedBytes ?? 256 * 1024)) this.flush();
   }
 
+  tally(key: string, count: number, line: (total: number) => string): void {
+    if (this.fd === null) {
+      this.linesLost++;
+      return;
+    }
+    const entry = this.tallies.get(key);
+    if (entry === undefined) this.tallies.set(key, { total: count, line });
+    else entry.total += count;
+  }
+
   flush(): void {
-    if (this.fd === null || this.queue.length === 0) return;
+    if (this.fd === null) return;
+    if (this.tallies.size > 0) {
+      for (const entry of this.tallies.values()) this.queue.push(entry.line(entry.total));
+      this.tallies.clear();
+    }
+    if (this.queue.length === 0) return;
     const lines = this.queue;
     const buffer = Buffer.from(`${lines.join('\n')}\n`, 'utf8');
     this.queue = [];

@@ -6,6 +6,7 @@
 import { REJECT_REASONS, type RejectReason } from '../trial/reasons.ts';
 import type { WireSample } from './wire.ts';
 import { formatNumber } from './format-number.ts';
+import { MAX_MUSCLES_PER_TRIAL } from '../trial/settings.ts';
 
 export interface BadLineContext {
   /** Time to write into the line (s): between two sample ticks, so order checks never fire first. */
@@ -22,8 +23,8 @@ export interface BadLineContext {
 /** Reasons that need a previous sample of the muscle to copy. */
 export const ORDER_REASONS: readonly RejectReason[] = ['time_not_increasing', 'duplicate'];
 
-/** Reasons a CSV row can carry; unsafe keys and deep nesting have no CSV form. */
-export const CSV_BAD_LINE_REASONS: readonly RejectReason[] = REJECT_REASONS.filter((r) => r !== 'unsafe_key' && r !== 'too_deep');
+/** Reasons a CSV row can carry; unsafe keys, deep nesting and a header declaring muscles have no CSV form. */
+export const CSV_BAD_LINE_REASONS: readonly RejectReason[] = REJECT_REASONS.filter((r) => r !== 'unsafe_key' && r !== 'too_deep' && r !== 'too_many_muscles');
 
 function sampleJson(s: WireSample): string {
   return JSON.stringify(s);
@@ -62,6 +63,11 @@ export function badLineNdjson(reason: RejectReason, ctx: BadLineContext): string
       return `{"t":${t},"muscle":${m},"__proto__":{"fascicle_mm":45}}`;
     case 'too_deep':
       return `{"t":${t},"nested":${'['.repeat(200)}${']'.repeat(200)}}`;
+    case 'too_many_muscles': {
+      // A resent header that declares one muscle more than a trial takes.
+      const declared = Array.from({ length: MAX_MUSCLES_PER_TRIAL + 1 }, (_, i) => `${JSON.stringify(`${ctx.muscle}-extra-${i + 1}`)}:{}`);
+      return `{"format":"lengthwise-stream","version":1,"muscles":{${declared.join(',')}}}`;
+    }
   }
 }
 
@@ -90,6 +96,7 @@ export function badLineCsv(reason: RejectReason, ctx: BadLineContext): string | 
       return `${t},,,,,heel_off,left`;
     case 'unsafe_key':
     case 'too_deep':
+    case 'too_many_muscles':
       return null;
   }
 }

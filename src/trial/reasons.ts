@@ -9,6 +9,7 @@ export const REJECT_REASONS = [
   'unknown_event',
   'unsafe_key',
   'too_deep',
+  'too_many_muscles',
 ] as const;
 
 export type RejectReason = (typeof REJECT_REASONS)[number];
@@ -24,4 +25,5 @@ export const REASON_TEXT: Readonly<Record<RejectReason, string>> = {
   unknown_event: 'a gait event other than foot_strike or toe_off',
   unsafe_key: 'a key such as __proto__ or constructor that could alter objects',
   too_deep: 'nesting deeper than any record of the format needs',
+  too_many_muscles: 'a sample of a muscle beyond the most one trial (or one live device) may carry, or a header declaring more',
 };

@@ -85,6 +85,26 @@ export interface Disconnection {
   readonly line: number;
 }
 
+/**
+ * A live device whose clock restarted: its connection began with a header and then went back in time.
+ * From this record on, that device's times are its own plus `offsetS`, which continues the session's
+ * timeline, and there is a gap. The live adapters say it; the session log keeps it (with the times
+ * already shifted), so every replay of the log restarts filters at the same place; `restoreGaps` turns
+ * it into Gaps and says it once as a Notice.
+ */
+export interface ClockReset {
+  readonly kind: 'clock_reset';
+  /** Session time of the device's first record after the restart. */
+  readonly tS: number;
+  /** Added to the device's own times from here on, seconds. */
+  readonly offsetS: number;
+  /** The muscles the device carries; null: every muscle (the one peer). */
+  readonly muscles: readonly string[] | null;
+  /** What was seen, one line. */
+  readonly detail: string;
+  readonly line: number;
+}
+
 export interface MuscleDeclaration {
   readonly side?: Side;
 }
@@ -110,6 +130,8 @@ export interface Rejection {
   readonly excerpt: string;
   /** The column or key at fault, as the input names it, when one is. */
   readonly field?: string;
+  /** How many rejected records it stands for (a session log's line for one reason); absent: one. */
+  readonly count?: number;
 }
 
 /**
@@ -159,7 +181,7 @@ export interface Notice {
 }
 
 /** Records that come from the input, one per line or message element. */
-export type InputFrame = Sample | GaitEvent | Marker | Disconnection | Header | Rejection;
+export type InputFrame = Sample | GaitEvent | Marker | Disconnection | ClockReset | Header | Rejection;
 /** Records the pipeline adds on the way. */
 export type DerivedFrame = Gap | CalibrationApplied | StrideBoundary | Notice;
 export type Frame = InputFrame | DerivedFrame;
@@ -194,4 +216,9 @@ export function makeSample(
     forceTendon: Number.NaN,
     strideIndex: -1,
   };
+}
+
+/** A sample as a rejection's excerpt shows it: its time, muscle and fascicle length, at most 200 characters. */
+export function sampleExcerpt(s: Sample): string {
+  return JSON.stringify({ t: s.tS, muscle: s.muscle, fascicle_mm: s.fascicleMm }).slice(0, 200);
 }

@@ -122,6 +122,14 @@ describe('parseCalibration: valid calibrations', () => {
     const r = parseCalibration({ muscles: { toString: { method: 'sarcomere_count', sarcomeres_in_series: 20000 } } });
     expect(r.ok && Object.keys(r.spec.muscles)).toEqual(['toString']);
   });
+
+  it('keeps a muscle named __proto__ as data, as a file read with JSON.parse gives it, and checks it like any other', () => {
+    const r = parseCalibration(JSON.parse('{"muscles": {"__proto__": {"method": "sarcomere_count", "sarcomeres_in_series": 20000}, "calf": {"method": "sarcomere_count", "sarcomeres_in_series": 17500}}}'));
+    expect(r.ok && Object.keys(r.spec.muscles)).toEqual(['__proto__', 'calf']);
+    expect(r.ok && r.spec.muscles['__proto__']).toMatchObject({ method: 'sarcomere_count', sarcomeresInSeries: 20000 });
+    const bad = problemsOf(JSON.parse('{"muscles": {"__proto__": {"method": "sarcomere_count", "sarcomeres_in_series": -3}}}'));
+    expect(bad.join('\n')).toMatch(/muscles\.__proto__\.sarcomeres_in_series: too small/);
+  });
 });
 
 describe('parseCalibration: bad input', () => {

@@ -202,7 +202,7 @@ describe('lengthwise live --listen', () => {
     expect(await readFile(join(dir, 'live.html'), 'utf8')).toContain('<svg');
   });
 
-  it('says loudly when the log cannot be written, goes on, and the summary says the log is incomplete', async () => {
+  it('says loudly when the log cannot be written, goes on, and the summary and the exit status say the log is incomplete', async () => {
     const dir = await tmp();
     await writeFile(join(dir, 'a-file'), '');
     const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--log', join(dir, 'a-file', 'log.ndjson'), '--plain', '--summary', join(dir, 's.json'), '--duration', '2.5']);
@@ -210,7 +210,7 @@ describe('lengthwise live --listen', () => {
     const ws = await wsClient(`ws://127.0.0.1:${port}`);
     stops.push(() => ws.terminate());
     await sendAll(ws, sampleTexts(10));
-    expect((await c.exited).code).toBe(0);
+    expect((await c.exited).code).toBe(1);
     expect(c.stderr).toMatch(/session log .* could not be opened \(ENOTDIR/);
     const summary = await json(join(dir, 's.json'));
     expect(summary.frames).toMatchObject({ accepted: 10 });

@@ -125,3 +125,33 @@ describe('convertSarcomere with a muscle that falls silent', () => {
     input.complete();
   });
 });
+
+describe('convertSarcomere bounded by count', () => {
+  it('never holds a rejection: a stuck clock’s duplicates pass at once while a baseline window fills', () => {
+    const subject = new Subject<Batch>();
+    const passed: Frame[] = [];
+    subject.pipe(convertSarcomere()).subscribe((b) => passed.push(...b));
+    subject.next([smoothed(0, 'calf', 54)]);
+    for (let i = 0; i < 1000; i++) subject.next([{ kind: 'rejection', reason: 'duplicate', message: 'same time', line: i + 2, excerpt: '' }]);
+    expect(passed.filter((f) => f.kind === 'rejection')).toHaveLength(1000);
+    expect(passed.filter((f) => f.kind === 'sample')).toHaveLength(0);
+    subject.complete();
+    expect(passed.filter((f) => f.kind === 'sample')).toHaveLength(1);
+  });
+
+  it.each([
+    ['samples whose clock crawls', (i: number): Frame => smoothed(i * 1e-7, 'calf', 54)],
+    ['markers at one time', (i: number): Frame => ({ kind: 'marker', tS: 0, marker: `m${i}`, line: i })],
+  ])('holds at most maxHeldFrames of %s: past it, the baseline is taken from what the window holds', (_, frame) => {
+    const subject = new Subject<Batch>();
+    let released = 0;
+    subject.pipe(convertSarcomere({ maxHeldFrames: 300 })).subscribe((b) => (released += b.filter((f) => f.kind !== 'calibration' && f.kind !== 'notice').length));
+    subject.next([smoothed(0, 'calf', 54)]);
+    for (let i = 1; i < 2000; i++) {
+      subject.next([frame(i)]);
+      expect(i + 1 - released).toBeLessThanOrEqual(301);
+    }
+    subject.complete();
+    expect(released).toBe(2000);
+  });
+});

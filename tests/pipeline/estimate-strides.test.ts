@@ -291,3 +291,54 @@ describe('estimateStrides when a muscle falls silent', () => {
     expect(released).toBe(sent);
   });
 });
+
+describe('estimateStrides bounded by count and time, never by the time a sample claims', () => {
+  it('starts a window again after a hole longer than the longest period: the samples before wait, the walk after it gives the period', async () => {
+    const before = wave(1.0, 0.2, 0.5);
+    const after = wave(1.0, 0.2, 12).map((s) => smoothed(s.tS + 1e8, s.smoothMm));
+    const out = await runFrames(estimateStrides({ windowS: 6 }), [before, after]);
+    expect(out.filter((f) => f.kind === 'sample')).toHaveLength(before.length + after.length);
+    const found = boundaries(out);
+    expect(found.length).toBeGreaterThanOrEqual(5);
+    expect(found.every((b) => b.tS > 1e8)).toBe(true);
+    for (const s of out) if (s.kind === 'sample' && s.tS < 1e8) expect(s.strideIndex).toBe(-1);
+  });
+
+  it('never holds a rejection: a stuck clock’s duplicates pass at once while the window fills', () => {
+    const subject = new Subject<Batch>();
+    const passed: Frame[] = [];
+    subject.pipe(estimateStrides({ windowS: 4 })).subscribe((b) => passed.push(...b));
+    subject.next([smoothed(0, 50)]);
+    for (let i = 0; i < 1000; i++) {
+      subject.next([{ kind: 'rejection', reason: 'duplicate', message: 'same time', line: i + 2, excerpt: '' }]);
+    }
+    expect(passed.filter((f) => f.kind === 'rejection')).toHaveLength(1000);
+    expect(passed.filter((f) => f.kind === 'sample')).toHaveLength(0);
+    subject.complete();
+    expect(passed.filter((f) => f.kind === 'sample')).toHaveLength(1);
+  });
+
+  it('holds at most maxHeldFrames: past it, the window is decided from what it holds and the frames go', () => {
+    const subject = new Subject<Batch>();
+    let released = 0;
+    subject.pipe(estimateStrides({ windowS: 1000, maxHeldFrames: 500 })).subscribe((b) => (released += b.length));
+    // A clock that crawls: 2000 samples in a millisecond never fill a 1000 s window.
+    for (let i = 0; i < 2000; i++) {
+      subject.next([smoothed(i * 5e-7, 50 + (i % 3))]);
+      expect(i + 1 - released).toBeLessThanOrEqual(502);
+    }
+    subject.complete();
+  });
+});
+
+describe('dominantPeriod bounded by count', () => {
+  it('resamples at most maxGridPoints points, however far apart the times claim to be', () => {
+    const samples = wave(1.23, 0.3, 20);
+    const tS = samples.map((s) => s.tS);
+    tS.push(1e300);
+    const mm = samples.map((s) => s.smoothMm);
+    mm.push(50);
+    const p = dominantPeriod(tS, mm, tS.length, { maxGridPoints: 2000 });
+    expect(p?.periodS).toBeCloseTo(1.23, 1);
+  });
+});

@@ -28,6 +28,14 @@ describe('restoreGaps', () => {
     ]);
   });
 
+  it('puts the gaps of a device whose clock restarted after its record, and says it once as a notice', async () => {
+    const reset: Frame = { kind: 'clock_reset', tS: 12, offsetS: 12, muscles: ['calf'], detail: 'the device of "calf" began a connection with a header and t=0 s, after t=10 s', line: 4 };
+    const out = await runFrames(restoreGaps(), [[reset]]);
+    expect(out.slice(0, 2)).toEqual([reset, { kind: 'gap', cause: 'disconnected', muscle: 'calf', fromS: Number.NaN, toS: 12 }]);
+    expect(out[2]).toMatchObject({ kind: 'notice', muscle: null, text: expect.stringMatching(/clock restarted .*from t=12 s go on the session's timeline shifted by 12 s/) });
+    expect(out).toHaveLength(3);
+  });
+
   it('reads nothing into a marker, whatever its text', async () => {
     const marker: Frame = { kind: 'marker', tS: 1, marker: '[link] disconnected: code 1006', line: 1 };
     expect(await runFrames(restoreGaps(), [[marker]])).toEqual([marker]);

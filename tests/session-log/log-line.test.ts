@@ -8,9 +8,8 @@ import { parseNdjsonLine } from '../../adapters/ndjson.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { decodeMessage } from '../../adapters/device-mapping.ts';
 import { makeRejection } from '../../adapters/parse-record.ts';
-import { DEFAULT_MAX_LINE_BYTES } from '../../adapters/read-lines.ts';
 import { disconnection } from '../../adapters/websocket-client.ts';
-import { logLine, rxText } from '../../src/session-log/log-line.ts';
+import { logLine, rejectionLine, rxText } from '../../src/session-log/log-line.ts';
 import { makeSample, type Frame } from '../../src/trial/records.ts';
 import { REJECT_REASONS, type RejectReason } from '../../src/trial/reasons.ts';
 
@@ -21,9 +20,6 @@ function line(f: Frame): string {
   if (text === null) throw new Error(`no line for a ${f.kind}`);
   return text;
 }
-
-/** Reasons an adapter can give (the other two come from the pipeline's ordering stage). */
-const ADAPTER_REASONS = REJECT_REASONS.filter((r) => r !== 'time_not_increasing' && r !== 'duplicate');
 
 describe('logLine: valid records', () => {
   it('writes a sample as our record with its receive time, which the parser reads back as the same sample', () => {
@@ -77,6 +73,13 @@ describe('logLine: valid records', () => {
     expect(parseNdjsonLine(line(device), 4)).toEqual(device);
   });
 
+  it('writes a device clock restart as a line of its own kind, which reads back as the same record', () => {
+    const reset: Frame = { kind: 'clock_reset', tS: 12.5, offsetS: 12.49, muscles: ['calf'], detail: 'the device of "calf" began a connection with a header and t=0.01 s, after t=10 s', line: 6 };
+    expect(JSON.parse(line(reset))).toEqual({ t: 12.5, clock_reset: { offset_s: 12.49, muscles: ['calf'], detail: reset.kind === 'clock_reset' ? reset.detail : '' }, rx: 1_764_000_000.123 });
+    expect(parseNdjsonLine(line(reset), 6)).toEqual(reset);
+    expect(parseNdjsonLine('{"t":1,"clock_reset":{"offset_s":"x","muscles":null,"detail":""}}', 1)).toMatchObject({ reason: 'schema', message: expect.stringContaining('clock reset clock_reset.offset_s') });
+  });
+
   it('leaves out the time of a connection that carried none, and the reader gives it back as none', () => {
     const early = disconnection(null, Number.NaN, 'code 1006', 2);
     expect(JSON.parse(line(early))).not.toHaveProperty('t');
@@ -99,32 +102,61 @@ describe('logLine: valid records', () => {
 });
 
 describe('logLine: rejections', () => {
-  it.each(ADAPTER_REASONS.filter((r) => r !== 'line_too_long'))('writes a %s rejection as a line the parser rejects for the same reason', (reason) => {
+  it.each(REJECT_REASONS)('writes %s rejections as one line with their count, which the reader counts as that many of that reason', (reason) => {
     const r = makeRejection(reason, `what failed for ${reason}`, 4, '{"t": 1, "excerpt": "of the input"}');
-    const back = parseNdjsonLine(line(r), 4);
-    expect(back).toMatchObject({ kind: 'rejection', reason });
-    expect(JSON.parse(line(r).replace(/,}$/, '}'))).toMatchObject({ rejected: reason, rx: 1_764_000_000.123, message: r.message, excerpt: r.excerpt });
+    const text = rejectionLine(r, 1234, RX_MS);
+    expect(JSON.parse(text)).toEqual({ rejected: reason, count: 1234, rx: 1_764_000_000.123, message: r.message, excerpt: r.excerpt });
+    expect(parseNdjsonLine(text, 4)).toEqual({ ...r, count: 1234 });
+    expect(parseNdjsonLine(line(r), 4)).toEqual(r);
   });
 
-  it('writes a line_too_long rejection past the file reader\'s cap, so a replay of the file says line_too_long', async () => {
+  it('writes a line_too_long rejection as a short line, not padded, that a replay of the file counts as line_too_long', async () => {
     const r = makeRejection('line_too_long', 'message is over the cap', 1, 'xxxx');
-    const text = line(r);
-    expect(Buffer.byteLength(text)).toBe(DEFAULT_MAX_LINE_BYTES + 1);
+    const text = rejectionLine(r, 3, RX_MS);
+    expect(Buffer.byteLength(text)).toBeLessThan(200);
     const dir = await mkdtemp(join(tmpdir(), 'lengthwise-logline-'));
     const path = join(dir, 'log.ndjson');
     await writeFile(path, `${text}\n${line(makeSample(1, 'calf', 50, Number.NaN, 1, 2))}\n`);
     const frames = (await lastValueFrom(fileSource(path).pipe(toArray()))).flat();
-    expect(frames.map((f) => (f.kind === 'rejection' ? f.reason : f.kind))).toEqual(['line_too_long', 'sample']);
+    expect(frames.map((f) => (f.kind === 'rejection' ? `${f.reason} ${f.count}` : f.kind))).toEqual(['line_too_long 3', 'sample']);
   });
 
-  it('gives each reason again whatever the message and excerpt hold (fuzzed)', () => {
+  it('gives each reason and count again whatever the message and excerpt hold (fuzzed)', () => {
     fc.assert(
-      fc.property(fc.constantFrom<RejectReason>(...ADAPTER_REASONS.filter((r) => r !== 'line_too_long')), fc.string(), fc.string({ unit: 'binary' }), (reason, message, excerpt) => {
-        const back = parseNdjsonLine(line(makeRejection(reason, message, 1, excerpt)), 1);
+      fc.property(fc.constantFrom<RejectReason>(...REJECT_REASONS), fc.integer({ min: 1, max: 1e9 }), fc.string(), fc.string({ unit: 'binary' }), (reason, count, message, excerpt) => {
+        const back = parseNdjsonLine(rejectionLine(makeRejection(reason, message, 1, excerpt), count, RX_MS), 1);
         expect(back).toMatchObject({ kind: 'rejection', reason });
+        expect(back.kind === 'rejection' && (back.count ?? 1)).toBe(count);
       }),
       { numRuns: 300 },
     );
+  });
+
+  it('refuses a rejection record with an unknown reason or a count that is not a whole number from 1, saying what is accepted', () => {
+    expect(parseNdjsonLine('{"rejected":"bored","count":2}', 1)).toMatchObject({ reason: 'schema', message: expect.stringContaining('must be a reason code: not_json, schema') });
+    for (const count of ['0', '1.5', '"3"', '1e12']) {
+      expect(parseNdjsonLine(`{"rejected":"schema","count":${count}}`, 1)).toMatchObject({ reason: 'schema', message: expect.stringContaining('count') });
+    }
+  });
+
+  it('reads the one-line-per-rejection lines of logs written before rejections were summed up as the same reasons', () => {
+    const old: [string, RejectReason][] = [
+      ['{"rejected":"schema","rx":1764000000.123,"message":"m","excerpt":"e"}', 'schema'],
+      ['{"rejected":"out_of_range","rx":1764000000.123,"message":"m","excerpt":"e","t":0,"muscle":"(rejected)","fascicle_mm":0}', 'out_of_range'],
+      ['{"rejected":"unknown_event","rx":1764000000.123,"message":"m","excerpt":"e","t":0,"event":"(rejected)","side":"left"}', 'unknown_event'],
+      ['{"rejected":"unsafe_key","rx":1764000000.123,"message":"m","excerpt":"e","__proto__":null}', 'unsafe_key'],
+      ['{"rejected":"too_deep","rx":1764000000.123,"message":"m","excerpt":"e","nesting":[[[[[[[[[[]]]]]]]]]]}', 'too_deep'],
+      ['{"rejected":"not_json","rx":1764000000.123,"message":"m","excerpt":"e",}', 'not_json'],
+    ];
+    for (const [text, reason] of old) {
+      const back = parseNdjsonLine(text, 1);
+      expect(back).toMatchObject({ kind: 'rejection', reason });
+      expect(back.kind === 'rejection' && back.count).toBeFalsy();
+    }
+  });
+
+  it('keeps a sample that carries an extra field named "rejected" a sample', () => {
+    expect(parseNdjsonLine('{"t":1,"muscle":"calf","fascicle_mm":50,"rejected":"schema"}', 1)).toMatchObject({ kind: 'sample', muscle: 'calf' });
   });
 });
 
@@ -136,7 +168,7 @@ describe('a line cut short by a crash', () => {
       line({ kind: 'marker', tS: 3, marker: 'a marker', line: 1 }),
       line(disconnection(['calf'], 3, 'device 1 code 1006', 1)),
       ...decodeMessage('{"format": "lengthwise-stream", "version": 1, "rate_hz": 100}', 1).map(line),
-      ...ADAPTER_REASONS.filter((r) => r !== 'line_too_long').map((r) => line(makeRejection(r, 'm', 1, 'e'))),
+      ...REJECT_REASONS.map((r) => rejectionLine(makeRejection(r, 'm', 1, 'e'), 7, RX_MS)),
     ];
     for (const text of lines) {
       for (let end = 1; end < text.length; end++) {

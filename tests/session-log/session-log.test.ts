@@ -24,6 +24,35 @@ describe('openSessionLog', () => {
     expect(log).toMatchObject({ complete: true, problem: null, linesWritten: 0, linesLost: 0 });
   });
 
+  it('writes one line for each tally kept since the last write, after the lines, as the first call for its key made it', async () => {
+    const path = join(await dir(), 'log.ndjson');
+    const scheduler = clockUntil(1000);
+    const log = openSessionLog({ path, scheduler, flushMs: 1000 });
+    log.tally('a', 2, (n) => `{"a":${n}}`);
+    log.append('{"line":1}');
+    log.tally('b', 1, (n) => `{"b":${n}}`);
+    log.tally('a', 5, (n) => `{"other":${n}}`);
+    scheduler.flush();
+    log.tally('a', 1, (n) => `{"a":${n}}`);
+    log.close();
+    expect(await readFile(path, 'utf8')).toBe('{"line":1}\n{"a":7}\n{"b":1}\n{"a":1}\n');
+    expect(log.linesWritten).toBe(4);
+  });
+
+  it('takes the next free name when asked and the name is taken, so two sessions never share a default log', async () => {
+    const path = join(await dir(), 'sessions', '2026-12-02T07-00-00Z.ndjson');
+    const first = openSessionLog({ path, nextFreeName: true });
+    const second = openSessionLog({ path, nextFreeName: true });
+    const third = openSessionLog({ path, nextFreeName: true });
+    expect([first.path, second.path, third.path]).toEqual([path, path.replace(/\.ndjson$/, '-2.ndjson'), path.replace(/\.ndjson$/, '-3.ndjson')]);
+    for (const log of [first, second, third]) {
+      log.append('{"a":1}');
+      log.close();
+      expect(log.complete).toBe(true);
+      expect(await readFile(log.path, 'utf8')).toBe('{"a":1}\n');
+    }
+  });
+
   it('holds lines at most one flush interval, then writes them whole and in order', async () => {
     const path = join(await dir(), 'log.ndjson');
     const scheduler = clockUntil(1000);

@@ -57,7 +57,11 @@ export function createClassifier(maxLineChars = 100_000): Classifier {
       if (hasUnsafeKey(v)) return 'unsafe_key';
       if (v === null || typeof v !== 'object' || Array.isArray(v)) return 'schema';
       const r = v as Record<string, unknown>;
-      if (r['format'] === 'lengthwise-stream' && r['version'] === 1) return 'header';
+      if (r['format'] === 'lengthwise-stream' && r['version'] === 1) {
+        // A trial takes at most 64 muscles (the README), so a header declaring more is refused.
+        const muscles = r['muscles'];
+        return muscles !== null && typeof muscles === 'object' && Object.keys(muscles).length > 64 ? 'too_many_muscles' : 'header';
+      }
       if ('event' in r) return event(r['event'], r['side']);
       if (typeof r['marker'] === 'string' && typeof r['t'] === 'number') return 'marker';
       if ('fascicle_mm' in r) return sample(r['t'], r['muscle'], r['fascicle_mm'], r['pennation_deg'], r['quality']);

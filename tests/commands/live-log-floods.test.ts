@@ -1,0 +1,115 @@
+import { readFile, mkdtemp, stat } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, describe, expect, it } from 'vitest';
+import { killServer, nextConnection, sampleTexts, sendAll, until, wsClient, wsServer } from '../adapters/ws-peers.ts';
+import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSource, type Child } from '../helpers/command-child.ts';
+import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
+
+const children: Child[] = [];
+const stops: (() => unknown)[] = [];
+afterEach(async () => {
+  for (const c of children.splice(0)) killChild(c);
+  while (stops.length > 0) await stops.pop()?.();
+});
+
+async function listeningSession(): Promise<{ child: Child; url: string; dir: string; log: string; summary: string }> {
+  const dir = await mkdtemp(join(tmpdir(), 'lengthwise-floods-'));
+  const log = join(dir, 'session.ndjson');
+  const summary = join(dir, 'live.json');
+  const child = lengthwise(['live', '--listen', '127.0.0.1:0', '--plain', '--log', log, '--summary', summary]);
+  children.push(child);
+  return { child, url: `ws://127.0.0.1:${await listeningPort(child)}`, dir, log, summary };
+}
+
+/** Ends a session once `devices` devices have left it: the summary is written, the log closed. */
+async function endSession(child: Child, devices: number): Promise<void> {
+  await until(() => (child.stderr.match(/DISCONNECTED/g) ?? []).length >= devices, 15_000, `${devices} devices to leave (stderr: ${child.stderr})`);
+  child.child.kill('SIGTERM');
+  const { code } = await child.exited;
+  expect(code, child.stderr).toBe(0);
+}
+
+describe('a session log under floods that look legitimate', () => {
+  it('grows with what was received: a 256 KiB array of bad elements and thousands of one-byte bad messages take a few lines, and replay to the live summary', async () => {
+    const s = await listeningSession();
+    const ws = await wsClient(s.url);
+    stops.push(() => ws.terminate());
+    const array = `[${Array.from({ length: 128 * 1024 - 1 }, () => '1').join(',')}]`;
+    const tiny = Array.from({ length: 5000 }, (_, i) => (i % 2 === 0 ? 'x' : '{}'));
+    const valid = sampleTexts(100);
+    await sendAll(ws, [valid.slice(0, 50).join(''), array, ...tiny, `[${valid.slice(50).join(',')}]`]);
+    ws.close();
+    await endSession(s.child, 1);
+    const received = Buffer.byteLength(array) + tiny.reduce((n, t) => n + t.length, 0) + valid.join(',').length;
+    const logBytes = (await stat(s.log)).size;
+    // Each valid sample is its own line, about as long as it came; the rejections are a few lines.
+    expect(logBytes).toBeLessThan(received / 10);
+    const live = await readJson(s.summary);
+    expect(live.frames).toMatchObject({ accepted: 50, rejected: 1 + 128 * 1024 - 1 + 5000 });
+    expect(live.frames.rejected_by_reason).toEqual({ not_json: 1 + 2500, schema: 128 * 1024 - 1 + 2500 });
+    expect(withoutSource(await replaySummary(s.log, s.dir))).toEqual(withoutSource(live));
+  });
+
+  it('records each message over the cap as one short rejection line, never padded, and a replay counts them', async () => {
+    const s = await listeningSession();
+    const big = `[${sampleTexts(5000).join(',')}]`;
+    expect(Buffer.byteLength(big)).toBeGreaterThan(256 * 1024);
+    for (let i = 0; i < 3; i++) {
+      const ws = await wsClient(s.url);
+      stops.push(() => ws.terminate());
+      const closed = new Promise<number>((resolve) => ws.once('close', (code) => resolve(code)));
+      await sendAll(ws, [big]).catch(() => undefined);
+      expect(await closed).toBe(1009);
+    }
+    const ws = await wsClient(s.url);
+    stops.push(() => ws.terminate());
+    await sendAll(ws, sampleTexts(20));
+    ws.close();
+    await endSession(s.child, 4);
+    const lines = (await readFile(s.log, 'utf8')).trimEnd().split('\n');
+    for (const line of lines) expect(line.length).toBeLessThan(1024);
+    const live = await readJson(s.summary);
+    expect(live.frames).toMatchObject({ accepted: 20, rejected_by_reason: { line_too_long: 3 } });
+    expect(withoutSource(await replaySummary(s.log, s.dir))).toEqual(withoutSource(live));
+  });
+
+  it(`takes the first ${MAX_MUSCLES_PER_TRIAL} of 3000 one-sample muscles a device makes up, counts the rest as too_many_muscles, and the log replays the same`, async () => {
+    const s = await listeningSession();
+    const ws = await wsClient(s.url);
+    stops.push(() => ws.terminate());
+    const names = Array.from({ length: 3000 }, (_, i) => JSON.stringify({ t: i / 1000, muscle: `probe-${i}`, fascicle_mm: 50 }));
+    for (let i = 0; i < names.length; i += 500) await sendAll(ws, [`[${names.slice(i, i + 500).join(',')}]`]);
+    ws.close();
+    await endSession(s.child, 1);
+    const live = await readJson(s.summary);
+    expect(Object.keys(live['muscles'] as object)).toHaveLength(MAX_MUSCLES_PER_TRIAL);
+    expect(live.frames).toMatchObject({ accepted: MAX_MUSCLES_PER_TRIAL, rejected_by_reason: { too_many_muscles: 3000 - MAX_MUSCLES_PER_TRIAL } });
+    // The lost connection names the device's muscles: no more than it may carry.
+    const lost = (await readFile(s.log, 'utf8')).split('\n').find((l) => l.includes('"disconnected"')) ?? '';
+    expect(JSON.parse(lost).disconnected.muscles).toHaveLength(MAX_MUSCLES_PER_TRIAL);
+    expect((await stat(s.summary)).size).toBeLessThan(5 * 1024 * 1024);
+    expect(withoutSource(await replaySummary(s.log, s.dir))).toEqual(withoutSource(live));
+  });
+
+  it('gives the live summary on replay when a server sends a 400 KiB muscle name of bytes that are not UTF-8', async () => {
+    const server = await wsServer();
+    stops.push(() => killServer(server.server));
+    const dir = await mkdtemp(join(tmpdir(), 'lengthwise-utf8-'));
+    const log = join(dir, 'session.ndjson');
+    const summary = join(dir, 'live.json');
+    const connected = nextConnection(server.server);
+    const child = lengthwise(['live', '--connect', server.url, '--plain', '--log', log, '--summary', summary]);
+    children.push(child);
+    const peer = await connected;
+    const name = Buffer.alloc(400 * 1024, 0xfe);
+    const odd = Buffer.concat([Buffer.from('[{"t": 0.001, "muscle": "'), name, Buffer.from('", "fascicle_mm": 50}, {"t": 0.002, "muscle": "'), name, Buffer.from('", "fascicle_mm": 50}]')]);
+    await new Promise<void>((resolve, reject) => peer.send(odd, { binary: false }, (e) => (e ? reject(e) : resolve())));
+    await sendAll(peer, [`[${sampleTexts(200).join(',')}]`]);
+    peer.close(1000, 'stream ended');
+    await endSession(child, 1);
+    const live = await readJson(summary);
+    expect(live.frames).toMatchObject({ accepted: 200, rejected_by_reason: { line_too_long: 2 } });
+    expect(withoutSource(await replaySummary(log, dir))).toEqual(withoutSource(live));
+  });
+});

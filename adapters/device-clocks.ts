@@ -59,7 +59,8 @@ function roundOffset(s: number): number {
 export class DeviceClocks {
   /** The newest time of each muscle the session took (as many as a trial takes). */
   private readonly muscles = new Map<string, Seen>();
-  private readonly roster = new MuscleRoster();
+  private readonly roster: MuscleRoster;
+  private readonly clockResetMinS: number;
   /** The newest time of anything timed (the one peer of a client). */
   private readonly all: Seen = { tS: Number.NaN, rxMs: Number.NaN };
 
@@ -67,7 +68,13 @@ export class DeviceClocks {
    * @param onePeer true for a client of one acquisition computer (every muscle is that device's); false
    * for a server of several devices, each known by its muscles.
    */
-  constructor(private readonly onePeer: boolean) {}
+  constructor(
+    private readonly onePeer: boolean,
+    options: { readonly maxMuscles?: number; readonly clockResetMinS?: number } = {},
+  ) {
+    this.roster = new MuscleRoster(options.maxMuscles);
+    this.clockResetMinS = options.clockResetMinS ?? CLOCK_RESET_MIN_S;
+  }
 
   /** The frames of one message of a connection, with their times on the session's timeline. */
   take(frames: Frame[], clock: ConnectionClock, rxMs: number, line: number): Frame[] {
@@ -112,7 +119,7 @@ export class DeviceClocks {
       if (seen === null && f.kind !== 'sample') return null;
     }
     clock.undecided = false;
-    if (seen === null || !(tS < seen.tS - CLOCK_RESET_MIN_S)) return null;
+    if (seen === null || !(tS < seen.tS - this.clockResetMinS)) return null;
     const passedS = Math.max(0, (rxMs - seen.rxMs) / 1000);
     clock.offsetS = roundOffset(seen.tS + passedS - tS);
     const who = this.onePeer ? 'the device' : `the device of ${muscles.map((m) => JSON.stringify(m)).join(', ')}`;

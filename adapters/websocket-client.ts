@@ -37,6 +37,10 @@ export interface IngestOptions {
   readonly mapping?: DeviceMapping | null;
   /** Longest message accepted, bytes; a longer one is refused by the socket (close 1009) and counted as line_too_long. */
   readonly maxMessageBytes?: number;
+  /** Most distinct muscles one device may carry (the settings' max_muscles_per_trial). @default MAX_MUSCLES_PER_TRIAL */
+  readonly maxMuscles?: number;
+  /** A step back in a device's clock larger than this (s) at a connection's start is a restart (the settings' clock_reset_min_s). @default CLOCK_RESET_MIN_S */
+  readonly clockResetMinS?: number;
 }
 
 /**
@@ -48,6 +52,7 @@ export class Ingest {
   private readonly mapping: DeviceMapping | null;
   private readonly clocks: DeviceClocks;
   readonly maxMessageBytes: number;
+  readonly maxMuscles: number | undefined;
 
   /**
    * @param onePeer a client's one acquisition computer (true), or a server's devices, each known by its
@@ -61,7 +66,16 @@ export class Ingest {
   ) {
     this.mapping = options.mapping ?? null;
     this.maxMessageBytes = options.maxMessageBytes ?? MAX_MESSAGE_BYTES;
-    this.clocks = new DeviceClocks(onePeer);
+    this.maxMuscles = options.maxMuscles;
+    this.clocks = new DeviceClocks(onePeer, {
+      ...(options.maxMuscles !== undefined ? { maxMuscles: options.maxMuscles } : {}),
+      ...(options.clockResetMinS !== undefined ? { clockResetMinS: options.clockResetMinS } : {}),
+    });
+  }
+
+  /** A new connection's track, holding as many muscles as a device may carry. */
+  peer(): PeerTrack {
+    return newPeerTrack(this.maxMuscles);
   }
 
   /** One message → its frames, times on the session's timeline; notes muscles and time on `peer`. Never throws. */
@@ -105,8 +119,8 @@ export interface PeerTrack {
   readonly clock: ConnectionClock;
 }
 
-export function newPeerTrack(): PeerTrack {
-  return { muscles: new MuscleRoster(), lastTS: Number.NaN, clock: newConnectionClock() };
+export function newPeerTrack(maxMuscles?: number): PeerTrack {
+  return { muscles: new MuscleRoster(maxMuscles), lastTS: Number.NaN, clock: newConnectionClock() };
 }
 
 
@@ -182,7 +196,7 @@ export function websocketClient(options: WebSocketClientOptions): Observable<Bat
         ...(options.headers !== undefined ? { headers: { ...options.headers } } : {}),
       });
       socket = ws;
-      const peer = newPeerTrack();
+      const peer = ingest.peer();
       let opened = false;
       let lastError = '';
       let refused = false;

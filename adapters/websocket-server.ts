@@ -12,7 +12,7 @@ import type { AddressInfo } from 'node:net';
 import { Observable, asyncScheduler, type SchedulerLike, type Subscription } from 'rxjs';
 import { WebSocket, WebSocketServer, type RawData } from 'ws';
 import type { Batch } from '../src/trial/records.ts';
-import { closeDetail, Ingest, newPeerTrack, type IngestOptions, type LinkEvent } from './websocket-client.ts';
+import { closeDetail, Ingest, type IngestOptions, type LinkEvent } from './websocket-client.ts';
 import { closeGently, keepAlive } from './socket-care.ts';
 import { conflictText, MuscleOwners } from './muscle-owners.ts';
 
@@ -119,7 +119,7 @@ export function websocketServer(options: WebSocketServerOptions): Observable<Bat
     });
     server.on('connection', (ws: WebSocket, request: IncomingMessage) => {
       const number = ++connection;
-      const peer = newPeerTrack();
+      const peer = ingest.peer();
       const name = peerName(request);
       let lastError = '';
       onLink({ kind: 'connected', connection: number, peer: name });

@@ -9,7 +9,8 @@ const COMMANDS = {
   inspect: { summary: 'say how a file will be read (layout, columns, units, sides, counts), without running it', load: () => import('./commands/inspect.ts') },
   calibrate: { summary: 'make a calibration from a quiet window of a trial', load: () => import('./commands/calibrate.ts') },
   curve: { summary: 'print the force–length model: force and region at given sarcomere lengths', load: () => import('./commands/curve.ts') },
-  summarize: { summary: 'summarize many trials into a study table and a report', load: () => import('./commands/summarize.ts') },
+  summarize: { summary: 'summarize many trials, or a study of subjects and conditions, into tables and a report', load: () => import('./commands/summarize.ts') },
+  settings: { summary: 'print every processing setting with its default, as a settings file (--explain: what each does)', load: () => import('./commands/settings.ts') },
 } as const satisfies Record<string, { summary: string; load: () => Promise<{ run: (argv: string[], io: CommandIo) => Promise<number> }> }>;
 
 type CommandName = keyof typeof COMMANDS;

@@ -5,7 +5,8 @@ import type { Parsed } from './option-values.ts';
 import type { Batch } from '../trial/records.ts';
 import { trialSource } from '../../adapters/trial-source.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
-import { mappingOption } from './option-files.ts';
+import { mappingOption, SETTINGS_OPTION, settingsOption } from './option-files.ts';
+import { fileSha256 } from '../run/file-digest.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
 import { ARCHITECTURE_PRIOR_CAUTION, METHOD_LABEL, checkCalibrationAgainstTrial } from '../model/calibration.ts';
@@ -13,9 +14,6 @@ import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausib
 import { POSTURE_DISAGREEMENT_FRACTION, QUIET_SPREAD_FRACTION, sarcomereCountFromReference, summarizeWindow, twoPostureCount } from '../model/quiet-window.ts';
 import { MAX_RELATIVE_SD, spreadProblem } from '../model/count-spread.ts';
 import { toolVersion } from '../run/tool-version.ts';
-import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
-import { DEFAULT_SKIP_BELOW } from '../pipeline/gate-quality.ts';
 
 const HELP = `usage: lengthwise calibrate FILE --muscle NAME --window START-END --sarcomere-length UM [options]
        lengthwise calibrate FILE --muscle NAME --window A-B --sarcomere-length X --window C-D --sarcomere-length Y
@@ -53,6 +51,7 @@ options:
   --prior-sarcomere-length UM    the sarcomere length it is normalised to (µm)
   --prior-source TEXT            the publication: authors, year, journal, table
   --species S                    ${SPECIES.join(' | ')}  [default: ${DEFAULT_SPECIES}]
+  --settings FILE                processing settings (lengthwise-settings JSON): its quality gate and plausible range
   --mapping FILE                 a trial in your own columns, units or table layout (lengthwise-mapping JSON)
   --events FILE                  gait events from another system, as for replay (read and checked; the window needs none)
   -h, --help                     this text
@@ -93,7 +92,7 @@ interface TrialSamples {
 }
 
 /** Reads the trial file and keeps the muscle's samples that pass the quality gate. */
-function readTrial(path: string, muscle: string, mapping: DeviceMapping | null, eventsPath: string | undefined): Promise<TrialSamples> {
+function readTrial(path: string, muscle: string, mapping: DeviceMapping | null, eventsPath: string | undefined, qualityGate: number): Promise<TrialSamples> {
   const trial: TrialSamples = { tS: [], fascicleMm: [], skippedLowQuality: 0, muscles: new Set() };
   return new Promise((resolve, reject) => {
     trialSource(path, { mapping, eventsPath }).subscribe({
@@ -102,7 +101,7 @@ function readTrial(path: string, muscle: string, mapping: DeviceMapping | null, 
           if (f.kind !== 'sample') continue;
           trial.muscles.add(f.muscle);
           if (f.muscle !== muscle) continue;
-          if (f.quality < DEFAULT_SKIP_BELOW) {
+          if (f.quality < qualityGate) {
             trial.skippedLowQuality++;
             continue;
           }
@@ -144,16 +143,6 @@ function parseNumber(option: string, text: string, lo: number, hi: number, unit:
 type Plan =
   | { readonly kind: 'postures'; readonly windows: ReadonlyArray<{ startS: number; endS: number }>; readonly sarcomereUm: readonly number[]; readonly sdUm: readonly number[] | null }
   | { readonly kind: 'prior'; readonly fibreMm: number; readonly fibreSdMm: number | null; readonly sarcomereUm: number; readonly source: string };
-
-function sha256Of(path: string): Promise<string> {
-  return new Promise((resolve, reject) => {
-    const hash = createHash('sha256');
-    createReadStream(path)
-      .on('data', (chunk) => hash.update(chunk))
-      .on('error', reject)
-      .on('end', () => resolve(hash.digest('hex')));
-  });
-}
 
 /** Reads the options into a plan, or the problems with them (every one, at once). */
 function planOf(values: CalibrateValues, problems: string[]): Plan | null {
@@ -239,6 +228,7 @@ type CalibrateValues = {
   readonly 'prior-sarcomere-length'?: string | undefined;
   readonly 'prior-source'?: string | undefined;
   readonly species: string;
+  readonly settings?: string | undefined;
   readonly mapping?: string | undefined;
   readonly events?: string | undefined;
 };
@@ -255,6 +245,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     'prior-sarcomere-length': { type: 'string' },
     'prior-source': { type: 'string' },
     species: { type: 'string', default: DEFAULT_SPECIES },
+    ...SETTINGS_OPTION,
     mapping: { type: 'string' },
     events: { type: 'string' },
   }, io);
@@ -277,13 +268,15 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     return 2;
   }
 
+  const settings = await settingsOption('calibrate', values.settings, io);
+  if (!settings.ok) return 2;
   const mapping = await mappingOption('calibrate', values.mapping, io);
   if (!mapping.ok) return 2;
   let trial: TrialSamples | undefined;
   let sha256: string | undefined;
   if (path !== undefined) {
     try {
-      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events), sha256Of(path)]);
+      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events, settings.value.quality_gate), fileSha256(path)]);
     } catch (error) {
       io.err(`lengthwise calibrate: ${(error as Error).message}`);
       return 1;
@@ -355,7 +348,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       }
     }
     if (samples.skippedLowQuality > 0) {
-      io.err(`${muscle}: ${samples.skippedLowQuality} samples below quality ${DEFAULT_SKIP_BELOW} were left out`);
+      io.err(`${muscle}: ${samples.skippedLowQuality} samples below quality ${settings.value.quality_gate} were left out`);
     }
     const windowsS = plan.windows.map((w) => [w.startS, w.endS]);
     const [a, b] = postures;
@@ -423,7 +416,10 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   }
   if (trial !== undefined) {
     const fascicle = range(trial.fascicleMm);
-    const fit = checkCalibrationAgainstTrial(muscle, count, fascicle.min, fascicle.max, offsetMm);
+    const fit = checkCalibrationAgainstTrial(muscle, count, fascicle.min, fascicle.max, offsetMm, {
+      min: settings.value.plausible_sarcomere_min_um,
+      max: settings.value.plausible_sarcomere_max_um,
+    });
     if (!fit.ok) io.err(`warning: ${fit.message}`);
   }
   io.out(JSON.stringify(calibration, null, 2));

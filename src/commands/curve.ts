@@ -1,6 +1,7 @@
 /** `lengthwise curve`: the force–length model at given sarcomere lengths, or across its whole range. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
+import { SETTINGS_OPTION, settingsOption } from './option-files.ts';
 import type { Parsed } from './option-values.ts';
 import { breakpoints, type FilamentGeometry } from '../model/geometry.ts';
 import {
@@ -30,8 +31,8 @@ options:
                          and steep_break_force (0–1)
   --between-fibre-sd SD  SD (µm) of sarcomere lengths between the muscle's fibres (0.21 ± 0.09 in a
                          human vastus lateralis, Chen et al. 2016): the force is the mean over fibres
-                         in parallel, which rounds the corners  [default: 0, off]
-                         (--dispersion SD is its older name)
+                         in parallel, which rounds the corners  [default: the settings'
+                         between_fibre_sd_um, 0: off]  (--dispersion SD is its older name)
   --shape S              ${CURVE_SHAPES.join(' | ')}: which curve gives the
                          force; regions always come from the geometry  [default: ${DEFAULT_SHAPE}]
   --activation A         force at activation A (0–1): the optimal length moves to L0·(λ(1 − A) + 1)
@@ -40,6 +41,7 @@ options:
   --sl LIST              sarcomere lengths (µm), comma-separated, e.g. 2.0,2.7,3.5
   --step UM              spacing of the table without --sl  [default: 0.01]
   --json                 a JSON array of {"sl_um", "force", "region"} instead of text
+  --settings FILE        processing settings (lengthwise-settings JSON): its between_fibre_sd_um
   -h, --help             this text`;
 
 const FILAMENT_KEYS: Readonly<Record<string, keyof FilamentGeometry>> = {
@@ -143,9 +145,12 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     sl: { type: 'string', multiple: true },
     step: { type: 'string', default: '0.01' },
     json: { type: 'boolean', default: false },
+    ...SETTINGS_OPTION,
   }, io, { allowPositionals: false });
   if (typeof parsed === 'number') return parsed;
   const { values } = parsed;
+  const settings = await settingsOption('curve', values.settings, io);
+  if (!settings.ok) return 2;
 
   const problems: string[] = [];
   const species = values.species;
@@ -154,7 +159,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   if (!isCurveShape(shape)) problems.push(`--shape "${shape}" is not known; accepted: ${CURVE_SHAPES.join(', ')}`);
   const named = values['between-fibre-sd'];
   const older = values.dispersion;
-  const spreadText = named ?? older ?? '0';
+  const spreadText = named ?? older ?? String(settings.value.between_fibre_sd_um);
   const spreadOption = named !== undefined ? '--between-fibre-sd' : '--dispersion';
   const dispersionSdUm = Number(spreadText);
   if (spreadText.trim() === '' || !Number.isFinite(dispersionSdUm)) {

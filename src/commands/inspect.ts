@@ -1,11 +1,10 @@
 /** `lengthwise inspect FILE`: a dry run, saying how a file will be read, without running the pipeline. */
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { mappingOption, sidesOption } from './option-files.ts';
+import { mappingOption, SETTINGS_OPTION, settingsOption, sidesOption } from './option-files.ts';
 import { inspectFile, type InspectedCounts, type InspectedRejection, type Inspection } from '../../adapters/inspect-file.ts';
 import { delimiterName } from '../../adapters/table-layout.ts';
 import type { Delimiter } from '../../adapters/device-mapping.ts';
-import { DEFAULT_GAP_S } from '../pipeline/mark-gaps.ts';
 
 const HELP = `usage: lengthwise inspect FILE [options]
 
@@ -16,6 +15,7 @@ reason, with the first bad lines; each muscle's time span, rate, gaps and fascic
 
 options:
   --mapping FILE         read the file through a mapping (lengthwise-mapping JSON), as replay would
+  --settings FILE        processing settings (lengthwise-settings JSON): its gap_s says what a gap is
   --events FILE          an events file from another system, read as replay --events would
   --side NAME=left|right a muscle's side (repeatable), as for replay
   --json                 print the inspection as one JSON object (its keys are in the README)
@@ -77,6 +77,7 @@ export function inspectionText(i: Inspection): string {
 export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('inspect', HELP, argv, {
     mapping: { type: 'string' },
+    ...SETTINGS_OPTION,
     events: { type: 'string' },
     side: { type: 'string', multiple: true },
     json: { type: 'boolean', default: false },
@@ -89,11 +90,13 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.err(`lengthwise inspect: give exactly one file (got ${positionals.length}).\n\n${HELP}`);
     return 2;
   }
+  const settings = await settingsOption('inspect', values.settings, io);
+  if (!settings.ok) return 2;
   const mapping = await mappingOption('inspect', values.mapping, io);
   if (!mapping.ok) return 2;
   const sides = sidesOption('inspect', undefined, values.side, io);
   if (sides === null) return 2;
-  const inspection = await inspectFile(path, { mapping: mapping.value ?? null, eventsPath: values.events, sides, gapS: DEFAULT_GAP_S });
+  const inspection = await inspectFile(path, { mapping: mapping.value ?? null, eventsPath: values.events, sides, gapS: settings.value.gap_s });
   if (values['suggest-mapping']) {
     if (inspection.suggested_mapping === null) {
       io.err(

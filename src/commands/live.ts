@@ -43,6 +43,7 @@ options:
                          --connect: send that header
   --no-token             --listen on an address other machines reach, with no token, on purpose: any
                          machine that reaches the port can push data into the session (warned loudly)
+  --settings FILE        processing settings (lengthwise-settings JSON; \`lengthwise settings\` prints the defaults)
   --mapping FILE         device field names and units (lengthwise-mapping JSON; see adapters/mappings/)
   --calibration FILE     calibration JSON; wins over the stream header's calibration
   --summary FILE.json    write the per-stride and per-trial summary at the end
@@ -157,6 +158,8 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   if (files === null) return 2;
   const calibration = files.calibration;
   const mapping = files.mapping ?? null;
+  const settings = files.settings;
+  const deviceBounds = { maxMuscles: settings.max_muscles_per_trial, clockResetMinS: settings.clock_reset_min_s };
 
   const session = new LiveSession(io, values.plain || io.stdout.isTTY !== true, options.scheduler ?? asyncScheduler);
   const log = openSessionLog({
@@ -177,6 +180,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     source$ = websocketClient({
       url: connect.value,
       mapping,
+      ...deviceBounds,
       onLink,
       ...(values.token !== undefined ? { headers: { Authorization: `Bearer ${values.token}` } } : {}),
     });
@@ -186,6 +190,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
       host: listen.value.host,
       port: listen.value.port,
       mapping,
+      ...deviceBounds,
       onLink,
       ...(values.token !== undefined ? { token: values.token } : {}),
     });
@@ -200,7 +205,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     tap((batch) => session.watchClocks(batch)),
     takeUntil(session.stop$),
   );
-  const trial = runTrial(records$, { source: label, sides: mappedSides(mapping), ...(calibration !== undefined ? { calibration } : {}) });
+  const trial = runTrial(records$, { source: label, sides: mappedSides(mapping), settings, ...(calibration !== undefined ? { calibration } : {}) });
   const final = await session.run(trial, label, duration !== null && duration.ok ? duration.value : null, () => log.flush());
   log.close();
   if (!log.complete && log.problem !== null) session.logProblem(log.problem);

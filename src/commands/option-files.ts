@@ -1,16 +1,21 @@
 /**
- * The files that options name (--calibration, --mapping), read and checked the same way by every
- * command: a file that is not accepted is said with each problem, and the command exits 2 (usage).
+ * The files that options name (--settings, --calibration, --mapping), read and checked the same way by
+ * every command: a file that is not accepted is said with each problem, and the command exits 2 (usage).
  */
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
 import { mappedSides, readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { readSettingsFile } from '../../adapters/settings-file.ts';
+import { DEFAULT_SETTINGS, type Settings } from '../trial/settings.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { CommandIo } from '../run/io.ts';
 import type { Side } from '../trial/records.ts';
 import { pathClash, type NamedPath } from '../run/output-paths.ts';
 
-/** --calibration and --mapping, the same in every command that runs trials; read them with trialFiles. */
-export const TRIAL_FILE_OPTIONS = { calibration: { type: 'string' }, mapping: { type: 'string' } } as const;
+/** --settings FILE: every processing choice (lengthwise-settings JSON); every command takes it. Read it with settingsOption. */
+export const SETTINGS_OPTION = { settings: { type: 'string' } } as const;
+
+/** --settings, --calibration and --mapping, the same in every command that runs trials; read them with trialFiles. */
+export const TRIAL_FILE_OPTIONS = { ...SETTINGS_OPTION, calibration: { type: 'string' }, mapping: { type: 'string' } } as const;
 
 /** --events (gait events from another system) and --side NAME=left|right (repeatable), for the commands that read recorded trials. */
 export const TRIAL_INPUT_OPTIONS = { events: { type: 'string' }, side: { type: 'string', multiple: true } } as const;
@@ -56,6 +61,13 @@ function refuse(command: string, what: string, problems: readonly string[], io: 
   return { ok: false };
 }
 
+/** The settings a --settings file gives (every key it leaves out at its default), or the defaults without one. */
+export async function settingsOption(command: string, path: string | undefined, io: CommandIo): Promise<{ readonly ok: true; readonly value: Settings } | { readonly ok: false }> {
+  if (path === undefined) return { ok: true, value: DEFAULT_SETTINGS };
+  const result = await readSettingsFile(path);
+  return result.ok ? { ok: true, value: result.settings } : refuse(command, 'settings file', result.problems, io);
+}
+
 export async function calibrationOption(command: string, path: string | undefined, io: CommandIo): Promise<OptionFile<CalibrationSpec>> {
   if (path === undefined) return { ok: true, value: undefined };
   const result = await readCalibrationFile(path);
@@ -68,23 +80,27 @@ export async function mappingOption(command: string, path: string | undefined, i
   return result.ok ? { ok: true, value: result.mapping } : refuse(command, 'device mapping', result.problems, io);
 }
 
-/** What a trial's --calibration and --mapping name. */
+/** What a trial's --settings, --calibration and --mapping name. */
 export interface TrialFiles {
+  /** The effective settings: the file's over the defaults, or the defaults. */
+  readonly settings: Settings;
   readonly calibration: CalibrationSpec | undefined;
   readonly mapping: DeviceMapping | undefined;
 }
 
-/** Reads both files a trial's options may name, the calibration first; null once one was refused (and said why). */
+/** Reads the files a trial's options may name, the settings first, then the calibration; null once one was refused (and said why). */
 export async function trialFiles(
   command: string,
-  values: { readonly calibration?: string | undefined; readonly mapping?: string | undefined },
+  values: { readonly settings?: string | undefined; readonly calibration?: string | undefined; readonly mapping?: string | undefined },
   io: CommandIo,
 ): Promise<TrialFiles | null> {
+  const settings = await settingsOption(command, values.settings, io);
+  if (!settings.ok) return null;
   const calibration = await calibrationOption(command, values.calibration, io);
   if (!calibration.ok) return null;
   const mapping = await mappingOption(command, values.mapping, io);
   if (!mapping.ok) return null;
-  return { calibration: calibration.value, mapping: mapping.value };
+  return { settings: settings.value, calibration: calibration.value, mapping: mapping.value };
 }
 
 /** The paths among `values` of the given options, each named by its option. */

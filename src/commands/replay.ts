@@ -24,6 +24,7 @@ in your own columns and units, through a mapping) through the pipeline.
 
 options:
   --speed N|max          play at N times recorded time (1 = real time), or as fast as possible  [default: 1]
+  --settings FILE        processing settings (lengthwise-settings JSON; \`lengthwise settings\` prints the defaults)
   --calibration FILE     calibration JSON; wins over the stream header's calibration
   --mapping FILE         a file in your own columns, units or table layout (lengthwise-mapping JSON; see adapters/mappings/)
   --events FILE          gait events from another system (CSV, TSV or NDJSON), merged in time order
@@ -114,7 +115,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       }
     }),
   );
-  const trial = runTrial(records$, { source: path, sides, ...(calibration !== undefined ? { calibration } : {}) });
+  const trial = runTrial(records$, { source: path, sides, settings: files.settings, ...(calibration !== undefined ? { calibration } : {}) });
   // Ctrl+C and SIGTERM stop the trial as q does, with or without a screen that takes keys.
   const stopped = new ReplaySubject<void>(1);
   const listening = stopOnSignals(() => {

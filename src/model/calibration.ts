@@ -187,7 +187,7 @@ export type CalibrationCheck =
 
 /**
  * Does a sarcomere count fit a trial? Flags a count whose implied sarcomere lengths, for the trial's
- * shortest and longest fascicle lengths, leave PLAUSIBLE_SARCOMERE_UM: the count (or the trial's muscle) is likely wrong.
+ * shortest and longest fascicle lengths, leave the plausible range (by default PLAUSIBLE_SARCOMERE_UM): the count (or the trial's muscle) is likely wrong.
  */
 export function checkCalibrationAgainstTrial(
   muscle: string,
@@ -195,6 +195,7 @@ export function checkCalibrationAgainstTrial(
   fascicleMinMm: number,
   fascicleMaxMm: number,
   offsetMm = 0,
+  plausible: { readonly min: number; readonly max: number } = PLAUSIBLE_SARCOMERE_UM,
 ): CalibrationCheck {
   const slMinUm = sarcomereUmFromFascicle(fascicleMinMm, sarcomeresInSeriesCount, offsetMm);
   const slMaxUm = sarcomereUmFromFascicle(fascicleMaxMm, sarcomeresInSeriesCount, offsetMm);
@@ -206,10 +207,10 @@ export function checkCalibrationAgainstTrial(
       message: `${muscle}: sarcomeres in series ${String(sarcomeresInSeriesCount)} and fascicle lengths ${String(fascicleMinMm)}–${String(fascicleMaxMm)} mm give no sarcomere length; check the calibration`,
     };
   }
-  if (slMinUm >= PLAUSIBLE_SARCOMERE_UM.min && slMaxUm <= PLAUSIBLE_SARCOMERE_UM.max) return { ok: true, slMinUm, slMaxUm };
-  const lo = Math.ceil(((fascicleMaxMm - offsetMm) * 1000) / PLAUSIBLE_SARCOMERE_UM.max);
-  const hi = Math.floor(((fascicleMinMm - offsetMm) * 1000) / PLAUSIBLE_SARCOMERE_UM.min);
-  const fits = lo <= hi ? `a count from ${lo} to ${hi} keeps them within ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm` : `no single count keeps them within ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm (is the fascicle length in mm?)`;
+  if (slMinUm >= plausible.min && slMaxUm <= plausible.max) return { ok: true, slMinUm, slMaxUm };
+  const lo = Math.ceil(((fascicleMaxMm - offsetMm) * 1000) / plausible.max);
+  const hi = Math.floor(((fascicleMinMm - offsetMm) * 1000) / plausible.min);
+  const fits = lo <= hi ? `a count from ${lo} to ${hi} keeps them within ${plausible.min}–${plausible.max} µm` : `no single count keeps them within ${plausible.min}–${plausible.max} µm (is the fascicle length in mm?)`;
   return {
     ok: false,
     slMinUm,
@@ -217,6 +218,6 @@ export function checkCalibrationAgainstTrial(
     message:
       `${muscle}: ${Math.round(sarcomeresInSeriesCount)} sarcomeres in series put this trial's fascicle lengths ` +
       `(${fascicleMinMm.toFixed(1)}–${fascicleMaxMm.toFixed(1)} mm) at ${slMinUm.toFixed(2)}–${slMaxUm.toFixed(2)} µm, ` +
-      `outside the plausible ${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm; ${fits}. Check the calibration's muscle name and numbers.`,
+      `outside the plausible ${plausible.min}–${plausible.max} µm; ${fits}. Check the calibration's muscle name and numbers.`,
   };
 }

@@ -17,6 +17,7 @@ import { sarcomereCountSpread } from '../model/calibration.ts';
 import { regionProbabilities } from '../model/region-probability.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_GAP_S } from './mark-gaps.ts';
+import { DEFAULT_SETTINGS } from '../trial/settings.ts';
 import { CycleBuffer, SegmentAccumulator, emptyCycleCurve, foldCycle, resampleCycle, type Held } from '../trial/stride-figures.ts';
 
 export interface AccumulateSummaryOptions {
@@ -34,7 +35,7 @@ export interface AccumulateSummaryOptions {
 }
 
 /** Largest share of a stride that may be gap time before the stride is flagged. */
-export const DEFAULT_MAX_GAP_FRACTION = 0.1;
+export const DEFAULT_MAX_GAP_FRACTION = DEFAULT_SETTINGS.stride_flag_gap_fraction;
 
 const NO_PHASE = 0;
 const STANCE = 1;

@@ -15,7 +15,7 @@ import { plateauMiddleUm } from '../model/geometry.ts';
 import { median } from '../model/stats.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
-import { MAX_HELD_FRAMES } from '../trial/settings.ts';
+import { DEFAULT_SETTINGS, MAX_HELD_FRAMES } from '../trial/settings.ts';
 
 export interface ConvertSarcomereOptions {
   /** A calibration given by the user (a file); it wins over the stream header's. */
@@ -31,7 +31,7 @@ export interface ConvertSarcomereOptions {
   readonly maxHeldFrames?: number;
 }
 
-export const DEFAULT_BASELINE_S = 3;
+export const DEFAULT_BASELINE_S = DEFAULT_SETTINGS.baseline_s;
 
 /** A muscle's own entry of a calibration (never a property every object has, such as "constructor"). */
 function ownCalibration(spec: CalibrationSpec | undefined, muscle: string): MuscleCalibration | undefined {

@@ -2,7 +2,7 @@ import type { OperatorFunction } from 'rxjs';
 import { holdingStage } from './holding-stage.ts';
 import type { Batch, Frame, Sample, Side, StrideBoundary } from '../trial/records.ts';
 import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S, dominantPeriod } from '../model/stride-period.ts';
-import { MAX_HELD_FRAMES } from '../trial/settings.ts';
+import { DEFAULT_SETTINGS, MAX_HELD_FRAMES } from '../trial/settings.ts';
 
 export interface EstimateStridesOptions {
   /**
@@ -19,7 +19,7 @@ export interface EstimateStridesOptions {
   readonly maxHeldFrames?: number;
 }
 
-export const DEFAULT_ESTIMATE_WINDOW_S = 10;
+export const DEFAULT_ESTIMATE_WINDOW_S = DEFAULT_SETTINGS.stride_estimate_window_s;
 
 /**
  * A cycle's shortest length counts as its boundary only when the signal came down to it from at least

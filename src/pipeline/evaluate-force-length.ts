@@ -16,11 +16,17 @@ interface Evaluator {
  * Places each sample on its muscle's force–length curve: relative active force and region. The curve
  * follows the muscle's CalibrationApplied frame (species, filaments, shape, between-fibre spread, the
  * activation-dependent optimal length); regions always come from the geometry, whatever shape gives the
- * force. With the optimal length shifting with activation, a sample's own activation is used, else the
+ * force; a muscle whose calibration states no between-fibre spread takes the settings' one. With the optimal length shifting with activation, a sample's own activation is used, else the
  * calibration's. A Notice says, once per calibration, when the activation shift is on and when a
  * whole-muscle shape gives the force.
  */
-export function evaluateForceLength(): OperatorFunction<Batch, Batch> {
+export interface EvaluateForceLengthOptions {
+  /** Between-fibre SD of sarcomere length (µm) for a muscle whose calibration states none; 0 is off. @default 0 */
+  readonly betweenFibreSdUm?: number;
+}
+
+export function evaluateForceLength(options: EvaluateForceLengthOptions = {}): OperatorFunction<Batch, Batch> {
+  const defaultSdUm = options.betweenFibreSdUm ?? 0;
   return statefulStage(() => {
     const fallback: Evaluator = {
       model: muscleModelFor({ species: DEFAULT_SPECIES, method: 'sarcomere_count', sarcomeresInSeries: 1 }),
@@ -32,7 +38,7 @@ export function evaluateForceLength(): OperatorFunction<Batch, Batch> {
       for (const f of batch) {
         out.pass(f);
         if (f.kind === 'calibration') {
-          const cal = f.calibration;
+          const cal = f.calibration.dispersionSdUm === undefined && defaultSdUm > 0 ? { ...f.calibration, dispersionSdUm: defaultSdUm } : f.calibration;
           const model = muscleModelFor(cal);
           evaluators.set(f.muscle, { model, activation: cal.activation ?? Number.NaN });
           const shapeNote = wholeMuscleShapeNote(model.shape);

@@ -1,5 +1,6 @@
 import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
+import { DEFAULT_SETTINGS } from '../trial/settings.ts';
 import { OutBatch } from './out-batch.ts';
 import { statefulStage } from './stateful-stage.ts';
 
@@ -8,7 +9,7 @@ export interface MarkGapsOptions {
   readonly gapS?: number;
 }
 
-export const DEFAULT_GAP_S = 0.25;
+export const DEFAULT_GAP_S = DEFAULT_SETTINGS.gap_s;
 
 /**
  * Inserts a `time_jump` Gap before a sample that comes more than `gapS` after the previous sample of

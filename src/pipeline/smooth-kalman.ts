@@ -1,6 +1,7 @@
 import KalmanFilter from 'kalmanjs';
 import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
+import { DEFAULT_SETTINGS } from '../trial/settings.ts';
 import { DEFAULT_SKIP_BELOW } from './gate-quality.ts';
 import { forgetAcrossGap } from './forget-across-gap.ts';
 import { statefulStage } from './stateful-stage.ts';
@@ -21,8 +22,8 @@ export interface SmoothKalmanOptions {
   readonly skipBelow?: number;
 }
 
-export const DEFAULT_MEASUREMENT_NOISE_MM2 = 0.25;
-export const DEFAULT_PROCESS_NOISE_MM2_PER_S = 12.5;
+export const DEFAULT_MEASUREMENT_NOISE_MM2 = DEFAULT_SETTINGS.smoothing_measurement_noise_mm2;
+export const DEFAULT_PROCESS_NOISE_MM2_PER_S = DEFAULT_SETTINGS.smoothing_process_noise_mm2_per_s;
 
 interface Track {
   readonly filter: KalmanFilter;

@@ -20,6 +20,7 @@ study table: a row per trial and muscle, with the same figures as each trial's -
 options:
   --out FILE.csv         write the study table here  [default: standard output]
   --report FILE.html     write one self-contained HTML report with plots of every trial and muscle
+  --settings FILE        processing settings (lengthwise-settings JSON; \`lengthwise settings\` prints the defaults)
   --calibration FILE     calibration JSON for every trial; wins over each trial's header calibration
   --mapping FILE         trials in your own columns, units or table layout (lengthwise-mapping JSON)
   --events FILE          gait events from another system (CSV, TSV or NDJSON), merged into every trial
@@ -141,6 +142,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   });
   const outcomes = await runStudy(positionals, {
     jobs,
+    settings: files.settings,
     ...(calibration !== undefined ? { calibration } : {}),
     ...(mapping !== undefined ? { mapping } : {}),
     ...(values.events !== undefined ? { eventsPath: values.events } : {}),

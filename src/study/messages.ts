@@ -2,9 +2,12 @@
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { Side } from '../trial/records.ts';
+import type { Settings } from '../trial/settings.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
 
 export interface WorkerSetup {
+  /** Every processing choice, for every trial. */
+  readonly settings?: Settings;
   readonly calibration?: CalibrationSpec;
   /** Trials in a device's own names, units and table layout. */
   readonly mapping?: DeviceMapping;

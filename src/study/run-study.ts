@@ -9,6 +9,7 @@ import { Worker } from 'node:worker_threads';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { Side } from '../trial/records.ts';
+import type { Settings } from '../trial/settings.ts';
 import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
 
@@ -31,6 +32,8 @@ export type StudyEvent =
 export interface StudyOptions {
   /** Worker threads; never more than the files. @default os.availableParallelism() */
   readonly jobs?: number;
+  /** Every processing choice (--settings). @default DEFAULT_SETTINGS */
+  readonly settings?: Settings;
   readonly calibration?: CalibrationSpec;
   readonly mapping?: DeviceMapping;
   /** Gait events from another system, for every trial (--events). */
@@ -97,6 +100,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
   };
 
   const setup: WorkerSetup = {
+    ...(options.settings !== undefined ? { settings: options.settings } : {}),
     ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
     ...(options.mapping !== undefined ? { mapping: options.mapping } : {}),
     ...(options.eventsPath !== undefined ? { eventsPath: options.eventsPath } : {}),

@@ -27,6 +27,7 @@ async function withReport(outcome: TrialOutcome, key: number): Promise<TrialOutc
 port.on('message', (job: JobMessage) => {
   let posted = 0;
   void summarizeTrial(job.path, {
+    ...(setup.settings !== undefined ? { settings: setup.settings } : {}),
     ...(setup.calibration !== undefined ? { calibration: setup.calibration } : {}),
     ...(setup.mapping !== undefined ? { mapping: setup.mapping } : {}),
     ...(setup.eventsPath !== undefined ? { eventsPath: setup.eventsPath } : {}),

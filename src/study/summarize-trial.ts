@@ -8,6 +8,7 @@ import { trialSource } from '../../adapters/trial-source.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { Side } from '../trial/records.ts';
+import type { Settings } from '../trial/settings.ts';
 import { RejectionTally } from '../trial/rejection-tally.ts';
 import { noUsableSample } from '../run/no-usable-sample.ts';
 import { runTrial } from '../run/run-trial.ts';
@@ -36,6 +37,8 @@ export interface TrialProgress {
 }
 
 export interface SummarizeTrialOptions {
+  /** Every processing choice, as in `replay --settings`. @default DEFAULT_SETTINGS */
+  readonly settings?: Settings;
   /** Wins over each trial's header calibration, as in `replay --calibration`. */
   readonly calibration?: CalibrationSpec;
   /** Trials in a device's own names, units and table layout, as in `replay --mapping`. */
@@ -107,6 +110,7 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
   );
   const trial = runTrial(records$, {
     source: path,
+    ...(options.settings !== undefined ? { settings: options.settings } : {}),
     ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
     ...(options.sides !== undefined ? { sides: options.sides } : {}),
   });

@@ -10,7 +10,7 @@ import { parseCommandArgs } from './parse-command-args.ts';
 import { lstat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
-import { outputsApart, TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
+import { outputsApart, provenanceSources, TRIAL_FILE_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import { isLoopbackHost, parseConnect, parseDuration, parseListen } from './option-values.ts';
 import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
@@ -220,7 +220,8 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   // for, and in the system's temporary folder should its own place fail.
   const summary = values.summary ?? summaryPathFor(log.path);
   const summaryFallback = join(tmpdir(), `${basename(summary).replace(/\.json$/, '')}-${process.pid}.json`);
-  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report, summaryFallback }, io);
+  const provenance = provenanceSources(settings, values, [{ role: 'session_log', path: log.path }]);
+  const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report, summaryFallback, provenance }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
   if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);
   // An incomplete log is an output not written in full.

@@ -10,6 +10,8 @@ import type { CalibrationSpec } from '../model/calibration.ts';
 import type { CommandIo } from '../run/io.ts';
 import type { Side } from '../trial/records.ts';
 import { pathClash, type NamedPath } from '../run/output-paths.ts';
+import type { ProvenanceSources, RunInput } from '../run/run-provenance.ts';
+import { sidecarPath } from '../output/run-provenance.ts';
 
 /** --settings FILE: every processing choice (lengthwise-settings JSON); every command takes it. Read it with settingsOption. */
 export const SETTINGS_OPTION = { settings: { type: 'string' } } as const;
@@ -118,9 +120,29 @@ export function trialInputPaths(values: Readonly<Record<string, unknown>>): Name
   return optionPaths({ ...TRIAL_FILE_OPTIONS, events: TRIAL_INPUT_OPTIONS.events }, values);
 }
 
-/** The files a finished trial writes (TRIAL_OUTPUT_OPTIONS). */
+/** The files a finished trial writes (TRIAL_OUTPUT_OPTIONS), the stride table's provenance beside it included. */
 export function trialOutputPaths(values: Readonly<Record<string, unknown>>): NamedPath[] {
-  return optionPaths(TRIAL_OUTPUT_OPTIONS, values);
+  const paths = optionPaths(TRIAL_OUTPUT_OPTIONS, values);
+  const strides = values['strides'];
+  if (typeof strides === 'string') paths.push({ path: sidecarPath(strides), role: "--strides's provenance (FILE.provenance.json)" });
+  return paths;
+}
+
+/**
+ * What a trial's outputs record as their provenance: the settings in effect and the files the options
+ * name (the trial file and any others first, given in `first`).
+ */
+export function provenanceSources(
+  settings: Settings,
+  values: { readonly settings?: string | undefined; readonly calibration?: string | undefined; readonly mapping?: string | undefined; readonly events?: string | undefined },
+  first: readonly RunInput[],
+): ProvenanceSources {
+  const named: RunInput[] = [];
+  if (values.events !== undefined) named.push({ role: 'events', path: values.events });
+  if (values.mapping !== undefined) named.push({ role: 'mapping', path: values.mapping });
+  if (values.calibration !== undefined) named.push({ role: 'calibration', path: values.calibration });
+  if (values.settings !== undefined) named.push({ role: 'settings', path: values.settings });
+  return { settings, inputs: [...first, ...named], calibrationFile: values.calibration ?? null };
 }
 
 /**

@@ -2,7 +2,7 @@
 import { BehaviorSubject, interval, map, ReplaySubject, switchMap, take, tap, type Observable } from 'rxjs';
 import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
-import { outputsApart, sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
+import { outputsApart, provenanceSources, sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
 import { trialSource } from '../../adapters/trial-source.ts';
 import { RejectionTally } from '../trial/rejection-tally.ts';
@@ -137,7 +137,16 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       return 1;
     }
     for (const warning of namesMissingFromTrial(final.state, { sides, calibration })) io.err(`warning: ${warning}`);
-    return await finishTrial(final.state, { summary: values.summary, strides: values.strides, report: values.report }, io);
+    return await finishTrial(
+      final.state,
+      {
+        summary: values.summary,
+        strides: values.strides,
+        report: values.report,
+        provenance: provenanceSources(files.settings, values, [{ role: 'trial', path }]),
+      },
+      io,
+    );
   } finally {
     listening();
   }

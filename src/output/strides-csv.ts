@@ -54,11 +54,12 @@ export const STRIDE_COLUMNS = [
   ...PHASE_FIELDS.map((f) => `swing_${f}`),
 ] as const;
 
-type Field = string | number | null;
+type Field = string | number | boolean | null;
 
-/** Quotes a field only when it must (comma, quote, CR or LF), doubling inner quotes. */
+/** Quotes a field only when it must (comma, quote, CR or LF), doubling inner quotes; booleans are true/false. */
 export function csvField(value: Field): string {
   if (value === null) return '';
+  if (typeof value === 'boolean') return value ? 'true' : 'false';
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '';
   return /[",\r\n]/.test(value) ? `"${value.replaceAll('"', '""')}"` : value;
 }
@@ -93,7 +94,8 @@ function strideFields(name: string, side: string | null, s: StrideSummary): Fiel
   return [
     name,
     side,
-    s.index,
+    // The stride's number as the dashboard and the summary show it: 1, 2, …
+    s.index + 1,
     s.startS,
     s.endS,
     durationS,
@@ -105,7 +107,7 @@ function strideFields(name: string, side: string | null, s: StrideSummary): Fiel
     s.gapS,
     s.sampleCount,
     s.segmentation ?? null,
-    s.flagged === undefined ? null : s.flagged ? 1 : 0,
+    s.flagged === undefined ? null : s.flagged,
     durationS > 0 ? s.gapS / durationS : null,
     opt(s.slP5Um),
     opt(s.slP95Um),

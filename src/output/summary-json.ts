@@ -9,6 +9,7 @@ import { METHOD_LABEL } from '../model/calibration.ts';
 import type { CurveShape } from '../model/muscle-model.ts';
 import { provenanceJson, type ProvenanceJson } from './provenance-json.ts';
 import { roundFigures } from './output-precision.ts';
+import type { RunProvenanceJson } from './run-provenance.ts';
 
 /** Per region, the 90% interval [5th, 95th percentile] of its fraction under calibration uncertainty. */
 export type RegionIntervalJson = Record<RegionKey, [number | null, number | null]>;
@@ -190,7 +191,16 @@ export interface SummaryJson {
   };
   muscles: Record<string, MuscleJson>;
   warnings: string[];
+  /** The trial's markers in order (at most MAX_MARKERS_LISTED): device time and text. */
+  markers: MarkerJson[];
   ended: boolean;
+  /** What made this summary: the tool, its version, the settings, the input files, each muscle's calibration. */
+  provenance?: RunProvenanceJson;
+}
+
+export interface MarkerJson {
+  t_s: number;
+  text: string;
 }
 
 /** JSON has no NaN: an unknown figure is null. */
@@ -357,7 +367,8 @@ function phaseJson(s: SegmentFigures | null | undefined): PhaseJson | null {
 function strideJson(s: StrideSummary): StrideJson {
   const durationS = s.endS - s.startS;
   return {
-    index: s.index,
+    // Numbered from 1, as the dashboard shows them (the pipeline counts from 0).
+    index: s.index + 1,
     start_s: s.startS,
     end_s: s.endS,
     duration_s: durationS,
@@ -413,12 +424,15 @@ function muscleJson(m: MuscleState): MuscleJson {
   };
 }
 
-/** The summary of a trial, every figure rounded to its unit's precision (src/output/output-precision.ts). */
-export function summaryJson(state: TrialState): SummaryJson {
+/**
+ * The summary of a trial, every figure rounded to its unit's precision (src/output/output-precision.ts);
+ * with its provenance last when one is given (made by the command, which knows the files it read).
+ */
+export function summaryJson(state: TrialState, provenance?: RunProvenanceJson): SummaryJson {
   // Own properties for every name, __proto__ included (an assignment would set the object's prototype).
   const muscles: Record<string, MuscleJson> = Object.fromEntries([...state.muscles].map(([name, m]) => [name, muscleJson(m)]));
   const f = state.frames;
-  return roundFigures<SummaryJson>({
+  const summary = roundFigures<SummaryJson>({
     format: 'lengthwise-summary',
     version: 1,
     source: state.source,
@@ -437,6 +451,8 @@ export function summaryJson(state: TrialState): SummaryJson {
     },
     muscles,
     warnings: [...state.warnings],
+    markers: (state.markers ?? []).map((m) => ({ t_s: m.tS, text: m.text })),
     ended: state.ended,
   });
+  return provenance === undefined ? summary : { ...summary, provenance };
 }

@@ -17,7 +17,7 @@ import { sarcomereCountSpread } from '../model/calibration.ts';
 import { regionProbabilities } from '../model/region-probability.ts';
 import { curveForCalibration } from '../model/calibration-curve.ts';
 import { DEFAULT_GAP_S } from './mark-gaps.ts';
-import { DEFAULT_SETTINGS } from '../trial/settings.ts';
+import { DEFAULT_SETTINGS, MAX_MARKERS_LISTED } from '../trial/settings.ts';
 import { CycleBuffer, SegmentAccumulator, emptyCycleCurve, foldCycle, resampleCycle, type Held } from '../trial/stride-figures.ts';
 
 export interface AccumulateSummaryOptions {
@@ -81,9 +81,19 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
         frames: emptyFrameCounts(),
         muscles: new Map(),
         warnings: [],
+        markers: [],
         lastTS: Number.NaN,
         firstTS: Number.NaN,
         ended: false,
+      };
+      const markers = state.markers as NonNullable<TrialState['markers']>;
+      let markersSeen = 0;
+      const listMarker = (tS: number, text: string): void => {
+        markersSeen++;
+        if (markersSeen <= MAX_MARKERS_LISTED) markers.push({ tS, text });
+        else if (markersSeen === MAX_MARKERS_LISTED + 1) {
+          state.warnings.push(`more than ${MAX_MARKERS_LISTED} markers: the summary lists the first ${MAX_MARKERS_LISTED} (frames.markers counts them all)`);
+        }
       };
       const accumulators = new Map<string, MuscleAccumulator>();
       const probability = new Float64Array(REGION_KEYS.length);
@@ -308,6 +318,10 @@ export function accumulateSummary(options: AccumulateSummaryOptions): OperatorFu
             if (f.event === 'toe_off') onToeOff(f);
             return;
           case 'marker':
+            state.frames.received++;
+            state.frames.markers++;
+            listMarker(f.tS, f.marker);
+            return;
           case 'disconnection':
           case 'clock_reset':
             // A lost connection counts among the markers, as it did when it was one; a device's clock restart too.

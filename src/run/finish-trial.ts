@@ -5,6 +5,7 @@ import { summaryJson, trialFigures } from '../output/summary-json.ts';
 import { stridesCsv } from '../output/strides-csv.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { REGION_KEYS, REGION_LABEL } from '../model/regions.ts';
+import { trialProvenance, writeSidecar, type ProvenanceSources } from './run-provenance.ts';
 
 export interface FinishOptions {
   readonly summary?: string | undefined;
@@ -13,13 +14,22 @@ export interface FinishOptions {
   readonly report?: string | undefined;
   /** Where the summary goes when its own path cannot be written (a live session cannot be run again); the status is 1 all the same. */
   readonly summaryFallback?: string | undefined;
+  /** What the outputs' provenance is made from: the settings and every file the run read. */
+  readonly provenance?: ProvenanceSources;
 }
 
-/** Writes the summary, stride table and report if asked; exit status 1 when a file could not be written. */
+/**
+ * Writes the summary, stride table (with its provenance beside it) and report if asked; exit status 1
+ * when a file could not be written.
+ */
 export async function finishTrial(state: TrialState, options: FinishOptions, io: CommandIo): Promise<number> {
   let status = 0;
+  if (options.summary === undefined && options.strides === undefined && options.report === undefined) return status;
+  const bare = summaryJson(state);
+  const provenance = options.provenance !== undefined ? await trialProvenance(bare, options.provenance) : undefined;
+  const summary = provenance !== undefined ? { ...bare, provenance } : bare;
   if (options.summary !== undefined) {
-    const text = `${JSON.stringify(summaryJson(state), null, 2)}\n`;
+    const text = `${JSON.stringify(summary, null, 2)}\n`;
     let result = await writeFileAtomic(options.summary, text);
     if (!result.ok && options.summaryFallback !== undefined) {
       io.err(`lengthwise: ${result.message}`);
@@ -39,11 +49,16 @@ export async function finishTrial(state: TrialState, options: FinishOptions, io:
       io.err(`lengthwise: ${result.message}`);
       status = 1;
     }
+    const sidecar = result.ok && provenance !== undefined ? await writeSidecar(options.strides, provenance) : null;
+    if (sidecar !== null && !sidecar.ok) {
+      io.err(`lengthwise: ${sidecar.message}`);
+      status = 1;
+    }
   }
   if (options.report !== undefined) {
     // Loaded only when asked for: the plotting libraries take a moment to load.
     const { writeReport } = await import('../report/write-report.ts');
-    const result = await writeReport(options.report, [summaryJson(state)], { title: `lengthwise report: ${state.trial ?? state.source}` });
+    const result = await writeReport(options.report, [summary], { title: `lengthwise report: ${state.trial ?? state.source}` });
     if (result.ok) io.err(`report written to ${result.path}`);
     else {
       io.err(`lengthwise: ${result.message}`);

@@ -30,6 +30,12 @@ export const MAX_HELD_FRAMES = 200_000;
  */
 export const CLOCK_RESET_MIN_S = 1;
 
+/**
+ * Most markers one trial lists (time and text) in its summary; every marker is still counted
+ * (frames.markers), and the summary's warnings say when some are not listed.
+ */
+export const MAX_MARKERS_LISTED = 10_000;
+
 /** The processing settings, in the settings file's own key names (units at the end of each). */
 export interface Settings {
   /** Samples below this tracking quality are skipped: no smoothing update, no estimate, their time is gap time. */

@@ -116,11 +116,19 @@ export interface TrialState {
   readonly muscles: Map<string, MuscleState>;
   /** Things a person should know, said once each (side assumed, uncalibrated baseline used, …). */
   readonly warnings: string[];
+  /** The trial's markers, in order, at most MAX_MARKERS_LISTED (absent in states made by hand: none). */
+  readonly markers?: TrialMarker[];
   /** Device time of the newest record. */
   lastTS: number;
   /** Device time of the first record. */
   firstTS: number;
   ended: boolean;
+}
+
+/** A marker placed in the trial: its device time and its text. */
+export interface TrialMarker {
+  readonly tS: number;
+  readonly text: string;
 }
 
 export function emptyFrameCounts(): FrameCounts {

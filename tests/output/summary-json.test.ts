@@ -64,7 +64,7 @@ describe('summaryJson', () => {
     const m = json.muscles['calf, medial'];
     expect(m?.species).toBe('human');
     expect(m?.sarcomeres_in_series).toBe(20000);
-    expect(m?.strides[0]).toMatchObject({ index: 0, start_s: 0, end_s: 1, sl_min_um: 2.5, sl_max_um: 3.0, sl_mean_um: 2.7, force_mean: 0.9 });
+    expect(m?.strides[0]).toMatchObject({ index: 1, start_s: 0, end_s: 1, sl_min_um: 2.5, sl_max_um: 3.0, sl_mean_um: 2.7, force_mean: 0.9 });
     expect(Object.keys(m?.strides[0]?.region_fraction ?? {})).toEqual(['too_short', 'steep_ascending', 'shallow_ascending', 'plateau', 'descending', 'no_overlap']);
   });
 
@@ -91,7 +91,7 @@ describe('stridesCsv', () => {
     expect(rows[0]).toBe(STRIDE_COLUMNS.join(','));
     expect(rows[0]).toContain('sl_min_um');
     expect(rows).toHaveLength(3);
-    expect(rows[1]?.startsWith('"calf, medial",left,0,0,1,1,2.5,3,2.7,')).toBe(true);
+    expect(rows[1]?.startsWith('"calf, medial",left,1,0,1,1,2.5,3,2.7,')).toBe(true);
   });
 
   it('quotes per RFC 4180 (Shafranovich 2005, RFC 4180 §2): commas, quotes and line breaks', () => {

@@ -6,6 +6,7 @@ import { stageChecklist } from '../helpers/stage-checklist.ts';
 import type { Batch, Frame, Sample } from '../../src/trial/records.ts';
 import type { RegionKey } from '../../src/model/regions.ts';
 import type { TrialState } from '../../src/trial/state.ts';
+import { MAX_MARKERS_LISTED } from '../../src/trial/settings.ts';
 
 stageChecklist('accumulateSummary', () => accumulateSummary({ source: 'test' }));
 
@@ -31,6 +32,15 @@ async function final(batches: Batch[]): Promise<TrialState> {
 }
 
 describe('accumulateSummary', () => {
+  it('lists markers with their time and text, at most MAX_MARKERS_LISTED, counting them all and saying so once', async () => {
+    const many: Frame[] = Array.from({ length: MAX_MARKERS_LISTED + 5 }, (_, i) => ({ kind: 'marker', tS: i / 100, marker: `m${i}`, line: i + 1 }));
+    const state = await final([[{ kind: 'marker', tS: 0, marker: 'start', line: 1 }], many]);
+    expect(state.frames.markers).toBe(MAX_MARKERS_LISTED + 6);
+    expect(state.markers).toHaveLength(MAX_MARKERS_LISTED);
+    expect(state.markers?.slice(0, 2)).toEqual([{ tS: 0, text: 'start' }, { tS: 0, text: 'm0' }]);
+    expect(state.warnings.filter((w) => w.startsWith(`more than ${MAX_MARKERS_LISTED} markers`))).toHaveLength(1);
+  });
+
   it('emits a state at once, before any input, and marks the last one ended', async () => {
     const states = await lastValueFrom(from([] as Batch[]).pipe(accumulateSummary({ source: 'x' }), toArray()));
     expect(states).toHaveLength(2);

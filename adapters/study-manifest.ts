@@ -272,10 +272,15 @@ export async function readStudyManifest(path: string, options: ManifestOptions =
     }
   }
 
-  // Trials without a name are numbered within their subject and condition; then each name once.
+  // Trials without a name are numbered within their subject and condition; then each name once, and each file once.
   const counts = new Map<string, number>();
   const firstRow = new Map<string, number>();
+  const fileRow = new Map<string, number>();
   const rows: ManifestRow[] = pending.map((p) => {
+    const sameFile = p.file !== '' ? fileRow.get(p.file) : undefined;
+    if (sameFile !== undefined) {
+      problems.push({ row: p.row, column: 'file', message: `the trial file is given in row ${sameFile} already; each row is a trial of its own file` });
+    } else if (p.file !== '') fileRow.set(p.file, p.row);
     const group = `${p.subject}\u0000${p.condition}`;
     const place = (counts.get(group) ?? 0) + 1;
     counts.set(group, place);

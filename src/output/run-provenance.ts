@@ -52,3 +52,48 @@ export function versionNumber(toolVersionText: string): string {
 export function sidecarPath(csvPath: string): string {
   return `${csvPath}.provenance.json`;
 }
+
+/** A study's calibration entry: one trial × muscle, with who and which trial it is. */
+export interface StudyCalibrationEntry extends MuscleCalibrationEntry {
+  subject: string | null;
+  condition: string | null;
+  trial: string | null;
+  trial_file: string;
+}
+
+/** How a study's tables were made, for its methods section. */
+export interface StudyDescriptionJson {
+  /** The manifest, or null for trials given as files. */
+  manifest: string | null;
+  subjects: string[];
+  conditions: string[];
+  /** Rows of the manifest (or files given). */
+  trials: number;
+  trials_summarized: number;
+  /** Trials marked exclude=true: in trials.csv, left out of the group, comparison and cycle tables. */
+  trials_excluded: number;
+  /** Trials that could not be summarized: left out of every table. */
+  trials_failed: { file: string; row: number | null; message: string }[];
+  statistics: typeof STUDY_STATISTICS;
+}
+
+/** How groups.csv, comparisons.csv and cycles.csv are made, in words a methods section can take. */
+export const STUDY_STATISTICS = {
+  unit: 'subject',
+  subject_value: "the plain mean of the subject's included trials in the condition (trials marked exclude=true left out)",
+  spread: 'sample standard deviation across subjects (n − 1)',
+  interval: '95 % confidence interval of the mean across subjects, t distribution with n − 1 degrees of freedom; none for one subject',
+  comparison: 'paired t-test, two-sided, over the subjects who have both conditions; mean difference b − a with its 95 % interval; dz = mean difference / SD of the differences',
+  cycle: "each trial's gait-cycle curve (101 points, the unflagged strides' mean), a subject's curve the mean of its trials', then the mean and SD across subjects at each point",
+  t_distribution: '@stdlib/stats-base-dists-t-quantile and @stdlib/stats-base-dists-t-cdf',
+} as const;
+
+export interface StudyProvenanceJson {
+  tool: 'lengthwise';
+  version: string;
+  created_utc: string;
+  settings: SettingsDocument;
+  inputs: InputFileJson[];
+  calibration: StudyCalibrationEntry[];
+  study: StudyDescriptionJson;
+}

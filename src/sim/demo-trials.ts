@@ -8,6 +8,7 @@ import { writeFile } from 'node:fs/promises';
 import { calibrationJson, createTrial, type Scenario, type TrialSpec } from './gait-generator.ts';
 import { scenarioSpec } from './scenarios.ts';
 import { writeCsv, writeNdjson, type WriteResult } from './writers.ts';
+import { DEMO_STUDY, writeStudy } from './demo-study.ts';
 
 /** One invented subject's trial at 100 Hz, fully calibrated in its header, with what happens in it. */
 function demoTrial(scenario: Scenario, seed: number, durationS: number, trial: string, events: Pick<TrialSpec, 'dropouts' | 'markers' | 'badLines'>): TrialSpec {
@@ -80,5 +81,6 @@ export async function makeReplays(outDir: string): Promise<WriteResult[]> {
     await writeCsv(walk.records({ badLines: 'csv' }), join(outDir, DEMO_FILES.walkCsv)),
     calResult,
     await writeNdjson(run.records(), join(outDir, DEMO_FILES.runNdjson)),
+    ...(await writeStudy(join(outDir, 'study'), DEMO_STUDY)),
   ];
 }

@@ -19,12 +19,23 @@ export interface WorkerSetup {
   readonly progressEverySamples: number;
   /** Draw each trial's report sections too, keyed by the job's place in the study (id + 1). */
   readonly drawReport: boolean;
+  /** Read each trial's input files' sizes and SHA-256 for the provenance (outcome.inputs), beside the trial. */
+  readonly describeInputs?: boolean;
+}
+
+/** A trial's own files and sides (a study manifest's row); each given wins over the study's for that trial. */
+export interface TrialSetup {
+  readonly calibration?: CalibrationSpec;
+  readonly mapping?: DeviceMapping;
+  readonly eventsPath?: string;
+  readonly sides?: Readonly<Record<string, Side>>;
 }
 
 export interface JobMessage {
   readonly type: 'job';
   readonly id: number;
   readonly path: string;
+  readonly trial?: TrialSetup;
 }
 
 export type WorkerMessage =

@@ -10,7 +10,7 @@ import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { Side } from '../trial/records.ts';
 import type { Settings } from '../trial/settings.ts';
-import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
+import type { JobMessage, TrialSetup, WorkerMessage, WorkerSetup } from './messages.ts';
 import type { TrialOutcome } from './summarize-trial.ts';
 
 export interface StudyProgress {
@@ -46,6 +46,10 @@ export interface StudyOptions {
   readonly progressEverySamples?: number;
   /** Have the workers draw each trial's report sections as well (outcome.reportSections). @default false */
   readonly drawReport?: boolean;
+  /** Have the workers read each trial's files' sizes and SHA-256 (outcome.inputs). @default false */
+  readonly describeInputs?: boolean;
+  /** Each trial's own calibration, mapping, events file and sides (a manifest's rows), in the paths' order. */
+  readonly perTrial?: readonly (TrialSetup | undefined)[];
 }
 
 /**
@@ -107,6 +111,7 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
     ...(options.sides !== undefined ? { sides: options.sides } : {}),
     progressEverySamples: options.progressEverySamples ?? 20_000,
     drawReport: options.drawReport ?? false,
+    describeInputs: options.describeInputs ?? false,
   };
   const requested = options.jobs ?? defaultJobs();
   const jobs = Math.max(1, Math.min(Number.isFinite(requested) ? Math.floor(requested) : 1, total));
@@ -147,7 +152,8 @@ export async function runStudy(paths: readonly string[], options: StudyOptions =
       }
       const id = next++;
       slot.job = id;
-      const job: JobMessage = { type: 'job', id, path: paths[id] as string };
+      const trial = options.perTrial?.[id];
+      const job: JobMessage = { type: 'job', id, path: paths[id] as string, ...(trial !== undefined ? { trial } : {}) };
       slot.worker.postMessage(job);
     };
 

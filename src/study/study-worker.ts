@@ -2,6 +2,7 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import type { JobMessage, WorkerMessage, WorkerSetup } from './messages.ts';
 import { summarizeTrial, type TrialOutcome } from './summarize-trial.ts';
+import { describeInputs, type RunInput } from '../run/run-provenance.ts';
 
 const port = parentPort;
 if (port === null) throw new Error('study-worker.ts runs only as a worker thread; start it through runStudy');
@@ -26,12 +27,20 @@ async function withReport(outcome: TrialOutcome, key: number): Promise<TrialOutc
 
 port.on('message', (job: JobMessage) => {
   let posted = 0;
+  // A trial's own files win over the study's.
+  const calibration = job.trial?.calibration ?? setup.calibration;
+  const mapping = job.trial?.mapping ?? setup.mapping;
+  const eventsPath = job.trial?.eventsPath ?? setup.eventsPath;
+  const sides = job.trial?.sides ?? setup.sides;
+  // The trial's files are read for their SHA-256 while the trial runs.
+  const files: RunInput[] = [{ role: 'trial', path: job.path }, ...(eventsPath !== undefined ? [{ role: 'events' as const, path: eventsPath }] : [])];
+  const described = setup.describeInputs === true ? describeInputs(files) : Promise.resolve(undefined);
   void summarizeTrial(job.path, {
     ...(setup.settings !== undefined ? { settings: setup.settings } : {}),
-    ...(setup.calibration !== undefined ? { calibration: setup.calibration } : {}),
-    ...(setup.mapping !== undefined ? { mapping: setup.mapping } : {}),
-    ...(setup.eventsPath !== undefined ? { eventsPath: setup.eventsPath } : {}),
-    ...(setup.sides !== undefined ? { sides: setup.sides } : {}),
+    ...(calibration !== undefined ? { calibration } : {}),
+    ...(mapping !== undefined ? { mapping } : {}),
+    ...(eventsPath !== undefined ? { eventsPath } : {}),
+    ...(sides !== undefined ? { sides } : {}),
     onProgress: ({ bytesRead, samples }) => {
       if (samples - posted < setup.progressEverySamples) return;
       posted = samples;
@@ -44,6 +53,10 @@ port.on('message', (job: JobMessage) => {
       bytes: 0,
       message: `${job.path} could not be summarized: ${error instanceof Error ? error.message : String(error)}`,
     }))
+    .then(async (outcome) => {
+      const inputs = await described;
+      return outcome.ok && inputs !== undefined ? { ...outcome, inputs } : outcome;
+    })
     .then((outcome) => (setup.drawReport ? withReport(outcome, job.id + 1) : outcome))
     .then((outcome) => post({ type: 'done', id: job.id, outcome }));
 });

@@ -13,6 +13,7 @@ import { RejectionTally } from '../trial/rejection-tally.ts';
 import { noUsableSample } from '../run/no-usable-sample.ts';
 import { runTrial } from '../run/run-trial.ts';
 import { summaryJson, type SummaryJson } from '../output/summary-json.ts';
+import type { InputFileJson } from '../output/run-provenance.ts';
 import type { TrialState } from '../trial/state.ts';
 
 export type TrialOutcome =
@@ -27,6 +28,8 @@ export type TrialOutcome =
       readonly reportSections?: string;
       /** The plotting libraries' warnings while drawing them. */
       readonly reportWarnings?: readonly string[];
+      /** The trial's input files (the trial, its events file) with their sizes and SHA-256, when the study asked. */
+      readonly inputs?: readonly InputFileJson[];
     }
   | { readonly ok: false; readonly path: string; readonly message: string; readonly bytes: number };
 

@@ -110,6 +110,11 @@ describe('a study manifest', () => {
     ]);
   });
 
+  it('refuses the same trial file in two rows', async () => {
+    const found = problems(await manifest('same-file.csv', [['subject', 'condition', 'file'], ['S01', 'slow', 'trials/a1.csv'], ['S01', 'slow', './trials/a1.csv']]));
+    expect(found).toEqual(['row 3, column "file": the trial file is given in row 2 already; each row is a trial of its own file']);
+  });
+
   it('says what a calibration file named in a row lacks, as --calibration would', async () => {
     const found = problems(await manifest('bad-cal.csv', [['subject', 'condition', 'file', 'calibration'], ['S01', 'slow', 'trials/a1.csv', 'cal-bad.json']]));
     expect(found).toHaveLength(1);

@@ -147,4 +147,35 @@ describe('studyCsv', () => {
     expect(rows[2]).toMatchObject({ made_up_figure_um: '', plateau_probability: '' });
     expect(rows.every((r) => Object.keys(r).length === columns.length)).toBe(true);
   });
+
+  it('has the same columns whatever the calibrations provide: uncertainty figures are empty without one', () => {
+    const plain = summaries[0]!;
+    const uncertain = edited(plain, (c) => {
+      for (const m of Object.values(c.muscles)) {
+        Object.assign(m.trial, {
+          region_probability: { ...m.trial.region_fraction },
+          region_probability_90: Object.fromEntries(REGION_KEYS.map((k) => [k, [0.1, 0.6]])),
+        });
+      }
+    });
+    expect(studyColumns([plain])).toEqual(studyColumns([uncertain]));
+    expect(studyColumns([plain])).toEqual(expect.arrayContaining(['plateau_probability', 'plateau_probability_p5', 'stance_plateau_probability_p95']));
+    expect(csvRecords(studyCsv([plain]))[0]?.plateau_probability).toBe('');
+  });
+
+  it('gives each stride figure\'s sample SD and CV across the unflagged strides', () => {
+    const s = edited(summaries[0]!, (c) => {
+      const m = c.muscles.calf!;
+      const template = m.strides[0]!;
+      m.strides = [2.5, 2.6, 2.9, 9.9].map((mean, i) => ({ ...template, index: i + 1, sl_mean_um: mean, flagged: i === 3 }));
+    });
+    const [row] = csvRecords(studyCsv([s]));
+    // 2.5, 2.6, 2.9: mean 2.6667, sample SD 0.2082 (the flagged 9.9 left out).
+    expect(csvNumber(row?.sl_mean_stride_sd_um)).toBeCloseTo(0.2082, 4);
+    expect(csvNumber(row?.sl_mean_stride_cv)).toBeCloseTo(0.2082 / 2.6667, 4);
+    const one = edited(summaries[0]!, (c) => {
+      c.muscles.calf!.strides = c.muscles.calf!.strides.slice(0, 1);
+    });
+    expect(csvRecords(studyCsv([one]))[0]?.sl_mean_stride_sd_um).toBe('');
+  });
 });

@@ -10,6 +10,7 @@
  * | `_mm_s` | mm/s | 3 | 1 µm/s |
  * | `_s` (and histogram `seconds`) | s | 6 | 1 µs: the finest clock a device mapping reads |
  * | `sarcomeres_in_series` | count | 2 | an estimated count (N = fascicle ÷ sarcomere length) |
+ * | `p` (a study's comparisons) | probability | 6 significant digits | a p-value can lie far below 10⁻⁶, where 6 decimals would write 0 |
  * | anything else | fractions, probabilities, relative forces and SDs (0–1.5) | 6 | one part in a million |
  *
  * Whole numbers (counts, indices) are written as they are. The text of a rounded number is then the
@@ -51,6 +52,11 @@ export function roundTo(x: number, decimals: number): number {
   }
   const r = Math.round(y) / scale;
   return r === 0 ? 0 : x < 0 ? -r : r;
+}
+
+/** A p-value as written: 6 significant digits (see the table above); not finite: unchanged. */
+export function roundPValue(p: number): number {
+  return Number.isFinite(p) && p !== 0 ? Number(p.toPrecision(6)) : p;
 }
 
 /** Decimals by key, found once per key name (a summary has a few dozen names and many thousand numbers). */

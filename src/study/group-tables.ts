@@ -6,7 +6,7 @@
  * subjects (src/model/group-stats.ts). Conditions come in the manifest's order, muscles as first seen.
  */
 import { groupFigures, meanOf, pairedTTest } from '../model/group-stats.ts';
-import { decimalsFor, roundTo } from '../output/output-precision.ts';
+import { decimalsFor, roundPValue, roundTo } from '../output/output-precision.ts';
 import { CYCLE_GROUP_SUBJECTS, type ComparisonRow, type CycleRow, type GroupRow } from '../output/study-rows.ts';
 import { cellValue, studyTableColumns, tableRows, type Column, type RowContext, type StudyTableOptions, type TableTrial } from './study-csv.ts';
 
@@ -24,9 +24,8 @@ function rounded(x: number | null, decimals: number): number | null {
   return x === null ? null : roundTo(x, decimals);
 }
 
-/** A p-value to 6 significant digits: it can lie far below 10⁻⁶, where 6 decimals would write 0. */
 function pValue(p: number | null): number | null {
-  return p === null ? null : Number(p.toPrecision(6));
+  return p === null ? null : roundPValue(p);
 }
 
 /** The study's trials, grouped: condition → muscle → subject → its trials × muscle rows. */

@@ -238,6 +238,9 @@ async function openDashboard(
   stdout: FakeStdout,
   thread: 'main' | 'own',
 ): Promise<{ unmount(): void; waitUntilExit(): Promise<void> }> {
+  // In colour, as on a 256-colour terminal, whatever this process's own output is: on the main thread the
+  // colour library reads FORCE_COLOR when it loads (the screen's thread is told by the stand-in terminal).
+  process.env['FORCE_COLOR'] ??= '2';
   const { startDashboard } = await import('../src/dashboard/thread/start-dashboard.tsx');
   return startDashboard({
     state$: run.state$,

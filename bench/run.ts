@@ -1,12 +1,12 @@
 /**
  * npm run bench: replay throughput of the tool against a plain loop doing the same work, live latency
- * over a real WebSocket, and memory over a long replay. Writes bench/results/<date-time>.json and prints
- * a short table. Machines here are shared and noisy, so speed is reported as the median ratio of
+ * over a real WebSocket, memory over a long replay, and the dashboard's CPU per frame. Writes
+ * bench/results/<date-time>.json and prints a short table. Machines here are shared and noisy, so speed is reported as the median ratio of
  * alternating runs (tool, loop, tool, loop, …) made in the same process.
  *
  *   npm run bench                  # full sizes (a few minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, under a minute
- *   npm run bench -- --only replay # or live, memory; several: --only replay,live
+ *   npm run bench -- --only replay # or live, memory, screen; several: --only replay,live
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -52,6 +52,8 @@ interface Args {
   readonly samples: number;
   readonly pairs: number;
   readonly memorySamples: number;
+  /** Frames per pass of the screen bench. */
+  readonly screenFrames: number;
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -60,10 +62,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,live,memory').split(','));
+  const only = new Set((value('--only') ?? 'replay,live,memory,screen').split(','));
   for (const part of only) {
-    if (!['replay', 'live', 'memory'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, live, memory (comma-separated)`);
+    if (!['replay', 'live', 'memory', 'screen'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, live, memory, screen (comma-separated)`);
       process.exit(2);
     }
   }
@@ -73,6 +75,7 @@ function parseArgs(argv: readonly string[]): Args {
     samples: Number(value('--samples') ?? (quick ? 200_000 : 1_000_000)),
     pairs: Number(value('--pairs') ?? (quick ? 3 : 5)),
     memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
+    screenFrames: quick ? 60 : 200,
   };
 }
 
@@ -156,6 +159,18 @@ async function replayInChild(format: BenchFormat, samples: number, pairs: number
   return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as ReplayResult;
 }
 
+/** bench/screen-frames.ts in a fresh process: its table line and its figures. */
+async function screenInChild(frames: number, passes: number): Promise<{ readonly line: string } & Record<string, unknown>> {
+  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+  const { stdout } = await execFileAsync(
+    process.execPath,
+    [join(root, 'bin/run-ts.js'), join(root, 'bench/screen-frames.ts'), '--frames', String(frames), '--passes', String(passes)],
+    { maxBuffer: 16 * 1024 * 1024 },
+  );
+  const [line = '', json = '{}'] = stdout.trim().split('\n').slice(-2);
+  return { ...(JSON.parse(json) as Record<string, unknown>), line: line.replace(/^screen /, '') };
+}
+
 async function replayChild(format: BenchFormat, samples: number, pairs: number): Promise<void> {
   const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
   try {
@@ -225,6 +240,12 @@ async function main(): Promise<void> {
           `${memory.rssGrowthMb.toFixed(1)} MB, peak ${memory.peakRssMb.toFixed(0)} MB), heap ${memory.heapStartMb.toFixed(1)} → ${memory.heapEndMb.toFixed(1)} MB, ` +
           `${memory.strides} strides kept`,
       );
+    }
+    if (args.only.has('screen')) {
+      console.error(`bench: the dashboard's CPU per frame, ${args.screenFrames} frames a pass, in a fresh process…`);
+      const screen = await screenInChild(args.screenFrames, args.quick ? 3 : 5);
+      out['screen'] = screen;
+      lines.push(`screen ${screen.line}`);
     }
   } finally {
     await rm(dir, { recursive: true, force: true });

@@ -9,11 +9,20 @@
  * this process meanwhile). It also prints a digest of every byte written, so two versions of the
  * dashboard can be checked to write the same screens.
  *
- * Usage: node bin/run-ts.js bench/screen-frames.ts [--frames 200] [--passes 5] [--columns 120] [--rows 40] [--muscles 4] [--no-color]
+ * With --against DIR (another checkout of lengthwise, e.g. an earlier commit unpacked with its
+ * node_modules linked to these), that checkout's dashboard draws the same frames in the same process,
+ * its passes alternating with this one's (this, that, that, this, …): before and after in one run, on
+ * the same machine at the same moment. The frames are made by this checkout's pipeline.
+ *
+ * Usage: node bin/run-ts.js bench/screen-frames.ts [--frames 200] [--passes 5] [--columns 120] [--rows 40] [--muscles 4] [--no-color] [--against DIR]
  * Prints a table, then one line of JSON.
  */
 import { createHash } from 'node:crypto';
 import { EventEmitter } from 'node:events';
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { register } from 'tsx/esm/api';
 
 const argv = process.argv.slice(2);
 const value = (name: string, fallback: number): number => {
@@ -31,6 +40,12 @@ const columns = value('--columns', 120);
 const rows = value('--rows', 40);
 const muscleCount = value('--muscles', 4);
 const color = !argv.includes('--no-color');
+const againstAt = argv.indexOf('--against');
+const against = againstAt >= 0 ? argv[againstAt + 1] : undefined;
+if (againstAt >= 0 && (against === undefined || !existsSync(join(against, 'src/dashboard/components/dashboard.tsx')))) {
+  console.error(`screen-frames: --against takes a checkout of lengthwise (a folder with src/dashboard/components/dashboard.tsx); got ${against ?? 'nothing'}`);
+  process.exit(2);
+}
 
 // Chalk reads FORCE_COLOR when it loads: as the screen's thread is told a 256-colour terminal's depth.
 process.env['FORCE_COLOR'] = color ? '2' : '0';
@@ -40,6 +55,7 @@ const { render } = await import('ink');
 const { createElement } = await import('react');
 const { Subject } = await import('rxjs');
 const { default: Dashboard } = await import('../src/dashboard/components/dashboard.tsx');
+type DashboardComponent = typeof Dashboard;
 const { createTracker, observeTrial } = await import('../src/dashboard/view/view-model.ts');
 const { shareFrame } = await import('../src/dashboard/view/share-frame.ts');
 const { runTrial } = await import('../src/run/run-trial.ts');
@@ -50,6 +66,9 @@ type TrialFrame = import('../src/dashboard/view/trial-frames.ts').TrialFrame;
 type Batch = import('../src/trial/records.ts').Batch;
 
 const FRAME_MS = 110;
+/** Ink brackets each screen it writes to a terminal with these (synchronized output). */
+const BEGIN_SYNC = '\u001B[?2026h';
+const END_SYNC = '\u001B[?2026l';
 const MESSAGE_MS = 10;
 
 /** The frames the screen's thread would get from a live walk: plain data, copied, shared with the one before. */
@@ -87,11 +106,14 @@ class Screen extends EventEmitter {
   readonly isTTY = true;
   readonly columns = columns;
   readonly rows = rows;
-  hash = createHash('sha256');
+  readonly hash = createHash('sha256');
   bytes = 0;
+  /** Screens written: writes other than the synchronized-output brackets alone. */
+  written = 0;
   write = (chunk: string): boolean => {
     this.bytes += chunk.length;
     this.hash.update(chunk);
+    if (chunk !== BEGIN_SYNC && chunk !== END_SYNC) this.written++;
     return true;
   };
 }
@@ -108,49 +130,93 @@ class Keys extends EventEmitter {
 }
 
 const frames = makeFrames();
-const screen = new Screen();
-const frames$ = new Subject<TrialFrame>();
-let rendered = 0;
-const instance = render(createElement(Dashboard, { frames$, title: 'screen bench', color, onQuit: () => undefined, columns, rows }), {
-  stdout: screen as unknown as NodeJS.WriteStream,
-  stdin: new Keys() as unknown as NodeJS.ReadStream,
-  exitOnCtrlC: false,
-  patchConsole: false,
-  // Each frame is drawn before the next is given, so no frame waits for the throttle's next turn.
-  maxFps: 1000,
-  onRender: () => void rendered++,
-});
 const turn = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
-async function drawn(count: number): Promise<void> {
-  const until = Date.now() + 60_000;
-  while (rendered < count) {
-    if (Date.now() > until) throw new Error(`screen-frames: render ${count} did not happen within 60 s`);
-    await turn();
-  }
-}
-await drawn(1);
 
-/** Draws every frame once; the CPU and wall time it took, ms. */
-async function pass(): Promise<{ cpuMs: number; wallMs: number }> {
-  const cpu0 = process.cpuUsage();
-  const wall0 = performance.now();
-  for (const frame of frames) {
-    const before = rendered;
-    frames$.next(frame);
-    await drawn(before + 1);
-  }
-  const cpu = process.cpuUsage(cpu0);
-  return { cpuMs: (cpu.user + cpu.system) / 1000, wallMs: performance.now() - wall0 };
+interface Pass {
+  readonly cpuMs: number;
+  readonly wallMs: number;
 }
 
-await pass();
-const timed: { cpuMs: number; wallMs: number }[] = [];
-for (let p = 0; p < passes; p++) timed.push(await pass());
-instance.unmount();
-await instance.waitUntilExit();
+/** One dashboard drawing into its own stand-in terminal. */
+async function mount(component: DashboardComponent, draw = render): Promise<{ pass(): Promise<Pass>; close(): Promise<{ digest: string; bytes: number }> }> {
+  const screen = new Screen();
+  const frames$ = new Subject<TrialFrame>();
+  const instance = draw(createElement(component, { frames$, title: 'screen bench', color, onQuit: () => undefined, columns, rows }), {
+    stdout: screen as unknown as NodeJS.WriteStream,
+    stdin: new Keys() as unknown as NodeJS.ReadStream,
+    exitOnCtrlC: false,
+    patchConsole: false,
+    // Each frame is written before the next is given, so no frame waits for the throttle's next turn.
+    maxFps: 1000,
+  });
+  // Every frame of the run shows a new time, so each is written: waiting for the write (not only the
+  // render) keeps Ink from folding two frames into one, and the bytes the same from run to run.
+  const written = async (count: number): Promise<void> => {
+    const until = Date.now() + 60_000;
+    while (screen.written < count) {
+      if (Date.now() > until) throw new Error(`screen-frames: screen ${count} was not written within 60 s`);
+      await turn();
+    }
+  };
+  // Frames are given once the dashboard listens, and after the renders of its start (a resize check).
+  await written(1);
+  while (!frames$.observed) await turn();
+  await new Promise((resolve) => setTimeout(resolve, 100));
+  return {
+    /** Draws every frame once; the CPU and wall time it took, ms. */
+    async pass() {
+      const cpu0 = process.cpuUsage();
+      const wall0 = performance.now();
+      for (const frame of frames) {
+        const before = screen.written;
+        frames$.next(frame);
+        await written(before + 1);
+      }
+      const cpu = process.cpuUsage(cpu0);
+      return { cpuMs: (cpu.user + cpu.system) / 1000, wallMs: performance.now() - wall0 };
+    },
+    async close() {
+      instance.unmount();
+      await instance.waitUntilExit();
+      return { digest: screen.hash.digest('hex'), bytes: screen.bytes };
+    },
+  };
+}
 
-const perFrame = timed.map((t) => t.cpuMs / frames.length).sort((a, b) => a - b);
-const median = perFrame[Math.floor(perFrame.length / 2)] ?? Number.NaN;
+const median = (xs: readonly number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] ?? Number.NaN;
+
+const screens = [{ name: 'this checkout', screen: await mount(Dashboard) }];
+if (against !== undefined) {
+  // Compiled with that checkout's own settings (its files lie outside this one's tsconfig), in a
+  // namespace of its own: that dashboard is drawn with the Ink it imports, as it would be at home.
+  const there = register({ namespace: 'screen-frames-against', tsconfig: resolve(against, 'tsconfig.json') });
+  const dashboardUrl = pathToFileURL(resolve(against, 'src/dashboard/components/dashboard.tsx')).href;
+  const other = (await there.import(dashboardUrl, import.meta.url)) as { default: DashboardComponent };
+  const otherInk = (await there.import('ink', dashboardUrl)) as { render: typeof render };
+  screens.push({ name: resolve(against), screen: await mount(other.default, otherInk.render) });
+}
+// A first pass of each warms up; then the order alternates, so neither always runs first.
+for (const s of screens) await s.screen.pass();
+const timed: Pass[][] = screens.map(() => []);
+for (let p = 0; p < passes; p++) {
+  const order = p % 2 === 0 ? screens.map((_, i) => i) : screens.map((_, i) => screens.length - 1 - i);
+  for (const i of order) timed[i]?.push(await (screens[i] as (typeof screens)[number]).screen.pass());
+}
+const results = [];
+for (const [i, s] of screens.entries()) {
+  const written = await s.screen.close();
+  const perFrame = (timed[i] ?? []).map((t) => t.cpuMs / frames.length);
+  results.push({
+    checkout: s.name,
+    cpuMsPerFrame: perFrame,
+    cpuMsPerFrameMedian: median(perFrame),
+    wallMsPerFrameMedian: median((timed[i] ?? []).map((t) => t.wallMs / frames.length)),
+    bytesPerFrame: written.bytes / (frames.length * (passes + 1)),
+    digest: written.digest,
+  });
+}
+const [mine, theirs] = results;
+const ratios = theirs === undefined ? [] : (mine?.cpuMsPerFrame ?? []).map((x, p) => x / (theirs.cpuMsPerFrame[p] ?? Number.NaN));
 const result = {
   columns,
   rows,
@@ -158,13 +224,20 @@ const result = {
   color,
   frames: frames.length,
   passes,
-  cpuMsPerFrame: perFrame,
-  cpuMsPerFrameMedian: median,
-  wallMsPerFrameMedian: timed.map((t) => t.wallMs / frames.length).sort((a, b) => a - b)[Math.floor(timed.length / 2)],
-  bytesPerFrame: screen.bytes / (frames.length * (passes + 1)),
-  digest: screen.hash.digest('hex'),
+  ...mine,
+  ...(theirs === undefined ? {} : { against: theirs, ratioMedian: median(ratios), ratios, sameBytes: theirs.digest === mine?.digest }),
 };
-console.log(
-  `screen ${columns}×${rows}, ${muscleCount} muscles, ${color ? 'colour' : 'no colour'}: ${median.toFixed(2)} ms CPU per frame (median of ${passes} passes of ${frames.length} frames: ${perFrame.map((x) => x.toFixed(2)).join(' ')}), ${result.bytesPerFrame.toFixed(0)} characters written per frame`,
-);
+const size = `${columns}×${rows}, ${muscleCount} muscles, ${color ? 'colour' : 'no colour'}`;
+for (const r of results) {
+  console.log(
+    `screen ${size}: ${r.cpuMsPerFrameMedian.toFixed(2)} ms CPU per frame (median of ${passes} passes of ${frames.length} frames: ${r.cpuMsPerFrame.map((x) => x.toFixed(2)).join(' ')}), ` +
+      `${r.bytesPerFrame.toFixed(0)} characters written per frame — ${r.checkout}`,
+  );
+}
+if (theirs !== undefined) {
+  console.log(
+    `screen this checkout / the other: ${median(ratios).toFixed(2)}× CPU per frame (pass by pass ${ratios.map((x) => x.toFixed(2)).join(' ')}); ` +
+      `${theirs.digest === mine?.digest ? 'the same bytes written' : 'DIFFERENT bytes written'}`,
+  );
+}
 console.log(JSON.stringify(result));

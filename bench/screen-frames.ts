@@ -18,11 +18,11 @@
  * Prints a table, then one line of JSON.
  */
 import { createHash } from 'node:crypto';
-import { EventEmitter } from 'node:events';
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { register } from 'tsx/esm/api';
+import { FakeStdin, FakeStdout } from './fake-terminal.ts';
 
 const argv = process.argv.slice(2);
 const value = (name: string, fallback: number): number => {
@@ -66,9 +66,6 @@ type TrialFrame = import('../src/dashboard/view/trial-frames.ts').TrialFrame;
 type Batch = import('../src/trial/records.ts').Batch;
 
 const FRAME_MS = 110;
-/** Ink brackets each screen it writes to a terminal with these (synchronized output). */
-const BEGIN_SYNC = '\u001B[?2026h';
-const END_SYNC = '\u001B[?2026l';
 const MESSAGE_MS = 10;
 
 /** The frames the screen's thread would get from a live walk: plain data, copied, shared with the one before. */
@@ -102,31 +99,19 @@ function makeFrames(): TrialFrame[] {
   return out;
 }
 
-class Screen extends EventEmitter {
-  readonly isTTY = true;
-  readonly columns = columns;
-  readonly rows = rows;
+/** The stand-in terminal of the live bench, with a digest of every byte written. */
+class Screen extends FakeStdout {
   readonly hash = createHash('sha256');
-  bytes = 0;
-  /** Screens written: writes other than the synchronized-output brackets alone. */
-  written = 0;
-  write = (chunk: string): boolean => {
-    this.bytes += chunk.length;
-    this.hash.update(chunk);
-    if (chunk !== BEGIN_SYNC && chunk !== END_SYNC) this.written++;
-    return true;
-  };
-}
-
-class Keys extends EventEmitter {
-  readonly isTTY = true;
-  read = (): null => null;
-  setEncoding(): void {}
-  setRawMode(): void {}
-  resume(): void {}
-  pause(): void {}
-  ref(): void {}
-  unref(): void {}
+  constructor() {
+    super();
+    this.columns = columns;
+    this.rows = rows;
+    const count = this.write;
+    this.write = (chunk: string | Uint8Array): boolean => {
+      this.hash.update(chunk);
+      return count(chunk);
+    };
+  }
 }
 
 const frames = makeFrames();
@@ -143,7 +128,7 @@ async function mount(component: DashboardComponent, draw = render): Promise<{ pa
   const frames$ = new Subject<TrialFrame>();
   const instance = draw(createElement(component, { frames$, title: 'screen bench', color, onQuit: () => undefined, columns, rows }), {
     stdout: screen as unknown as NodeJS.WriteStream,
-    stdin: new Keys() as unknown as NodeJS.ReadStream,
+    stdin: new FakeStdin() as unknown as NodeJS.ReadStream,
     exitOnCtrlC: false,
     patchConsole: false,
     // Each frame is written before the next is given, so no frame waits for the throttle's next turn.
@@ -153,7 +138,7 @@ async function mount(component: DashboardComponent, draw = render): Promise<{ pa
   // render) keeps Ink from folding two frames into one, and the bytes the same from run to run.
   const written = async (count: number): Promise<void> => {
     const until = Date.now() + 60_000;
-    while (screen.written < count) {
+    while (screen.frames < count) {
       if (Date.now() > until) throw new Error(`screen-frames: screen ${count} was not written within 60 s`);
       await turn();
     }
@@ -168,7 +153,7 @@ async function mount(component: DashboardComponent, draw = render): Promise<{ pa
       const cpu0 = process.cpuUsage();
       const wall0 = performance.now();
       for (const frame of frames) {
-        const before = screen.written;
+        const before = screen.frames;
         frames$.next(frame);
         await written(before + 1);
       }

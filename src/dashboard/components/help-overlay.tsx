@@ -1,5 +1,6 @@
 /** The help screen: every key, and how to read a panel. */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import { REGION_KEYS, REGION_LABEL } from '../../model/regions.ts';
 import { MARKER_IN_BAND, MARKER_LEFT, MARKER_RIGHT, MARKER_STEM } from '../view/curve-drawing.ts';
 import type { KeyHelp } from '../view/keys.ts';
@@ -11,7 +12,7 @@ export interface Props {
   readonly columns: number;
 }
 
-export default function HelpOverlay({ keys, theme, columns }: Props) {
+function HelpOverlay({ keys, theme, columns }: Props) {
   return (
     <Box flexDirection="column" paddingX={1} width={Math.min(columns, 100)}>
       <Text {...theme.role('title')} wrap="truncate-end">
@@ -59,3 +60,6 @@ export default function HelpOverlay({ keys, theme, columns }: Props) {
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(HelpOverlay);

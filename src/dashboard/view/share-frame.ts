@@ -5,13 +5,13 @@
  * previous frame's curve, strides and status wherever the new ones hold the same values, so a copied
  * frame costs the screen what an in-place one does.
  */
+import { isDeepStrictEqual } from 'node:util';
 import type { ForceLengthCurve } from '../../model/geometry.ts';
 import type { TrialFrame } from './trial-frames.ts';
 import type { MuscleView } from './view-model.ts';
 
-function sameValues(a: unknown, b: unknown): boolean {
-  return JSON.stringify(a) === JSON.stringify(b);
-}
+/** Node's own deep comparison: NaN equals NaN, as the copy keeps it. */
+const sameValues = isDeepStrictEqual;
 
 export function shareFrame(previous: TrialFrame | null, next: TrialFrame): TrialFrame {
   if (previous === null) return next;

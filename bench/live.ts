@@ -6,7 +6,8 @@
  * also holds the loopback and the WebSocket framing; and the time from the adapter's output to the
  * updated state (decoding excluded). Measured without the dashboard, with it drawn on the main thread
  * into a fake terminal, and, in one session of alternating windows, without it and with it on its own
- * thread (as the commands run it) writing a file in place of the terminal.
+ * thread (as the commands run it) writing a file in place of the terminal; and what the screen of an
+ * ended trial costs while it stays up.
  */
 import { execFile } from 'node:child_process';
 import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
@@ -65,6 +66,8 @@ export interface LiveResult {
   readonly switching: SwitchingFigures;
   /** The tool's p99 without the dashboard / the bare server's. */
   readonly plainToBareP99Ratio: number;
+  /** The screen of an ended trial, on its own thread. */
+  readonly quiet: QuietFigures;
   readonly lines: readonly string[];
 }
 
@@ -216,17 +219,19 @@ async function startReceiver(): Promise<{
 }
 
 /** A stand-in terminal whose descriptor is a file, for the dashboard on its own thread; counts frames when closed. */
-function fileTerminal(): { readonly stdout: FakeStdout; close(): number } {
+function fileTerminal(): { readonly stdout: FakeStdout; framesSoFar(): number; close(): number } {
   const stdout = new FakeStdout();
   const dir = mkdtempSync(join(tmpdir(), 'lengthwise-bench-screen-'));
   const path = join(dir, 'screen');
   stdout.fd = openSync(path, 'w');
+  // Each frame on a terminal begins with the synchronized-output bracket.
+  const framesSoFar = (): number => readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
   return {
     stdout,
+    framesSoFar,
     close() {
       if (stdout.fd !== undefined) closeSync(stdout.fd);
-      // Each frame on a terminal begins with the synchronized-output bracket.
-      const frames = readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
+      const frames = framesSoFar();
       rmSync(dir, { recursive: true, force: true });
       return frames;
     },
@@ -401,6 +406,38 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
   };
 }
 
+export interface QuietFigures {
+  readonly settleS: number;
+  readonly windowS: number;
+  /** The process's CPU per second over the window (ms/s): the screen's thread is all that runs. */
+  readonly cpuMsPerS: number;
+  readonly framesPerS: number;
+}
+
+/**
+ * The screen of a trial that has ended, left up as the commands leave it until q: after a short stream
+ * the trial is stopped, the screen on its own thread is given settleS to show the end (the rate falls
+ * to zero over its window), and then the process's CPU and the frames written are read over windowS.
+ * Nothing else runs in the process meanwhile, so this is what a screen that shows nothing new costs.
+ */
+async function quietSession(options: SessionOptions & { readonly settleS: number; readonly windowS: number }): Promise<QuietFigures> {
+  const receiver = await startReceiver();
+  const screen = fileTerminal();
+  const dashboard = await openDashboard(receiver.run, screen.stdout, 'own');
+  await sendFromDevice(receiver.port, options);
+  await receiver.stop();
+  await new Promise((resolve) => setTimeout(resolve, options.settleS * 1000));
+  const frames0 = screen.framesSoFar();
+  const cpu0 = process.cpuUsage();
+  await new Promise((resolve) => setTimeout(resolve, options.windowS * 1000));
+  const cpu = process.cpuUsage(cpu0);
+  const frames = screen.framesSoFar() - frames0;
+  dashboard.unmount();
+  await dashboard.waitUntilExit();
+  screen.close();
+  return { settleS: options.settleS, windowS: options.windowS, cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.windowS, framesPerS: frames / options.windowS };
+}
+
 function line(name: string, f: LatencyFigures): string {
   return (
     `live ${name.padEnd(10)} ${f.samplesPerS.toFixed(0)} samples/s in ${f.messages} messages: send → state p50 ${f.sendToStateP50Ms.toFixed(2)} ms, ` +
@@ -422,6 +459,7 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
     windowS: options.quick ? 3 : 10,
     settleS: options.quick ? 1 : 2,
   });
+  const quiet = await quietSession({ ...base, durationS: options.quick ? 3 : 5, warmupS: 0, dashboard: 'own', settleS: 4, windowS: options.quick ? 5 : 15 });
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
   const adds = (r: number): string => `${((r - 1) * 100).toFixed(0)}%`;
   const toBare = plain.sendToStateP99Ms / bare.sendToStateP99Ms;
@@ -434,6 +472,7 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
     dashboard,
     dashboardP99Ratio: ratio,
     switching,
+    quiet,
     lines: [
       `live bare       ${bare.samplesPerS.toFixed(0)} samples/s in ${bare.messages} messages: send → receipt and parse, p50 ${bare.sendToStateP50Ms.toFixed(2)} ms, p99 ${bare.sendToStateP99Ms.toFixed(2)} ms (max ${bare.sendToStateMaxMs.toFixed(1)}; warm-up p99 ${bare.warmupP99Ms.toFixed(2)}); CPU ${bare.cpuMsPerS.toFixed(0)} ms/s`,
       line('plain', plain),
@@ -444,6 +483,7 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
       `live dashboard on its own thread adds ${adds(switching.pooledRatio)} to the p99 (95% interval ${adds(switching.pooledRatioInterval[0])} to ${adds(switching.pooledRatioInterval[1])}): ` +
         `p99 ${switching.pooledOnP99Ms.toFixed(2)} ms with it, ${switching.pooledOffP99Ms.toFixed(2)} ms without, over all windows of each; ` +
         `window by window against its neighbours ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')} (median ${switching.onOffRatioMedian.toFixed(2)})`,
+      `live quiet      the screen of an ended trial on its own thread, ${quiet.settleS} s after the end, over ${quiet.windowS} s: CPU ${quiet.cpuMsPerS.toFixed(1)} ms/s, ${quiet.framesPerS.toFixed(2)} frames/s`,
     ],
   };
 }

@@ -84,35 +84,6 @@ export function toRuns(cells: readonly { char: string; tone: Tone }[]): Run[] {
   return runs;
 }
 
-/** The runs of a row between its blank ones, and the column the first of them starts at. */
-export interface Stretch {
-  readonly col: number;
-  readonly runs: readonly Run[];
-}
-
-/**
- * A row's runs cut at the blank ones (`blank` says which: spaces without a style), each stretch with
- * its column. A cell nothing is written to holds a space without a style, so a screen need not write
- * the blank runs at all. Columns count characters: every character of a drawing is one cell wide.
- */
-export function stretches(runs: readonly Run[], blank: (run: Run) => boolean): Stretch[] {
-  const out: Stretch[] = [];
-  let col = 0;
-  let current: { col: number; runs: Run[] } | null = null;
-  for (const run of runs) {
-    if (blank(run)) {
-      current = null;
-    } else if (current === null) {
-      current = { col, runs: [run] };
-      out.push(current);
-    } else {
-      current.runs.push(run);
-    }
-    col += run.text.length;
-  }
-  return out;
-}
-
 /** A row's width in cells. */
 export function rowCols(runs: readonly Run[]): number {
   let cols = 0;

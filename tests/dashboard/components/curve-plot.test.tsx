@@ -2,7 +2,7 @@ import '../force-color.ts';
 import { afterEach, describe, expect, it } from 'vitest';
 import { Box, Text } from 'ink';
 import CurvePlot from '../../../src/dashboard/components/curve-plot.tsx';
-import { curveLayers, drawCurve, stretches, type LengthRange, type Run } from '../../../src/dashboard/view/curve-drawing.ts';
+import { curveLayers, drawCurve, type LengthRange, type Run } from '../../../src/dashboard/view/curve-drawing.ts';
 import RunsLine from '../../../src/dashboard/components/runs-line.tsx';
 import { createTheme, type Theme } from '../../../src/dashboard/view/theme.ts';
 import { speciesCurve } from '../../../src/model/species.ts';
@@ -138,10 +138,6 @@ describe('RunsLine', () => {
     );
     expect(line).toBe(await frameOf(<Box><EveryCellRow runs={runs} theme={theme} /><Text>|</Text></Box>));
     expect(plain(line)).toBe('   ▂▇██  ◆    |');
-    expect(stretches(runs, (run) => run.tone === 'empty')).toEqual([
-      { col: 3, runs: [runs[1], runs[2]] },
-      { col: 9, runs: [runs[4]] },
-    ]);
     // A row with nothing to write still takes its line.
     const blank = await frameOf(
       <Box flexDirection="column">

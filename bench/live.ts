@@ -219,19 +219,17 @@ async function startReceiver(): Promise<{
 }
 
 /** A stand-in terminal whose descriptor is a file, for the dashboard on its own thread; counts frames when closed. */
-function fileTerminal(): { readonly stdout: FakeStdout; framesSoFar(): number; close(): number } {
+function fileTerminal(): { readonly stdout: FakeStdout; close(): number } {
   const stdout = new FakeStdout();
   const dir = mkdtempSync(join(tmpdir(), 'lengthwise-bench-screen-'));
   const path = join(dir, 'screen');
   stdout.fd = openSync(path, 'w');
-  // Each frame on a terminal begins with the synchronized-output bracket.
-  const framesSoFar = (): number => readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
   return {
     stdout,
-    framesSoFar,
     close() {
       if (stdout.fd !== undefined) closeSync(stdout.fd);
-      const frames = framesSoFar();
+      // Each frame on a terminal begins with the synchronized-output bracket.
+      const frames = readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
       rmSync(dir, { recursive: true, force: true });
       return frames;
     },
@@ -411,14 +409,14 @@ export interface QuietFigures {
   readonly windowS: number;
   /** The process's CPU per second over the window (ms/s): the screen's thread is all that runs. */
   readonly cpuMsPerS: number;
-  readonly framesPerS: number;
 }
 
 /**
  * The screen of a trial that has ended, left up as the commands leave it until q: after a short stream
  * the trial is stopped, the screen on its own thread is given settleS to show the end (the rate falls
- * to zero over its window), and then the process's CPU and the frames written are read over windowS.
- * Nothing else runs in the process meanwhile, so this is what a screen that shows nothing new costs.
+ * to zero over its window), and then the process's CPU is read over windowS. Nothing else runs in the
+ * process meanwhile, so this is what a screen that shows nothing new costs. (Frames written say
+ * nothing here: Ink writes a screen only when it differs from the last, however often it draws one.)
  */
 async function quietSession(options: SessionOptions & { readonly settleS: number; readonly windowS: number }): Promise<QuietFigures> {
   const receiver = await startReceiver();
@@ -427,15 +425,13 @@ async function quietSession(options: SessionOptions & { readonly settleS: number
   await sendFromDevice(receiver.port, options);
   await receiver.stop();
   await new Promise((resolve) => setTimeout(resolve, options.settleS * 1000));
-  const frames0 = screen.framesSoFar();
   const cpu0 = process.cpuUsage();
   await new Promise((resolve) => setTimeout(resolve, options.windowS * 1000));
   const cpu = process.cpuUsage(cpu0);
-  const frames = screen.framesSoFar() - frames0;
   dashboard.unmount();
   await dashboard.waitUntilExit();
   screen.close();
-  return { settleS: options.settleS, windowS: options.windowS, cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.windowS, framesPerS: frames / options.windowS };
+  return { settleS: options.settleS, windowS: options.windowS, cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.windowS };
 }
 
 function line(name: string, f: LatencyFigures): string {
@@ -483,7 +479,7 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
       `live dashboard on its own thread adds ${adds(switching.pooledRatio)} to the p99 (95% interval ${adds(switching.pooledRatioInterval[0])} to ${adds(switching.pooledRatioInterval[1])}): ` +
         `p99 ${switching.pooledOnP99Ms.toFixed(2)} ms with it, ${switching.pooledOffP99Ms.toFixed(2)} ms without, over all windows of each; ` +
         `window by window against its neighbours ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')} (median ${switching.onOffRatioMedian.toFixed(2)})`,
-      `live quiet      the screen of an ended trial on its own thread, ${quiet.settleS} s after the end, over ${quiet.windowS} s: CPU ${quiet.cpuMsPerS.toFixed(1)} ms/s, ${quiet.framesPerS.toFixed(2)} frames/s`,
+      `live quiet      the screen of an ended trial on its own thread, ${quiet.settleS} s after the end, over ${quiet.windowS} s: CPU ${quiet.cpuMsPerS.toFixed(1)} ms/s`,
     ],
   };
 }

@@ -7,6 +7,7 @@
  *   npm run bench                  # full sizes (a few minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, under a minute
  *   npm run bench -- --only replay # or live, memory, screen; several: --only replay,live
+ *   npm run bench -- --only live,screen --against DIR   # another checkout's dashboard measured beside this one's
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -54,6 +55,8 @@ interface Args {
   readonly memorySamples: number;
   /** Frames per pass of the screen bench. */
   readonly screenFrames: number;
+  /** Another checkout whose dashboard is measured beside this one's (live and screen). */
+  readonly against: string | undefined;
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -76,6 +79,7 @@ function parseArgs(argv: readonly string[]): Args {
     pairs: Number(value('--pairs') ?? (quick ? 3 : 5)),
     memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
     screenFrames: quick ? 60 : 200,
+    against: value('--against'),
   };
 }
 
@@ -160,15 +164,24 @@ async function replayInChild(format: BenchFormat, samples: number, pairs: number
 }
 
 /** bench/screen-frames.ts in a fresh process: its table line and its figures. */
-async function screenInChild(frames: number, passes: number): Promise<{ readonly line: string } & Record<string, unknown>> {
+async function screenInChild(frames: number, passes: number, against: string | undefined): Promise<{ readonly lines: readonly string[] } & Record<string, unknown>> {
   const root = join(dirname(fileURLToPath(import.meta.url)), '..');
   const { stdout } = await execFileAsync(
     process.execPath,
-    [join(root, 'bin/run-ts.js'), join(root, 'bench/screen-frames.ts'), '--frames', String(frames), '--passes', String(passes)],
+    [
+      join(root, 'bin/run-ts.js'),
+      join(root, 'bench/screen-frames.ts'),
+      '--frames',
+      String(frames),
+      '--passes',
+      String(passes),
+      ...(against === undefined ? [] : ['--against', against]),
+    ],
     { maxBuffer: 16 * 1024 * 1024 },
   );
-  const [line = '', json = '{}'] = stdout.trim().split('\n').slice(-2);
-  return { ...(JSON.parse(json) as Record<string, unknown>), line: line.replace(/^screen /, '') };
+  const all = stdout.trim().split('\n');
+  const json = all.pop() ?? '{}';
+  return { ...(JSON.parse(json) as Record<string, unknown>), lines: all.filter((l) => l.startsWith('screen ')) };
 }
 
 async function replayChild(format: BenchFormat, samples: number, pairs: number): Promise<void> {
@@ -227,7 +240,7 @@ async function main(): Promise<void> {
     }
     if (args.only.has('live')) {
       console.error('bench: live latency over a WebSocket on 127.0.0.1…');
-      const live: LiveResult = await measureLive({ quick: args.quick });
+      const live: LiveResult = await measureLive({ quick: args.quick, ...(args.against === undefined ? {} : { against: args.against }) });
       out['live'] = live;
       for (const l of live.lines) lines.push(l);
     }
@@ -243,9 +256,9 @@ async function main(): Promise<void> {
     }
     if (args.only.has('screen')) {
       console.error(`bench: the dashboard's CPU per frame, ${args.screenFrames} frames a pass, in a fresh process…`);
-      const screen = await screenInChild(args.screenFrames, args.quick ? 3 : 5);
+      const screen = await screenInChild(args.screenFrames, args.quick ? 3 : 5, args.against);
       out['screen'] = screen;
-      lines.push(`screen ${screen.line}`);
+      for (const l of screen.lines) lines.push(l);
     }
   } finally {
     await rm(dir, { recursive: true, force: true });

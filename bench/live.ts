@@ -68,8 +68,8 @@ export interface LiveResult {
   readonly switching: SwitchingFigures;
   /** The tool's p99 without the dashboard / the bare server's. */
   readonly plainToBareP99Ratio: number;
-  /** The screen of an ended trial, on its own thread. */
-  readonly quiet: QuietFigures;
+  /** The screen of an ended trial, on its own thread (and the other checkout's, when one is given). */
+  readonly quiet: readonly QuietFigures[];
   /** With another checkout given: its dashboard and this one's taking turns in one switching session. */
   readonly turns?: SwitchingFigures;
   readonly lines: readonly string[];
@@ -468,6 +468,7 @@ async function switchingSession(
 }
 
 export interface QuietFigures {
+  readonly name: string;
   readonly settleS: number;
   readonly windowS: number;
   /** The process's CPU per second over the window (ms/s): the screen's thread is all that runs. */
@@ -481,10 +482,10 @@ export interface QuietFigures {
  * process meanwhile, so this is what a screen that shows nothing new costs. (Frames written say
  * nothing here: Ink writes a screen only when it differs from the last, however often it draws one.)
  */
-async function quietSession(options: SessionOptions & { readonly settleS: number; readonly windowS: number }): Promise<QuietFigures> {
+async function quietSession(options: SessionOptions & { readonly settleS: number; readonly windowS: number; readonly screen: ScreenUnderTest }): Promise<QuietFigures> {
   const receiver = await startReceiver();
   const screen = fileTerminal();
-  const dashboard = await openDashboard(receiver.run, screen.stdout, 'own');
+  const dashboard = await openDashboard(receiver.run, screen.stdout, 'own', options.screen.start);
   await sendFromDevice(receiver.port, options);
   await receiver.stop();
   await new Promise((resolve) => setTimeout(resolve, options.settleS * 1000));
@@ -494,7 +495,7 @@ async function quietSession(options: SessionOptions & { readonly settleS: number
   dashboard.unmount();
   await dashboard.waitUntilExit();
   screen.close();
-  return { settleS: options.settleS, windowS: options.windowS, cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.windowS };
+  return { name: options.screen.name, settleS: options.settleS, windowS: options.windowS, cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.windowS };
 }
 
 /** Each screen's CPU above the off windows, frames and CPU per frame. */
@@ -527,14 +528,16 @@ export async function measureLive(options: { readonly quick: boolean; readonly a
   const dashboard = await session({ ...base, durationS: options.quick ? 6 : 30, dashboard: 'main' });
   const windows = { dashboard: 'own' as const, onWindows: options.quick ? 2 : 10, windowS: options.quick ? 3 : 10, settleS: options.quick ? 1 : 2 };
   const switching = await switchingSession({ ...base, ...windows, screens: [{ name: 'this checkout' }] });
+  const quietOptions = { ...base, durationS: options.quick ? 3 : 5, warmupS: 0, dashboard: 'own' as const, settleS: 4, windowS: options.quick ? 5 : 15 };
+  const quiet = [await quietSession({ ...quietOptions, screen: { name: 'this checkout' } })];
   let turns: SwitchingFigures | undefined;
   if (options.against !== undefined) {
     const against = resolve(options.against);
     const there = register({ namespace: 'live-bench-against', tsconfig: join(against, 'tsconfig.json') });
     const other = (await there.import(pathToFileURL(join(against, 'src/dashboard/thread/start-dashboard.tsx')).href, import.meta.url)) as { startDashboard: StartDashboard };
     turns = await switchingSession({ ...base, ...windows, screens: [{ name: 'this checkout' }, { name: against, start: other.startDashboard }] });
+    quiet.push(await quietSession({ ...quietOptions, screen: { name: against, start: other.startDashboard } }));
   }
-  const quiet = await quietSession({ ...base, durationS: options.quick ? 3 : 5, warmupS: 0, dashboard: 'own', settleS: 4, windowS: options.quick ? 5 : 15 });
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
   const adds = (r: number): string => `${((r - 1) * 100).toFixed(0)}%`;
   const toBare = plain.sendToStateP99Ms / bare.sendToStateP99Ms;
@@ -561,7 +564,7 @@ export async function measureLive(options: { readonly quick: boolean; readonly a
         `window by window against its neighbours ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')} (median ${switching.onOffRatioMedian.toFixed(2)})`,
       ...screenLines('dash own', switching),
       ...(turns === undefined ? [] : screenLines('dash turns', turns)),
-      `live quiet      the screen of an ended trial on its own thread, ${quiet.settleS} s after the end, over ${quiet.windowS} s: CPU ${quiet.cpuMsPerS.toFixed(1)} ms/s`,
+      ...quiet.map((q) => `live quiet      the screen of an ended trial on its own thread, ${q.settleS} s after the end, over ${q.windowS} s: CPU ${q.cpuMsPerS.toFixed(1)} ms/s — ${q.name}`),
     ],
   };
 }

@@ -1,7 +1,7 @@
 /**
  * Whether two frames draw the same screen, so that a frame which would change nothing is not drawn
- * (an ended trial, a paused replay, a silent source: the screen then costs nothing between changes).
- * Everything the screen shows comes from the view, the status and the alerts found in them; the wall
+ * (an ended trial, a stream that has stopped with no alert counting the seconds: the screen then costs
+ * nothing between changes). Everything the screen shows comes from the view, the status and the alerts found in them; the wall
  * clock (the frame's time, how long each muscle has been silent) counts only through the alerts it
  * raises and their texts.
  */

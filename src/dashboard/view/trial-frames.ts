@@ -3,10 +3,11 @@
  * batch) and the optional status stream: at most one frame per frameMs however many batches and status
  * emissions arrive, so the screen is drawn once per frame. When nothing arrives for tickMs, a frame is
  * made anyway, so time-based alerts and the rate keep moving. A frame that would draw the same screen as
- * the last one given is not given (see same-screen.ts): an ended trial, a paused replay or a silent
- * source costs the screen nothing once what it shows has settled. Each frame is plain data (numbers
- * copied out of the state), so it can be drawn on another thread. It only reads the state: the
- * pipeline's pace never waits on the screen. Never completes by itself: an ended trial's screen stays up.
+ * the last one given is not given (see same-screen.ts): an ended trial, or a stream that has stopped
+ * with no alert counting the seconds, costs the screen nothing once what it shows has settled. Each
+ * frame is plain data (numbers copied out of the state), so it can be drawn on another thread. It only
+ * reads the state: the pipeline's pace never waits on the screen. Never completes by itself: an ended
+ * trial's screen stays up.
  */
 import { asyncScheduler, interval, Observable, Subscription, type SchedulerLike } from 'rxjs';
 import type { TrialState } from '../../trial/state.ts';

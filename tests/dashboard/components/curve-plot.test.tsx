@@ -122,13 +122,15 @@ describe('CurvePlot', () => {
 describe('RunsLine', () => {
   it('writes only its stretches of ink, at their columns, and keeps the whole width', async () => {
     const theme = createTheme(true);
+    // A band row: the previous stride's range, a gap, this stride's range with the marker in it.
     const runs: Run[] = [
-      { text: '   ', tone: 'empty' },
-      { text: '▂▇', tone: 'steep_ascending' },
-      { text: '██', tone: 'plateau' },
       { text: '  ', tone: 'empty' },
+      { text: '▄▄▄', tone: 'band_previous' },
+      { text: ' ', tone: 'empty' },
+      { text: '▀▀', tone: 'band_current' },
       { text: '◆', tone: 'marker' },
-      { text: '    ', tone: 'empty' },
+      { text: '▀', tone: 'band_current' },
+      { text: '   ', tone: 'empty' },
     ];
     const line = await frameOf(
       <Box>
@@ -137,7 +139,7 @@ describe('RunsLine', () => {
       </Box>,
     );
     expect(line).toBe(await frameOf(<Box><EveryCellRow runs={runs} theme={theme} /><Text>|</Text></Box>));
-    expect(plain(line)).toBe('   ▂▇██  ◆    |');
+    expect(plain(line)).toBe('  ▄▄▄ ▀▀◆▀   |');
     // A row with nothing to write still takes its line.
     const blank = await frameOf(
       <Box flexDirection="column">

@@ -165,14 +165,20 @@ function differenceFigure(study: Study, number: number): StudyFigure {
   };
 }
 
+/** A number for a table, with a true minus sign as the figures' axes write it; a dash when not known. */
 function fixed(x: number | null | undefined, digits: number): string {
-  return x === null || x === undefined || !Number.isFinite(x) ? '—' : x.toFixed(digits);
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  const text = x.toFixed(digits);
+  return /^-0\.?0*$/.test(text) ? text.slice(1) : text.replace(/^-/, '−');
 }
 
-/** A figure's value in its unit for the tables: lengths in µm (3 decimals), fractions in % (1 decimal). */
-function tableValue(figure: string): { readonly scale: number; readonly digits: number; readonly unit: string } {
+/**
+ * A figure's value in its unit for the tables: lengths in µm (3 decimals), fractions in % (1 decimal),
+ * and a difference of fractions in percentage points.
+ */
+function tableValue(figure: string, difference = false): { readonly scale: number; readonly digits: number; readonly unit: string } {
   if (figure.endsWith('_um')) return { scale: 1, digits: 3, unit: 'µm' };
-  if (figure.endsWith('_fraction')) return { scale: 100, digits: 1, unit: '% of stride time' };
+  if (figure.endsWith('_fraction')) return { scale: 100, digits: 1, unit: difference ? 'percentage points' : '% of stride time' };
   return { scale: 1, digits: 3, unit: '' };
 }
 
@@ -184,8 +190,8 @@ function tableFigures(study: Study, muscle: string): string[] {
   return [...lengths, ...regions, 'force_mean'].filter((f) => have.has(f));
 }
 
-function figureCell(figure: string): string {
-  const { unit } = tableValue(figure);
+function figureCell(figure: string, difference = false): string {
+  const { unit } = tableValue(figure, difference);
   return `${escapeHtml(figureLabel(figure))}${unit === '' ? '' : ` <span class="unit">(${escapeHtml(unit)})</span>`}`;
 }
 
@@ -244,7 +250,7 @@ function comparisonTable(study: Study): string {
       body.push(
         `<tr${i === 0 ? ' class="first"' : ''}>` +
           (i === 0 ? `<th rowspan="${rows.length}">${escapeHtml(muscleTitle(study, muscle))}</th>` : '') +
-          `<td>${figureCell(c.figure)}</td><td>${escapeHtml(pairLabel(c))}</td><td class="num">${c.n_pairs}</td>` +
+          `<td>${figureCell(c.figure, true)}</td><td>${escapeHtml(pairLabel(c))}</td><td class="num">${c.n_pairs}</td>` +
           `<td class="num">${c.mean_diff === null ? '—' : `${fixed(c.mean_diff * scale, digits)}${ci}`}</td>` +
           `<td class="num">${fixed(c.t, 2)}</td><td class="num">${pValue(c.p)}</td><td class="num">${fixed(c.dz, 2)}</td></tr>`,
       );

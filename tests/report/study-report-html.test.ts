@@ -141,9 +141,17 @@ describe('studyReportHtml', () => {
     const table2 = html.match(/<figure class="table" id="table-2">[\s\S]*?<\/figure>/)?.[0] ?? '';
     // Per muscle: six length figures, the three regions reached, mean force; three pairs of conditions each.
     expect(table2.match(/<tr[ >]/g)).toHaveLength(1 + 2 * 10 * 3);
+    // Negative numbers with a true minus sign, as on the figures' axes.
+    const num = (x: number | null | undefined, digits: number) => (x as number).toFixed(digits).replace(/^-/, '−');
     const c = study.comparisons.find((r) => r.muscle === 'vastus_lat' && r.figure === 'sl_mean_um' && r.condition_a === 'level walk' && r.condition_b === 'level run');
+    expect(c?.mean_diff).toBeLessThan(0);
     expect(table2).toContain(
-      `<td>level run − level walk</td><td class="num">${c?.n_pairs}</td><td class="num">${c?.mean_diff?.toFixed(3)} [${c?.ci95_low?.toFixed(3)}, ${c?.ci95_high?.toFixed(3)}]</td><td class="num">${c?.t?.toFixed(2)}</td>`,
+      `<td>level run − level walk</td><td class="num">${c?.n_pairs}</td><td class="num">${num(c?.mean_diff, 3)} [${num(c?.ci95_low, 3)}, ${num(c?.ci95_high, 3)}]</td><td class="num">${num(c?.t, 2)}</td>`,
+    );
+    // A difference of time fractions is in percentage points.
+    const plateauDiff = study.comparisons.find((r) => r.muscle === 'vastus_lat' && r.figure === 'plateau_fraction' && r.condition_a === 'level walk' && r.condition_b === 'level run');
+    expect(table2).toContain(
+      `<td>plateau <span class="unit">(percentage points)</span></td><td>level run − level walk</td><td class="num">${plateauDiff?.n_pairs}</td><td class="num">${num(100 * (plateauDiff?.mean_diff as number), 1)} [`,
     );
   });
 

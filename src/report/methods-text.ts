@@ -99,7 +99,7 @@ function quotedSettings(phrases: readonly SettingPhrase[]) {
     quality: findSetting(phrases, ['quality']),
     gap: findSetting(phrases, ['gap'], ['flag', 'fraction', 'stride', 'percent']),
     flag: findSetting(phrases, ['flag']),
-    window: findSetting(phrases, ['window']),
+    window: findSetting(phrases, ['stride', 'window']) ?? findSetting(phrases, ['window'], ['smoothing']),
     period,
     smoothing: (smoothing.length > 0 ? smoothing : findSettings(phrases, ['noise'])).map((p) => `${p.words.replace(/^smoothing /, '')} ${p.value}`),
     plausible: findSetting(phrases, ['plausible']),

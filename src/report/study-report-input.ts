@@ -11,8 +11,9 @@ export type TrialCell = string | number | boolean | null;
 
 /**
  * One row of trials.csv (a trial × muscle), column name → value: `subject`, `condition`, `trial` and
- * `muscle`, the study table's columns (`species`, `calibration_source`, `stride_count`, `flagged_strides`,
- * `sl_mean_um`, `plateau_fraction`, `segmentation_estimated`, `uncalibrated`, …) and any covariates.
+ * `muscle`, the study table's columns (`side`, `species`, `calibration_source`, `stride_count`,
+ * `flagged_strides`, `sl_mean_um`, `plateau_fraction`, `segmentation_estimated`, `uncalibrated`, …) and any
+ * covariates. A row whose `exclude` is true (a trial the manifest excludes) is counted as excluded only.
  */
 export type TrialRow = Readonly<Record<string, TrialCell>>;
 

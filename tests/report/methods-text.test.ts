@@ -66,6 +66,9 @@ describe('methodsParagraphs', () => {
     expect(words).toContain('within its first 8 s');
     expect(words).toContain('periods of 0.3–4 s looked for');
     expect(words).toContain('sample rate 120 Hz');
+    // A smoothing window is not the stride-estimation window.
+    const smoothingWindow = methodsOf(studyWith({ settings: { smoothing: { window_s: 0.05 }, stride_estimation_window_s: 9 } })).join('\n');
+    expect(smoothingWindow).toContain('within its first 9 s');
     // No plausible range among these settings: no sentence about it, rather than a number from elsewhere.
     expect(words).not.toContain('implausible');
   });

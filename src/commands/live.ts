@@ -220,7 +220,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   // for, and in the system's temporary folder should its own place fail.
   const summary = values.summary ?? summaryPathFor(log.path);
   const summaryFallback = join(tmpdir(), `${basename(summary).replace(/\.json$/, '')}-${process.pid}.json`);
-  const provenance = provenanceSources(settings, values, [{ role: 'session_log', path: log.path }]);
+  const provenance = provenanceSources(settings, values, [{ kind: 'session_log', path: log.path }]);
   const status = await finishTrial(final.state, { summary, strides: values.strides, report: values.report, summaryFallback, provenance }, io);
   io.err(`session log: ${log.path} (${log.linesWritten} lines${log.complete ? '' : `, INCOMPLETE: ${log.problem ?? ''}`})`);
   if (openListen.warning !== null) io.err(`lengthwise live: ${openListen.warning}`);

@@ -138,10 +138,10 @@ export function provenanceSources(
   first: readonly RunInput[],
 ): ProvenanceSources {
   const named: RunInput[] = [];
-  if (values.events !== undefined) named.push({ role: 'events', path: values.events });
-  if (values.mapping !== undefined) named.push({ role: 'mapping', path: values.mapping });
-  if (values.calibration !== undefined) named.push({ role: 'calibration', path: values.calibration });
-  if (values.settings !== undefined) named.push({ role: 'settings', path: values.settings });
+  if (values.events !== undefined) named.push({ kind: 'events', path: values.events });
+  if (values.mapping !== undefined) named.push({ kind: 'mapping', path: values.mapping });
+  if (values.calibration !== undefined) named.push({ kind: 'calibration', path: values.calibration });
+  if (values.settings !== undefined) named.push({ kind: 'settings', path: values.settings });
   return { settings, inputs: [...first, ...named], calibrationFile: values.calibration ?? null };
 }
 

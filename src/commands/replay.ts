@@ -143,7 +143,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
         summary: values.summary,
         strides: values.strides,
         report: values.report,
-        provenance: provenanceSources(files.settings, values, [{ role: 'trial', path }]),
+        provenance: provenanceSources(files.settings, values, [{ kind: 'trial', path }]),
       },
       io,
     );

@@ -38,7 +38,8 @@ options:
   --groups FILE.csv      --study: per condition, muscle and figure, the mean across subjects, SD and 95 % interval
   --comparisons FILE.csv --study: per pair of conditions, muscle and figure, a paired t-test across subjects
   --cycles FILE.csv      --study: each trial's gait-cycle curve, and each condition's mean and SD across subjects
-  --report FILE.html     write one self-contained HTML report with plots of every trial and muscle
+  --report FILE.html     write one self-contained HTML report: with --study, the study report for a paper (methods,
+                         figures across subjects, tables, provenance); else plots of every trial and muscle
   --settings FILE        processing settings (lengthwise-settings JSON; \`lengthwise settings\` prints the defaults)
   --calibration FILE     calibration JSON for every trial (a manifest row's own wins); wins over each trial's header calibration
   --mapping FILE         trials in your own columns, units or table layout (lengthwise-mapping JSON)
@@ -248,8 +249,9 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     sides,
     ...(manifest !== null ? { perTrial: manifest.rows.map((row) => rowSetup(row, manifest, mapping, optionSides)) } : {}),
     onEvent: reporter.onEvent,
-    drawReport: values.report !== undefined,
-    describeInputs: tables.length > 0,
+    // The trials' own report sections are drawn for the trials' report; a study's report is drawn from its tables.
+    drawReport: values.report !== undefined && manifest === null,
+    describeInputs: tables.length > 0 || (manifest !== null && values.report !== undefined),
     signal: stop.signal,
   });
   reporter.end();
@@ -281,8 +283,9 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
 
   const covariates = manifest !== null ? { covariates: manifest.covariates } : {};
   const csv = trialsCsv(trials, covariates);
+  const studyReport = manifest !== null && values.report !== undefined;
   const provenance =
-    tables.length > 0
+    tables.length > 0 || studyReport
       ? await studyProvenance({
           settings,
           settingsPath: values.settings,
@@ -295,18 +298,27 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
       : null;
   if (values.out === undefined) io.stdout.write(csv);
   else if (!(await writeTable(values.out, 'study table', csv, provenance as object, io))) status = 1;
-  if (manifest !== null && (values.groups !== undefined || values.comparisons !== undefined || values.cycles !== undefined)) {
+  if (manifest !== null && (values.groups !== undefined || values.comparisons !== undefined || values.cycles !== undefined || studyReport)) {
     const { groupTables, cycleRows } = await import('../study/group-tables.ts');
     const { groupsCsv, comparisonsCsv, cyclesCsv } = await import('../study/study-tables-csv.ts');
     const conditions = [...new Set(manifest.rows.map((r) => r.condition))];
-    if (values.groups !== undefined || values.comparisons !== undefined) {
-      const { groups, comparisons } = groupTables(trials, conditions, covariates);
-      if (values.groups !== undefined && !(await writeTable(values.groups, 'group table', groupsCsv(groups), provenance as object, io))) status = 1;
-      if (values.comparisons !== undefined && !(await writeTable(values.comparisons, 'comparison table', comparisonsCsv(comparisons), provenance as object, io))) status = 1;
+    const { groups, comparisons } = values.groups !== undefined || values.comparisons !== undefined || studyReport ? groupTables(trials, conditions, covariates) : { groups: [], comparisons: [] };
+    const cycles = values.cycles !== undefined || studyReport ? cycleRows(trials, conditions) : [];
+    if (values.groups !== undefined && !(await writeTable(values.groups, 'group table', groupsCsv(groups), provenance as object, io))) status = 1;
+    if (values.comparisons !== undefined && !(await writeTable(values.comparisons, 'comparison table', comparisonsCsv(comparisons), provenance as object, io))) status = 1;
+    if (values.cycles !== undefined && !(await writeTable(values.cycles, 'cycle table', cyclesCsv(cycles), provenance as object, io))) status = 1;
+    if (studyReport && provenance !== null) {
+      const [{ writeStudyReport }, { studyReportInput }] = await Promise.all([import('../report/write-study-report.ts'), import('../study/study-report-input.ts')]);
+      const input = studyReportInput(trials, covariates, { groups, comparisons, cycles }, provenance, `lengthwise study report: ${manifest.path}`);
+      const result = await writeStudyReport(values.report as string, input);
+      if (result.ok) io.err(`report written to ${result.path}`);
+      else {
+        io.err(`lengthwise summarize: ${result.message}`);
+        status = 1;
+      }
     }
-    if (values.cycles !== undefined && !(await writeTable(values.cycles, 'cycle table', cyclesCsv(cycleRows(trials, conditions)), provenance as object, io))) status = 1;
   }
-  if (values.report !== undefined) {
+  if (values.report !== undefined && manifest === null) {
     const { writeReport } = await import('../report/write-report.ts');
     const result = await writeReport(values.report, summaries, { title: `Study of ${summaries.length} trials`, keys, sections });
     if (result.ok) io.err(`report written to ${result.path}`);

@@ -8,10 +8,10 @@ import type { SettingsDocument } from '../trial/settings.ts';
 import type { ProvenanceJson } from './provenance-json.ts';
 
 /** What an input file is to the run. */
-export type InputRole = 'trial' | 'events' | 'mapping' | 'calibration' | 'settings' | 'manifest' | 'session_log';
+export type InputKind = 'trial' | 'events' | 'mapping' | 'calibration' | 'settings' | 'manifest' | 'session_log';
 
 export interface InputFileJson {
-  role: InputRole;
+  kind: InputKind;
   /** As the run opened it (as given, or joined to the manifest's folder). */
   path: string;
   /** Null when the file could not be read when the provenance was made. */

@@ -4,7 +4,7 @@
  */
 import { stat } from 'node:fs/promises';
 import { settingsDocument, type Settings } from '../trial/settings.ts';
-import { sidecarPath, versionNumber, type InputFileJson, type InputRole, type MuscleCalibrationEntry, type RunProvenanceJson } from '../output/run-provenance.ts';
+import { sidecarPath, versionNumber, type InputFileJson, type InputKind, type MuscleCalibrationEntry, type RunProvenanceJson } from '../output/run-provenance.ts';
 import type { SummaryJson } from '../output/summary-json.ts';
 import { writeFileAtomic, type WriteResult } from '../output/write-file.ts';
 import { fileSha256 } from './file-digest.ts';
@@ -12,7 +12,7 @@ import { toolVersion } from './tool-version.ts';
 
 /** An input file and what it is to the run. */
 export interface RunInput {
-  readonly role: InputRole;
+  readonly kind: InputKind;
   readonly path: string;
 }
 
@@ -31,18 +31,18 @@ export interface ProvenanceSources {
 export async function describeInput(input: RunInput): Promise<InputFileJson> {
   try {
     const info = await stat(input.path);
-    if (!info.isFile()) return { role: input.role, path: input.path, bytes: null, sha256: null };
-    return { role: input.role, path: input.path, bytes: info.size, sha256: await fileSha256(input.path) };
+    if (!info.isFile()) return { kind: input.kind, path: input.path, bytes: null, sha256: null };
+    return { kind: input.kind, path: input.path, bytes: info.size, sha256: await fileSha256(input.path) };
   } catch {
-    return { role: input.role, path: input.path, bytes: null, sha256: null };
+    return { kind: input.kind, path: input.path, bytes: null, sha256: null };
   }
 }
 
-/** Each input once (the first time a role and path are given), described, in the order given. */
+/** Each input once (the first time a kind and path are given), described, in the order given. */
 export function describeInputs(inputs: readonly RunInput[]): Promise<InputFileJson[]> {
   const seen = new Set<string>();
   const once = inputs.filter((i) => {
-    const key = `${i.role}\u0000${i.path}`;
+    const key = `${i.kind}\u0000${i.path}`;
     if (seen.has(key)) return false;
     seen.add(key);
     return true;

@@ -105,7 +105,13 @@ export function studyTrials(spec: StudySpec): StudyTrial[] {
           file: `trials/${subject}-${trial}.${ext}`,
           calibration: `calibrations/${subject}.json`,
           age,
-          spec: { ...base, strideS: condition.strideS, muscles: base.muscles.map((m) => subjectMuscle(m, countFactor, offsetUm, condition.shiftUm)) },
+          spec: {
+            ...base,
+            strideS: condition.strideS,
+            muscles: base.muscles.map((m) => subjectMuscle(m, countFactor, offsetUm, condition.shiftUm)),
+            // A marker at the start (NDJSON carries it; the CSV variant has no marker rows).
+            markers: [{ atS: 0, text: `belt ${condition.speedMS} m/s` }],
+          },
         });
       }
     }

@@ -41,10 +41,11 @@ const cellKey = (condition: string, muscle: string): string => `${condition}\u00
 function grouped(trials: readonly TableTrial[], conditionOrder: readonly string[], options: StudyTableOptions): Grouped {
   const used = included(trials);
   const rows = tableRows(used);
+  // A figure no included trial has (the calibration uncertainty's, in a study without one) has no row.
   const figures = studyTableColumns(
     trials.map((t) => t.summary),
     options,
-  ).filter((c) => c.figure);
+  ).filter((c) => c.figure && rows.some((row) => typeof cellValue(c, row) === 'number'));
   const cells = new Map<string, Map<string, RowContext[]>>();
   for (const row of rows) {
     const manifest = row.manifest;
@@ -85,7 +86,7 @@ export interface StudyTables {
 }
 
 /**
- * groups.csv: a row per condition × muscle × figure; comparisons.csv: per pair of conditions (in the
+ * groups.csv: a row per condition × muscle × figure (every figure some included trial has); comparisons.csv: per pair of conditions (in the
  * manifest's order, b after a), muscle and figure, a paired t-test over the subjects who have both.
  */
 export function groupTables(trials: readonly TableTrial[], conditionOrder: readonly string[], options: StudyTableOptions = {}): StudyTables {

@@ -31,25 +31,25 @@ export interface StudyProvenanceSources {
 /** Every input once, in order: the manifest, the settings, the options' files, then each trial's files. */
 export async function studyProvenance(sources: StudyProvenanceSources): Promise<StudyProvenanceJson> {
   const own: RunInput[] = [];
-  if (sources.manifestPath !== null) own.push({ role: 'manifest', path: sources.manifestPath });
-  if (sources.settingsPath !== undefined) own.push({ role: 'settings', path: sources.settingsPath });
-  if (sources.calibrationPath !== undefined) own.push({ role: 'calibration', path: sources.calibrationPath });
-  if (sources.mappingPath !== undefined) own.push({ role: 'mapping', path: sources.mappingPath });
-  if (sources.eventsPath !== undefined) own.push({ role: 'events', path: sources.eventsPath });
+  if (sources.manifestPath !== null) own.push({ kind: 'manifest', path: sources.manifestPath });
+  if (sources.settingsPath !== undefined) own.push({ kind: 'settings', path: sources.settingsPath });
+  if (sources.calibrationPath !== undefined) own.push({ kind: 'calibration', path: sources.calibrationPath });
+  if (sources.mappingPath !== undefined) own.push({ kind: 'mapping', path: sources.mappingPath });
+  if (sources.eventsPath !== undefined) own.push({ kind: 'events', path: sources.eventsPath });
   const perTrial: RunInput[] = [];
   for (const { row } of sources.trials) {
     if (row === null) continue;
-    if (row.mappingPath !== null) perTrial.push({ role: 'mapping', path: row.mappingPath });
-    if (row.calibrationPath !== null) perTrial.push({ role: 'calibration', path: row.calibrationPath });
+    if (row.mappingPath !== null) perTrial.push({ kind: 'mapping', path: row.mappingPath });
+    if (row.calibrationPath !== null) perTrial.push({ kind: 'calibration', path: row.calibrationPath });
   }
   const described = await describeInputs([...own, ...perTrial]);
   // The trials' own files were read beside the trials, on the workers.
   const trialFiles: InputFileJson[] = [];
-  const seen = new Set(described.map((i) => `${i.role}\u0000${i.path}`));
+  const seen = new Set(described.map((i) => `${i.kind}\u0000${i.path}`));
   for (const { outcome } of sources.trials) {
-    const files = outcome.ok && outcome.inputs !== undefined ? outcome.inputs : await describeInputs([{ role: 'trial', path: outcome.path }]);
+    const files = outcome.ok && outcome.inputs !== undefined ? outcome.inputs : await describeInputs([{ kind: 'trial', path: outcome.path }]);
     for (const f of files) {
-      const key = `${f.role}\u0000${f.path}`;
+      const key = `${f.kind}\u0000${f.path}`;
       if (seen.has(key)) continue;
       seen.add(key);
       trialFiles.push(f);

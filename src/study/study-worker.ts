@@ -33,7 +33,7 @@ port.on('message', (job: JobMessage) => {
   const eventsPath = job.trial?.eventsPath ?? setup.eventsPath;
   const sides = job.trial?.sides ?? setup.sides;
   // The trial's files are read for their SHA-256 while the trial runs.
-  const files: RunInput[] = [{ role: 'trial', path: job.path }, ...(eventsPath !== undefined ? [{ role: 'events' as const, path: eventsPath }] : [])];
+  const files: RunInput[] = [{ kind: 'trial', path: job.path }, ...(eventsPath !== undefined ? [{ kind: 'events' as const, path: eventsPath }] : [])];
   const described = setup.describeInputs === true ? describeInputs(files) : Promise.resolve(undefined);
   void summarizeTrial(job.path, {
     ...(setup.settings !== undefined ? { settings: setup.settings } : {}),

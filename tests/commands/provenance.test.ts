@@ -55,7 +55,7 @@ describe('the provenance of a replay', () => {
 
   it('lists each input file with its size and SHA-256', async () => {
     const inputs = (summary.provenance as RunProvenanceJson).inputs;
-    expect(inputs.map((i) => [i.role, i.path])).toEqual([
+    expect(inputs.map((i) => [i.kind, i.path])).toEqual([
       ['trial', DEMO],
       ['calibration', DEMO_CAL],
       ['settings', settingsPath],

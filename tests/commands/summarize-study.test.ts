@@ -173,9 +173,9 @@ describe('lengthwise summarize --study', () => {
     const p = JSON.parse(sidecars[0] as string) as StudyProvenanceJson;
     expect(p.tool).toBe('lengthwise');
     expect(p.settings.format).toBe('lengthwise-settings');
-    expect(p.inputs[0]).toMatchObject({ role: 'manifest', path: join(dir, 'study', 'study.csv') });
-    expect(p.inputs.filter((i) => i.role === 'trial')).toHaveLength(16);
-    expect(p.inputs.filter((i) => i.role === 'calibration')).toHaveLength(4);
+    expect(p.inputs[0]).toMatchObject({ kind: 'manifest', path: join(dir, 'study', 'study.csv') });
+    expect(p.inputs.filter((i) => i.kind === 'trial')).toHaveLength(16);
+    expect(p.inputs.filter((i) => i.kind === 'calibration')).toHaveLength(4);
     for (const i of p.inputs) expect(i.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(p.calibration).toHaveLength(32);
     expect(p.calibration[0]).toMatchObject({ subject: 'SYN-201', condition: 'slow', trial: 'slow-1', muscle: 'calf', source: 'file', file: join(dir, 'study', 'calibrations', 'SYN-201.json') });
@@ -192,6 +192,24 @@ describe('lengthwise summarize --study', () => {
       const [a, b] = await Promise.all([readFile(join(out, name), 'utf8'), readFile(join(again, name), 'utf8')]);
       expect(b.replace(made, ''), name).toBe(a.replace(made, ''));
     }
+  }, 120_000);
+});
+
+describe('the study report of summarize --study', () => {
+  it('is drawn from the study\'s tables and provenance: methods with the settings in effect, the inputs\' SHA-256, the trials\' markers', async () => {
+    const settings = join(dir, 'settings.json');
+    await writeFile(settings, JSON.stringify({ format: 'lengthwise-settings', version: 1, plausible_sarcomere_max_um: 4.5, gap_s: 0.3 }));
+    const page = join(dir, 'report-out', 'report.html');
+    const result = await lengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), '--out', join(dir, 'report-out', 'trials.csv'), '--report', page, '--settings', settings, '--plain']);
+    expect(result.code, result.stderr).toBe(0);
+    const html = await readFile(page, 'utf8');
+    const text = html.replace(/<[^>]+>/g, ' ').replace(/\s+/g, ' ');
+    expect(text).toContain('Estimates outside 1–4.5 µm would have been reported as implausible');
+    expect(text).toContain('longer than 0.3 s');
+    expect(text).toContain('stride period 0.4–3 s');
+    const p = JSON.parse(await readFile(join(dir, 'report-out', 'trials.csv.provenance.json'), 'utf8')) as StudyProvenanceJson;
+    expect(html).toContain(p.inputs[0]?.sha256 as string);
+    expect(text).toContain('belt 1.5 m/s');
   }, 120_000);
 });
 

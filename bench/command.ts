@@ -54,7 +54,7 @@ export interface StartResult {
   readonly helpMedianMs: number;
 }
 
-interface Timed {
+export interface Timed {
   readonly ms: number;
   readonly cpuMs: number;
   readonly stdout: string;
@@ -76,7 +76,7 @@ function childrenCpuMs(): number {
 }
 
 /** Runs a fresh Node process to its end; a failure is an error naming the command and what it said. */
-function timed(args: readonly string[], keepStdout = false): Promise<Timed> {
+export function timed(args: readonly string[], keepStdout = false): Promise<Timed> {
   return new Promise((resolve, reject) => {
     const cpu0 = childrenCpuMs();
     const t0 = performance.now();

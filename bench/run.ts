@@ -8,7 +8,7 @@
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or table, command, live, memory, screen, floods; several: --only replay,command
+ *   npm run bench -- --only replay # or table, command, study, live, memory, screen, floods; several: --only replay,command
  *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
  *   npm run bench -- --only live,screen --against DIR   # another checkout's dashboard measured beside this one's
  */
@@ -29,6 +29,7 @@ import { measureLive, type LiveResult } from './live.ts';
 import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
 import { measureTable, type TableResult } from './table.ts';
 import { floodLines, measureFloods } from './floods.ts';
+import { measureStudy, type StudyBenchResult } from './study.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -77,10 +78,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,table,command,live,memory,screen,floods').split(','));
+  const only = new Set((value('--only') ?? 'replay,table,command,study,live,memory,screen,floods').split(','));
   for (const part of only) {
-    if (!['replay', 'table', 'command', 'live', 'memory', 'screen', 'floods'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory, screen, floods (comma-separated)`);
+    if (!['replay', 'table', 'command', 'study', 'live', 'memory', 'screen', 'floods'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, table, command, study, live, memory, screen, floods (comma-separated)`);
       process.exit(2);
     }
   }
@@ -307,6 +308,19 @@ async function main(): Promise<void> {
       lines.push(
         `start   lengthwise --help ${start.helpMedianMs.toFixed(0)} ms, node -e 0 ${start.bareMedianMs.toFixed(0)} ms: ` +
           `${start.ratioMedian.toFixed(2)}× (median of ${start.ratios.length} pairs; ${Math.min(...start.ratios).toFixed(2)}–${Math.max(...start.ratios).toFixed(2)})`,
+      );
+    }
+    if (args.only.has('study')) {
+      const trials = args.quick ? 12 : 60;
+      const samplesPerTrial = args.quick ? 5_000 : 20_000;
+      console.error(`bench: summarize --study, ${trials} trials of ${samplesPerTrial} samples, --jobs 2, with and without the group and comparison tables, ${args.commandPairs} alternating pairs of fresh processes…`);
+      const study: StudyBenchResult = await measureStudy(dir, { trials, samplesPerTrial, pairs: args.commandPairs, jobs: 2 });
+      out['study'] = study;
+      lines.push(
+        `study   ${study.trials} trials × ${study.samplesPerTrial} samples, --jobs ${study.jobs}: without the tables ${(median(study.withoutMs) / 1000).toFixed(1)} s, ` +
+          `with groups (${study.groupRows} rows) and comparisons (${study.comparisonRows} rows) ${(median(study.withMs) / 1000).toFixed(1)} s: ` +
+          `${study.ratioMedian.toFixed(3)}× wall (${study.ratios.map((x) => x.toFixed(3)).join(' ')}), ${study.cpuRatioMedian.toFixed(3)}× CPU ` +
+          `(${study.cpuRatios.map((x) => x.toFixed(3)).join(' ')}); trials.csv ${study.trialsAgree ? 'the same' : 'DIFFERS'}`,
       );
     }
     if (args.only.has('live')) {

@@ -1,0 +1,115 @@
+/**
+ * A study as users run it: `lengthwise summarize --study` over a generated study (invented subjects and
+ * conditions, src/sim/demo-study.ts), with the group and comparison tables and without them, in
+ * alternating pairs of fresh processes (`--jobs 2`). The statistics across subjects are a small part of
+ * the work: the ratio of the two says how small (target: at most 1.2×). Before the pairs, one run of each
+ * checks that both write the same trials.csv.
+ */
+import { readFile, rm } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { WALKING_CONDITIONS, writeStudy, type StudySpec } from '../src/sim/demo-study.ts';
+import { median } from '../src/model/stats.ts';
+import { timed } from './command.ts';
+
+const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
+const BIN = join(ROOT, 'bin', 'lengthwise.js');
+
+export interface StudyBenchResult {
+  readonly trials: number;
+  readonly samplesPerTrial: number;
+  readonly jobs: number;
+  /** Summarising with the trials table only. */
+  readonly withoutMs: readonly number[];
+  /** The same, with groups.csv and comparisons.csv as well. */
+  readonly withMs: readonly number[];
+  readonly ratios: readonly number[];
+  readonly ratioMedian: number;
+  readonly withoutCpuMs: readonly number[];
+  readonly withCpuMs: readonly number[];
+  readonly cpuRatios: readonly number[];
+  readonly cpuRatioMedian: number;
+  /** Rows of groups.csv and comparisons.csv. */
+  readonly groupRows: number;
+  readonly comparisonRows: number;
+  readonly trialsAgree: boolean;
+}
+
+export interface StudyBenchOptions {
+  /** Trials: subjects × 2 conditions × 3 trials. @default 60 */
+  readonly trials?: number;
+  /** Samples in each trial (two muscles at 100 Hz). @default 20 000 */
+  readonly samplesPerTrial?: number;
+  readonly pairs?: number;
+  readonly jobs?: number;
+}
+
+export async function measureStudy(dir: string, options: StudyBenchOptions = {}): Promise<StudyBenchResult> {
+  const trials = options.trials ?? 60;
+  const samplesPerTrial = options.samplesPerTrial ?? 20_000;
+  const pairs = options.pairs ?? 5;
+  const jobs = options.jobs ?? 2;
+  const perSubject = WALKING_CONDITIONS.length * 3;
+  const spec: StudySpec = {
+    seed: 4242,
+    subjects: Math.max(1, Math.round(trials / perSubject)),
+    conditions: WALKING_CONDITIONS,
+    trialsPerCondition: 3,
+    // Two muscles at 100 Hz: 200 samples a second.
+    durationS: samplesPerTrial / 200,
+    rateHz: 100,
+    format: 'ndjson',
+  };
+  const studyDir = join(dir, 'study');
+  for (const r of await writeStudy(studyDir, spec)) if (!r.ok) throw new Error(r.problem);
+  const manifest = join(studyDir, 'study.csv');
+  const out = (name: string): string => join(dir, name);
+  const common = [BIN, 'summarize', '--study', manifest, '--jobs', String(jobs), '--plain'];
+  const without = [...common, '--out', out('trials-a.csv')];
+  const withTables = [...common, '--out', out('trials-b.csv'), '--groups', out('groups.csv'), '--comparisons', out('comparisons.csv')];
+
+  await timed(without);
+  await timed(withTables);
+  const made = /"created_utc": "[^"]*"/;
+  const [a, b] = await Promise.all([readFile(out('trials-a.csv'), 'utf8'), readFile(out('trials-b.csv'), 'utf8')]);
+  const groupRows = (await readFile(out('groups.csv'), 'utf8')).trimEnd().split('\r\n').length - 1;
+  const comparisonRows = (await readFile(out('comparisons.csv'), 'utf8')).trimEnd().split('\r\n').length - 1;
+
+  const withoutMs: number[] = [];
+  const withMs: number[] = [];
+  const withoutCpuMs: number[] = [];
+  const withCpuMs: number[] = [];
+  for (let i = 0; i < pairs; i++) {
+    // Alternating which goes first, so neither always runs on the warmer page cache.
+    const order = i % 2 === 0 ? [without, withTables] : [withTables, without];
+    for (const args of order) {
+      const t = await timed(args);
+      if (args === without) {
+        withoutMs.push(t.ms);
+        withoutCpuMs.push(t.cpuMs);
+      } else {
+        withMs.push(t.ms);
+        withCpuMs.push(t.cpuMs);
+      }
+    }
+  }
+  await rm(studyDir, { recursive: true, force: true });
+  const ratios = withMs.map((w, i) => w / (withoutMs[i] as number));
+  const cpuRatios = withCpuMs.map((w, i) => w / (withoutCpuMs[i] as number));
+  return {
+    trials: spec.subjects * perSubject,
+    samplesPerTrial,
+    jobs,
+    withoutMs,
+    withMs,
+    ratios,
+    ratioMedian: median(ratios),
+    withoutCpuMs,
+    withCpuMs,
+    cpuRatios,
+    cpuRatioMedian: median(cpuRatios),
+    groupRows,
+    comparisonRows,
+    trialsAgree: a.replace(made, '') === b.replace(made, ''),
+  };
+}

@@ -4,6 +4,7 @@
  */
 import type { CommandIo } from '../run/io.ts';
 import { parseOptions } from './parse-command-args.ts';
+import { SETTINGS_OPTION, settingsOption } from './option-files.ts';
 import { redactUrl } from '../../adapters/redact-url.ts';
 import { parseConnect, parseDuration, parseListen, type ListenAddress, type Parsed } from './option-values.ts';
 import { SCENARIOS, type Scenario } from '../sim/gait-generator.ts';
@@ -36,6 +37,8 @@ time, as a device would. Everything it sends is invented by the generator; nothi
                          one line on stderr per fault
   --duration S           stop after S seconds                         [default: until Ctrl-C or SIGTERM]
   --seed N               seed of the generator (same seed, same stream)              [default: 1]
+  --settings FILE        processing settings (lengthwise-settings JSON): with --faults, the header that
+                         declares too many muscles declares max_muscles_per_trial + 1
   -h, --help             this help
 
 examples:
@@ -50,6 +53,7 @@ type SimulateArgs =
       readonly listen: ListenAddress | null;
       readonly connect: string | null;
       readonly token: string | null;
+      readonly settings: string | undefined;
       readonly sim: SimulatorOptions;
     }
   | { readonly ok: false; readonly problems: readonly string[] };
@@ -81,6 +85,7 @@ export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
     duration: { type: 'string' },
     seed: { type: 'string' },
     token: { type: 'string' },
+    ...SETTINGS_OPTION,
   }, { allowPositionals: false });
   if (!result.ok) return { ok: false, problems: [`${result.message}\n(lengthwise simulate --help lists every option)`] };
   const { values } = result.parsed;
@@ -124,7 +129,7 @@ export function parseSimulateArgs(argv: readonly string[]): SimulateArgs {
     ...(muscles === undefined ? {} : { muscles }),
     faults: values.faults === true,
   };
-  return { ok: true, help: false, listen, connect, token: values.token ?? null, sim };
+  return { ok: true, help: false, listen, connect, token: values.token ?? null, settings: values.settings, sim };
 }
 
 function summaryLine(s: Readonly<SimulatorStats>): string {
@@ -149,14 +154,17 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     io.out(USAGE);
     return 0;
   }
+  const settings = await settingsOption('simulate', parsed.settings, io);
+  if (!settings.ok) return 2;
+  const simOptions: SimulatorOptions = { ...parsed.sim, maxMuscles: settings.value.max_muscles_per_trial };
   const log = (line: string): void => io.err(line);
   let sim: RunningSimulator;
   try {
     sim =
       parsed.listen !== null
-        ? await startSimulator({ ...parsed.sim, host: parsed.listen.host, port: parsed.listen.port, log })
+        ? await startSimulator({ ...simOptions, host: parsed.listen.host, port: parsed.listen.port, log })
         : await pushSimulator({
-            ...parsed.sim,
+            ...simOptions,
             url: parsed.connect as string,
             shownUrl: redactUrl(parsed.connect as string),
             ...(parsed.token !== null ? { token: parsed.token } : {}),

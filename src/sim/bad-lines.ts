@@ -18,6 +18,8 @@ export interface BadLineContext {
   readonly variant: number;
   /** Length of the line_too_long line, characters. */
   readonly longLineChars: number;
+  /** The receiver's muscle cap: a too_many_muscles header declares one more. @default MAX_MUSCLES_PER_TRIAL */
+  readonly maxMuscles?: number;
 }
 
 /** Reasons that need a previous sample of the muscle to copy. */
@@ -65,7 +67,7 @@ export function badLineNdjson(reason: RejectReason, ctx: BadLineContext): string
       return `{"t":${t},"nested":${'['.repeat(200)}${']'.repeat(200)}}`;
     case 'too_many_muscles': {
       // A resent header that declares one muscle more than a trial takes.
-      const declared = Array.from({ length: MAX_MUSCLES_PER_TRIAL + 1 }, (_, i) => `${JSON.stringify(`${ctx.muscle}-extra-${i + 1}`)}:{}`);
+      const declared = Array.from({ length: (ctx.maxMuscles ?? MAX_MUSCLES_PER_TRIAL) + 1 }, (_, i) => `${JSON.stringify(`${ctx.muscle}-extra-${i + 1}`)}:{}`);
       return `{"format":"lengthwise-stream","version":1,"muscles":{${declared.join(',')}}}`;
     }
   }

@@ -49,6 +49,8 @@ export interface SimulatorOptions {
   readonly speed?: number;
   /** One line per thing done (connections, faults); the command prints them on stderr. */
   readonly log?: (line: string) => void;
+  /** The receiver's muscle cap (the settings' max_muscles_per_trial): a too_many_muscles fault declares one more. @default MAX_MUSCLES_PER_TRIAL */
+  readonly maxMuscles?: number;
 }
 
 export interface ServeOptions extends SimulatorOptions {
@@ -325,6 +327,7 @@ class Engine {
       last,
       variant: this.reasonIdx,
       longLineChars: this.feed.trial.spec.longLineChars,
+      ...(this.options.maxMuscles !== undefined ? { maxMuscles: this.options.maxMuscles } : {}),
     });
     if (text === null) return false;
     let sent = 0;

@@ -49,6 +49,7 @@ describe('lengthwise settings', () => {
       lengthwise(['calibrate', DEMO, '--muscle', 'calf', '--window', '0-2', '--sarcomere-length', '2.7', '--settings', mistyped]),
       lengthwise(['curve', '--sl', '2.5', '--settings', mistyped]),
       lengthwise(['live', '--listen', '0', '--duration', '1', '--settings', mistyped]),
+      lengthwise(['simulate', '--listen', '0', '--duration', '1', '--settings', mistyped]),
     ]);
     for (const ran of runs) {
       expect(ran.code).toBe(2);

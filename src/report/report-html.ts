@@ -216,6 +216,21 @@ function summaryTable(list: readonly Entry[]): string {
   ].join('\n');
 }
 
+/** The trials' markers (time and text), a row each; empty when none has one (older summaries list none). */
+function markersSection(summaries: readonly SummaryJson[], keys: readonly number[]): string {
+  const rows = summaries.flatMap((s, i) =>
+    (s.markers ?? []).map((m) => `<tr><td class="num">${keys[i]}</td><td>${escapeHtml(trialName(s))}</td><td class="num">${m.t_s}</td><td>${escapeHtml(m.text)}</td></tr>`),
+  );
+  if (rows.length === 0) return '';
+  return [
+    '<section id="markers"><h2>Markers</h2>',
+    '<table class="summary"><thead><tr><th>#</th><th>trial</th><th>time (s)</th><th>text</th></tr></thead><tbody>',
+    ...rows,
+    '</tbody></table>',
+    '<p class="note">Markers placed during each trial, on its own clock.</p></section>',
+  ].join('\n');
+}
+
 function legend(): string {
   return `<p class="legend">${REGION_KEYS.map((k) => `<span class="swatch" style="background:${REGION_COLOUR[k]}"></span>${escapeHtml(REGION_LABEL[k])}`).join(' ')}</p>`;
 }
@@ -301,6 +316,7 @@ export async function reportHtml(summaries: readonly SummaryJson[], options: Rep
     legend(),
     '</header>',
     `<section id="overview"><h2>Overview</h2>\n${overview}\n</section>`,
+    markersSection(summaries, keys),
     ...sections,
     '<p class="note">Made by lengthwise from the trials\' summaries. A research tool, not a medical device.</p>',
   ]);

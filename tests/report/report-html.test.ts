@@ -103,6 +103,15 @@ describe('reportHtml', () => {
     expect(html).toContain(`mean ${calf.sl_mean_um!.toFixed(2)} µm`);
   });
 
+  it('lists the trials\' markers with their time and text, escaped, and has no markers section without any', async () => {
+    const marked = structuredClone(summaries[0]!);
+    marked.markers = [{ t_s: 0, text: 'belt 1.3 m/s' }, { t_s: 12.5, text: 'speed <up> & on' }];
+    const page = await reportHtml([marked], { title: 'markers' });
+    expect(page).toContain('<section id="markers">');
+    expect(page).toContain('<td class="num">12.5</td><td>speed &lt;up&gt; &amp; on</td>');
+    expect(html).not.toContain('<section id="markers">');
+  });
+
   it('escapes text from the trials and the title', () => {
     expect(html).toContain('<title>Invented study &lt;A&amp;B&gt;</title>');
     expect(escapeHtml(`<a href="x">'&'</a>`)).toBe('&lt;a href=&quot;x&quot;&gt;&#39;&amp;&#39;&lt;/a&gt;');

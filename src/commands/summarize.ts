@@ -275,7 +275,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   });
   let status = failed.length > 0 ? 1 : 0;
   const workers = Math.min(jobs, outcomes.length);
-  if (stoppedBy !== null) io.err(`lengthwise summarize: stopped by ${stoppedBy}: the tables hold the ${summaries.length} trials finished before it`);
+  if (stoppedBy !== null) io.err(`lengthwise summarize: stopped by ${stoppedBy}: the ${manifest !== null ? 'tables hold' : 'table holds'} the ${summaries.length} trials finished before it`);
   io.err(
     `summarized ${summaries.length} of ${outcomes.length} trials in ${elapsedS.toFixed(1)} s (${rateText(samples / elapsedS)}, ${workers} worker${workers === 1 ? '' : 's'})` +
       (failed.length > 0 ? `; ${failed.length} failed: ${failed.join(', ')}` : ''),

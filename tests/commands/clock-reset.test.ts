@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { killServer, nextConnection, sendAll, until, wsClient, wsServer } from '../adapters/ws-peers.ts';
-import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSource, type Child } from '../helpers/command-child.ts';
+import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSourceOrProvenance, type Child } from '../helpers/command-child.ts';
 
 const children: Child[] = [];
 const stops: (() => unknown)[] = [];
@@ -35,7 +35,7 @@ async function expectContinued(live: Awaited<ReturnType<typeof readJson>>, log: 
   expect(resets).toHaveLength(1);
   // The restarted clock (from 0) continues after the last time seen before it (5.99 s), however little wall time passed.
   expect(JSON.parse(resets[0] as string).clock_reset.offset_s).toBeGreaterThan(5.99);
-  expect(withoutSource(await replaySummary(log, dir))).toEqual(withoutSource(live));
+  expect(withoutSourceOrProvenance(await replaySummary(log, dir))).toEqual(withoutSourceOrProvenance(live));
 }
 
 describe('a live device whose clock restarts', () => {

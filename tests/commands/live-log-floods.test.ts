@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { killServer, nextConnection, sampleTexts, sendAll, until, wsClient, wsServer } from '../adapters/ws-peers.ts';
-import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSource, type Child } from '../helpers/command-child.ts';
+import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSourceOrProvenance, type Child } from '../helpers/command-child.ts';
 import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
 
 const children: Child[] = [];
@@ -48,7 +48,7 @@ describe('a session log under floods that look legitimate', () => {
     const live = await readJson(s.summary);
     expect(live.frames).toMatchObject({ accepted: 50, rejected: 1 + 128 * 1024 - 1 + 5000 });
     expect(live.frames.rejected_by_reason).toEqual({ not_json: 1 + 2500, schema: 128 * 1024 - 1 + 2500 });
-    expect(withoutSource(await replaySummary(s.log, s.dir))).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(await replaySummary(s.log, s.dir))).toEqual(withoutSourceOrProvenance(live));
   });
 
   it('records each message over the cap as one short rejection line, never padded, and a replay counts them', async () => {
@@ -71,7 +71,7 @@ describe('a session log under floods that look legitimate', () => {
     for (const line of lines) expect(line.length).toBeLessThan(1024);
     const live = await readJson(s.summary);
     expect(live.frames).toMatchObject({ accepted: 20, rejected_by_reason: { line_too_long: 3 } });
-    expect(withoutSource(await replaySummary(s.log, s.dir))).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(await replaySummary(s.log, s.dir))).toEqual(withoutSourceOrProvenance(live));
   });
 
   it(`takes the first ${MAX_MUSCLES_PER_TRIAL} of 3000 one-sample muscles a device makes up, counts the rest as too_many_muscles, and the log replays the same`, async () => {
@@ -89,7 +89,7 @@ describe('a session log under floods that look legitimate', () => {
     const lost = (await readFile(s.log, 'utf8')).split('\n').find((l) => l.includes('"disconnected"')) ?? '';
     expect(JSON.parse(lost).disconnected.muscles).toHaveLength(MAX_MUSCLES_PER_TRIAL);
     expect((await stat(s.summary)).size).toBeLessThan(5 * 1024 * 1024);
-    expect(withoutSource(await replaySummary(s.log, s.dir))).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(await replaySummary(s.log, s.dir))).toEqual(withoutSourceOrProvenance(live));
   });
 
   it('gives the live summary on replay when a server sends a 400 KiB muscle name of bytes that are not UTF-8', async () => {
@@ -110,6 +110,6 @@ describe('a session log under floods that look legitimate', () => {
     await endSession(child, 1);
     const live = await readJson(summary);
     expect(live.frames).toMatchObject({ accepted: 200, rejected_by_reason: { line_too_long: 2 } });
-    expect(withoutSource(await replaySummary(log, dir))).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(await replaySummary(log, dir))).toEqual(withoutSourceOrProvenance(live));
   });
 });

@@ -77,8 +77,9 @@ async function replaySummary(log: string, dir: string, name: string): Promise<Re
   return json(out);
 }
 
-function withoutSource(summary: Record<string, unknown>): Record<string, unknown> {
-  const { source: _source, ...rest } = summary;
+function withoutSourceOrProvenance(summary: Record<string, unknown>): Record<string, unknown> {
+  // A live session's provenance names its session log as the input, its replay's the same file as the trial; each its own time.
+  const { source: _source, provenance: _provenance, ...rest } = summary;
   return rest;
 }
 
@@ -198,7 +199,7 @@ describe('lengthwise live --listen', () => {
     const live = await json(join(dir, 'live.json'));
     expect(live.frames).toMatchObject({ accepted: 250, rejected: BAD_MESSAGES.length, headers: 1, gait_events: 2, markers: 1 });
     const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSource(replay)).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
     expect(await readFile(join(dir, 'live.html'), 'utf8')).toContain('<svg');
   });
 
@@ -244,7 +245,7 @@ describe('lengthwise live --listen', () => {
     expect(calf?.side).toBe('left');
     expect(calf?.strides.map((s) => s.start_s)).toEqual([0.2, 1.2]);
     const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSource(replay)).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
   });
 
   it('refuses a device without the token with 401 and takes one with it', async () => {
@@ -316,7 +317,7 @@ describe('lengthwise live --connect', () => {
     expect(live.frames['headers']).toBe(sim.stats.headersSent);
     expect(live.ended).toBe(true);
     const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSource(replay)).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
   });
 
   it('through faults (malformed messages, disconnections, restarts) loses no valid sample received, and the log with its gaps restored replays the same', async () => {
@@ -337,7 +338,7 @@ describe('lengthwise live --connect', () => {
     expect(lost.length).toBeGreaterThanOrEqual(1);
     for (const l of lost) expect(JSON.parse(l)).toMatchObject({ disconnected: { muscles: null, detail: expect.any(String) } });
     const final = await runTrial(fileSource(log), { source: log }).done;
-    expect(withoutSource(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(JSON.parse(JSON.stringify(summaryJson(final))))).toEqual(withoutSourceOrProvenance(live));
   });
 });
 
@@ -393,7 +394,7 @@ describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : 
     expect(live.frames['accepted']).toBeGreaterThan(0);
     expect(live.ended).toBe(true);
     const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSource(replay)).toEqual(withoutSource(live));
+    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
   });
 });
 

@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { calibrationOption, mappingOption, trialFiles } from '../../src/commands/option-files.ts';
 import { captureIo } from '../helpers/capture-io.ts';
+import { DEFAULT_SETTINGS } from '../../src/trial/settings.ts';
 
 const MAPPINGS = join(import.meta.dirname, '..', '..', 'adapters', 'mappings');
 const DEMO_CAL = join(import.meta.dirname, '..', '..', 'replays', 'demo-calibration.json');
@@ -41,7 +42,7 @@ describe('option files', () => {
     const both = await trialFiles('replay', { calibration: DEMO_CAL, mapping: join(MAPPINGS, 'twin-probe-si.json') }, t.io);
     expect(both?.calibration).toBeDefined();
     expect(both?.mapping?.lengthUnit).toBe('m');
-    expect(await trialFiles('replay', {}, t.io)).toEqual({ calibration: undefined, mapping: undefined });
+    expect(await trialFiles('replay', {}, t.io)).toEqual({ settings: DEFAULT_SETTINGS, calibration: undefined, mapping: undefined });
     expect(t.err).toEqual([]);
     expect(await trialFiles('live', { calibration: join(MAPPINGS, 'none.json'), mapping: join(MAPPINGS, 'none.json') }, t.io)).toBeNull();
     expect(t.err).toHaveLength(1);

@@ -59,7 +59,8 @@ export async function replaySummary(log: string, dir: string, name = 'replay.jso
 }
 
 /** A summary without its `source` (a live session's URL, a replay's file), for comparing the two. */
-export function withoutSource(summary: Record<string, unknown>): Record<string, unknown> {
-  const { source: _source, ...rest } = summary;
+export function withoutSourceOrProvenance(summary: Record<string, unknown>): Record<string, unknown> {
+  // A live session's provenance names its session log as the input, its replay's the same file as the trial; each its own time.
+  const { source: _source, provenance: _provenance, ...rest } = summary;
   return rest;
 }

@@ -5,6 +5,7 @@ import type { Parsed } from './option-values.ts';
 import type { Batch } from '../trial/records.ts';
 import { trialSource } from '../../adapters/trial-source.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
+import { fileDigest } from '../../adapters/file-digest.ts';
 import { mappingOption } from './option-files.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
@@ -13,8 +14,6 @@ import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausib
 import { POSTURE_DISAGREEMENT_FRACTION, QUIET_SPREAD_FRACTION, sarcomereCountFromReference, summarizeWindow, twoPostureCount } from '../model/quiet-window.ts';
 import { MAX_RELATIVE_SD, spreadProblem } from '../model/count-spread.ts';
 import { toolVersion } from '../run/tool-version.ts';
-import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
 import { DEFAULT_SKIP_BELOW } from '../pipeline/gate-quality.ts';
 
 const HELP = `usage: lengthwise calibrate FILE --muscle NAME --window START-END --sarcomere-length UM [options]
@@ -145,16 +144,6 @@ type Plan =
   | { readonly kind: 'postures'; readonly windows: ReadonlyArray<{ startS: number; endS: number }>; readonly sarcomereUm: readonly number[]; readonly sdUm: readonly number[] | null }
   | { readonly kind: 'prior'; readonly fibreMm: number; readonly fibreSdMm: number | null; readonly sarcomereUm: number; readonly source: string };
 
-function sha256Of(path: string): Promise<string> {
-  return new Promise((resolve, reject) => {
-    const hash = createHash('sha256');
-    createReadStream(path)
-      .on('data', (chunk) => hash.update(chunk))
-      .on('error', reject)
-      .on('end', () => resolve(hash.digest('hex')));
-  });
-}
-
 /** Reads the options into a plan, or the problems with them (every one, at once). */
 function planOf(values: CalibrateValues, problems: string[]): Plan | null {
   const windows = values.window ?? [];
@@ -283,7 +272,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   let sha256: string | undefined;
   if (path !== undefined) {
     try {
-      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events), sha256Of(path)]);
+      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events), fileDigest(path).then((d) => d.sha256)]);
     } catch (error) {
       io.err(`lengthwise calibrate: ${(error as Error).message}`);
       return 1;

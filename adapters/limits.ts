@@ -8,3 +8,9 @@ export const EXCERPT_CHARS = 200;
 
 /** Bytes decoded for an excerpt: enough for EXCERPT_CHARS characters of up to 4 UTF-8 bytes each. */
 export const EXCERPT_BYTES = EXCERPT_CHARS * 4;
+
+/**
+ * Frames of one recording of a trial description that may wait to be merged in time order before its
+ * reading pauses: with one read chunk more, what a recording holds whatever its clock claims.
+ */
+export const MERGE_READ_AHEAD_FRAMES = 16_384;

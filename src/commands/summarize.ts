@@ -13,9 +13,10 @@ import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise summarize FILES... [options]
 
-Runs every trial file (lengthwise-stream NDJSON, its CSV variant, session logs, or tables and NDJSON in
-your own columns through a mapping) through the same pipeline as replay, in parallel, and writes one
-study table: a row per trial and muscle, with the same figures as each trial's --summary.
+Runs every trial file (lengthwise-stream NDJSON, its CSV variant, session logs, tables and NDJSON in
+your own columns through a mapping, or trial descriptions joining several recordings) through the same
+pipeline as replay, in parallel, and writes one study table: a row per trial and muscle, with the same
+figures as each trial's --summary.
 
 options:
   --out FILE.csv         write the study table here  [default: standard output]

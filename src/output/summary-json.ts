@@ -171,10 +171,19 @@ function filamentsJson(m: MuscleState): FilamentsJson {
   };
 }
 
+/** A file a trial was read from: its path as given, its size and its SHA-256 (64 lower-case hex digits). */
+export interface SourceFileJson {
+  path: string;
+  bytes: number;
+  sha256: string;
+}
+
 export interface SummaryJson {
   format: 'lengthwise-summary';
   version: 1;
   source: string;
+  /** Every file a trial description's trial read (the description first); absent for a trial file, which `source` names. */
+  sources?: SourceFileJson[];
   subject: string | null;
   trial: string | null;
   calibrated: boolean;
@@ -414,7 +423,13 @@ function muscleJson(m: MuscleState): MuscleJson {
 }
 
 /** The summary of a trial, every figure rounded to its unit's precision (src/output/output-precision.ts). */
-export function summaryJson(state: TrialState): SummaryJson {
+/** What a summary says besides the trial's state. */
+export interface SummaryExtras {
+  /** The files a trial description's trial read. */
+  readonly sources?: readonly SourceFileJson[] | null | undefined;
+}
+
+export function summaryJson(state: TrialState, extras: SummaryExtras = {}): SummaryJson {
   // Own properties for every name, __proto__ included (an assignment would set the object's prototype).
   const muscles: Record<string, MuscleJson> = Object.fromEntries([...state.muscles].map(([name, m]) => [name, muscleJson(m)]));
   const f = state.frames;
@@ -422,6 +437,7 @@ export function summaryJson(state: TrialState): SummaryJson {
     format: 'lengthwise-summary',
     version: 1,
     source: state.source,
+    ...(extras.sources != null ? { sources: extras.sources.map((x) => ({ path: x.path, bytes: x.bytes, sha256: x.sha256 })) } : {}),
     subject: state.subject,
     trial: state.trial,
     calibrated: state.calibrated,

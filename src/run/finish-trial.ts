@@ -1,7 +1,7 @@
 /** What every command does when a trial ends: write the asked-for files and say what happened. */
 import type { CommandIo } from './io.ts';
 import type { TrialState } from '../trial/state.ts';
-import { summaryJson, trialFigures } from '../output/summary-json.ts';
+import { summaryJson, trialFigures, type SourceFileJson } from '../output/summary-json.ts';
 import { stridesCsv } from '../output/strides-csv.ts';
 import { writeFileAtomic } from '../output/write-file.ts';
 import { REGION_KEYS, REGION_LABEL } from '../model/regions.ts';
@@ -13,13 +13,15 @@ export interface FinishOptions {
   readonly report?: string | undefined;
   /** Where the summary goes when its own path cannot be written (a live session cannot be run again); the status is 1 all the same. */
   readonly summaryFallback?: string | undefined;
+  /** The files a trial description's trial read, for the summary (and the report). */
+  readonly sources?: readonly SourceFileJson[] | null | undefined;
 }
 
 /** Writes the summary, stride table and report if asked; exit status 1 when a file could not be written. */
 export async function finishTrial(state: TrialState, options: FinishOptions, io: CommandIo): Promise<number> {
   let status = 0;
   if (options.summary !== undefined) {
-    const text = `${JSON.stringify(summaryJson(state), null, 2)}\n`;
+    const text = `${JSON.stringify(summaryJson(state, { sources: options.sources }), null, 2)}\n`;
     let result = await writeFileAtomic(options.summary, text);
     if (!result.ok && options.summaryFallback !== undefined) {
       io.err(`lengthwise: ${result.message}`);
@@ -43,7 +45,7 @@ export async function finishTrial(state: TrialState, options: FinishOptions, io:
   if (options.report !== undefined) {
     // Loaded only when asked for: the plotting libraries take a moment to load.
     const { writeReport } = await import('../report/write-report.ts');
-    const result = await writeReport(options.report, [summaryJson(state)], { title: `lengthwise report: ${state.trial ?? state.source}` });
+    const result = await writeReport(options.report, [summaryJson(state, { sources: options.sources })], { title: `lengthwise report: ${state.trial ?? state.source}` });
     if (result.ok) io.err(`report written to ${result.path}`);
     else {
       io.err(`lengthwise: ${result.message}`);

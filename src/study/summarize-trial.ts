@@ -1,10 +1,11 @@
 /**
- * One trial file → its summary JSON (the same object `--summary` writes), or the reason it could not be
+ * One trial file (or trial description) → its summary JSON (the same object `--summary` writes), or the reason it could not be
  * summarized. Runs the whole pipeline unpaced; never throws for a bad file.
  */
 import { open, stat } from 'node:fs/promises';
 import { tap } from 'rxjs';
-import { trialSource } from '../../adapters/trial-source.ts';
+import { openTrial } from '../../adapters/trial-source.ts';
+import { fileDigests, type FileDigest } from '../../adapters/file-digest.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { Side } from '../trial/records.ts';
@@ -90,26 +91,35 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
     return { ok: false, path, bytes: size, message: `cannot read ${path}: ${errorMessage(error)}` };
   }
 
+  // A trial file, or a trial description (its files read and checked before the trial runs).
+  const opened = await openTrial(path, { calibration: options.calibration, mapping: options.mapping ?? null, eventsPath: options.eventsPath, sides: options.sides });
+  if (!opened.ok) return { ok: false, path, bytes: size, message: opened.message };
+  const { calibration, sides, files, spanS } = opened.trial;
+  // The summary's provenance: every file of a description, hashed while the trial runs.
+  const sources = files === null ? null : fileDigests(files);
+  sources?.catch(() => undefined);
+
   let samples = 0;
   let lastLine = 0;
+  let lastS = Number.NaN;
   const rejections = new RejectionTally();
   const onProgress = options.onProgress;
-  const records$ = trialSource(path, { mapping: options.mapping ?? null, eventsPath: options.eventsPath }).pipe(
+  // A description's progress goes by its recordings' joint time, over the description's own bytes.
+  const bytesRead = (): number =>
+    spanS === null ? Math.min(size, lastLine * perLine) : Number.isFinite(lastS) ? size * Math.min(1, Math.max(0, (lastS - spanS.firstS) / (spanS.lastS - spanS.firstS))) : 0;
+  const records$ = opened.trial.records().pipe(
     tap((batch) => {
       for (const frame of batch) {
         if (frame.kind === 'sample') {
           samples++;
           if (frame.line > lastLine) lastLine = frame.line;
+          lastS = frame.tS;
         } else if (frame.kind === 'rejection') rejections.add(frame);
       }
-      onProgress?.({ bytesRead: Math.min(size, lastLine * perLine), samples });
+      onProgress?.({ bytesRead: bytesRead(), samples });
     }),
   );
-  const trial = runTrial(records$, {
-    source: path,
-    ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
-    ...(options.sides !== undefined ? { sides: options.sides } : {}),
-  });
+  const trial = runTrial(records$, { source: path, sides, ...(calibration !== undefined ? { calibration } : {}) });
   let state: TrialState;
   try {
     state = await trial.done;
@@ -118,7 +128,13 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
   }
   const nothing = noUsableSample(path, state, rejections);
   if (nothing !== null) return { ok: false, path, bytes: size, message: nothing };
-  const summary = summaryJson(state);
+  let digests: readonly FileDigest[] | null;
+  try {
+    digests = sources === null ? null : await sources;
+  } catch (error) {
+    return { ok: false, path, bytes: size, message: `a file of the trial description ${path} could not be read again for its SHA-256: ${errorMessage(error)}` };
+  }
+  const summary = summaryJson(state, { sources: digests });
   const f = summary.frames;
   return { ok: true, path, summary, samples: f.accepted, bytes: size };
 }

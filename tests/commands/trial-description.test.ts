@@ -141,3 +141,34 @@ describe('a trial recorded by two probes, each on its own clock, described in on
     expect(JSON.parse(ran.stdout)).toMatchObject({ muscles: { thigh: { method: 'sarcomere_count' } } });
   });
 });
+
+describe('lengthwise inspect DESCRIPTION', () => {
+  it('shows each recording with its muscles and its span on the trial\'s clock, the events file and the overlap', async () => {
+    const ran = await lengthwise(['inspect', t.description]);
+    expect(ran.code, ran.stderr).toBe(0);
+    const text = ran.stdout;
+    expect(text).toContain(`${t.description}: a trial description of 2 recordings; can be read`);
+    expect(text).toContain(`  recording 1: ${t.calf} (mapping ${t.calfMapping}, time offset 0 s): can be read`);
+    expect(text).toContain(`  recording 2: ${t.thigh} (mapping ${t.thighMapping}, time offset ${-THIGH_CLOCK_AHEAD_S} s): can be read`);
+    expect(text).toMatch(/ {4}muscle calf: left \(from the mapping\); 4000 samples, 0–39\.99 s at 100 Hz/);
+    expect(text).toMatch(/ {4}muscle thigh: right \(from the mapping\); 4000 samples, 0–39\.99 s at 100 Hz/);
+    expect(text).toContain("    span on the trial's clock: 0–39.99 s");
+    expect(text).toContain('  overlap of the recordings: 0–39.99 s (39.99 s)');
+    expect(text).toContain(`  events file ${t.events}: can be read; 145 lines: 0 samples, 144 gait events`);
+  });
+
+  it('says, as JSON, each recording\'s span and the overlap, and exits 1 when a clock is off', async () => {
+    const noOffset = await t.describe('inspect-no-offset.json', { ...t.content, recordings: [t.content.recordings[0], { file: 'thigh.csv', mapping: 'thigh-map.json' }] });
+    const ran = await lengthwise(['inspect', noOffset, '--json']);
+    expect(ran.code).toBe(1);
+    const i = JSON.parse(ran.stdout) as { readable: boolean; problem: string; overlap: unknown; recordings: { file: string; time_offset_s: number; first_s: number; last_s: number; muscles: object }[] };
+    expect(i.readable).toBe(false);
+    expect(i.overlap).toBeNull();
+    expect(i.recordings.map((r) => [r.file, r.time_offset_s, Object.keys(r.muscles)])).toEqual([
+      [t.calf, 0, ['calf']],
+      [t.thigh, 0, ['thigh']],
+    ]);
+    expect(i.recordings[1]?.first_s).toBeCloseTo(THIGH_CLOCK_AHEAD_S, 9);
+    expect(i.problem).toContain('"time_offset_s": -412.35');
+  });
+});

@@ -22,6 +22,20 @@ export function muscleInTwoMessage(muscle: string, first: string, second: string
   );
 }
 
+/** Each muscle found in two of the recordings (their muscles as known so far), said as muscleInTwoMessage says it. */
+export function musclesInTwo(recordings: readonly { readonly file: string; readonly muscles: readonly string[] }[]): string[] {
+  const owner = new Map<string, string>();
+  const problems: string[] = [];
+  for (const r of recordings) {
+    for (const m of r.muscles) {
+      const other = owner.get(m);
+      if (other === undefined) owner.set(m, r.file);
+      else if (other !== r.file) problems.push(muscleInTwoMessage(m, other, r.file));
+    }
+  }
+  return problems;
+}
+
 /** Which recording (by its place in the description) carries each muscle. */
 export class MuscleClaims {
   private readonly owners = new Map<string, number>();

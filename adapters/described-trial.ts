@@ -9,7 +9,7 @@ import { concat, of, type Observable } from 'rxjs';
 import type { Batch, Frame, Side } from '../src/trial/records.ts';
 import type { CalibrationSpec } from '../src/model/calibration.ts';
 import { readCalibrationFile } from './calibration-file.ts';
-import { claimMuscles, MuscleClaims, muscleInTwoMessage } from './claim-muscles.ts';
+import { claimMuscles, MuscleClaims, musclesInTwo } from './claim-muscles.ts';
 import { DEFAULT_STRIDE_S, overlapProblems, sharedSpan, type RecordingSpan } from './clock-overlap.ts';
 import { EVENT_FIELDS, mappedSides, readDeviceMapping, type DeviceMapping, type EventField } from './device-mapping.ts';
 import { fileSource } from './file-source.ts';
@@ -232,6 +232,18 @@ function recordsOf(r: ResolvedDescription): (options?: ReadOptions) => Observabl
 }
 
 /**
+ * The recordings whose clock does not overlap the others' by one stride (see overlapProblems): a stride's
+ * length from the start of the events file, or a slow walking stride without one.
+ */
+export async function clockProblems(spans: readonly RecordingSpan[], events: ResolvedDescription['events']): Promise<string[]> {
+  if (spans.length < 2) return [];
+  const strideS = events === null ? null : await probeStrideS(events.file, events.mapping);
+  return strideS === null
+    ? overlapProblems(spans, DEFAULT_STRIDE_S, 'a slow walking stride, as no gait events tell one')
+    : overlapProblems(spans, strideS, `the median time between foot strikes of one side at the start of ${events?.file ?? 'the events file'}`);
+}
+
+/**
  * Resolves the description, then looks at each recording's first and last rows: refuses a muscle in two
  * recordings and a recording whose clock does not overlap the others' by one stride, before anything plays.
  */
@@ -245,23 +257,10 @@ export async function openDescription(path: string, given: GivenOptions = {}): P
   } catch (error) {
     return refused(1, errorText(error));
   }
-  const owner = new Map<string, string>();
-  for (let i = 0; i < probes.length; i++) {
-    const file = (r.recordings[i] as ResolvedRecording).file;
-    for (const m of (probes[i] as (typeof probes)[number]).muscles) {
-      const other = owner.get(m);
-      if (other !== undefined) return refused(1, muscleInTwoMessage(m, other, file));
-      owner.set(m, file);
-    }
-  }
+  const [twice] = musclesInTwo(r.recordings.map((x, i) => ({ file: x.file, muscles: probes[i]?.muscles ?? [] })));
+  if (twice !== undefined) return refused(1, twice);
   const spans: RecordingSpan[] = r.recordings.map((x, i) => ({ file: x.file, offsetS: x.timeOffsetS, firstS: probes[i]?.firstS ?? Number.NaN, lastS: probes[i]?.lastS ?? Number.NaN }));
-  if (spans.length > 1) {
-    const strideS = r.events === null ? null : await probeStrideS(r.events.file, r.events.mapping);
-    const problems =
-      strideS === null
-        ? overlapProblems(spans, DEFAULT_STRIDE_S, 'a slow walking stride, as no gait events tell one')
-        : overlapProblems(spans, strideS, `the median time between foot strikes of one side at the start of ${r.events?.file ?? 'the events file'}`);
-    if (problems.length > 0) return refused(1, problems.join('\n'));
-  }
+  const problems = await clockProblems(spans, r.events);
+  if (problems.length > 0) return refused(1, problems.join('\n'));
   return { ok: true, opened: { resolved: r, spans, shared: sharedSpan(spans), records: recordsOf(r) } };
 }

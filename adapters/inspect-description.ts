@@ -5,11 +5,10 @@
  * that does not overlap the others' by a stride). The files are read through, as `inspect` reads a file.
  */
 import type { Side } from '../src/trial/records.ts';
-import { DEFAULT_STRIDE_S, overlapProblems, sharedSpan, type RecordingSpan } from './clock-overlap.ts';
-import { muscleInTwoMessage } from './claim-muscles.ts';
-import { resolveDescription, type GivenOptions, type Refusal } from './described-trial.ts';
+import { sharedSpan, type RecordingSpan } from './clock-overlap.ts';
+import { musclesInTwo } from './claim-muscles.ts';
+import { clockProblems, resolveDescription, type GivenOptions, type Refusal } from './described-trial.ts';
 import { inspectEvents, inspectFile, type InspectedEvents, type Inspection } from './inspect-file.ts';
-import { probeStrideS } from './recording-probe.ts';
 
 export interface InspectedRecording extends Inspection {
   /** The mapping file it is read through; null: our own columns, or the command line's --mapping. */
@@ -76,23 +75,9 @@ export async function inspectDescription(path: string, options: InspectDescripti
   const problems: string[] = [];
   for (const rec of recordings) if (rec.problem !== null) problems.push(rec.problem);
   if (events !== null && events.events.problem !== null) problems.push(events.events.problem);
-  const owner = new Map<string, string>();
-  for (const rec of recordings) {
-    for (const m of Object.keys(rec.muscles)) {
-      const other = owner.get(m);
-      if (other !== undefined) problems.push(muscleInTwoMessage(m, other, rec.file));
-      else owner.set(m, rec.file);
-    }
-  }
+  problems.push(...musclesInTwo(recordings.map((rec) => ({ file: rec.file, muscles: Object.keys(rec.muscles) }))));
   const spans: RecordingSpan[] = recordings.map((rec) => ({ file: rec.file, offsetS: rec.time_offset_s, firstS: rec.first_s ?? Number.NaN, lastS: rec.last_s ?? Number.NaN }));
-  if (spans.length > 1) {
-    const strideS = r.events === null ? null : await probeStrideS(r.events.file, r.events.mapping);
-    problems.push(
-      ...(strideS === null
-        ? overlapProblems(spans, DEFAULT_STRIDE_S, 'a slow walking stride, as no gait events tell one')
-        : overlapProblems(spans, strideS, `the median time between foot strikes of one side at the start of ${r.events?.file ?? 'the events file'}`)),
-    );
-  }
+  problems.push(...(await clockProblems(spans, r.events)));
   const shared = sharedSpan(spans);
   const d = r.description;
   return {

@@ -13,6 +13,7 @@ import { claimMuscles, MuscleClaims, musclesInTwo } from './claim-muscles.ts';
 import { DEFAULT_STRIDE_S, overlapProblems, sharedSpan, type RecordingSpan } from './clock-overlap.ts';
 import { EVENT_FIELDS, mappedSides, readDeviceMapping, type DeviceMapping, type EventField } from './device-mapping.ts';
 import { fileSource } from './file-source.ts';
+import { RECORDING_CHUNK_BYTES } from './limits.ts';
 import { mergeByTime } from './merge-by-time.ts';
 import { withEventsFile } from './merge-events.ts';
 import { nameRejections } from './name-rejections.ts';
@@ -221,7 +222,7 @@ function recordsOf(r: ResolvedDescription): (options?: ReadOptions) => Observabl
     const merged = (): Observable<Batch> =>
       mergeByTime(
         r.recordings.map((x, i) => (pause$: Observable<boolean>) =>
-          fileSource(x.file, { mapping: x.mapping, pause$ }).pipe(shiftTimes(x.timeOffsetS), nameRejections(x.file), claimMuscles(claims, i)),
+          fileSource(x.file, { mapping: x.mapping, pause$, chunkBytes: RECORDING_CHUNK_BYTES }).pipe(shiftTimes(x.timeOffsetS), nameRejections(x.file), claimMuscles(claims, i)),
         ),
         options.pause$ !== undefined ? { pause$: options.pause$ } : {},
       );

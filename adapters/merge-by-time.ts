@@ -51,10 +51,14 @@ class FrameQueue {
     const f = frames[this.index++] as Frame;
     this.length--;
     if (this.index === frames.length) {
+      // A batch gone out is let go at once: a recording that always has frames waiting never empties its queue.
       this.index = 0;
       this.batch++;
       if (this.batch === this.batches.length) {
         this.batches = [];
+        this.batch = 0;
+      } else if (this.batch >= 64) {
+        this.batches = this.batches.slice(this.batch);
         this.batch = 0;
       }
     }

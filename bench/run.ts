@@ -7,7 +7,7 @@
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or table, command, live, memory, floods; several: --only replay,command
+ *   npm run bench -- --only replay # or table, command, live, memory, floods, description; several: --only replay,command
  *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
  */
 import { execFile } from 'node:child_process';
@@ -27,6 +27,7 @@ import { measureLive, type LiveResult } from './live.ts';
 import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
 import { measureTable, type TableResult } from './table.ts';
 import { floodLines, measureFloods } from './floods.ts';
+import { descriptionLines, measureDescription } from './description.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -63,6 +64,8 @@ interface Args {
   readonly startPairs: number;
   /** The command the floods run (another build, for before/after figures); undefined: this one. */
   readonly bin: string | undefined;
+  /** Lengths of the trial description's runs, hours. */
+  readonly descriptionHours: readonly number[];
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -71,10 +74,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,table,command,live,memory,floods').split(','));
+  const only = new Set((value('--only') ?? 'replay,table,command,live,memory,floods,description').split(','));
   for (const part of only) {
-    if (!['replay', 'table', 'command', 'live', 'memory', 'floods'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory, floods (comma-separated)`);
+    if (!['replay', 'table', 'command', 'live', 'memory', 'floods', 'description'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory, floods, description (comma-separated)`);
       process.exit(2);
     }
   }
@@ -87,6 +90,7 @@ function parseArgs(argv: readonly string[]): Args {
     commandPairs: Number(value('--command-pairs') ?? (quick ? 2 : 5)),
     startPairs: Number(value('--start-pairs') ?? (quick ? 10 : 20)),
     bin: value('--bin'),
+    descriptionHours: (value('--description-hours') ?? (quick ? '0.25,1' : '1,24')).split(',').map(Number),
   };
 }
 
@@ -301,6 +305,12 @@ async function main(): Promise<void> {
       const floods = await measureFloods(dir, { quick: args.quick, ...(args.bin !== undefined ? { bin: args.bin } : {}) });
       out['floods'] = { bin: args.bin ?? 'bin/lengthwise.js', results: floods };
       for (const l of floodLines(floods)) lines.push(l);
+    }
+    if (args.only.has('description')) {
+      console.error(`bench: a trial description of two probes' tables against the same trial in one table, ${args.descriptionHours.join(' and ')} h, alternating fresh processes (writing them first)…`);
+      const description = await measureDescription(dir, args.descriptionHours, args.quick ? 1 : 3);
+      out['description'] = description;
+      for (const l of descriptionLines(description)) lines.push(l);
     }
   } finally {
     await rm(dir, { recursive: true, force: true });

@@ -51,6 +51,9 @@ function shifted(f: Frame, offsetS: number): Frame {
   }
 }
 
+/** The least time the restarted clock is put after what was seen last, s. */
+const MIN_STEP_S = 0.001;
+
 /** Rounds an offset to the microsecond, so shifted times stay readable. */
 function roundOffset(s: number): number {
   return Math.round(s * 1e6) / 1e6;
@@ -113,7 +116,8 @@ export class DeviceClocks {
     }
     clock.undecided = false;
     if (seen === null || !(tS < seen.tS - CLOCK_RESET_MIN_S)) return null;
-    const passedS = Math.max(0, (rxMs - seen.rxMs) / 1000);
+    // At least a millisecond on, so the first record after the restart never lands on the last one before it.
+    const passedS = Math.max(MIN_STEP_S, (rxMs - seen.rxMs) / 1000);
     clock.offsetS = roundOffset(seen.tS + passedS - tS);
     const who = this.onePeer ? 'the device' : `the device of ${muscles.map((m) => JSON.stringify(m)).join(', ')}`;
     return {

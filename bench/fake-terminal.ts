@@ -16,6 +16,10 @@ export class FakeStdout extends EventEmitter {
   /** Every write, the brackets included. */
   writes = 0;
   bytes = 0;
+  /** A 256-colour terminal: the screen's thread is told so and draws in colour, as on most terminals. */
+  getColorDepth(): number {
+    return 8;
+  }
   write = (chunk: string | Uint8Array): boolean => {
     this.writes++;
     if (chunk !== BEGIN_SYNC && chunk !== END_SYNC) this.frames++;

@@ -6,13 +6,15 @@
  * also holds the loopback and the WebSocket framing; and the time from the adapter's output to the
  * updated state (decoding excluded). Measured without the dashboard, with it drawn on the main thread
  * into a fake terminal, and, in one session of alternating windows, without it and with it on its own
- * thread (as the commands run it) writing a file in place of the terminal.
+ * thread (as the commands run it) writing a file in place of the terminal; and what the screen of an
+ * ended trial costs while it stays up.
  */
 import { execFile } from 'node:child_process';
 import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { register } from 'tsx/esm/api';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { tap } from 'rxjs';
 import { websocketServer } from '../adapters/websocket-server.ts';
@@ -20,6 +22,7 @@ import { runTrial } from '../src/run/run-trial.ts';
 import { median, quantile } from '../src/model/stats.ts';
 import { createPrng } from '../src/sim/prng.ts';
 import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
+import type { DashboardHandle, DashboardOptions } from '../src/dashboard/thread/dashboard-options.ts';
 
 /** Where the dashboard is drawn: nowhere, on the main thread, or on a thread of its own. */
 export type DashboardMode = 'none' | 'main' | 'own';
@@ -65,6 +68,10 @@ export interface LiveResult {
   readonly switching: SwitchingFigures;
   /** The tool's p99 without the dashboard / the bare server's. */
   readonly plainToBareP99Ratio: number;
+  /** The screen of an ended trial, on its own thread (and the other checkout's, when one is given). */
+  readonly quiet: readonly QuietFigures[];
+  /** With another checkout given: its dashboard and this one's taking turns in one switching session. */
+  readonly turns?: SwitchingFigures;
   readonly lines: readonly string[];
 }
 
@@ -216,29 +223,44 @@ async function startReceiver(): Promise<{
 }
 
 /** A stand-in terminal whose descriptor is a file, for the dashboard on its own thread; counts frames when closed. */
-function fileTerminal(): { readonly stdout: FakeStdout; close(): number } {
+function fileTerminal(): { readonly stdout: FakeStdout; framesSoFar(): number; close(): number } {
   const stdout = new FakeStdout();
   const dir = mkdtempSync(join(tmpdir(), 'lengthwise-bench-screen-'));
   const path = join(dir, 'screen');
   stdout.fd = openSync(path, 'w');
+  // Each frame on a terminal begins with the synchronized-output bracket.
+  const framesSoFar = (): number => readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
   return {
     stdout,
+    framesSoFar,
     close() {
       if (stdout.fd !== undefined) closeSync(stdout.fd);
-      // Each frame on a terminal begins with the synchronized-output bracket.
-      const frames = readFileSync(path, 'utf8').split(BEGIN_SYNC).length - 1;
+      const frames = framesSoFar();
       rmSync(dir, { recursive: true, force: true });
       return frames;
     },
   };
 }
 
+/** A checkout's entry point of the dashboard (src/dashboard/thread/start-dashboard.tsx). */
+export type StartDashboard = (options: DashboardOptions) => DashboardHandle;
+
+/** A dashboard to draw in the on windows: this checkout's (start undefined) or another's. */
+export interface ScreenUnderTest {
+  readonly name: string;
+  readonly start?: StartDashboard;
+}
+
 async function openDashboard(
   run: ReturnType<typeof runTrial>,
   stdout: FakeStdout,
   thread: 'main' | 'own',
+  start?: StartDashboard,
 ): Promise<{ unmount(): void; waitUntilExit(): Promise<void> }> {
-  const { startDashboard } = await import('../src/dashboard/thread/start-dashboard.tsx');
+  // In colour, as on a 256-colour terminal, whatever this process's own output is: on the main thread the
+  // colour library reads FORCE_COLOR when it loads (the screen's thread is told by the stand-in terminal).
+  process.env['FORCE_COLOR'] ??= '2';
+  const startDashboard = start ?? (await import('../src/dashboard/thread/start-dashboard.tsx')).startDashboard;
   return startDashboard({
     state$: run.state$,
     title: 'live bench',
@@ -298,6 +320,19 @@ export interface SwitchingFigures {
   /** Median over the on windows, and over the off windows, of the process's CPU per second (ms/s), settled part only. */
   readonly onCpuMsPerS: number;
   readonly offCpuMsPerS: number;
+  /** Each dashboard drawn in the on windows (they take turns when there are several). */
+  readonly screens: readonly ScreenFigures[];
+}
+
+export interface ScreenFigures {
+  readonly name: string;
+  readonly windows: number;
+  /** Median over its windows of the process's CPU per second above the mean of the two neighbouring off windows (ms/s). */
+  readonly cpuAboveOffMsPerS: number;
+  /** Median over its windows of the frames written per second (settled part). */
+  readonly framesPerS: number;
+  /** Median over its windows of the CPU above the off windows per frame written (ms). */
+  readonly cpuMsPerFrame: number;
 }
 
 /**
@@ -306,9 +341,12 @@ export interface SwitchingFigures {
  * its own thread (started at the window's start, unmounted at its end, as the commands run it),
  * beginning and ending without. Each window's first settleS seconds are left out: they hold the
  * thread's start (loading Ink and React) or its exit, which a session pays once. Each on window is read
- * against the mean of the off windows either side of it.
+ * against the mean of the off windows either side of it. With several screens (this checkout's and
+ * another's), the on windows take turns: before and after in one session.
  */
-async function switchingSession(options: SessionOptions & { readonly onWindows: number; readonly windowS: number; readonly settleS: number }): Promise<SwitchingFigures> {
+async function switchingSession(
+  options: SessionOptions & { readonly onWindows: number; readonly windowS: number; readonly settleS: number; readonly screens: readonly ScreenUnderTest[] },
+): Promise<SwitchingFigures> {
   const windows = 2 * options.onWindows + 1;
   const receiver = await startReceiver();
   const screen = fileTerminal();
@@ -325,28 +363,44 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
   /** Process CPU at each window's settled start and at its end (all threads: the screen's included). */
   const cpuFrom: NodeJS.CpuUsage[] = [];
   const cpuTo: NodeJS.CpuUsage[] = [];
+  /** Frames written by then, at the same moments. */
+  const framesFrom: number[] = [];
+  const framesTo: number[] = [];
+  /** Which screen the on window k shows. */
+  const screenOf = (k: number): ScreenUnderTest | undefined => options.screens[Math.floor(k / 2) % options.screens.length];
   const arm = receiver.run.state$.subscribe((state) => {
     if (baseSet || Number.isNaN(state.lastTS)) return;
     baseSet = true;
     for (let k = 0; k < windows; k++) {
       const startMs = (options.warmupS + k * options.windowS) * 1000;
-      timers.push(setTimeout(() => (cpuFrom[k] = process.cpuUsage()), startMs + options.settleS * 1000));
+      timers.push(
+        setTimeout(() => {
+          cpuFrom[k] = process.cpuUsage();
+          framesFrom[k] = screen.framesSoFar();
+        }, startMs + options.settleS * 1000),
+      );
       // Set before the switch due at the same moment, so it fires first.
-      timers.push(setTimeout(() => (cpuTo[k] = process.cpuUsage()), startMs + options.windowS * 1000));
+      timers.push(
+        setTimeout(() => {
+          cpuTo[k] = process.cpuUsage();
+          framesTo[k] = screen.framesSoFar();
+        }, startMs + options.windowS * 1000),
+      );
     }
     for (let k = 1; k < windows; k++) {
       const on = k % 2 === 1;
       timers.push(
         setTimeout(() => {
           switching = switching.then(async () => {
-            if (on) shown.current = await openDashboard(receiver.run, screen.stdout, 'own');
+            if (on) shown.current = await openDashboard(receiver.run, screen.stdout, 'own', screenOf(k)?.start);
             else await close();
           });
         }, (options.warmupS + k * options.windowS) * 1000),
       );
     }
   });
-  const sent = await sendFromDevice(receiver.port, { ...options, durationS: options.warmupS + windows * options.windowS });
+  // A second past the last window, so its end is read before the stream stops (its messages are left out).
+  const sent = await sendFromDevice(receiver.port, { ...options, durationS: options.warmupS + windows * options.windowS + 1 });
   for (const t of timers) clearTimeout(t);
   arm.unsubscribe();
   await switching;
@@ -370,6 +424,20 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
   });
   const ratios: number[] = [];
   for (let k = 1; k < windows; k += 2) ratios.push((p99[k] as number) / (((p99[k - 1] as number) + (p99[k + 1] as number)) / 2));
+  const settledS = options.windowS - options.settleS;
+  const screens = options.screens.map((under): ScreenFigures => {
+    const ks: number[] = [];
+    for (let k = 1; k < windows; k += 2) if (screenOf(k) === under) ks.push(k);
+    const above = ks.map((k) => (cpuMsPerS[k] as number) - ((cpuMsPerS[k - 1] as number) + (cpuMsPerS[k + 1] as number)) / 2);
+    const fps = ks.map((k) => ((framesTo[k] ?? Number.NaN) - (framesFrom[k] ?? Number.NaN)) / settledS);
+    return {
+      name: under.name,
+      windows: ks.length,
+      cpuAboveOffMsPerS: median(above),
+      framesPerS: median(fps),
+      cpuMsPerFrame: median(above.map((a, i) => a / (fps[i] ?? Number.NaN))),
+    };
+  });
   const on = byWindow.filter((_, k) => k % 2 === 1);
   const off = byWindow.filter((_, k) => k % 2 === 0);
   const pooledP99 = (ws: readonly (readonly number[])[]): number => quantile(ws.flat(), 0.99);
@@ -395,7 +463,48 @@ async function switchingSession(options: SessionOptions & { readonly onWindows: 
     pooledOffP99Ms: pooledP99(off),
     pooledRatio,
     pooledRatioInterval: [quantile(draws, 0.025), quantile(draws, 0.975)],
+    screens,
   };
+}
+
+export interface QuietFigures {
+  readonly name: string;
+  readonly settleS: number;
+  readonly windowS: number;
+  /** The process's CPU per second over the window (ms/s): the screen's thread is all that runs. */
+  readonly cpuMsPerS: number;
+}
+
+/**
+ * The screen of a trial that has ended, left up as the commands leave it until q: after a short stream
+ * the trial is stopped, the screen on its own thread is given settleS to show the end (the rate falls
+ * to zero over its window), and then the process's CPU is read over windowS. Nothing else runs in the
+ * process meanwhile, so this is what a screen that shows nothing new costs. (Frames written say
+ * nothing here: Ink writes a screen only when it differs from the last, however often it draws one.)
+ */
+async function quietSession(options: SessionOptions & { readonly settleS: number; readonly windowS: number; readonly screen: ScreenUnderTest }): Promise<QuietFigures> {
+  const receiver = await startReceiver();
+  const screen = fileTerminal();
+  const dashboard = await openDashboard(receiver.run, screen.stdout, 'own', options.screen.start);
+  await sendFromDevice(receiver.port, options);
+  await receiver.stop();
+  await new Promise((resolve) => setTimeout(resolve, options.settleS * 1000));
+  const cpu0 = process.cpuUsage();
+  await new Promise((resolve) => setTimeout(resolve, options.windowS * 1000));
+  const cpu = process.cpuUsage(cpu0);
+  dashboard.unmount();
+  await dashboard.waitUntilExit();
+  screen.close();
+  return { name: options.screen.name, settleS: options.settleS, windowS: options.windowS, cpuMsPerS: (cpu.user + cpu.system) / 1000 / options.windowS };
+}
+
+/** Each screen's CPU above the off windows, frames and CPU per frame. */
+function screenLines(session: string, f: SwitchingFigures): string[] {
+  return f.screens.map(
+    (sc) =>
+      `live ${session.padEnd(10)} ${sc.name}, ${sc.windows} windows: ${sc.cpuAboveOffMsPerS.toFixed(0)} ms/s of CPU above the off windows, ` +
+      `${sc.framesPerS.toFixed(1)} frames/s, ${sc.cpuMsPerFrame.toFixed(1)} ms per frame (medians over its windows)`,
+  );
 }
 
 function line(name: string, f: LatencyFigures): string {
@@ -407,18 +516,28 @@ function line(name: string, f: LatencyFigures): string {
   );
 }
 
-export async function measureLive(options: { readonly quick: boolean }): Promise<LiveResult> {
+/**
+ * `against`: another checkout of lengthwise (see bench/README.md); its dashboard takes turns with this
+ * one's in a second switching session. It is compiled with that checkout's settings and started through
+ * that checkout's own entry point, so its thread loads its own code.
+ */
+export async function measureLive(options: { readonly quick: boolean; readonly against?: string }): Promise<LiveResult> {
   const base = { rateHz: 500, muscles: 4, messageMs: 10, durationS: options.quick ? 6 : 60, warmupS: options.quick ? 1 : 10 };
   const bare = await bareSession({ ...base, dashboard: 'none' });
   const plain = await session({ ...base, dashboard: 'none' });
   const dashboard = await session({ ...base, durationS: options.quick ? 6 : 30, dashboard: 'main' });
-  const switching = await switchingSession({
-    ...base,
-    dashboard: 'own',
-    onWindows: options.quick ? 2 : 10,
-    windowS: options.quick ? 3 : 10,
-    settleS: options.quick ? 1 : 2,
-  });
+  const windows = { dashboard: 'own' as const, onWindows: options.quick ? 2 : 10, windowS: options.quick ? 3 : 10, settleS: options.quick ? 1 : 2 };
+  const switching = await switchingSession({ ...base, ...windows, screens: [{ name: 'this checkout' }] });
+  const quietOptions = { ...base, durationS: options.quick ? 3 : 5, warmupS: 0, dashboard: 'own' as const, settleS: 4, windowS: options.quick ? 5 : 15 };
+  const quiet = [await quietSession({ ...quietOptions, screen: { name: 'this checkout' } })];
+  let turns: SwitchingFigures | undefined;
+  if (options.against !== undefined) {
+    const against = resolve(options.against);
+    const there = register({ namespace: 'live-bench-against', tsconfig: join(against, 'tsconfig.json') });
+    const other = (await there.import(pathToFileURL(join(against, 'src/dashboard/thread/start-dashboard.tsx')).href, import.meta.url)) as { startDashboard: StartDashboard };
+    turns = await switchingSession({ ...base, ...windows, screens: [{ name: 'this checkout' }, { name: against, start: other.startDashboard }] });
+    quiet.push(await quietSession({ ...quietOptions, screen: { name: against, start: other.startDashboard } }));
+  }
   const ratio = dashboard.sendToStateP99Ms / plain.sendToStateP99Ms;
   const adds = (r: number): string => `${((r - 1) * 100).toFixed(0)}%`;
   const toBare = plain.sendToStateP99Ms / bare.sendToStateP99Ms;
@@ -431,6 +550,8 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
     dashboard,
     dashboardP99Ratio: ratio,
     switching,
+    ...(turns === undefined ? {} : { turns }),
+    quiet,
     lines: [
       `live bare       ${bare.samplesPerS.toFixed(0)} samples/s in ${bare.messages} messages: send → receipt and parse, p50 ${bare.sendToStateP50Ms.toFixed(2)} ms, p99 ${bare.sendToStateP99Ms.toFixed(2)} ms (max ${bare.sendToStateMaxMs.toFixed(1)}; warm-up p99 ${bare.warmupP99Ms.toFixed(2)}); CPU ${bare.cpuMsPerS.toFixed(0)} ms/s`,
       line('plain', plain),
@@ -441,6 +562,9 @@ export async function measureLive(options: { readonly quick: boolean }): Promise
       `live dashboard on its own thread adds ${adds(switching.pooledRatio)} to the p99 (95% interval ${adds(switching.pooledRatioInterval[0])} to ${adds(switching.pooledRatioInterval[1])}): ` +
         `p99 ${switching.pooledOnP99Ms.toFixed(2)} ms with it, ${switching.pooledOffP99Ms.toFixed(2)} ms without, over all windows of each; ` +
         `window by window against its neighbours ${switching.onOffRatios.map((r) => r.toFixed(2)).join(' ')} (median ${switching.onOffRatioMedian.toFixed(2)})`,
+      ...screenLines('dash own', switching),
+      ...(turns === undefined ? [] : screenLines('dash turns', turns)),
+      ...quiet.map((q) => `live quiet      the screen of an ended trial on its own thread, ${q.settleS} s after the end, over ${q.windowS} s: CPU ${q.cpuMsPerS.toFixed(1)} ms/s — ${q.name}`),
     ],
   };
 }

@@ -1,14 +1,16 @@
 /**
  * npm run bench: replay throughput of the tool against a plain loop doing the same work (in one process,
  * warm, and as fresh processes: the command as users run it), the command's start against bare Node,
- * live latency over a real WebSocket, and memory over a long replay. Writes bench/results/<date-time>.json
- * and prints a short table. Machines here are shared and noisy, so speed is reported as the median ratio
- * of alternating runs (tool, loop, tool, loop, …).
+ * live latency over a real WebSocket, memory over a long replay, the dashboard's CPU per frame, a table in
+ * a lab's own layout against our own CSV, and floods that look legitimate. Writes
+ * bench/results/<date-time>.json and prints a short table. Machines here are shared and noisy, so speed is
+ * reported as the median ratio of alternating runs (tool, loop, tool, loop, …).
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or table, command, live, memory, floods, description; several: --only replay,command
+ *   npm run bench -- --only replay # or table, command, live, memory, screen, floods, description; several: --only replay,command
  *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
+ *   npm run bench -- --only live,screen --against DIR   # another checkout's dashboard measured beside this one's
  */
 import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
@@ -64,6 +66,10 @@ interface Args {
   readonly startPairs: number;
   /** The command the floods run (another build, for before/after figures); undefined: this one. */
   readonly bin: string | undefined;
+  /** Frames per pass of the screen bench. */
+  readonly screenFrames: number;
+  /** Another checkout whose dashboard is measured beside this one's (live and screen). */
+  readonly against: string | undefined;
   /** Lengths of the trial description's runs, hours. */
   readonly descriptionHours: readonly number[];
 }
@@ -74,10 +80,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,table,command,live,memory,floods,description').split(','));
+  const only = new Set((value('--only') ?? 'replay,table,command,live,memory,screen,floods,description').split(','));
   for (const part of only) {
-    if (!['replay', 'table', 'command', 'live', 'memory', 'floods', 'description'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory, floods, description (comma-separated)`);
+    if (!['replay', 'table', 'command', 'live', 'memory', 'screen', 'floods', 'description'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, table, command, live, memory, screen, floods, description (comma-separated)`);
       process.exit(2);
     }
   }
@@ -90,6 +96,8 @@ function parseArgs(argv: readonly string[]): Args {
     commandPairs: Number(value('--command-pairs') ?? (quick ? 2 : 5)),
     startPairs: Number(value('--start-pairs') ?? (quick ? 10 : 20)),
     bin: value('--bin'),
+    screenFrames: quick ? 60 : 200,
+    against: value('--against'),
     descriptionHours: (value('--description-hours') ?? (quick ? '0.25,1' : '1,24')).split(',').map(Number),
   };
 }
@@ -174,6 +182,27 @@ async function replayInChild(format: BenchFormat, samples: number, pairs: number
     { maxBuffer: 16 * 1024 * 1024 },
   );
   return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as ReplayResult;
+}
+
+/** bench/screen-frames.ts in a fresh process: its table line and its figures. */
+async function screenInChild(frames: number, passes: number, against: string | undefined): Promise<{ readonly lines: readonly string[] } & Record<string, unknown>> {
+  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+  const { stdout } = await execFileAsync(
+    process.execPath,
+    [
+      join(root, 'bin/run-ts.js'),
+      join(root, 'bench/screen-frames.ts'),
+      '--frames',
+      String(frames),
+      '--passes',
+      String(passes),
+      ...(against === undefined ? [] : ['--against', against]),
+    ],
+    { maxBuffer: 16 * 1024 * 1024 },
+  );
+  const all = stdout.trim().split('\n');
+  const json = all.pop() ?? '{}';
+  return { ...(JSON.parse(json) as Record<string, unknown>), lines: all.filter((l) => l.startsWith('screen ')) };
 }
 
 async function replayChild(format: BenchFormat, samples: number, pairs: number): Promise<void> {
@@ -286,7 +315,7 @@ async function main(): Promise<void> {
     }
     if (args.only.has('live')) {
       console.error('bench: live latency over a WebSocket on 127.0.0.1…');
-      const live: LiveResult = await measureLive({ quick: args.quick });
+      const live: LiveResult = await measureLive({ quick: args.quick, ...(args.against === undefined ? {} : { against: args.against }) });
       out['live'] = live;
       for (const l of live.lines) lines.push(l);
     }
@@ -305,6 +334,12 @@ async function main(): Promise<void> {
       const floods = await measureFloods(dir, { quick: args.quick, ...(args.bin !== undefined ? { bin: args.bin } : {}) });
       out['floods'] = { bin: args.bin ?? 'bin/lengthwise.js', results: floods };
       for (const l of floodLines(floods)) lines.push(l);
+    }
+    if (args.only.has('screen')) {
+      console.error(`bench: the dashboard's CPU per frame, ${args.screenFrames} frames a pass, in a fresh process…`);
+      const screen = await screenInChild(args.screenFrames, args.quick ? 3 : 5, args.against);
+      out['screen'] = screen;
+      for (const l of screen.lines) lines.push(l);
     }
     if (args.only.has('description')) {
       console.error(`bench: a trial description of two probes' tables against the same trial in one table, ${args.descriptionHours.join(' and ')} h, alternating fresh processes (writing them first)…`);

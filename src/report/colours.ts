@@ -23,3 +23,10 @@ export const CYCLE_BAND = '#7d8fb3';
 export const CYCLE_LINE = '#2b3f6b';
 /** Strides left out of the trial figures for too much gap time. */
 export const FLAGGED = '#d0612a';
+
+/**
+ * The conditions of a study, in its order: hues told apart with the common colour-vision deficiencies
+ * (after Okabe & Ito's colour-universal-design set, 2008, from memory), dark enough to read as lines
+ * over the region bands, then repeated.
+ */
+export const CONDITION_RANGE: readonly string[] = ['#0072b2', '#d55e00', '#3b3b3b', '#009e73', '#cc79a7', '#e69f00', '#56b4e9', '#8c564b'];

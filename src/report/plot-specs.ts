@@ -12,18 +12,24 @@ import { curvePoints, regionBands, type CycleRow, type LengthBin, type StrideRow
 const WIDTH = 360;
 
 /** A scale over exactly [lo, hi] (no rounding out, no forced zero). */
-function fixedScale(lo: number, hi: number): { scale: { domain: number[]; nice: boolean; zero: boolean } } {
+export function fixedScale(lo: number, hi: number): { scale: { domain: number[]; nice: boolean; zero: boolean } } {
   return { scale: { domain: [lo, hi], nice: false, zero: false } };
 }
 const HEIGHT = 200;
 
-/** The region colour scale (fixed domain, so every plot colours a region alike); no legend in the small plots. */
-const regionColour = (legend: boolean) =>
+/**
+ * The region colour scale (fixed domain, so every plot colours a region alike), with a legend of the
+ * given regions in plain words, or none (the small plots).
+ */
+export const regionColour = (legendRegions: readonly RegionKey[] | null = null) =>
   ({
     field: 'region',
     type: 'nominal',
     scale: { domain: [...REGION_KEYS], range: [...REGION_RANGE] },
-    legend: legend ? { title: null, orient: 'bottom', direction: 'horizontal', labelExpr: regionLabelExpr() } : null,
+    legend:
+      legendRegions === null
+        ? null
+        : { title: 'region of the force–length curve', orient: 'bottom', direction: 'horizontal', values: [...legendRegions], labelExpr: regionLabelExpr() },
   }) as const;
 
 /** A vega expression turning a region key into its plain-words label. */
@@ -35,14 +41,25 @@ function bandRows(curve: ForceLengthCurve, lo: number, hi: number): { region: Re
   return regionBands(curve, lo, hi).map((b) => ({ region: b.region, label: REGION_LABEL[b.region], from: b.fromUm, to: b.toUm }));
 }
 
+/** How a band layer colours its regions: the channel, and the regions its legend lists (null: no legend). */
+export interface BandColouring {
+  /** `fill` leaves the colour channel to what is drawn over the bands (conditions). @default 'color' */
+  readonly channel?: 'color' | 'fill';
+  /** @default null */
+  readonly legend?: readonly RegionKey[] | null;
+}
+
 /** The curve's regions over [lo, hi] as shaded bands behind a plot, along its length axis; none without a curve. */
-function regionBandLayer(curve: ForceLengthCurve | null, lo: number, hi: number, lengthAxis: 'x' | 'y', opacity: number) {
+export function regionBandLayer(curve: ForceLengthCurve | null, lo: number, hi: number, lengthAxis: 'x' | 'y', opacity: number, colouring: BandColouring = {}) {
   const from = { field: 'from', type: 'quantitative', ...fixedScale(lo, hi) } as const;
   const to = { field: 'to' } as const;
+  const scale = regionColour(colouring.legend ?? null);
+  // The bands are faint; their legend's swatches a little less so, to be told apart.
+  const colour = { [colouring.channel ?? 'color']: scale.legend === null ? scale : { ...scale, legend: { ...scale.legend, symbolOpacity: Math.min(1, opacity * 3.5) } } };
   return {
     data: { values: curve === null ? [] : bandRows(curve, lo, hi) },
     mark: { type: 'rect', opacity },
-    encoding: lengthAxis === 'x' ? { x: from, x2: to, color: regionColour(false) } : { y: from, y2: to, color: regionColour(false) },
+    encoding: lengthAxis === 'x' ? { x: from, x2: to, ...colour } : { y: from, y2: to, ...colour },
   } as const;
 }
 
@@ -82,7 +99,7 @@ export function forceLengthSpec(p: ForceLengthPlot): TopLevelSpec {
           x2: { field: 'to' },
           y: { field: 'percent', type: 'quantitative', axis: { orient: 'right', title: `time (% per ${p.binUm} µm)`, grid: false } },
           y2: { datum: 0 },
-          color: regionColour(false),
+          color: regionColour(),
         },
       },
       {
@@ -247,7 +264,7 @@ export function regionShareSpec(rows: readonly OverviewRow[]): TopLevelSpec {
     encoding: {
       y: { field: 'label', type: 'nominal', title: null, sort: { field: 'order', op: 'min' }, axis: { labelLimit: 480 } },
       x: { field: 'percent', type: 'quantitative', title: 'time in each region (% of stride time)', stack: 'zero', scale: { domain: [0, 100] } },
-      color: regionColour(false),
+      color: regionColour(),
       order: { field: 'k', type: 'quantitative' },
     },
   };

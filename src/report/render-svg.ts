@@ -3,7 +3,7 @@
  * browser, no network). The SVG is made ready to inline in HTML: no XML namespace attributes, a role and
  * a label for screen readers.
  */
-import { parse, View, Warn, type LoggerInterface } from 'vega';
+import { parse, View, Warn, type Config, type LoggerInterface } from 'vega';
 import { compile, type TopLevelSpec } from 'vega-lite';
 
 /** Look shared by every plot of the report. */
@@ -50,11 +50,13 @@ function collectingLogger(warnings: string[]): LoggerInterface {
 
 /**
  * Renders a spec to SVG; `label` describes the plot for people who cannot see it. The libraries' warnings
- * (a spec that asks for something they had to change) are added to `warnings`, never printed.
+ * (a spec that asks for something they had to change) are added to `warnings`, never printed. `vegaConfig`
+ * adds vega's own settings to the compiled spec (those vega-lite's config does not carry).
  */
-export async function renderSvg(spec: TopLevelSpec, label: string, warnings: string[] = []): Promise<string> {
+export async function renderSvg(spec: TopLevelSpec, label: string, warnings: string[] = [], vegaConfig: Config = {}): Promise<string> {
   const logger = collectingLogger(warnings);
-  const vegaSpec = compile({ config: PLOT_CONFIG, ...spec } as TopLevelSpec, { logger }).spec;
+  const compiled = compile({ config: PLOT_CONFIG, ...spec } as TopLevelSpec, { logger }).spec;
+  const vegaSpec = { ...compiled, config: { ...compiled.config, ...vegaConfig, legend: { ...compiled.config?.legend, ...vegaConfig.legend } } };
   const view = new View(parse(vegaSpec), { renderer: 'none', logger, logLevel: Warn });
   try {
     const svg = await view.toSVG();
@@ -65,4 +67,9 @@ export async function renderSvg(spec: TopLevelSpec, label: string, warnings: str
   } finally {
     view.finalize();
   }
+}
+
+/** An SVG from renderSvg as a file of its own (a download): the XML prolog and the SVG namespace back in place. */
+export function svgDocument(inlineSvg: string): string {
+  return `<?xml version="1.0" encoding="utf-8"?>\n${inlineSvg.replace(/^<svg/, '<svg xmlns="http://www.w3.org/2000/svg"')}\n`;
 }

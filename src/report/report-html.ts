@@ -11,6 +11,7 @@ import { ARCHITECTURE_PRIOR_CAUTION, METHOD_LABEL } from '../model/calibration.t
 import { wholeMuscleShapeNote } from '../model/muscle-model.ts';
 import type { MuscleJson, SummaryJson } from '../output/summary-json.ts';
 import { REGION_COLOUR } from './colours.ts';
+import { escapeHtml, htmlPage } from './html-page.ts';
 import { curveOf, cycleRows, lengthDomain, strideRows, timeAtLength, toeOffPercent } from './plot-data.ts';
 import { cycleSpec, forceLengthSpec, rangeOverviewSpec, regionShareSpec, strideSpec, type OverviewRow } from './plot-specs.ts';
 import { renderSvg } from './render-svg.ts';
@@ -34,10 +35,6 @@ export interface ReportOptions {
 
 /** Bin width of the time-at-length bars (µm). */
 export const TIME_BIN_UM = 0.02;
-
-export function escapeHtml(text: string): string {
-  return text.replaceAll('&', '&amp;').replaceAll('<', '&lt;').replaceAll('>', '&gt;').replaceAll('"', '&quot;').replaceAll("'", '&#39;');
-}
 
 function um(x: number | null | undefined, digits = 2): string {
   return x === null || x === undefined || !Number.isFinite(x) ? '—' : x.toFixed(digits);
@@ -297,16 +294,7 @@ export async function reportHtml(summaries: readonly SummaryJson[], options: Rep
           summaryTable(list),
         ].join('\n');
   const uncalibrated = summaries.some((s) => !s.calibrated);
-  return [
-    '<!DOCTYPE html>',
-    '<html lang="en">',
-    '<head>',
-    '<meta charset="utf-8">',
-    '<meta name="viewport" content="width=device-width, initial-scale=1">',
-    `<title>${escapeHtml(title)}</title>`,
-    `<style>${STYLE}</style>`,
-    '</head>',
-    '<body>',
+  return htmlPage(title, STYLE, [
     '<header>',
     `<h1>${escapeHtml(title)}</h1>`,
     `<p>${summaries.length} trial${summaries.length === 1 ? '' : 's'}, ${list.length} muscle${list.length === 1 ? '' : 's'}. Sarcomere lengths are estimates from each trial's calibration; regions come from the species' filament geometry.${uncalibrated ? ' <strong>Some trials are uncalibrated</strong>: their lengths assume each muscle starts at its plateau middle.' : ''}</p>`,
@@ -315,8 +303,5 @@ export async function reportHtml(summaries: readonly SummaryJson[], options: Rep
     `<section id="overview"><h2>Overview</h2>\n${overview}\n</section>`,
     ...sections,
     '<p class="note">Made by lengthwise from the trials\' summaries. A research tool, not a medical device.</p>',
-    '</body>',
-    '</html>',
-    '',
-  ].join('\n');
+  ]);
 }

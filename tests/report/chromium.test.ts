@@ -3,21 +3,15 @@
  * an SVG element) and renders a screenshot with the network switched off. Skips, saying why, when no
  * Chromium is installed (CI installs it).
  */
-import { execFile } from 'node:child_process';
-import { existsSync } from 'node:fs';
-import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
+import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { reportHtml } from '../../src/report/report-html.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 import { trialFolder, type TrialFolder } from '../study/generated-trials.ts';
-
-const run = promisify(execFile);
-const CHROMIUM = ['/usr/bin/chromium', '/usr/bin/chromium-browser'].find((p) => existsSync(p)) ?? null;
-const SKIP_NOTE = 'no Chromium at /usr/bin/chromium: install it (apt-get install -y chromium) to render the report in a browser';
+import { CHROMIUM, CHROMIUM_SKIP_NOTE as SKIP_NOTE, headlessChromium } from './headless-chromium.ts';
 
 let folder: TrialFolder;
 let reportPath = '';
@@ -36,26 +30,8 @@ beforeAll(async () => {
 });
 afterAll(() => folder.remove());
 
-/** Headless Chromium with a fresh, empty profile, no background traffic, and every host name unresolvable. */
-async function chromium(args: readonly string[]): Promise<string> {
-  const profile = await mkdtemp(join(folder.dir, 'profile-'));
-  const { stdout } = await run(
-    CHROMIUM as string,
-    [
-      '--headless',
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-      `--user-data-dir=${profile}`,
-      '--host-resolver-rules=MAP * ~NOTFOUND',
-      ...args,
-    ],
-    { timeout: 60_000, maxBuffer: 64 * 1024 * 1024 },
-  );
-  return stdout;
+function chromium(args: readonly string[]): Promise<string> {
+  return headlessChromium(folder.dir, args);
 }
 
 describe('the report in headless Chromium', () => {

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
-import { escapeHtml, reportHtml, trialSectionsHtml } from '../../src/report/report-html.ts';
+import { escapeHtml } from '../../src/report/html-page.ts';
+import { reportHtml, trialSectionsHtml } from '../../src/report/report-html.ts';
 import { writeReport } from '../../src/report/write-report.ts';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import { trialFolder, type TrialFolder } from '../study/generated-trials.ts';

@@ -107,10 +107,12 @@ describe('startSimulator', () => {
   });
 
   it('sends malformed messages of every rejection reason with --faults, each counted by the reason it reads as', async () => {
-    const sim = await serve({ durationS: 1.4, faults: { everyS: 0.1, kinds: ['malformed'] } });
+    // Until a message of every reason has gone out, however slowly the machine runs the stream's clock.
+    const sim = await serve({ faults: { everyS: 0.1, kinds: ['malformed'] } });
     const collector = createCollector();
     const c = client(sim.url, collector, false);
-    await sim.done;
+    await until(() => REJECT_REASONS.every((reason) => (sim.stats.badSent[reason] ?? 0) > 0), 30_000, 'a malformed message of every reason');
+    await sim.stop();
     await c.finished;
     const r = collector.received;
     expect(badCounts(r.bad)).toEqual(sim.stats.badSent);
@@ -120,10 +122,18 @@ describe('startSimulator', () => {
 
   it('survives every fault: what a reconnecting client accepts equals what was sent, and valid times only move forward', async () => {
     const lines: string[] = [];
-    const sim = await serve({ durationS: 2.4, faults: { everyS: 0.15 }, log: (l) => lines.push(l) });
+    const sim = await serve({ faults: { everyS: 0.15 }, log: (l) => lines.push(l) });
     const collector = createCollector();
     const c = client(sim.url, collector, true);
-    await sim.done;
+    // Until every kind of fault has happened once, however slowly the machine runs the stream's clock.
+    const kinds = ['malformed', 'burst', 'time_jump', 'resent_header', 'disconnect', 'device_restart'] as const;
+    // …and the restart has sent its header again after its silence.
+    await until(
+      () => kinds.every((kind) => (sim.stats.faults[kind] ?? 0) > 0) && sim.stats.headersSent >= sim.stats.connections + 2,
+      30_000,
+      'every kind of fault, the restart included',
+    );
+    await sim.stop();
     c.stop();
     await c.finished;
     const r = collector.received;

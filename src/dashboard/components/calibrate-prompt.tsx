@@ -1,5 +1,6 @@
 /** The one-line input that asks the sarcomere length assumed at the current posture. */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import { fixed } from '../../output/format.ts';
 import type { Theme } from '../view/theme.ts';
 
@@ -14,7 +15,7 @@ export interface Props {
   readonly columns: number;
 }
 
-export default function CalibratePrompt({ muscle, typed, defaultUm, problem = null, theme, columns }: Props) {
+function CalibratePrompt({ muscle, typed, defaultUm, problem = null, theme, columns }: Props) {
   return (
     <Box flexDirection="column" width={columns}>
       <Text wrap="truncate-end">
@@ -31,3 +32,6 @@ export default function CalibratePrompt({ muscle, typed, defaultUm, problem = nu
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(CalibratePrompt);

@@ -2,12 +2,14 @@
  * Paints a curve drawing (see curve-drawing.ts): regions in their colours (without colour, in their
  * fill characters), the marker bright. The curve
  * rows and the axis are drawn once per curve and size and never repainted; the marker's column is laid
- * over them, and the band row is drawn again only when the columns it covers change.
+ * over them (drawn again when it moves), and the band row is drawn again only when the columns it
+ * covers change.
  */
-import { Box, Text } from 'ink';
+import { Box } from 'ink';
 import { useRef } from 'react';
 import { bandKey, bandRow, curveLayers, markerRawCol, type LengthRange, type Run } from '../view/curve-drawing.ts';
 import type { ForceLengthCurve } from '../../model/geometry.ts';
+import MarkerColumn from './marker-column.tsx';
 import RunsLine from './runs-line.tsx';
 import type { Theme } from '../view/theme.ts';
 
@@ -38,12 +40,7 @@ export default function CurvePlot({ curve, widthCols, heightRows, sarcomereUm, c
       {layers.body.map((runs, row) => (
         <RunsLine key={row} runs={runs} theme={theme} />
       ))}
-      {inArea ? (
-        // Laid over the curve rows at the marker's column: the rows themselves stay as drawn.
-        <Box position="absolute" marginLeft={markerRaw} width={1} flexDirection="column">
-          <Text {...theme.tone('marker')}>{layers.markerColumn(markerRaw).join('\n')}</Text>
-        </Box>
-      ) : null}
+      {inArea ? <MarkerColumn layers={layers} col={markerRaw} theme={theme} /> : null}
       <RunsLine runs={band.current.runs} theme={theme} />
       <RunsLine runs={layers.axis} theme={theme} />
     </Box>

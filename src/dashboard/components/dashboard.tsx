@@ -162,7 +162,8 @@ export default function Dashboard(props: Props) {
   const promptRows = mode.kind === 'calibrate' ? 2 : 0;
   const reserved = 2 + (status.replay === undefined ? 0 : 1) + alertRows + promptRows + 1;
   // One row short of the terminal: a frame as tall as the terminal makes Ink clear the screen each frame.
-  const layout = chooseLayout(size.columns, size.rows - 1, muscleCount, reserved);
+  // The same layout object while nothing it depends on changes: the panels are memoized on it.
+  const layout = useMemo(() => chooseLayout(size.columns, size.rows - 1, muscleCount, reserved), [size.columns, size.rows, muscleCount, reserved]);
   const flashText = flash?.text ?? status.message ?? null;
 
   return (

@@ -1,5 +1,6 @@
 /** The help screen: every key, and how to read a panel. */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import { REGION_KEYS, REGION_LABEL } from '../../model/regions.ts';
 import { FILLED_REGIONS, MARKER_IN_BAND, MARKER_LEFT, MARKER_RIGHT, MARKER_STEM, REGION_FILL } from '../view/curve-drawing.ts';
 import type { RegionKey } from '../../model/regions.ts';
@@ -18,7 +19,7 @@ function swatch(region: RegionKey, theme: Theme): string {
   return `${theme.color ? '█' : REGION_FILL[region]} `;
 }
 
-export default function HelpOverlay({ keys, theme, columns }: Props) {
+function HelpOverlay({ keys, theme, columns }: Props) {
   return (
     <Box flexDirection="column" paddingX={1} width={Math.min(columns, 100)}>
       <Text {...theme.role('title')} wrap="truncate-end">
@@ -66,3 +67,6 @@ export default function HelpOverlay({ keys, theme, columns }: Props) {
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(HelpOverlay);

@@ -1,5 +1,6 @@
 /** One muscle in one line, for the muscles without a panel when the terminal is small. */
 import { Text } from 'ink';
+import { memo } from 'react';
 import { REGION_LABEL } from '../../model/regions.ts';
 import { fixed } from '../../output/format.ts';
 import type { Theme } from '../view/theme.ts';
@@ -10,7 +11,7 @@ export interface Props {
   readonly theme: Theme;
 }
 
-export default function MuscleLine({ muscle, theme }: Props) {
+function MuscleLine({ muscle, theme }: Props) {
   const s = muscle.latest;
   const region = s?.region ?? null;
   return (
@@ -29,3 +30,6 @@ export default function MuscleLine({ muscle, theme }: Props) {
     </Text>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (a new frame, or a new theme). */
+export default memo(MuscleLine);

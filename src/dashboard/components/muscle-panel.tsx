@@ -1,12 +1,15 @@
 /**
  * One muscle: where it is on its force–length curve now and over this stride, the numbers behind it,
- * recent sarcomere lengths, and its last strides.
+ * recent sarcomere lengths, and its last strides. The parts that change less often than the numbers
+ * (the title, the curve's rows, the marker's column, the stride table) are memoized components.
  */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import { REGION_LABEL } from '../../model/regions.ts';
 import CurvePlot from './curve-plot.tsx';
 import { fixed, percent, signed } from '../../output/format.ts';
 import type { Layout } from '../view/layout.ts';
+import PanelTitle from './panel-title.tsx';
 import { sparkline } from '../view/sparkline.ts';
 import StrideTable from './stride-table.tsx';
 import type { Theme } from '../view/theme.ts';
@@ -40,7 +43,7 @@ function calibrationText(source: string | null, method: string | null): { readon
   }
 }
 
-export default function MusclePanel({ muscle, layout, theme, focused = false }: Props) {
+function MusclePanel({ muscle, layout, theme, focused = false }: Props) {
   const width = innerCols(layout.panelCols);
   const s = muscle.latest;
   const sl = s?.sarcomereUm ?? Number.NaN;
@@ -68,11 +71,14 @@ export default function MusclePanel({ muscle, layout, theme, focused = false }: 
       {...theme.border(focused)}
       paddingX={1}
     >
-      <Text wrap="truncate-end">
-        <Text {...(focused ? theme.role('focus') : theme.role('title'))}>{titleText}</Text>
-        <Text {...theme.role('label')}>{` ${side}${calText === '' ? '' : ' · '}`}</Text>
-        <Text {...(calibrated ? theme.role('label') : theme.role('warning'))}>{calText}</Text>
-      </Text>
+      <PanelTitle
+        title={titleText}
+        side={` ${side}${calText === '' ? '' : ' · '}`}
+        calibration={calText}
+        calibrated={calibrated}
+        focused={focused}
+        theme={theme}
+      />
       <CurvePlot
         curve={muscle.curve}
         widthCols={width}
@@ -130,3 +136,6 @@ export default function MusclePanel({ muscle, layout, theme, focused = false }: 
     </Box>
   );
 }
+
+/** Memoized: a key press or a message drawn elsewhere on the screen does not draw the panels again. */
+export default memo(MusclePanel);

@@ -1,5 +1,6 @@
 /** Progress through a replayed trial and its speed. */
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import type { ReplayStatus } from '../../trial/run-status.ts';
 import type { Theme } from '../view/theme.ts';
 
@@ -11,7 +12,7 @@ export interface Props {
   readonly speedKeys?: boolean;
 }
 
-export default function ReplayBar({ replay, theme, columns, speedKeys = false }: Props) {
+function ReplayBar({ replay, theme, columns, speedKeys = false }: Props) {
   const progress = Math.min(1, Math.max(0, Number.isFinite(replay.progress) ? replay.progress : 0));
   const speed = replay.speed === 'max' ? 'max speed' : `${replay.speed}×`;
   const tail = ` ${String(Math.round(progress * 100)).padStart(3)}%  ${speed}${speedKeys ? ' (+/-)' : ''}`;
@@ -28,3 +29,6 @@ export default function ReplayBar({ replay, theme, columns, speedKeys = false }:
     </Box>
   );
 }
+
+/** Memoized: drawn again only when a prop changes (the dashboard keeps its props' identities while nothing changed). */
+export default memo(ReplayBar);

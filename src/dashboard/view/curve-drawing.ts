@@ -114,6 +114,13 @@ export function toRuns(cells: readonly { char: string; tone: Tone }[]): Run[] {
   return runs;
 }
 
+/** A row's width in cells. */
+export function rowCols(runs: readonly Run[]): number {
+  let cols = 0;
+  for (const run of runs) cols += run.text.length;
+  return cols;
+}
+
 function spanCols(range: LengthRange | null, minUm: number, maxUm: number, widthCols: number): [number, number] | null {
   if (range === null || !Number.isFinite(range.slMinUm) || !Number.isFinite(range.slMaxUm)) return null;
   const from = Math.max(0, columnOf(range.slMinUm, minUm, maxUm, widthCols));

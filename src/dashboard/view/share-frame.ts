@@ -1,16 +1,17 @@
 /**
  * A frame copied from another thread arrives as all-new objects, but the screen keeps its work by
- * identity: the curve's drawing is cached per curve object, and the stride table is drawn again only
- * for a new strides array. `shareFrame` gives back the previous frame's curve and strides wherever the
- * new ones hold the same values, so a copied frame costs the screen what an in-place one does.
+ * identity: the curve's drawing is cached per curve object, the stride table is drawn again only for a
+ * new strides array, and the replay bar only for a new replay status. `shareFrame` gives back the
+ * previous frame's curve, strides and status wherever the new ones hold the same values, so a copied
+ * frame costs the screen what an in-place one does.
  */
+import { isDeepStrictEqual } from 'node:util';
 import type { ForceLengthCurve } from '../../model/geometry.ts';
 import type { TrialFrame } from './trial-frames.ts';
 import type { MuscleView } from './view-model.ts';
 
-function sameValues(a: unknown, b: unknown): boolean {
-  return JSON.stringify(a) === JSON.stringify(b);
-}
+/** Node's own deep comparison: NaN equals NaN, as the copy keeps it. */
+const sameValues = isDeepStrictEqual;
 
 export function shareFrame(previous: TrialFrame | null, next: TrialFrame): TrialFrame {
   if (previous === null) return next;
@@ -26,5 +27,7 @@ export function shareFrame(previous: TrialFrame | null, next: TrialFrame): Trial
     changed = true;
     return { ...m, curve, strides };
   });
-  return changed ? { ...next, view: { ...next.view, muscles } } : next;
+  const status = previous.status === next.status || sameValues(previous.status, next.status) ? previous.status : next.status;
+  if (!changed && status === next.status) return next;
+  return { view: changed ? { ...next.view, muscles } : next.view, status };
 }

@@ -2,13 +2,17 @@
  * The dashboard's frames from the pipeline's TrialState (one object, mutated in place, emitted after each
  * batch) and the optional status stream: at most one frame per frameMs however many batches and status
  * emissions arrive, so the screen is drawn once per frame. When nothing arrives for tickMs, a frame is
- * emitted anyway, so time-based alerts and the rate keep moving. Each frame is plain data (numbers copied
- * out of the state), so it can be drawn on another thread. It only reads the state: the pipeline's pace
- * never waits on the screen. Never completes by itself: an ended trial's screen stays up.
+ * made anyway, so time-based alerts and the rate keep moving. A frame that would draw the same screen as
+ * the last one given is not given (see same-screen.ts): an ended trial, or a stream that has stopped
+ * with no alert counting the seconds, costs the screen nothing once what it shows has settled. Each
+ * frame is plain data (numbers copied out of the state), so it can be drawn on another thread. It only
+ * reads the state: the pipeline's pace never waits on the screen. Never completes by itself: an ended
+ * trial's screen stays up.
  */
 import { asyncScheduler, interval, Observable, Subscription, type SchedulerLike } from 'rxjs';
 import type { TrialState } from '../../trial/state.ts';
 import { mergeStatus, type RunStatus } from '../../trial/run-status.ts';
+import { sameScreen } from './same-screen.ts';
 import { createTracker, observeTrial, type TrialView } from './view-model.ts';
 
 export interface TrialFrame {
@@ -21,7 +25,7 @@ export interface TrialFramesOptions {
   readonly scheduler?: SchedulerLike;
   /** At most one frame per this many milliseconds (about 12 frames/s). @default 80 */
   readonly frameMs?: number;
-  /** With nothing new for this long, a frame is emitted anyway (time-based alerts, the rate). @default 250 */
+  /** With nothing new for this long, a frame is made anyway (time-based alerts, the rate), and given if it changes the screen. @default 250 */
   readonly tickMs?: number;
 }
 
@@ -50,6 +54,8 @@ export function trialFrames(
     let error: string | null = null;
     let status = NO_STATUS;
     let lastPublishMs = Number.NEGATIVE_INFINITY;
+    /** The last frame given: the next is given only when it changes the screen. */
+    let given: TrialFrame | null = null;
     const subscription = new Subscription();
     let pending: Subscription | null = null;
     let lastNewsMs = Number.NEGATIVE_INFINITY;
@@ -60,7 +66,10 @@ export function trialFrames(
       pending = null;
       due = false;
       lastPublishMs = scheduler.now();
-      subscriber.next({ view: observeTrial(tracker, latest, lastPublishMs, error), status });
+      const frame: TrialFrame = { view: observeTrial(tracker, latest, lastPublishMs, error), status };
+      if (given !== null && sameScreen(given, frame)) return;
+      given = frame;
+      subscriber.next(frame);
     };
     // The first news after a frame waits frameMs, and everything arriving meanwhile joins it. While news
     // keeps coming, the frame is drawn just after the next one, in the quiet before the one after (a

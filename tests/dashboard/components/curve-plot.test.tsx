@@ -1,13 +1,13 @@
 import '../force-color.ts';
 import { afterEach, describe, expect, it } from 'vitest';
-import { Box } from 'ink';
+import { Box, Text } from 'ink';
 import CurvePlot from '../../../src/dashboard/components/curve-plot.tsx';
-import { curveLayers, drawCurve, FILLED_REGIONS, REGION_FILL, type LengthRange } from '../../../src/dashboard/view/curve-drawing.ts';
+import { curveLayers, drawCurve, FILLED_REGIONS, REGION_FILL, type LengthRange, type Run } from '../../../src/dashboard/view/curve-drawing.ts';
 import type { RegionKey } from '../../../src/model/regions.ts';
 import RunsLine from '../../../src/dashboard/components/runs-line.tsx';
-import { createTheme } from '../../../src/dashboard/view/theme.ts';
+import { createTheme, type Theme } from '../../../src/dashboard/view/theme.ts';
 import { speciesCurve } from '../../../src/model/species.ts';
-import { COLOUR_SGR, renderScreen, tick, type Screen } from '../terminal-double.ts';
+import { COLOUR_SGR, plain, renderScreen, tick, type Screen } from '../terminal-double.ts';
 
 const human = speciesCurve('human');
 const frog = speciesCurve('frog');
@@ -39,6 +39,51 @@ const cases: readonly Case[] = [
   { sarcomereUm: Number.NaN, current: { slMinUm: 2.5, slMaxUm: 2.6 }, previous: null },
 ];
 
+/**
+ * A row drawn the way rows were drawn before blank runs were left to the layout: one text of every run,
+ * each cell written. The screen drawn the new way must be this one, escape codes and all.
+ */
+function EveryCellRow({ runs, theme }: { readonly runs: readonly Run[]; readonly theme: Theme }) {
+  return (
+    <Text>
+      {runs.map((run, i) => (
+        <Text key={i} {...theme.tone(run.tone)}>
+          {run.text}
+        </Text>
+      ))}
+    </Text>
+  );
+}
+
+function EveryCellDrawing({ rows, theme }: { readonly rows: readonly (readonly Run[])[]; readonly theme: Theme }) {
+  return (
+    <Box flexDirection="column">
+      {rows.map((runs, row) => (
+        <EveryCellRow key={row} runs={runs} theme={theme} />
+      ))}
+    </Box>
+  );
+}
+
+/** A stride's worth of frames: the marker sweeps the axis and beyond, the stride's range grows, a stride completes. */
+function sweep(): Case[] {
+  const out: Case[] = [];
+  let current = null as LengthRange | null;
+  let previous = null as LengthRange | null;
+  for (let i = 0; i <= 60; i++) {
+    const sarcomereUm = i === 30 ? Number.NaN : 0.8 + i * 0.08;
+    if (i === 40) {
+      previous = current;
+      current = null;
+    }
+    current = Number.isFinite(sarcomereUm)
+      ? { slMinUm: Math.min(current?.slMinUm ?? sarcomereUm, sarcomereUm), slMaxUm: Math.max(current?.slMaxUm ?? sarcomereUm, sarcomereUm) }
+      : current;
+    out.push({ sarcomereUm, current, previous });
+  }
+  return out;
+}
+
 describe('CurvePlot', () => {
   for (const color of [true, false]) {
     it(`paints exactly the cells of the whole drawing, the marker laid over the kept curve rows (${color ? 'colour' : 'no colour'})`, async () => {
@@ -47,19 +92,30 @@ describe('CurvePlot', () => {
         for (const c of cases) {
           for (const [widthCols, heightRows] of [[56, 6], [36, 3], [1, 1]] as const) {
             const drawing = drawCurve({ curve, widthCols, heightRows, ...c, bothChar: color ? '▀' : '█', fill: color ? 'blocks' : 'patterns' });
-            const expected = await frameOf(
-              <Box flexDirection="column">
-                {drawing.rows.map((runs, row) => (
-                  <RunsLine key={row} runs={runs} theme={theme} />
-                ))}
-              </Box>,
-            );
+            const expected = await frameOf(<EveryCellDrawing rows={drawing.rows} theme={theme} />);
             const painted = await frameOf(<CurvePlot curve={curve} widthCols={widthCols} heightRows={heightRows} theme={theme} {...c} />);
             expect(painted).toBe(expected);
           }
         }
       }
       if (color) expect(await frameOf(<CurvePlot curve={human} widthCols={56} heightRows={6} theme={theme} {...cases[0]!} />)).toMatch(COLOUR_SGR);
+    });
+
+    it(`draws a run of frames, one plot redrawn frame after frame, exactly as writing every cell would (${color ? 'colour' : 'no colour'})`, async () => {
+      const theme = createTheme(color);
+      const plot = renderScreen(<Box />, 100, 30);
+      const reference = renderScreen(<Box />, 100, 30);
+      screens.push(plot, reference);
+      for (const curve of [human, frog]) {
+        for (const c of sweep()) {
+          const drawing = drawCurve({ curve, widthCols: 38, heightRows: 5, ...c, bothChar: color ? '▀' : '█', fill: color ? 'blocks' : 'patterns' });
+          // Both screens draw in debug mode: a rerender writes its frame before it returns.
+          plot.instance.rerender(<CurvePlot curve={curve} widthCols={38} heightRows={5} theme={theme} {...c} />);
+          reference.instance.rerender(<EveryCellDrawing rows={drawing.rows} theme={theme} />);
+          expect(plot.lastFrame()).toBe(reference.lastFrame());
+        }
+      }
+      expect(plot.out.frames.length).toBeGreaterThan(60);
     });
   }
 });
@@ -103,6 +159,38 @@ describe('CurvePlot without colour', () => {
     const layers = curveLayers(human, 56, 6, 'patterns');
     const partial = layers.body.flatMap((runs) => runs.map((r) => r.text)).join('');
     expect(partial).toMatch(/[▁▂▃▄▅▆▇]/);
+  });
+});
+
+describe('RunsLine', () => {
+  it('writes only its stretches of ink, at their columns, and keeps the whole width', async () => {
+    const theme = createTheme(true);
+    // A band row: the previous stride's range, a gap, this stride's range with the marker in it.
+    const runs: Run[] = [
+      { text: '  ', tone: 'empty' },
+      { text: '▄▄▄', tone: 'band_previous' },
+      { text: ' ', tone: 'empty' },
+      { text: '▀▀', tone: 'band_current' },
+      { text: '◆', tone: 'marker' },
+      { text: '▀', tone: 'band_current' },
+      { text: '   ', tone: 'empty' },
+    ];
+    const line = await frameOf(
+      <Box>
+        <RunsLine runs={runs} theme={theme} />
+        <Text>|</Text>
+      </Box>,
+    );
+    expect(line).toBe(await frameOf(<Box><EveryCellRow runs={runs} theme={theme} /><Text>|</Text></Box>));
+    expect(plain(line)).toBe('  ▄▄▄ ▀▀◆▀   |');
+    // A row with nothing to write still takes its line.
+    const blank = await frameOf(
+      <Box flexDirection="column">
+        <RunsLine runs={[{ text: '     ', tone: 'empty' }]} theme={theme} />
+        <Text>under</Text>
+      </Box>,
+    );
+    expect(blank).toBe('\nunder');
   });
 });
 

@@ -218,7 +218,7 @@ describe('useFrames with a status stream', () => {
     expect(renders - before).toBe(1);
   });
 
-  it('publishes a frame every tick while nothing arrives, and none between frames while data flows', async () => {
+  it('draws nothing while nothing changes, and one frame per interval while data flows', async () => {
     const { scheduler, advance } = setup();
     const status$ = new Subject<RunStatus>();
     const state$ = new Subject<TrialState>();
@@ -226,10 +226,15 @@ describe('useFrames with a status stream', () => {
     const screen = renderScreen(<StatusProbe status$={status$} state$={state$} scheduler={scheduler} onFrame={() => renders++} />);
     screens.push(screen);
     await waitFor(() => status$.observed && state$.observed, 'the hook subscribing');
+    // The empty view's rate settles within its window; after that, ticks find nothing new to draw.
+    for (let i = 0; i < 12; i++) await advance(250);
     let before = renders;
-    for (let i = 0; i < 4; i++) await advance(250);
-    // Quiet: the tick alone, four times a second.
-    expect(renders - before).toBe(4);
+    for (let i = 0; i < 8; i++) await advance(250);
+    expect(renders - before).toBe(0);
+    status$.next({ logPath: 'sessions/quiet.log' });
+    await advance(250);
+    await shows(screen, 'log=sessions/quiet.log');
+    expect(renders - before).toBe(1);
     const state = walkingState();
     before = renders;
     // The virtual clock moves only as far as the actions it runs, so the batches are timed from a clock of their own.

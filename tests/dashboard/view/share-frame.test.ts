@@ -53,4 +53,14 @@ describe('shareFrame', () => {
     expect(b.view.muscles[0]!.strides.length).toBe(a.view.muscles[0]!.strides.length + 1);
     expect(b.view.muscles[0]!.curve).toBe(a.view.muscles[0]!.curve);
   });
+
+  it('keeps the status of the frame before while its values are unchanged, and takes a new one', () => {
+    const frame = firstFrame(0);
+    const a = shareFrame(null, { ...frame, status: { replay: { progress: 0.5, speed: 2 }, logPath: 'sessions/a.ndjson' } });
+    const b = shareFrame(a, structuredClone({ ...frame, status: { replay: { progress: 0.5, speed: 2 }, logPath: 'sessions/a.ndjson' } }));
+    expect(b.status).toBe(a.status);
+    const c = shareFrame(b, structuredClone({ ...frame, status: { replay: { progress: 0.75, speed: 2 }, logPath: 'sessions/a.ndjson' } }));
+    expect(c.status).not.toBe(b.status);
+    expect(c.status.replay?.progress).toBe(0.75);
+  });
 });

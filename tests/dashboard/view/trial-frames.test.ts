@@ -1,4 +1,4 @@
-/** trialFrames on virtual time: bounded frame rate, ticks when quiet, errors shown, clean unsubscribe. */
+/** trialFrames on virtual time: bounded frame rate, ticks when quiet that are given only when they change the screen, errors shown, clean unsubscribe. */
 import { describe, expect, it } from 'vitest';
 import { EMPTY, NEVER, Subject, VirtualAction, VirtualTimeScheduler, throwError } from 'rxjs';
 import { trialFrames, type TrialFrame } from '../../../src/dashboard/view/trial-frames.ts';
@@ -23,15 +23,54 @@ function collect(source: Parameters<typeof trialFrames>[0], status$?: Parameters
 }
 
 describe('trialFrames', () => {
-  it('ticks with an empty view when the trial has nothing yet, and never completes by itself', () => {
+  it('gives an empty view when the trial has nothing yet, then nothing while nothing changes, and never completes by itself', () => {
     for (const source of [EMPTY, NEVER]) {
       const { frames, sub, to } = collect(source);
-      to(1000);
-      expect(frames.length).toBeGreaterThanOrEqual(3);
+      to(300);
+      expect(frames.length).toBeGreaterThanOrEqual(1);
+      to(3000);
+      const settled = frames.length;
+      to(10_000);
+      expect(frames).toHaveLength(settled);
       expect(frames.every((f) => f.frame.view.muscles.length === 0)).toBe(true);
       expect(sub.closed).toBe(false);
       sub.unsubscribe();
     }
+  });
+
+  it('gives a frame at each tick while a silence alert counts the seconds up', () => {
+    const state$ = new Subject<TrialState>();
+    const { frames, to, sub } = collect(state$);
+    state$.next(walkingState());
+    to(100);
+    const before = frames.length;
+    // Nothing more arrives: after a second every muscle is silent, and the alert says for how long.
+    to(4000);
+    const ticks = frames.slice(before).filter((f) => f.ms >= 2000);
+    expect(ticks.length).toBeGreaterThanOrEqual(7);
+    for (let i = 1; i < ticks.length; i++) expect(ticks[i]!.ms - ticks[i - 1]!.ms).toBe(250);
+    sub.unsubscribe();
+  });
+
+  it("stops giving frames once an ended trial's screen has settled, and gives one again when the status changes", () => {
+    const state$ = new Subject<TrialState>();
+    const status$ = new Subject<RunStatus>();
+    const { frames, to, sub } = collect(state$, status$);
+    const state = walkingState();
+    state.ended = true;
+    state$.next(state);
+    state$.complete();
+    // The rate falls to zero within its window, and the screen then stays as it is.
+    to(4000);
+    const settled = frames.length;
+    expect(frames.at(-1)?.frame.view.samplesPerS).toBe(0);
+    to(20_000);
+    expect(frames).toHaveLength(settled);
+    status$.next({ message: 'summary written' });
+    to(20_200);
+    expect(frames).toHaveLength(settled + 1);
+    expect(frames.at(-1)?.frame.status.message).toBe('summary written');
+    sub.unsubscribe();
   });
 
   it('shows one state one frame later', () => {

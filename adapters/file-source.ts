@@ -97,6 +97,22 @@ function tableReader(first: readonly FirstLine[], role: TableRole, mapping: Devi
   return { plan: plan.plan, layout: found.layout, reader: createTableReader(plan.plan, options) };
 }
 
+/**
+ * Reads single lines of a file whose layout is known (told by onLayout as its start was read), for a look
+ * at lines elsewhere in it, such as its last rows; the line numbers are the caller's.
+ */
+export function layoutLineReader(layout: SourceLayout, mapping: DeviceMapping | null, role: TableRole = 'trial'): (text: string, line: number, out: Frame[]) => void {
+  if (layout.format === 'csv') {
+    const rows = createTableReader(layout.plan);
+    return (text, line, out) => rows.text(text, line, out);
+  }
+  const reader = ndjsonReader(role, mapping);
+  if (typeof reader === 'string') return () => undefined;
+  return (text, line, out) => {
+    out.push(reader.text(text, line));
+  };
+}
+
 interface HeldLine extends FirstLine {
   /** The line's length in bytes when over the cap (its text is then an excerpt), else 0. */
   readonly over: number;

@@ -12,6 +12,7 @@ import { REASON_TEXT } from '../src/trial/reasons.ts';
 import { DEG_PER, MM_PER, S_PER, type DeviceMapping } from './device-mapping.ts';
 import { fileSource, SourceFormatError, type SourceLayout } from './file-source.ts';
 import { readLines } from './read-lines.ts';
+import { shiftTimes } from './shift-times.ts';
 import { suggestTableMapping, type MappingSkeleton } from './suggest-mapping.ts';
 import { guessTableLayout, LAYOUT_LINES, type FirstLine } from './table-layout.ts';
 import type { TablePlan } from './table-plan.ts';
@@ -99,6 +100,10 @@ export interface InspectOptions {
   readonly sides?: Readonly<Record<string, Side>>;
   /** Intervals longer than this are gaps, seconds (the pipeline's threshold). */
   readonly gapS: number;
+  /** Added to the file's times after the mapping's conversion (a trial description's recording on its joint clock). */
+  readonly timeOffsetS?: number;
+  /** The side of the first foot strike found elsewhere (a trial description's events file), for muscles without one. */
+  readonly firstStrike?: Side | null;
 }
 
 /** Fascicle lengths (mm, mean over the muscle) that look like another unit; human fascicles are some 30–150 mm (common practice, no source). */
@@ -279,7 +284,8 @@ async function firstLines(path: string): Promise<FirstLine[]> {
   return lines;
 }
 
-async function inspectEvents(path: string, mapping: DeviceMapping | null, gapS: number): Promise<{ events: InspectedEvents; firstStrike: Side | null }> {
+/** Reads an events file through the mapping's "events" section and says how it is read. */
+export async function inspectEvents(path: string, mapping: DeviceMapping | null, gapS: number): Promise<{ events: InspectedEvents; firstStrike: Side | null }> {
   const tally = new FrameTally(gapS);
   let problem: string | null = null;
   try {
@@ -311,7 +317,10 @@ export async function inspectFile(path: string, options: InspectOptions): Promis
   let notTable = false;
   try {
     await lastValueFrom(
-      fileSource(path, { mapping, onLayout: (l) => (layout = l) }).pipe(tap((b) => b.forEach((f) => tally.add(f)))),
+      fileSource(path, { mapping, onLayout: (l) => (layout = l) }).pipe(
+        shiftTimes(options.timeOffsetS ?? 0),
+        tap((b) => b.forEach((f) => tally.add(f))),
+      ),
       { defaultValue: undefined },
     );
   } catch (error) {
@@ -320,7 +329,7 @@ export async function inspectFile(path: string, options: InspectOptions): Promis
   }
   if (problem === null && tally.samples === 0) problem = `${path} has no valid sample`;
   const events = options.eventsPath === undefined ? null : await inspectEvents(options.eventsPath, mapping, options.gapS);
-  const firstStrike = tally.firstStrike ?? events?.firstStrike ?? null;
+  const firstStrike = tally.firstStrike ?? events?.firstStrike ?? options.firstStrike ?? null;
 
   const muscles: Record<string, InspectedMuscle> = {};
   for (const [name, m] of tally.muscles) {

@@ -136,6 +136,7 @@ function objectKeysAt(schema: z.ZodType, path: readonly PropertyKey[], value: un
       if (next === undefined) return null;
       s = next;
     } else if (s instanceof z.ZodRecord) s = s.valueType as z.ZodType;
+    else if (s instanceof z.ZodArray) s = s.element as z.ZodType;
     else return null;
     v = typeof v === 'object' && v !== null ? (v as Record<PropertyKey, unknown>)[key] : undefined;
   }

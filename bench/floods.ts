@@ -10,23 +10,11 @@
  *
  * `--bin PATH` measures another build of the command (an older one, for before/after figures).
  */
-import { spawn } from 'node:child_process';
 import { createWriteStream } from 'node:fs';
 import { readFile, rm, stat, writeFile } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { join } from 'node:path';
 import { WebSocket } from 'ws';
-
-const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
-export const DEFAULT_BIN = join(ROOT, 'bin', 'lengthwise.js');
-
-/** Written beside the inputs: at exit, the process's peak RSS (kB) into the file the environment names. */
-const PEAK_RSS_PRELOAD = `import { writeFileSync } from 'node:fs';
-process.on('exit', () => {
-  const file = process.env.LENGTHWISE_PEAK_RSS_FILE;
-  if (file) writeFileSync(file, String(process.resourceUsage().maxRSS));
-});
-`;
+import { DEFAULT_BIN, PEAK_RSS_PRELOAD, peakMb, startWithPeakRss as start } from './peak-rss.ts';
 
 export interface FloodResult {
   readonly name: string;
@@ -41,37 +29,6 @@ export interface FloodResult {
   readonly summaryBytes?: number;
   /** accepted / rejected from the summary, or what went wrong. */
   readonly outcome: string;
-}
-
-interface Started {
-  readonly exited: Promise<number | null>;
-  stderr: string;
-  readonly kill: (signal: NodeJS.Signals) => void;
-}
-
-function start(bin: string, preload: string, rssFile: string, args: readonly string[]): Started {
-  const child = spawn(process.execPath, ['--import', pathToFileURL(preload).href, bin, ...args], {
-    stdio: ['ignore', 'ignore', 'pipe'],
-    env: { ...process.env, NO_COLOR: '1', LENGTHWISE_PEAK_RSS_FILE: rssFile },
-  });
-  const s: Started = {
-    exited: new Promise((resolve) => child.on('close', (code) => resolve(code))),
-    stderr: '',
-    kill: (signal) => child.kill(signal),
-  };
-  child.stderr.on('data', (d: Buffer) => {
-    // Only the start and the end are read; a flood's messages in between are not kept.
-    s.stderr = (s.stderr + d.toString()).slice(-20_000);
-  });
-  return s;
-}
-
-async function peakMb(rssFile: string): Promise<number> {
-  try {
-    return Number(await readFile(rssFile, 'utf8')) / 1024;
-  } catch {
-    return Number.NaN;
-  }
 }
 
 async function outcomeOf(summaryPath: string, code: number | null, stderr: string): Promise<{ outcome: string; bytes: number }> {

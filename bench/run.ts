@@ -8,7 +8,7 @@
  *
  *   npm run bench                  # full sizes (about 10 minutes on 2 cores)
  *   npm run bench -- --quick       # small sizes, about a minute
- *   npm run bench -- --only replay # or table, command, study, live, memory, screen, floods; several: --only replay,command
+ *   npm run bench -- --only replay # or table, command, study, live, memory, screen, floods, description; several: --only replay,command
  *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
  *   npm run bench -- --only live,screen --against DIR   # another checkout's dashboard measured beside this one's
  */
@@ -30,6 +30,7 @@ import { measureCommand, measureStart, type CommandResult, type StartResult } fr
 import { measureTable, type TableResult } from './table.ts';
 import { floodLines, measureFloods } from './floods.ts';
 import { measureStudy, type StudyBenchResult } from './study.ts';
+import { descriptionLines, measureDescription } from './description.ts';
 
 export interface ReplayResult {
   readonly format: BenchFormat;
@@ -70,6 +71,8 @@ interface Args {
   readonly screenFrames: number;
   /** Another checkout whose dashboard is measured beside this one's (live and screen). */
   readonly against: string | undefined;
+  /** Lengths of the trial description's runs, hours. */
+  readonly descriptionHours: readonly number[];
 }
 
 function parseArgs(argv: readonly string[]): Args {
@@ -78,10 +81,10 @@ function parseArgs(argv: readonly string[]): Args {
     const i = argv.indexOf(name);
     return i >= 0 ? argv[i + 1] : undefined;
   };
-  const only = new Set((value('--only') ?? 'replay,table,command,study,live,memory,screen,floods').split(','));
+  const only = new Set((value('--only') ?? 'replay,table,command,study,live,memory,screen,floods,description').split(','));
   for (const part of only) {
-    if (!['replay', 'table', 'command', 'study', 'live', 'memory', 'screen', 'floods'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, table, command, study, live, memory, screen, floods (comma-separated)`);
+    if (!['replay', 'table', 'command', 'study', 'live', 'memory', 'screen', 'floods', 'description'].includes(part)) {
+      console.error(`bench: --only ${part}: accepted are replay, table, command, study, live, memory, screen, floods, description (comma-separated)`);
       process.exit(2);
     }
   }
@@ -96,6 +99,7 @@ function parseArgs(argv: readonly string[]): Args {
     bin: value('--bin'),
     screenFrames: quick ? 60 : 200,
     against: value('--against'),
+    descriptionHours: (value('--description-hours') ?? (quick ? '0.25,1' : '1,24')).split(',').map(Number),
   };
 }
 
@@ -350,6 +354,12 @@ async function main(): Promise<void> {
       const screen = await screenInChild(args.screenFrames, args.quick ? 3 : 5, args.against);
       out['screen'] = screen;
       for (const l of screen.lines) lines.push(l);
+    }
+    if (args.only.has('description')) {
+      console.error(`bench: a trial description of two probes' tables against the same trial in one table, ${args.descriptionHours.join(' and ')} h, alternating fresh processes (writing them first)…`);
+      const description = await measureDescription(dir, args.descriptionHours, args.quick ? 1 : 3);
+      out['description'] = description;
+      for (const l of descriptionLines(description)) lines.push(l);
     }
   } finally {
     await rm(dir, { recursive: true, force: true });

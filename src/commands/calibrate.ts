@@ -5,8 +5,8 @@ import type { Parsed } from './option-values.ts';
 import type { Batch } from '../trial/records.ts';
 import { trialSource } from '../../adapters/trial-source.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
+import { fileDigest } from '../../adapters/file-digest.ts';
 import { mappingOption, SETTINGS_OPTION, settingsOption } from './option-files.ts';
-import { fileSha256 } from '../run/file-digest.ts';
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
 import { ARCHITECTURE_PRIOR_CAUTION, METHOD_LABEL, checkCalibrationAgainstTrial } from '../model/calibration.ts';
@@ -276,7 +276,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   let sha256: string | undefined;
   if (path !== undefined) {
     try {
-      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events, settings.value.quality_gate), fileSha256(path)]);
+      [trial, sha256] = await Promise.all([readTrial(path, muscle, mapping.value ?? null, values.events, settings.value.quality_gate), fileDigest(path).then((d) => d.sha256)]);
     } catch (error) {
       io.err(`lengthwise calibrate: ${(error as Error).message}`);
       return 1;

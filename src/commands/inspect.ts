@@ -5,6 +5,9 @@ import { mappingOption, SETTINGS_OPTION, settingsOption, sidesOption } from './o
 import { inspectFile, type InspectedCounts, type InspectedRejection, type Inspection } from '../../adapters/inspect-file.ts';
 import { delimiterName } from '../../adapters/table-layout.ts';
 import type { Delimiter } from '../../adapters/device-mapping.ts';
+import { inspectDescription, type DescriptionInspection } from '../../adapters/inspect-description.ts';
+import { isTrialDescription } from '../../adapters/trial-description.ts';
+import { mappedSides } from '../../adapters/device-mapping.ts';
 
 const HELP = `usage: lengthwise inspect FILE [options]
 
@@ -12,6 +15,8 @@ Says how a trial file will be read, without running the pipeline: the layout, de
 and header row found; the column used for each field and the unit conversion applied; each muscle with
 its side and where the side comes from; counts of rows, samples, events, markers and rejections by
 reason, with the first bad lines; each muscle's time span, rate, gaps and fascicle-length range.
+A trial description (lengthwise-trial JSON) is shown recording by recording, each with its muscles and
+its span on the trial's clock, then the events file and the time the recordings overlap.
 
 options:
   --mapping FILE         read the file through a mapping (lengthwise-mapping JSON), as replay would
@@ -74,6 +79,37 @@ export function inspectionText(i: Inspection): string {
   return out.join('\n');
 }
 
+function seconds(x: number): string {
+  return String(Number(x.toFixed(3)));
+}
+
+/** A trial description's inspection in words: each recording as a file of its own, then the events file and the overlap. */
+export function descriptionText(d: DescriptionInspection): string {
+  const out: string[] = [`${d.file}: a trial description of ${d.recordings.length} recording${d.recordings.length === 1 ? '' : 's'}; ${d.readable ? 'can be read' : 'cannot be read'}`];
+  const about = [d.subject === null ? null : `subject ${d.subject}`, d.trial === null ? null : `trial ${d.trial}`, d.calibration === null ? null : `calibration ${d.calibration}`].filter((x) => x !== null);
+  if (about.length > 0) out.push(`  ${about.join('; ')}`);
+  for (const note of d.notes) out.push(`  note: ${note}`);
+  d.recordings.forEach((r, k) => {
+    const [first, ...rest] = inspectionText({ ...r, suggested_mapping: null }).split('\n');
+    const how = `${r.mapping === null ? 'no mapping' : `mapping ${r.mapping}`}, time offset ${r.time_offset_s} s`;
+    out.push(`  recording ${k + 1}: ${(first ?? '').replace(/^(.*): /, `$1 (${how}): `)}`);
+    out.push(...rest.map((line) => `  ${line}`));
+    if (r.first_s !== null && r.last_s !== null) out.push(`    span on the trial's clock: ${seconds(r.first_s)}–${seconds(r.last_s)} s`);
+  });
+  out.push(
+    d.overlap === null
+      ? '  overlap of the recordings: none'
+      : `  overlap of the recordings: ${seconds(d.overlap.first_s)}–${seconds(d.overlap.last_s)} s (${seconds(d.overlap.duration_s)} s)`,
+  );
+  const e = d.events_file;
+  if (e !== null) {
+    out.push(`  events file ${e.file}: ${e.readable ? 'can be read' : 'cannot be read'}; ${countsLine(e.counts)}; ${round(e.first_s)}–${round(e.last_s)} s on the trial's clock`);
+    if (e.first_rejections.length > 0) out.push('    first rejected lines:', ...rejectionLines(e.first_rejections).map((l) => `  ${l}`));
+  }
+  if (d.problem !== null) out.push(...d.problem.split('\n').map((p) => `  problem: ${p}`));
+  return out.join('\n');
+}
+
 export async function run(argv: string[], io: CommandIo): Promise<number> {
   const parsed = parseCommandArgs('inspect', HELP, argv, {
     mapping: { type: 'string' },
@@ -96,6 +132,25 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   if (!mapping.ok) return 2;
   const sides = sidesOption('inspect', undefined, values.side, io);
   if (sides === null) return 2;
+  if (await isTrialDescription(path)) {
+    if (values['suggest-mapping']) {
+      io.err(`lengthwise inspect: ${path} is a trial description; run lengthwise inspect RECORDING --suggest-mapping on one of its recordings`);
+      return 1;
+    }
+    const inspected = await inspectDescription(path, {
+      mapping: mapping.value ?? null,
+      eventsPath: values.events,
+      sides: { ...mappedSides(mapping.value), ...sides },
+      sideOption: sides,
+      gapS: settings.value.gap_s,
+    });
+    if ('ok' in inspected) {
+      io.err(`lengthwise inspect: ${inspected.message}`);
+      return inspected.status;
+    }
+    io.out(values.json ? JSON.stringify(inspected, null, 2) : descriptionText(inspected));
+    return inspected.readable ? 0 : 1;
+  }
   const inspection = await inspectFile(path, { mapping: mapping.value ?? null, eventsPath: values.events, sides, gapS: settings.value.gap_s });
   if (values['suggest-mapping']) {
     if (inspection.suggested_mapping === null) {

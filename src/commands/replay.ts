@@ -4,7 +4,7 @@ import type { CommandIo } from '../run/io.ts';
 import { parseCommandArgs } from './parse-command-args.ts';
 import { outputsApart, provenanceSources, sidesOption, TRIAL_FILE_OPTIONS, TRIAL_INPUT_OPTIONS, TRIAL_OUTPUT_OPTIONS, trialFiles, trialInputPaths, trialOutputPaths } from './option-files.ts';
 import type { Batch } from '../trial/records.ts';
-import { trialSource } from '../../adapters/trial-source.ts';
+import { openTrial } from '../../adapters/trial-source.ts';
 import { RejectionTally } from '../trial/rejection-tally.ts';
 import { noUsableSample } from '../run/no-usable-sample.ts';
 import { namesMissingFromTrial } from '../run/named-muscles.ts';
@@ -19,8 +19,9 @@ import { stopOnSignals } from '../run/stop-signals.ts';
 
 const HELP = `usage: lengthwise replay FILE [options]
 
-Plays a recorded trial (lengthwise-stream NDJSON, its CSV variant, a session log, or a table or NDJSON
-in your own columns and units, through a mapping) through the pipeline.
+Plays a recorded trial (lengthwise-stream NDJSON, its CSV variant, a session log, a table or NDJSON
+in your own columns and units, through a mapping, or a trial description joining several recordings)
+through the pipeline. Options given here win over a trial description's own, with a note.
 
 options:
   --speed N|max          play at N times recorded time (1 = real time), or as fast as possible  [default: 1]
@@ -94,11 +95,20 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   if (!(await outputsApart('replay', [{ path, role: 'the trial file' }, ...trialInputPaths(values)], trialOutputPaths(values), io))) return 2;
   const files = await trialFiles('replay', values, io);
   if (files === null) return 2;
-  const calibration = files.calibration;
-  const mapping = files.mapping ?? null;
-  const sides = sidesOption('replay', files.mapping, values.side, io);
-  if (sides === null) return 2;
-
+  const sideOption = sidesOption('replay', files.mapping, values.side, io);
+  if (sideOption === null) return 2;
+  // A trial file, or a trial description (its files read and checked here, before anything plays).
+  const opened = await openTrial(path, { calibration: files.calibration, mapping: files.mapping ?? null, eventsPath: values.events, sides: sideOption });
+  if (!opened.ok) {
+    io.err(`lengthwise replay: ${opened.message}`);
+    return opened.status;
+  }
+  const { calibration, sides } = opened.trial;
+  const described = opened.trial.files;
+  if (described !== null) {
+    const inputs = [...described.map((f) => ({ path: f.path, role: `a file of the trial description ${path}` })), ...trialInputPaths(values)];
+    if (!(await outputsApart('replay', inputs, trialOutputPaths(values), io))) return 2;
+  }
   const speed$ = new BehaviorSubject<Speed>(speed.speed);
   const useDashboard = io.stdout.isTTY === true && !values.plain;
   // With the dashboard, the trial plays from the moment its screen is up.
@@ -106,7 +116,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   const valve = readAheadValve();
   let lastLine = 0;
   const rejections = new RejectionTally();
-  const records$: Observable<Batch> = trialSource(path, { pause$: valve.pause$, mapping, eventsPath: values.events }).pipe(
+  const records$: Observable<Batch> = opened.trial.records(valve.pause$).pipe(
     paceReplayWith(useDashboard ? speedOnceShown(shown$, speed$) : speed$, undefined, { onBacklog: valve.report }),
     tap((batch) => {
       for (const f of batch) {
@@ -124,7 +134,12 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   });
   try {
     const final = useDashboard
-      ? await withDashboard(trial, path, io, { speed$, progress: progressOf(path, () => lastLine), shown: () => shown$.next(), stopped$: stopped })
+      ? await withDashboard(trial, path, io, {
+          speed$,
+          progress: opened.trial.spanS === null ? progressOf(path, () => lastLine) : progressInTime(opened.trial.spanS, trial),
+          shown: () => shown$.next(),
+          stopped$: stopped,
+        })
       : await withStatusLines(trial, io);
     speed$.complete();
     if (!final.ok) {
@@ -143,7 +158,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
         summary: values.summary,
         strides: values.strides,
         report: values.report,
-        provenance: provenanceSources(files.settings, values, [{ kind: 'trial', path }]),
+        provenance: provenanceSources(files.settings, values, described ?? [{ kind: 'trial', path }]),
       },
       io,
     );
@@ -157,6 +172,11 @@ function progressOf(path: string, lastLine: () => number): () => number {
   let total = Number.NaN;
   void countLines(path).then((n) => (total = n));
   return () => (total > 0 ? Math.min(1, lastLine() / total) : Number.NaN);
+}
+
+/** Fraction of a trial description's joint time played so far (NaN before its first record). */
+function progressInTime(span: { readonly firstS: number; readonly lastS: number }, trial: TrialRun): () => number {
+  return () => Math.min(1, Math.max(0, (trial.latest().lastTS - span.firstS) / (span.lastS - span.firstS)));
 }
 
 type Final = { ok: true; state: TrialState } | { ok: false; message: string };

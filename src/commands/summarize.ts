@@ -23,9 +23,10 @@ const HELP = `usage: lengthwise summarize FILES... [options]
        lengthwise summarize --study study.csv [--out trials.csv] [--groups groups.csv] [--comparisons comparisons.csv]
                             [--cycles cycles.csv] [--report report.html] [options]
 
-Runs every trial file (lengthwise-stream NDJSON, its CSV variant, session logs, or tables and NDJSON in
-your own columns through a mapping) through the same pipeline as replay, in parallel, and writes one
-study table: a row per trial and muscle, with the same figures as each trial's --summary.
+Runs every trial file (lengthwise-stream NDJSON, its CSV variant, session logs, tables and NDJSON in
+your own columns through a mapping, or trial descriptions joining several recordings) through the same
+pipeline as replay, in parallel, and writes one study table: a row per trial and muscle, with the same
+figures as each trial's --summary.
 
 With --study, the trials are a manifest's rows (a CSV table: subject, condition, file; optionally trial,
 calibration, events, mapping, side, exclude, note, and any covariate columns), and the study's tables

@@ -8,7 +8,8 @@ import type { SettingsDocument } from '../trial/settings.ts';
 import type { ProvenanceJson } from './provenance-json.ts';
 
 /** What an input file is to the run. */
-export type InputKind = 'trial' | 'events' | 'mapping' | 'calibration' | 'settings' | 'manifest' | 'session_log';
+/** What a file was to the run; a trial description's own files are `description`, `recording` and the rest as named. */
+export type InputKind = 'trial' | 'description' | 'recording' | 'events' | 'mapping' | 'calibration' | 'settings' | 'manifest' | 'session_log';
 
 export interface InputFileJson {
   kind: InputKind;

@@ -54,8 +54,10 @@ port.on('message', (job: JobMessage) => {
       message: `${job.path} could not be summarized: ${error instanceof Error ? error.message : String(error)}`,
     }))
     .then(async (outcome) => {
-      const inputs = await described;
-      return outcome.ok && inputs !== undefined ? { ...outcome, inputs } : outcome;
+      if (!outcome.ok || setup.describeInputs !== true) return outcome;
+      // A trial description's own files (its recordings, mappings, events file, calibration) stand for its trial.
+      const inputs = outcome.files !== null ? await describeInputs(outcome.files) : await described;
+      return inputs !== undefined ? { ...outcome, inputs } : outcome;
     })
     .then((outcome) => (setup.drawReport ? withReport(outcome, job.id + 1) : outcome))
     .then((outcome) => post({ type: 'done', id: job.id, outcome }));

@@ -1,10 +1,11 @@
 /**
- * One trial file → its summary JSON (the same object `--summary` writes), or the reason it could not be
+ * One trial file (or trial description) → its summary JSON (the same object `--summary` writes), or the reason it could not be
  * summarized. Runs the whole pipeline unpaced; never throws for a bad file.
  */
 import { open, stat } from 'node:fs/promises';
 import { tap } from 'rxjs';
-import { trialSource } from '../../adapters/trial-source.ts';
+import { openTrial } from '../../adapters/trial-source.ts';
+import type { DescribedFile } from '../../adapters/described-trial.ts';
 import type { DeviceMapping } from '../../adapters/device-mapping.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
 import type { Side } from '../trial/records.ts';
@@ -24,6 +25,8 @@ export type TrialOutcome =
       /** Samples accepted by the pipeline. */
       readonly samples: number;
       readonly bytes: number;
+      /** A trial description's files (the description first), for the provenance; null for a trial file. */
+      readonly files: readonly DescribedFile[] | null;
       /** The trial's report sections, when the study asked its workers to draw them (see trialSectionsHtml). */
       readonly reportSections?: string;
       /** The plotting libraries' warnings while drawing them. */
@@ -96,26 +99,36 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
     return { ok: false, path, bytes: size, message: `cannot read ${path}: ${errorMessage(error)}` };
   }
 
+  // A trial file, or a trial description (its files read and checked before the trial runs).
+  const opened = await openTrial(path, { calibration: options.calibration, mapping: options.mapping ?? null, eventsPath: options.eventsPath, sides: options.sides });
+  if (!opened.ok) return { ok: false, path, bytes: size, message: opened.message };
+  const { calibration, sides, files, spanS } = opened.trial;
+
   let samples = 0;
   let lastLine = 0;
+  let lastS = Number.NaN;
   const rejections = new RejectionTally();
   const onProgress = options.onProgress;
-  const records$ = trialSource(path, { mapping: options.mapping ?? null, eventsPath: options.eventsPath }).pipe(
+  // A description's progress goes by its recordings' joint time, over the description's own bytes.
+  const bytesRead = (): number =>
+    spanS === null ? Math.min(size, lastLine * perLine) : Number.isFinite(lastS) ? size * Math.min(1, Math.max(0, (lastS - spanS.firstS) / (spanS.lastS - spanS.firstS))) : 0;
+  const records$ = opened.trial.records().pipe(
     tap((batch) => {
       for (const frame of batch) {
         if (frame.kind === 'sample') {
           samples++;
           if (frame.line > lastLine) lastLine = frame.line;
+          lastS = frame.tS;
         } else if (frame.kind === 'rejection') rejections.add(frame);
       }
-      onProgress?.({ bytesRead: Math.min(size, lastLine * perLine), samples });
+      onProgress?.({ bytesRead: bytesRead(), samples });
     }),
   );
   const trial = runTrial(records$, {
     source: path,
+    sides,
     ...(options.settings !== undefined ? { settings: options.settings } : {}),
-    ...(options.calibration !== undefined ? { calibration: options.calibration } : {}),
-    ...(options.sides !== undefined ? { sides: options.sides } : {}),
+    ...(calibration !== undefined ? { calibration } : {}),
   });
   let state: TrialState;
   try {
@@ -127,5 +140,5 @@ export async function summarizeTrial(path: string, options: SummarizeTrialOption
   if (nothing !== null) return { ok: false, path, bytes: size, message: nothing };
   const summary = summaryJson(state);
   const f = summary.frames;
-  return { ok: true, path, summary, samples: f.accepted, bytes: size };
+  return { ok: true, path, summary, samples: f.accepted, bytes: size, files };
 }

@@ -132,6 +132,8 @@ export interface Rejection {
   readonly field?: string;
   /** How many rejected records it stands for (a session log's line for one reason); absent: one. */
   readonly count?: number;
+  /** The file it came from, when several feed the trial (a trial description's recordings); absent: the trial's one file. */
+  readonly file?: string;
 }
 
 /**

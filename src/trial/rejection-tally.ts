@@ -29,9 +29,14 @@ export function reasonList(byReason: ReadonlyMap<string, number> | Readonly<Reco
     .join('; ');
 }
 
-/** The first rejected lines, one a line: "line 3 (fascicle_mm): fascicle_mm is -3: must be …". */
+/** Where a rejection was: "line 3", or "calf.csv line 3" when several files feed the trial. */
+export function rejectionPlace(r: Pick<Rejection, 'line' | 'file'>): string {
+  return r.file === undefined ? `line ${r.line}` : `${r.file} line ${r.line}`;
+}
+
+/** The first rejected lines, one a line: "line 3 (fascicle_mm): fascicle_mm is -3: must be …" (the file first when several feed the trial). */
 export function firstRejectionLines(first: readonly Rejection[]): string {
-  return first.map((r) => `  line ${r.line}${r.field !== undefined ? ` (${r.field})` : ''}: ${r.message}`).join('\n');
+  return first.map((r) => `  ${rejectionPlace(r)}${r.field !== undefined ? ` (${r.field})` : ''}: ${r.message}`).join('\n');
 }
 
 /**

@@ -131,6 +131,12 @@ function columnsOf(kind: TableLayoutKind, given: Partial<Record<TableField, stri
   return columns;
 }
 
+/** Where a column's name comes from, as messages say it: the mapping key that names it, or ours (and, in an events file, the key that would rename it). */
+function columnFrom(kind: TableLayoutKind, field: TableField, given: boolean): string {
+  if (kind !== 'events') return given ? `fields.${field}` : 'our own column';
+  return given ? `events.fields.${field}` : `our own column; a mapping's events.fields.${field} names yours`;
+}
+
 /** The columns that find the header row (those the reading cannot do without, and those the mapping names) and those that hold numbers. */
 export function layoutQuery(reading: TableReading): LayoutQuery {
   const identify: { name: string; from: string }[] = [];
@@ -138,7 +144,7 @@ export function layoutQuery(reading: TableReading): LayoutQuery {
   for (const f of TABLE_FIELDS) {
     const c = reading.columns[f];
     if (c === undefined) continue;
-    if (c.given || REQUIRED[reading.kind].includes(f)) identify.push({ name: c.name, from: c.given ? `fields.${f}` : 'our own column' });
+    if (c.given || REQUIRED[reading.kind].includes(f)) identify.push({ name: c.name, from: columnFrom(reading.kind, f, c.given) });
     if (NUMERIC.has(f)) numeric.push(c.name);
   }
   for (const m of reading.wide) {

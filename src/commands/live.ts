@@ -16,6 +16,7 @@ import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
+import { plausibleSarcomereRange } from '../trial/settings.ts';
 import { unitHint, type DeviceMapping, mappedSides } from '../../adapters/device-mapping.ts';
 import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
 import { redactUrl } from '../../adapters/redact-url.ts';
@@ -197,7 +198,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   } else {
     return 2;
   }
-  session.status({ sourceLabel: label, logPath, ...(openListen.warning !== null ? { message: openListen.warning } : {}) });
+  session.status({ sourceLabel: label, logPath, plausibleUm: plausibleSarcomereRange(settings), ...(openListen.warning !== null ? { message: openListen.warning } : {}) });
 
   const records$ = merge(source$, session.extra$).pipe(
     writeSessionLog(log),

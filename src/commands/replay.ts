@@ -220,6 +220,7 @@ async function withDashboard(trial: TrialRun, path: string, io: CommandIo, contr
       const progress = controls.progress();
       return {
         sourceLabel: path,
+        plausibleUm: trial.plausibleUm,
         replay: { progress: Number.isFinite(progress) ? progress : 0, speed: controls.speed$.value },
         message: message$.value,
       };

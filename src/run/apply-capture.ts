@@ -11,10 +11,8 @@ import { toolVersion } from './tool-version.ts';
  */
 export async function applyCapture(trial: TrialRun, muscle: string, sarcomereUm: number, folder = 'sessions'): Promise<string> {
   const species = trial.latest().muscles.get(muscle)?.species ?? 'human';
-  const result = captureCalibration(muscle, species, trial.recent.window(muscle, 3), sarcomereUm, {
-    created_utc: new Date().toISOString(),
-    tool_version: toolVersion(),
-  });
+  const provenance = { created_utc: new Date().toISOString(), tool_version: toolVersion() };
+  const result = captureCalibration(muscle, species, trial.recent.window(muscle, 3), sarcomereUm, provenance, trial.plausibleUm);
   if (!result.ok) return result.message;
   trial.inject([result.frame]);
   const stamp = new Date().toISOString().replaceAll(':', '-').replace(/\..*/, '');

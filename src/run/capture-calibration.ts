@@ -2,7 +2,8 @@
 import type { CalibrationApplied } from '../trial/records.ts';
 import type { Species } from '../model/species.ts';
 import { medianSorted } from '../model/stats.ts';
-import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
+import { PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
+import type { SarcomereRange } from '../trial/run-status.ts';
 
 export type CaptureResult =
   | { readonly ok: true; readonly frame: CalibrationApplied; readonly fascicleMm: number; readonly spreadPercent: number; readonly json: object }
@@ -21,9 +22,10 @@ export function captureCalibration(
   fascicleMm: readonly number[],
   sarcomereUm: number,
   provenance: Readonly<Record<string, unknown>> = {},
+  plausible: SarcomereRange = PLAUSIBLE_SARCOMERE_UM,
 ): CaptureResult {
-  if (!isPlausibleSarcomereUm(sarcomereUm)) {
-    return { ok: false, message: `an assumed sarcomere length of ${sarcomereUm} µm is not plausible; give a value between ${PLAUSIBLE_SARCOMERE_UM.min} and ${PLAUSIBLE_SARCOMERE_UM.max} µm (e.g. 2.7 for a human muscle near its plateau)` };
+  if (!(sarcomereUm >= plausible.min && sarcomereUm <= plausible.max)) {
+    return { ok: false, message: `an assumed sarcomere length of ${sarcomereUm} µm is not plausible; give a value between ${plausible.min} and ${plausible.max} µm (e.g. 2.7 for a human muscle near its plateau)` };
   }
   if (fascicleMm.length < MIN_CAPTURE_SAMPLES) {
     return { ok: false, message: `${muscle}: only ${fascicleMm.length} good samples in the last seconds (at least ${MIN_CAPTURE_SAMPLES} needed); hold the posture with the probe tracking, then capture again` };

@@ -4,6 +4,8 @@ import type { Batch } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import { pipeline, type PipelineOptions } from '../pipeline/pipeline.ts';
 import { RecentFascicles } from './recent-fascicles.ts';
+import type { SarcomereRange } from '../trial/run-status.ts';
+import { DEFAULT_SETTINGS, plausibleSarcomereRange } from '../trial/settings.ts';
 
 export interface TrialRun {
   /** The running state (same object, mutated in place), replaying the latest to late subscribers; it never errors. */
@@ -21,6 +23,8 @@ export interface TrialRun {
   latest(): TrialState;
   /** The last seconds of each muscle's raw fascicle lengths (for capturing a calibration). */
   readonly recent: RecentFascicles;
+  /** The settings' plausible sarcomere lengths (µm), for what the screen raises and a captured calibration accepts. */
+  readonly plausibleUm: SarcomereRange;
 }
 
 export function runTrial(records$: Observable<Batch>, options: PipelineOptions): TrialRun {
@@ -71,6 +75,7 @@ export function runTrial(records$: Observable<Batch>, options: PipelineOptions):
     state$: state$.asObservable(),
     done,
     recent,
+    plausibleUm: plausibleSarcomereRange(options.settings ?? DEFAULT_SETTINGS),
     latest: () => latest as TrialState,
     inject: (batch) => {
       if (!subscription.closed) injected.next(batch);

@@ -32,6 +32,14 @@ export interface RunStatus {
   readonly replay?: ReplayStatus | undefined;
   /** A short message for the person at the screen (e.g. "calibration applied to calf"). */
   readonly message?: string | undefined;
+  /** The settings' plausible sarcomere lengths (µm): outside them a length is raised, and a typed calibration length refused. @default PLAUSIBLE_SARCOMERE_UM */
+  readonly plausibleUm?: SarcomereRange | undefined;
+}
+
+/** A range of sarcomere lengths, µm, ends included. */
+export interface SarcomereRange {
+  readonly min: number;
+  readonly max: number;
 }
 
 /** Merges one emission into the status so far: fields present in `next` replace the previous ones. */

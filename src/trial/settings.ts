@@ -8,6 +8,7 @@
  */
 import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S } from '../model/stride-period.ts';
 import { PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
+import type { SarcomereRange } from './run-status.ts';
 
 /**
  * Most distinct muscles one trial may carry, and one live device: a sample naming a further muscle (or a
@@ -117,4 +118,9 @@ export function settingsDocument(settings: Settings): SettingsDocument {
   const values: Record<string, number> = {};
   for (const key of SETTING_KEYS) values[key] = settings[key];
   return { format: 'lengthwise-settings', version: 1, ...(values as unknown as Settings) };
+}
+
+/** The settings' plausible sarcomere lengths, µm, as a range. */
+export function plausibleSarcomereRange(settings: Settings): SarcomereRange {
+  return { min: settings.plausible_sarcomere_min_um, max: settings.plausible_sarcomere_max_um };
 }

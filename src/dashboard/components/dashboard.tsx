@@ -115,6 +115,7 @@ export default function Dashboard(props: Props) {
       canMark: onMarker !== undefined,
       canCalibrate: onCalibrate !== undefined,
       canChangeSpeed: onSpeed !== undefined,
+      plausibleUm: status.plausibleUm,
     });
     if (step.ui !== ui.current) {
       ui.current = step.ui;

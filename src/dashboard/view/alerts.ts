@@ -3,9 +3,9 @@
  * copied view, so each rule is tested on its own; an alert clears itself as soon as its cause is gone.
  */
 import type { StrideSummary } from '../../trial/state.ts';
-import type { ConnectionStatus } from '../../trial/run-status.ts';
+import type { ConnectionStatus, SarcomereRange } from '../../trial/run-status.ts';
 import { fixed, percent } from '../../output/format.ts';
-import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
+import { PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
 
 export type AlertKind =
   | 'disconnected'
@@ -46,9 +46,9 @@ export function lowQualityAlert(muscle: string, lowSinceS: number | null, nowS: 
   };
 }
 
-export function implausibleLengthAlert(muscle: string, sarcomereUm: number): Alert | null {
-  if (!Number.isFinite(sarcomereUm) || isPlausibleSarcomereUm(sarcomereUm)) return null;
-  const { min, max } = PLAUSIBLE_SARCOMERE_UM;
+export function implausibleLengthAlert(muscle: string, sarcomereUm: number, plausible: SarcomereRange = PLAUSIBLE_SARCOMERE_UM): Alert | null {
+  const { min, max } = plausible;
+  if (!Number.isFinite(sarcomereUm) || (sarcomereUm >= min && sarcomereUm <= max)) return null;
   return {
     kind: 'implausible_length',
     muscle,

@@ -7,6 +7,7 @@ import type { Key } from 'ink';
 import { PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
 import { clockTime, elapsed, fixed } from '../../output/format.ts';
 import { DEFAULT_CALIBRATION_UM } from './keys.ts';
+import type { SarcomereRange } from '../../trial/run-status.ts';
 
 export type Mode =
   | { readonly kind: 'normal' }
@@ -37,6 +38,8 @@ export interface KeyContext {
   readonly canMark: boolean;
   readonly canCalibrate: boolean;
   readonly canChangeSpeed: boolean;
+  /** The lengths a typed calibration length may take (µm). @default PLAUSIBLE_SARCOMERE_UM */
+  readonly plausibleUm?: SarcomereRange | undefined;
 }
 
 export type KeyInfo = Pick<Key, 'ctrl' | 'shift' | 'tab' | 'return' | 'escape' | 'backspace' | 'delete' | 'leftArrow' | 'rightArrow' | 'upArrow' | 'downArrow'>;
@@ -48,7 +51,7 @@ export function handleKey(ui: UiState, input: string, key: KeyInfo, ctx: KeyCont
   if (mode.kind === 'calibrate') {
     if (key.escape) return { ui: { ...ui, mode: { kind: 'normal' } }, effects: [{ kind: 'say', text: 'calibration cancelled' }] };
     if (key.return) {
-      const parsed = parseCalibrationUm(mode.typed, DEFAULT_CALIBRATION_UM, PLAUSIBLE_SARCOMERE_UM);
+      const parsed = parseCalibrationUm(mode.typed, DEFAULT_CALIBRATION_UM, ctx.plausibleUm ?? PLAUSIBLE_SARCOMERE_UM);
       if (!parsed.ok) return { ui: { ...ui, mode: { ...mode, problem: parsed.problem } }, effects: [] };
       return {
         ui: { ...ui, mode: { kind: 'normal' } },

@@ -312,7 +312,7 @@ export function detectAlerts(view: TrialView, status: RunStatus, canCalibrate: b
   found.push(...noSamplesAlerts(ages, view.ended, status.connection));
   for (const m of view.muscles) {
     found.push(lowQualityAlert(m.name, m.lowSinceS, m.latest?.tS ?? Number.NaN));
-    found.push(implausibleLengthAlert(m.name, m.latest?.sarcomereUm ?? Number.NaN));
+    found.push(implausibleLengthAlert(m.name, m.latest?.sarcomereUm ?? Number.NaN, status.plausibleUm));
     found.push(baselineShiftAlert(m.name, m.strides.slice(-(BASELINE_SHIFT_HOLD_STRIDES + 1))));
   }
   return sortAlerts(found.filter((a): a is Alert => a !== null));

@@ -46,6 +46,7 @@ export function lowQualityAlert(muscle: string, lowSinceS: number | null, nowS: 
   };
 }
 
+/** A length outside the plausible range (the settings', by default PLAUSIBLE_SARCOMERE_UM), ends included as plausible. */
 export function implausibleLengthAlert(muscle: string, sarcomereUm: number, plausible: SarcomereRange = PLAUSIBLE_SARCOMERE_UM): Alert | null {
   const { min, max } = plausible;
   if (!Number.isFinite(sarcomereUm) || (sarcomereUm >= min && sarcomereUm <= max)) return null;

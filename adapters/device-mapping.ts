@@ -25,7 +25,7 @@ export const MAPPED_FIELDS = ['t', 'muscle', 'fascicle', 'pennation', 'quality',
 export type MappedField = (typeof MAPPED_FIELDS)[number];
 
 /** The field of a lengthwise-stream record each mapped field becomes. */
-const OUR_KEY: Readonly<Record<MappedField, string>> = {
+export const RECORD_KEY: Readonly<Record<MappedField, string>> = {
   t: 't',
   muscle: 'muscle',
   fascicle: 'fascicle_mm',
@@ -37,7 +37,7 @@ const OUR_KEY: Readonly<Record<MappedField, string>> = {
   marker: 'marker',
 };
 
-const OUR_KEYS: ReadonlySet<string> = new Set(Object.values(OUR_KEY));
+const RECORD_KEYS: ReadonlySet<string> = new Set(Object.values(RECORD_KEY));
 
 export const MM_PER: Readonly<Record<LengthUnit, number>> = { m: 1000, cm: 10, mm: 1 };
 export const DEG_PER: Readonly<Record<AngleUnit, number>> = { rad: 180 / Math.PI, deg: 1 };
@@ -271,7 +271,7 @@ export function parseDeviceMapping(value: unknown): MappingResult {
   if (!parsed.success) return { ok: false, problems: schemaProblems(parsed.error, MAPPING_HOW_TO, deviceMappingSchema, value) };
   const d = parsed.data;
   const fields = {} as Record<MappedField, string>;
-  for (const f of MAPPED_FIELDS) fields[f] = d.fields?.[f] ?? OUR_KEY[f];
+  for (const f of MAPPED_FIELDS) fields[f] = d.fields?.[f] ?? RECORD_KEY[f];
   const given = givenFields(d.fields, MAPPED_FIELDS);
   const muscles: Record<string, MappedMuscle> = Object.create(null);
   for (const [name, m] of Object.entries(d.muscles ?? {})) {
@@ -331,7 +331,7 @@ export function eventsDeviceMapping(mapping: DeviceMapping | null): DeviceMappin
   const e = mapping?.events ?? null;
   if (e === null) return null;
   const fields = {} as Record<MappedField, string>;
-  for (const f of MAPPED_FIELDS) fields[f] = OUR_KEY[f];
+  for (const f of MAPPED_FIELDS) fields[f] = RECORD_KEY[f];
   for (const f of EVENT_FIELDS) {
     const name = e.given[f];
     if (name !== undefined) fields[f] = name;
@@ -376,11 +376,11 @@ export function applyMapping(value: unknown, mapping: DeviceMapping): unknown {
   // No prototype: a "__proto__" key passes through as an own key (and is then refused by the parser).
   const out: Record<string, unknown> = Object.create(null);
   for (const key of Object.keys(device)) {
-    if (!OUR_KEYS.has(key) && !Object.values(mapping.fields).includes(key)) out[key] = device[key];
+    if (!RECORD_KEYS.has(key) && !Object.values(mapping.fields).includes(key)) out[key] = device[key];
   }
   const put = (f: MappedField, convert: (v: unknown) => unknown): void => {
     const from = mapping.fields[f];
-    if (Object.hasOwn(device, from)) out[OUR_KEY[f]] = convert(device[from]);
+    if (Object.hasOwn(device, from)) out[RECORD_KEY[f]] = convert(device[from]);
   };
   put('t', (v) => scaled(v, S_PER[mapping.timeUnit], mapping.timeOffsetS));
   put('muscle', (v) => word(v, mapping.values.muscle));

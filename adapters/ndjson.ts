@@ -15,6 +15,21 @@ const QUALITY_KEY = ',"quality":';
 const shared = new Float64Array(1);
 
 /**
+ * An optional field of the common sample line at text[i]: `key` (what precedes the number included) and
+ * a plain number from min to max. Its end, with the number in num[0]; i, with `absent` in num[0], when
+ * the key is not there; -1 when the key is there but not such a number.
+ */
+function optionalNumber(text: string, i: number, key: string, min: number, max: number, absent: number, num: Float64Array): number {
+  if (!textAt(text, i, key)) {
+    num[0] = absent;
+    return i;
+  }
+  const e = readJsonNumber(text, i + key.length, num);
+  const value = num[0] as number;
+  return e >= 0 && value >= min && value <= max ? e : -1;
+}
+
+/**
  * The common sample line as a writer prints it — `{"t":…,"muscle":"…","fascicle_mm":…` then optionally
  * `,"pennation_deg":…` and `,"quality":…`, then `}`, no spaces, plain decimals of at most 15 digits, a
  * name without escapes, every value in range — read in place without JSON.parse. It gives exactly what
@@ -40,23 +55,12 @@ function quickSampleLine(text: string, line: number, names: NameTable | null, nu
   if (e < 0) return null;
   const fascicleMm = num[0] as number;
   if (!(fascicleMm > 0)) return null;
-  i = e;
-  let pennationDeg = Number.NaN;
-  if (textAt(text, i, PENNATION_KEY)) {
-    e = readJsonNumber(text, i + PENNATION_KEY.length, num);
-    if (e < 0) return null;
-    pennationDeg = num[0] as number;
-    if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
-    i = e;
-  }
-  let quality = 1;
-  if (textAt(text, i, QUALITY_KEY)) {
-    e = readJsonNumber(text, i + QUALITY_KEY.length, num);
-    if (e < 0) return null;
-    quality = num[0] as number;
-    if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
-    i = e;
-  }
+  i = optionalNumber(text, e, PENNATION_KEY, MIN_PENNATION_DEG, MAX_PENNATION_DEG, Number.NaN, num);
+  if (i < 0) return null;
+  const pennationDeg = num[0] as number;
+  i = optionalNumber(text, i, QUALITY_KEY, MIN_QUALITY, MAX_QUALITY, 1, num);
+  if (i < 0) return null;
+  const quality = num[0] as number;
   if (i !== n - 1) return null;
   const muscle = names === null ? freshCopy(text.slice(nameStart, k)) : names.inText(text, nameStart, k);
   return makeSample(tS, muscle, fascicleMm, pennationDeg, quality, line);
@@ -67,6 +71,17 @@ const MUSCLE_BYTES = Buffer.from(MUSCLE_KEY);
 const FASCICLE_BYTES = Buffer.from(FASCICLE_KEY);
 const PENNATION_BYTES = Buffer.from(PENNATION_KEY);
 const QUALITY_BYTES = Buffer.from(QUALITY_KEY);
+
+/** optionalNumber on bytes b[i, end): the same end, number and -1. */
+function optionalNumberBytes(b: Buffer, i: number, end: number, key: Buffer, min: number, max: number, absent: number, num: Float64Array): number {
+  if (!bytesAt(b, i, end, key)) {
+    num[0] = absent;
+    return i;
+  }
+  const e = readJsonNumberBytes(b, i + key.length, end, num);
+  const value = num[0] as number;
+  return e >= 0 && value >= min && value <= max ? e : -1;
+}
 
 /**
  * quickSampleLine on the line's UTF-8 bytes b[start, end), for names of ASCII characters: the sample
@@ -92,23 +107,12 @@ function quickSampleBytes(b: Buffer, start: number, end: number, names: NameTabl
   if (e < 0) return null;
   const fascicleMm = num[0] as number;
   if (!(fascicleMm > 0)) return null;
-  i = e;
-  let pennationDeg = Number.NaN;
-  if (bytesAt(b, i, end, PENNATION_BYTES)) {
-    e = readJsonNumberBytes(b, i + PENNATION_KEY.length, end, num);
-    if (e < 0) return null;
-    pennationDeg = num[0] as number;
-    if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
-    i = e;
-  }
-  let quality = 1;
-  if (bytesAt(b, i, end, QUALITY_BYTES)) {
-    e = readJsonNumberBytes(b, i + QUALITY_KEY.length, end, num);
-    if (e < 0) return null;
-    quality = num[0] as number;
-    if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
-    i = e;
-  }
+  i = optionalNumberBytes(b, e, end, PENNATION_BYTES, MIN_PENNATION_DEG, MAX_PENNATION_DEG, Number.NaN, num);
+  if (i < 0) return null;
+  const pennationDeg = num[0] as number;
+  i = optionalNumberBytes(b, i, end, QUALITY_BYTES, MIN_QUALITY, MAX_QUALITY, 1, num);
+  if (i < 0) return null;
+  const quality = num[0] as number;
   if (i !== end - 1) return null;
   const muscle = names.inAsciiBytes(b, nameStart, k);
   num[1] = tS;

@@ -14,6 +14,7 @@ import { dirname, isAbsolute, join } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { readCalibrationFile } from './calibration-file.ts';
 import { readDeviceMapping, type DeviceMapping } from './device-mapping.ts';
+import { putNamedSides } from './named-sides.ts';
 import { nearestName } from './nearest-name.ts';
 import type { CalibrationSpec } from '../src/model/calibration.ts';
 import type { Side } from '../src/trial/records.ts';
@@ -84,18 +85,12 @@ export function manifestProblemText(p: ManifestProblem): string {
 /** Reads the side cell: `NAME=left;NAME=right` (spaces around the pieces allowed). */
 function parseSides(text: string): { readonly ok: true; readonly sides: Record<string, Side> } | { readonly ok: false; readonly message: string } {
   const sides: Record<string, Side> = Object.create(null);
-  for (const piece of text.split(';')) {
-    const part = piece.trim();
-    if (part === '') continue;
-    const at = part.lastIndexOf('=');
-    const name = at > 0 ? part.slice(0, at).trim() : '';
-    const side = at > 0 ? part.slice(at + 1).trim() : '';
-    if (name === '' || (side !== 'left' && side !== 'right')) {
-      return { ok: false, message: `"${part}" is not a side: give NAME=left or NAME=right, several separated by ";" (e.g. lat_gastroc=left;vastus_lat=right)` };
-    }
-    if (Object.hasOwn(sides, name)) return { ok: false, message: `names "${name}" twice; give each muscle's side once` };
-    sides[name] = side;
+  const pieces = text.split(';').map((piece) => piece.trim()).filter((part) => part !== '');
+  const problem = putNamedSides(pieces, sides, { spaces: true });
+  if (problem?.kind === 'not_a_side') {
+    return { ok: false, message: `"${problem.piece}" is not a side: give NAME=left or NAME=right, several separated by ";" (e.g. lat_gastroc=left;vastus_lat=right)` };
   }
+  if (problem?.kind === 'twice') return { ok: false, message: `names "${problem.name}" twice; give each muscle's side once` };
   return { ok: true, sides };
 }
 

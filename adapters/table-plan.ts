@@ -8,13 +8,16 @@
  */
 import {
   DEG_PER,
+  MAPPED_FIELDS,
   MM_PER,
+  RECORD_KEY,
   S_PER,
   type AngleUnit,
   type DecimalMark,
   type Delimiter,
   type DeviceMapping,
   type LengthUnit,
+  type MappedField,
   type TableSettings,
   type TimeUnit,
 } from './device-mapping.ts';
@@ -23,22 +26,12 @@ import type { LayoutQuery, TableLayout } from './table-layout.ts';
 export type TableLayoutKind = 'long' | 'wide' | 'events';
 export type TableRole = 'trial' | 'events';
 
-/** Our fields a table's columns may hold. */
-export const TABLE_FIELDS = ['t', 'muscle', 'fascicle', 'pennation', 'quality', 'activation', 'event', 'side', 'marker'] as const;
-export type TableField = (typeof TABLE_FIELDS)[number];
+/** Our fields a table's columns may hold: those a mapping may rename. */
+export const TABLE_FIELDS = MAPPED_FIELDS;
+export type TableField = MappedField;
 
-/** Our CSV column for each field: the name a column has when no mapping renames it. */
-export const OWN_COLUMN: Readonly<Record<TableField, string>> = {
-  t: 'time_s',
-  muscle: 'muscle',
-  fascicle: 'fascicle_mm',
-  pennation: 'pennation_deg',
-  quality: 'quality',
-  activation: 'activation',
-  event: 'event',
-  side: 'side',
-  marker: 'marker',
-};
+/** Our CSV column for each field (the name a column has when no mapping renames it): the record's own key, but for time. */
+export const OWN_COLUMN: Readonly<Record<TableField, string>> = { ...RECORD_KEY, t: 'time_s' };
 
 const REQUIRED: Readonly<Record<TableLayoutKind, readonly TableField[]>> = {
   long: ['t', 'muscle', 'fascicle'],
@@ -131,6 +124,12 @@ function columnsOf(kind: TableLayoutKind, given: Partial<Record<TableField, stri
   return columns;
 }
 
+/** Where a column's name comes from, as messages say it: the mapping key that names it, or ours (and, in an events file, the key that would rename it). */
+function columnFrom(kind: TableLayoutKind, field: TableField, given: boolean): string {
+  if (kind !== 'events') return given ? `fields.${field}` : 'our own column';
+  return given ? `events.fields.${field}` : `our own column; a mapping's events.fields.${field} names yours`;
+}
+
 /** The columns that find the header row (those the reading cannot do without, and those the mapping names) and those that hold numbers. */
 export function layoutQuery(reading: TableReading): LayoutQuery {
   const identify: { name: string; from: string }[] = [];
@@ -138,7 +137,7 @@ export function layoutQuery(reading: TableReading): LayoutQuery {
   for (const f of TABLE_FIELDS) {
     const c = reading.columns[f];
     if (c === undefined) continue;
-    if (c.given || REQUIRED[reading.kind].includes(f)) identify.push({ name: c.name, from: c.given ? `fields.${f}` : 'our own column' });
+    if (c.given || REQUIRED[reading.kind].includes(f)) identify.push({ name: c.name, from: columnFrom(reading.kind, f, c.given) });
     if (NUMERIC.has(f)) numeric.push(c.name);
   }
   for (const m of reading.wide) {

@@ -24,6 +24,11 @@ function at(bounds: Int32Array, n: number, column: number): number {
   return column >= 0 && column < n ? (bounds[column] as number) : 0;
 }
 
+/** Whether the current row has a cell in `column` that is not empty. */
+function filled(starts: Int32Array, ends: Int32Array, n: number, column: number): boolean {
+  return at(ends, n, column) > at(starts, n, column);
+}
+
 /** The quick readings for one table file, or none where its plan has no fast path. */
 export class QuickRows {
   /** A long table whose words are ours (no word mapping): the per-sample fast path applies. */
@@ -37,6 +42,10 @@ export class QuickRows {
   private readonly cellCount: number;
   /** Where numbers are read into (no number object per cell). */
   private readonly num = new Float64Array(1);
+  /** The current row's time (s), once read (see time). */
+  private readonly timeS = new Float64Array(1);
+  /** The current sample's fascicle length (mm), pennation (degrees) and quality, once read (see sampleValues). */
+  private readonly values = new Float64Array(3);
   /** Cell boundaries of the current row: cell i is [starts[i], ends[i]). */
   private readonly starts: Int32Array;
   private readonly ends: Int32Array;
@@ -100,99 +109,89 @@ export class QuickRows {
   longText(text: string, line: number): Frame | null {
     if (text.indexOf('"') >= 0) return null;
     const n = this.splitText(text);
-    if (n < 0) return null;
-    const { starts, ends, num, plan, point } = this;
-    const index = plan.index;
-    const tCol = index.t;
-    if (!readPlainDecimal(text, at(starts, n, tCol), at(ends, n, tCol), num, point)) return null;
-    const tS = (num[0] as number) * plan.timeScale + plan.timeOffsetS;
-    if (tS - tS !== 0) return null;
-    const mCol = index.muscle;
-    const fCol = index.fascicle;
-    const pCol = index.pennation;
-    const qCol = index.quality;
-    const evCol = index.event;
-    const mStart = at(starts, n, mCol);
-    const mEnd = at(ends, n, mCol);
-    if (at(ends, n, index.marker) > at(starts, n, index.marker)) return null;
-    if (evCol >= 0 && at(ends, n, evCol) > at(starts, n, evCol)) {
-      if (mEnd > mStart || at(ends, n, fCol) > at(starts, n, fCol) || at(ends, n, pCol) > at(starts, n, pCol) || at(ends, n, qCol) > at(starts, n, qCol)) return null;
-      const event = EVENTS.inText(text, at(starts, n, evCol), at(ends, n, evCol));
-      const side = SIDE_WORDS.inText(text, at(starts, n, index.side), at(ends, n, index.side));
-      if (event === null || side === null) return null;
-      return { kind: 'event', tS, event, side, line };
-    }
-    if (mEnd <= mStart) return null;
-    const m0 = text.charCodeAt(mStart);
-    const m1 = text.charCodeAt(mEnd - 1);
-    if (m0 <= 32 || m1 <= 32 || m0 === 0xa0 || m1 === 0xa0 || m0 >= 0x1680 || m1 >= 0x1680) return null;
-    const sideCol = index.side;
-    if (sideCol >= 0 && at(ends, n, sideCol) > at(starts, n, sideCol)) return null;
-    if (!readPlainDecimal(text, at(starts, n, fCol), at(ends, n, fCol), num, point)) return null;
-    const fascicleMm = (num[0] as number) * plan.lengthScale;
-    if (!(fascicleMm > 0) || fascicleMm === Infinity) return null;
-    let pennationDeg = Number.NaN;
-    if (at(ends, n, pCol) > at(starts, n, pCol)) {
-      if (!readPlainDecimal(text, at(starts, n, pCol), at(ends, n, pCol), num, point)) return null;
-      pennationDeg = (num[0] as number) * plan.angleScale;
-      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
-    }
-    let quality = 1;
-    if (at(ends, n, qCol) > at(starts, n, qCol)) {
-      if (!readPlainDecimal(text, at(starts, n, qCol), at(ends, n, qCol), num, point)) return null;
-      quality = num[0] as number;
-      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
-    }
-    return makeSample(tS, this.names.inText(text, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
+    return n < 0 ? null : this.longRow(text, n, line);
   }
 
   /** longText on the row's bytes b[s, e): the same frame, or null to read its text. */
   longBytes(b: Buffer, s: number, e: number, line: number): Frame | null {
     const n = this.splitBytes(b, s, e);
-    if (n < 0) return null;
-    const { starts, ends, num, plan, point } = this;
+    return n < 0 ? null : this.longRow(b, n, line);
+  }
+
+  /** A number cell of the current row, from its text or its bytes, into num[0]: false when it is not a plain decimal. */
+  private decimal(row: string | Buffer, n: number, column: number): boolean {
+    const { starts, ends, num, point } = this;
+    return typeof row === 'string'
+      ? readPlainDecimal(row, at(starts, n, column), at(ends, n, column), num, point)
+      : readPlainDecimalBytes(row, at(starts, n, column), at(ends, n, column), num, point);
+  }
+
+  /** The row's time cell in seconds into timeS[0]: false when it is not a plain decimal or not finite once converted. */
+  private time(row: string | Buffer, n: number): boolean {
+    const plan = this.plan;
+    if (!this.decimal(row, n, plan.index.t)) return false;
+    const tS = (this.num[0] as number) * plan.timeScale + plan.timeOffsetS;
+    this.timeS[0] = tS;
+    return tS - tS === 0;
+  }
+
+  /**
+   * A sample's cells (fascicle length, then pennation and quality when their cells are filled) into
+   * `values` in our units (pennation NaN and quality 1 where their cells are empty): false when a cell is
+   * not a plain decimal or its value is not a valid sample's.
+   */
+  private sampleValues(row: string | Buffer, n: number, fascicle: number, pennation: number, quality: number): boolean {
+    const { starts, ends, num, plan, values } = this;
+    if (!this.decimal(row, n, fascicle)) return false;
+    const fascicleMm = (num[0] as number) * plan.lengthScale;
+    if (!(fascicleMm > 0) || fascicleMm === Infinity) return false;
+    values[0] = fascicleMm;
+    values[1] = Number.NaN;
+    if (filled(starts, ends, n, pennation)) {
+      if (!this.decimal(row, n, pennation)) return false;
+      const pennationDeg = (num[0] as number) * plan.angleScale;
+      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return false;
+      values[1] = pennationDeg;
+    }
+    values[2] = 1;
+    if (filled(starts, ends, n, quality)) {
+      if (!this.decimal(row, n, quality)) return false;
+      const q = num[0] as number;
+      if (!(q >= MIN_QUALITY && q <= MAX_QUALITY)) return false;
+      values[2] = q;
+    }
+    return true;
+  }
+
+  /** A long row of n cells, its text or its bytes (then all ASCII): the frame, or null to read it carefully. */
+  private longRow(row: string | Buffer, n: number, line: number): Frame | null {
+    const { starts, ends, plan, values } = this;
     const index = plan.index;
-    const tCol = index.t;
-    if (!readPlainDecimalBytes(b, at(starts, n, tCol), at(ends, n, tCol), num, point)) return null;
-    const tS = (num[0] as number) * plan.timeScale + plan.timeOffsetS;
-    if (tS - tS !== 0) return null;
-    const mCol = index.muscle;
-    const fCol = index.fascicle;
-    const pCol = index.pennation;
-    const qCol = index.quality;
-    const evCol = index.event;
-    const mStart = at(starts, n, mCol);
-    const mEnd = at(ends, n, mCol);
-    if (at(ends, n, index.marker) > at(starts, n, index.marker)) return null;
-    if (evCol >= 0 && at(ends, n, evCol) > at(starts, n, evCol)) {
-      if (mEnd > mStart || at(ends, n, fCol) > at(starts, n, fCol) || at(ends, n, pCol) > at(starts, n, pCol) || at(ends, n, qCol) > at(starts, n, qCol)) return null;
-      const event = EVENTS.inBytes(b, at(starts, n, evCol), at(ends, n, evCol));
-      const side = SIDE_WORDS.inBytes(b, at(starts, n, index.side), at(ends, n, index.side));
+    if (!this.time(row, n)) return null;
+    const tS = this.timeS[0] as number;
+    const mStart = at(starts, n, index.muscle);
+    const mEnd = at(ends, n, index.muscle);
+    if (filled(starts, ends, n, index.marker)) return null;
+    if (filled(starts, ends, n, index.event)) {
+      if (mEnd > mStart || filled(starts, ends, n, index.fascicle) || filled(starts, ends, n, index.pennation) || filled(starts, ends, n, index.quality)) return null;
+      const evStart = at(starts, n, index.event);
+      const evEnd = at(ends, n, index.event);
+      const sideStart = at(starts, n, index.side);
+      const sideEnd = at(ends, n, index.side);
+      const event = typeof row === 'string' ? EVENTS.inText(row, evStart, evEnd) : EVENTS.inBytes(row, evStart, evEnd);
+      const side = typeof row === 'string' ? SIDE_WORDS.inText(row, sideStart, sideEnd) : SIDE_WORDS.inBytes(row, sideStart, sideEnd);
       if (event === null || side === null) return null;
       return { kind: 'event', tS, event, side, line };
     }
     if (mEnd <= mStart) return null;
-    const m0 = b[mStart] as number;
-    const m1 = b[mEnd - 1] as number;
-    if (m0 <= 32 || m1 <= 32) return null;
-    const sideCol = index.side;
-    if (sideCol >= 0 && at(ends, n, sideCol) > at(starts, n, sideCol)) return null;
-    if (!readPlainDecimalBytes(b, at(starts, n, fCol), at(ends, n, fCol), num, point)) return null;
-    const fascicleMm = (num[0] as number) * plan.lengthScale;
-    if (!(fascicleMm > 0) || fascicleMm === Infinity) return null;
-    let pennationDeg = Number.NaN;
-    if (at(ends, n, pCol) > at(starts, n, pCol)) {
-      if (!readPlainDecimalBytes(b, at(starts, n, pCol), at(ends, n, pCol), num, point)) return null;
-      pennationDeg = (num[0] as number) * plan.angleScale;
-      if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return null;
-    }
-    let quality = 1;
-    if (at(ends, n, qCol) > at(starts, n, qCol)) {
-      if (!readPlainDecimalBytes(b, at(starts, n, qCol), at(ends, n, qCol), num, point)) return null;
-      quality = num[0] as number;
-      if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return null;
-    }
-    return makeSample(tS, this.names.inAsciiBytes(b, mStart, mEnd), fascicleMm, pennationDeg, quality, line);
+    // A name with spaces around it is read carefully (bytes are all ASCII here, so only the first test can hold for them).
+    const m0 = typeof row === 'string' ? row.charCodeAt(mStart) : (row[mStart] as number);
+    const m1 = typeof row === 'string' ? row.charCodeAt(mEnd - 1) : (row[mEnd - 1] as number);
+    if (m0 <= 32 || m1 <= 32 || m0 === 0xa0 || m1 === 0xa0 || m0 >= 0x1680 || m1 >= 0x1680) return null;
+    if (filled(starts, ends, n, index.side)) return null;
+    if (!this.sampleValues(row, n, index.fascicle, index.pennation, index.quality)) return null;
+    const muscle = typeof row === 'string' ? this.names.inText(row, mStart, mEnd) : this.names.inAsciiBytes(row, mStart, mEnd);
+    return makeSample(tS, muscle, values[0] as number, values[1] as number, values[2] as number, line);
   }
 
   /**
@@ -202,40 +201,18 @@ export class QuickRows {
   wideBytes(b: Buffer, s: number, e: number, line: number, out: Frame[]): boolean {
     const n = this.splitBytes(b, s, e);
     if (n < 0) return false;
-    const { starts, ends, num, plan, point, pending } = this;
+    const { starts, ends, plan, pending, values } = this;
     const index = plan.index;
-    if (at(ends, n, index.event) > at(starts, n, index.event) || at(ends, n, index.marker) > at(starts, n, index.marker)) return false;
-    const tCol = index.t;
-    if (!readPlainDecimalBytes(b, at(starts, n, tCol), at(ends, n, tCol), num, point)) return false;
-    const tS = (num[0] as number) * plan.timeScale + plan.timeOffsetS;
-    if (tS - tS !== 0) return false;
+    if (filled(starts, ends, n, index.event) || filled(starts, ends, n, index.marker)) return false;
+    if (!this.time(b, n)) return false;
+    const tS = this.timeS[0] as number;
     pending.length = 0;
     const muscles = plan.wide;
     for (let k = 0; k < muscles.length; k++) {
       const m = muscles[k] as (typeof muscles)[number];
-      const fStart = at(starts, n, m.fascicle);
-      const fEnd = at(ends, n, m.fascicle);
-      if (fEnd <= fStart) continue;
-      if (!readPlainDecimalBytes(b, fStart, fEnd, num, point)) return false;
-      const fascicleMm = (num[0] as number) * plan.lengthScale;
-      if (!(fascicleMm > 0) || fascicleMm === Infinity) return false;
-      let pennationDeg = Number.NaN;
-      const pStart = at(starts, n, m.pennation);
-      const pEnd = at(ends, n, m.pennation);
-      if (pEnd > pStart) {
-        if (!readPlainDecimalBytes(b, pStart, pEnd, num, point)) return false;
-        pennationDeg = (num[0] as number) * plan.angleScale;
-        if (!(pennationDeg >= MIN_PENNATION_DEG && pennationDeg <= MAX_PENNATION_DEG)) return false;
-      }
-      let quality = 1;
-      const qStart = at(starts, n, m.quality);
-      const qEnd = at(ends, n, m.quality);
-      if (qEnd > qStart) {
-        if (!readPlainDecimalBytes(b, qStart, qEnd, num, point)) return false;
-        quality = num[0] as number;
-        if (!(quality >= MIN_QUALITY && quality <= MAX_QUALITY)) return false;
-      }
-      pending.push(makeSample(tS, m.muscle, fascicleMm, pennationDeg, quality, line));
+      if (!filled(starts, ends, n, m.fascicle)) continue;
+      if (!this.sampleValues(b, n, m.fascicle, m.pennation, m.quality)) return false;
+      pending.push(makeSample(tS, m.muscle, values[0] as number, values[1] as number, values[2] as number, line));
     }
     for (let k = 0; k < pending.length; k++) out.push(pending[k] as Frame);
     return true;

@@ -6,6 +6,7 @@
  * and marker; an events row one event or marker.
  */
 import { makeSample, type Frame, type GaitEventName, type Side } from '../src/trial/records.ts';
+import { RECORD_KEY } from './device-mapping.ts';
 import type { NameTable } from './lexing.ts';
 import { markerFrame } from './old-link-marker.ts';
 import { FIELD_RULE, makeRejection, MAX_ACTIVATION, MAX_PENNATION_DEG, MAX_QUALITY, MIN_ACTIVATION, MIN_PENNATION_DEG, MIN_QUALITY } from './parse-record.ts';
@@ -18,8 +19,6 @@ export interface RowContext {
   readonly plan: TablePlan;
   readonly names: NameTable;
 }
-
-const OUR_KEY: Readonly<Partial<Record<TableField, string>>> = { t: 't', fascicle: 'fascicle_mm', pennation: 'pennation_deg', quality: 'quality', activation: 'activation', event: 'event', side: 'side' };
 
 /** How a column is named in messages: our own columns bare (as the README names them), others quoted. */
 function label(plan: TablePlan, field: TableField): string {
@@ -49,8 +48,8 @@ export function cellProblem(text: string, plan: TablePlan): string {
 }
 
 function rule(plan: TablePlan, field: TableField): string {
-  const key = OUR_KEY[field];
-  if (plan.own && key !== undefined) return FIELD_RULE[key] ?? '';
+  const key = RECORD_KEY[field];
+  if (plan.own) return FIELD_RULE[key] ?? '';
   switch (field) {
     case 't':
       return `must be a finite number (${plan.units.time} on the device clock)`;
@@ -59,7 +58,7 @@ function rule(plan: TablePlan, field: TableField): string {
     case 'pennation':
       return `must be a number from ${MIN_PENNATION_DEG} to ${MAX_PENNATION_DEG} degrees once converted from ${plan.units.angle}, or left empty`;
     default:
-      return key !== undefined ? (FIELD_RULE[key] ?? '') : '';
+      return FIELD_RULE[key] ?? '';
   }
 }
 

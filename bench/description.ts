@@ -17,7 +17,8 @@ import { scenarioSpec } from '../src/sim/scenarios.ts';
 import { formatNumber } from '../src/sim/format-number.ts';
 import { isWireEvent, isWireSample } from '../src/sim/wire.ts';
 import { median } from '../src/model/stats.ts';
-import { DEFAULT_BIN, PEAK_RSS_PRELOAD, peakMb, startWithPeakRss } from './peak-rss.ts';
+import { startWithPeakRss, writePeakRssPreload } from './peak-rss.ts';
+import { BIN } from './fresh-process.ts';
 
 /** The second probe's clock runs this far ahead of the first's (s). */
 const THIGH_AHEAD_S = 412.35;
@@ -127,14 +128,11 @@ async function writeTrial(dir: string, hours: number): Promise<Written> {
 }
 
 async function replayRun(bin: string, dir: string, name: string, args: readonly string[]): Promise<DescriptionRun> {
-  const rssFile = join(dir, `${name}.rss`);
-  const t0 = performance.now();
-  const run = startWithPeakRss(bin, join(dir, 'peak-rss.mjs'), rssFile, ['replay', ...args, '--speed', 'max', '--plain']);
-  const exitCode = await run.exited;
-  const ms = performance.now() - t0;
+  const run = startWithPeakRss(bin, dir, name, ['replay', ...args, '--speed', 'max', '--plain']);
+  const { exitCode, ms, peakRssMb } = await run.ended;
   // The end-of-trial report's muscle lines: "calf (left): 78 500 strides, SL …".
   const muscles = run.stdout.split('\n').filter((l) => /^\S+ \((left|right|side unknown)\): \d+ strides/.test(l));
-  return { peakRssMb: await peakMb(rssFile), ms, exitCode, muscles };
+  return { peakRssMb, ms, exitCode, muscles };
 }
 
 /**
@@ -142,8 +140,8 @@ async function replayRun(bin: string, dir: string, name: string, args: readonly 
  * comes at the end of a long trial, when its strides are made into figures at once, and moves by some
  * 100 MB from run to run with the collector's timing: the medians are read.
  */
-export async function measureDescription(dir: string, hoursList: readonly number[], runs: number, bin = DEFAULT_BIN): Promise<DescriptionMemoryResult[]> {
-  await writeFile(join(dir, 'peak-rss.mjs'), PEAK_RSS_PRELOAD);
+export async function measureDescription(dir: string, hoursList: readonly number[], runs: number, bin = BIN): Promise<DescriptionMemoryResult[]> {
+  await writePeakRssPreload(dir);
   const results: DescriptionMemoryResult[] = [];
   for (const hours of hoursList) {
     const w = await writeTrial(dir, hours);

@@ -11,10 +11,11 @@
  * `--bin PATH` measures another build of the command (an older one, for before/after figures).
  */
 import { createWriteStream } from 'node:fs';
-import { readFile, rm, stat, writeFile } from 'node:fs/promises';
+import { readFile, rm, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import { WebSocket } from 'ws';
-import { DEFAULT_BIN, PEAK_RSS_PRELOAD, peakMb, startWithPeakRss as start } from './peak-rss.ts';
+import { startWithPeakRss as start, writePeakRssPreload } from './peak-rss.ts';
+import { BIN } from './fresh-process.ts';
 
 export interface FloodResult {
   readonly name: string;
@@ -72,14 +73,11 @@ async function replayFlood(bin: string, dir: string, name: string, what: string,
   const input = join(dir, `${name}.ndjson`);
   const inputBytes = await writeLines(input, lines);
   const summaryPath = join(dir, `${name}.summary.json`);
-  const rssFile = join(dir, `${name}.rss`);
-  const t0 = performance.now();
-  const run = start(bin, join(dir, 'peak-rss.mjs'), rssFile, ['replay', input, '--speed', 'max', '--plain', '--summary', summaryPath]);
-  const code = await run.exited;
-  const ms = performance.now() - t0;
-  const { outcome, bytes } = await outcomeOf(summaryPath, code, run.stderr);
+  const run = start(bin, dir, name, ['replay', input, '--speed', 'max', '--plain', '--summary', summaryPath]);
+  const { exitCode, ms, peakRssMb } = await run.ended;
+  const { outcome, bytes } = await outcomeOf(summaryPath, exitCode, run.stderr);
   await rm(input, { force: true });
-  return { name, what, inputBytes, exitCode: code, peakRssMb: await peakMb(rssFile), ms, summaryBytes: bytes, outcome };
+  return { name, what, inputBytes, exitCode, peakRssMb, ms, summaryBytes: bytes, outcome };
 }
 
 function until(check: () => boolean, timeoutMs: number, what: string): Promise<void> {
@@ -106,9 +104,7 @@ async function send(ws: WebSocket, texts: Iterable<string>): Promise<number> {
 async function liveFlood(bin: string, dir: string, name: string, what: string, messages: () => Iterable<string>): Promise<FloodResult> {
   const log = join(dir, `${name}.log.ndjson`);
   const summaryPath = join(dir, `${name}.summary.json`);
-  const rssFile = join(dir, `${name}.rss`);
-  const t0 = performance.now();
-  const run = start(bin, join(dir, 'peak-rss.mjs'), rssFile, ['live', '--listen', '127.0.0.1:0', '--plain', '--log', log, '--summary', summaryPath]);
+  const run = start(bin, dir, name, ['live', '--listen', '127.0.0.1:0', '--plain', '--log', log, '--summary', summaryPath]);
   await until(() => /listening on ws:\/\/127\.0\.0\.1:\d+/.test(run.stderr), 30_000, 'the session to listen');
   const port = /listening on ws:\/\/127\.0\.0\.1:(\d+)/.exec(run.stderr)?.[1];
   const ws = new WebSocket(`ws://127.0.0.1:${port}`);
@@ -120,12 +116,11 @@ async function liveFlood(bin: string, dir: string, name: string, what: string, m
   ws.close();
   await until(() => /DISCONNECTED/.test(run.stderr), 600_000, 'the session to take every message');
   run.kill('SIGTERM');
-  const code = await run.exited;
-  const ms = performance.now() - t0;
-  const { outcome, bytes } = await outcomeOf(summaryPath, code, run.stderr);
+  const { exitCode, ms, peakRssMb } = await run.ended;
+  const { outcome, bytes } = await outcomeOf(summaryPath, exitCode, run.stderr);
   const logBytes = await stat(log).then((s) => s.size, () => 0);
   await rm(log, { force: true });
-  return { name, what, inputBytes, exitCode: code, peakRssMb: await peakMb(rssFile), ms, logBytes, summaryBytes: bytes, outcome };
+  return { name, what, inputBytes, exitCode, peakRssMb, ms, logBytes, summaryBytes: bytes, outcome };
 }
 
 function* badArrayAndTinyMessages(tiny: number): Iterable<string> {
@@ -148,8 +143,8 @@ export interface FloodOptions {
 
 /** Every flood in turn, each in a fresh process. */
 export async function measureFloods(dir: string, options: FloodOptions): Promise<FloodResult[]> {
-  const bin = options.bin ?? DEFAULT_BIN;
-  await writeFile(join(dir, 'peak-rss.mjs'), PEAK_RSS_PRELOAD);
+  const bin = options.bin ?? BIN;
+  await writePeakRssPreload(dir);
   const duplicates = options.quick ? 300_000 : 1_500_000;
   const results: FloodResult[] = [];
   results.push(await replayFlood(bin, dir, 'names', 'replay: a new muscle name for every one of 10 000 samples', manyNames(10_000)));

@@ -75,6 +75,11 @@ export function benchCalibration(spec: TrialSpec): CalibrationSpec {
   return parsed.spec;
 }
 
+/** Each muscle's true sarcomeres in series, by name: what the plain loop is given for the calibration. */
+export function benchSarcomeres(spec: TrialSpec): Record<string, number> {
+  return Object.fromEntries(spec.muscles.map((m) => [m.name, m.sarcomeresInSeries]));
+}
+
 /** Writes one bench trial into `dir`; throws when the file cannot be written. */
 export async function writeBenchTrial(dir: string, format: BenchFormat, options: BenchTrialOptions): Promise<BenchTrial> {
   const spec = benchSpec(options);

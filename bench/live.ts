@@ -9,11 +9,10 @@
  * thread (as the commands run it) writing a file in place of the terminal; and what the screen of an
  * ended trial costs while it stays up.
  */
-import { execFile } from 'node:child_process';
 import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { register } from 'tsx/esm/api';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { tap } from 'rxjs';
@@ -22,6 +21,7 @@ import { runTrial } from '../src/run/run-trial.ts';
 import { median, quantile } from '../src/model/stats.ts';
 import { createPrng } from '../src/sim/prng.ts';
 import { BEGIN_SYNC, FakeStdin, FakeStdout } from './fake-terminal.ts';
+import { benchScript } from './fresh-process.ts';
 import type { DashboardHandle, DashboardOptions } from '../src/dashboard/thread/dashboard-options.ts';
 
 /** Where the dashboard is drawn: nowhere, on the main thread, or on a thread of its own. */
@@ -87,8 +87,6 @@ interface SessionOptions {
    */
   readonly warmupS: number;
 }
-
-const here = dirname(fileURLToPath(import.meta.url));
 
 /** When a message's device time first showed on the receiving side, and its pipeline time (0 where none). */
 type Seen = ReadonlyMap<number, { readonly ns: bigint; readonly pipelineNs: bigint }>;
@@ -160,26 +158,9 @@ async function bareSession(options: SessionOptions): Promise<LatencyFigures> {
 }
 
 /** Runs the simulated device against a server on `port` until it has sent its stream. */
-function sendFromDevice(port: number, options: SessionOptions): Promise<{ samples: number; sends: [number, string][] }> {
-  return new Promise((resolve, reject) => {
-    execFile(
-      process.execPath,
-      [
-        join(here, '../bin/run-ts.js'),
-        join(here, 'live-sender.ts'),
-        `ws://127.0.0.1:${port}`,
-        String(options.rateHz),
-        String(options.muscles),
-        String(options.durationS),
-        String(options.messageMs),
-      ],
-      { maxBuffer: 64 * 1024 * 1024 },
-      (error, stdoutText) => {
-        if (error !== null) reject(error);
-        else resolve(JSON.parse(stdoutText.trim().split('\n').pop() ?? '{}') as { samples: number; sends: [number, string][] });
-      },
-    );
-  });
+async function sendFromDevice(port: number, options: SessionOptions): Promise<{ samples: number; sends: [number, string][] }> {
+  const args = [`ws://127.0.0.1:${port}`, String(options.rateHz), String(options.muscles), String(options.durationS), String(options.messageMs)];
+  return (await benchScript<{ samples: number; sends: [number, string][] }>('live-sender.ts', args)).result;
 }
 
 /** The tool's own server feeding runTrial, noting when each device time first shows in the state. */

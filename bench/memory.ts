@@ -2,13 +2,11 @@
  * Memory over a long replay: the trial is generated and streamed to a file (never built in memory),
  * then replayed by the tool in a fresh process (bench/memory-child.ts) that measures RSS and heap.
  */
-import { execFile } from 'node:child_process';
 import { writeFile, rm } from 'node:fs/promises';
-import { join, dirname } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { promisify } from 'node:util';
+import { join } from 'node:path';
 import { calibrationJson } from '../src/sim/gait-generator.ts';
 import { writeBenchTrial } from './generate.ts';
+import { benchScript } from './fresh-process.ts';
 import type { MemoryPoint } from './memory-child.ts';
 
 export interface MemoryResult {
@@ -28,26 +26,13 @@ export interface MemoryResult {
   readonly heapGrowthMb: number;
 }
 
-const run = promisify(execFile);
-
 export async function measureMemory(dir: string, samples: number): Promise<MemoryResult> {
   const trial = await writeBenchTrial(dir, 'csv', { samples });
   const calibrationPath = join(dir, 'memory-calibration.json');
   await writeFile(calibrationPath, JSON.stringify(calibrationJson(trial.spec)));
-  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
   try {
-    const { stdout } = await run(
-      process.execPath,
-      ['--expose-gc', join(root, 'bin/run-ts.js'), join(root, 'bench/memory-child.ts'), trial.path, calibrationPath, String(Math.max(1, Math.round(samples / 10)))],
-      { maxBuffer: 16 * 1024 * 1024 },
-    );
-    const r = JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as {
-      samples: number;
-      strides: number;
-      ms: number;
-      peakRssMb: number;
-      points: MemoryPoint[];
-    };
+    const args = [trial.path, calibrationPath, String(Math.max(1, Math.round(samples / 10)))];
+    const { result: r } = await benchScript<{ samples: number; strides: number; ms: number; peakRssMb: number; points: MemoryPoint[] }>('memory-child.ts', args, ['--expose-gc']);
     const first = r.points[1] ?? r.points[0];
     const last = r.points[r.points.length - 1];
     const start = r.points[0];

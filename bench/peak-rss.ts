@@ -3,37 +3,52 @@
  * a small preload, written beside the inputs, writes it at exit into the file the environment names.
  */
 import { spawn } from 'node:child_process';
-import { readFile } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { readFile, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 
-const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
-export const DEFAULT_BIN = join(ROOT, 'bin', 'lengthwise.js');
+const PRELOAD = 'peak-rss.mjs';
 
-/** The preload's source: write it to a .mjs file and give that file to startWithPeakRss. */
-export const PEAK_RSS_PRELOAD = `import { writeFileSync } from 'node:fs';
+/** The preload's source. */
+const PEAK_RSS_PRELOAD = `import { writeFileSync } from 'node:fs';
 process.on('exit', () => {
   const file = process.env.LENGTHWISE_PEAK_RSS_FILE;
   if (file) writeFileSync(file, String(process.resourceUsage().maxRSS));
 });
 `;
 
+export interface Ended {
+  readonly exitCode: number | null;
+  /** Wall time from the start to the exit, ms. */
+  readonly ms: number;
+  /** The process's peak RSS, MB; NaN when the preload wrote none. */
+  readonly peakRssMb: number;
+}
+
 export interface Started {
-  readonly exited: Promise<number | null>;
+  readonly ended: Promise<Ended>;
   /** The end of what it wrote on standard output and standard error (the last 20 000 characters of each). */
   stdout: string;
   stderr: string;
   readonly kill: (signal: NodeJS.Signals) => void;
 }
 
-/** Starts `bin` with `args`, the preload at `preload` writing its peak RSS into `rssFile`. */
-export function startWithPeakRss(bin: string, preload: string, rssFile: string, args: readonly string[]): Started {
-  const child = spawn(process.execPath, ['--import', pathToFileURL(preload).href, bin, ...args], {
+/** Writes the preload into `dir`, where startWithPeakRss finds it: once, before the runs. */
+export function writePeakRssPreload(dir: string): Promise<void> {
+  return writeFile(join(dir, PRELOAD), PEAK_RSS_PRELOAD);
+}
+
+/** Starts `bin` with `args`, the preload in `dir` writing its peak RSS into `dir`/`name`.rss. */
+export function startWithPeakRss(bin: string, dir: string, name: string, args: readonly string[]): Started {
+  const rssFile = join(dir, `${name}.rss`);
+  const t0 = performance.now();
+  const child = spawn(process.execPath, ['--import', pathToFileURL(join(dir, PRELOAD)).href, bin, ...args], {
     stdio: ['ignore', 'pipe', 'pipe'],
     env: { ...process.env, NO_COLOR: '1', LENGTHWISE_PEAK_RSS_FILE: rssFile },
   });
+  const exited = new Promise<number | null>((resolve) => child.on('close', (code) => resolve(code)));
   const s: Started = {
-    exited: new Promise((resolve) => child.on('close', (code) => resolve(code))),
+    ended: exited.then(async (exitCode) => ({ exitCode, ms: performance.now() - t0, peakRssMb: await peakMb(rssFile) })),
     stdout: '',
     stderr: '',
     kill: (signal) => child.kill(signal),
@@ -49,7 +64,7 @@ export function startWithPeakRss(bin: string, preload: string, rssFile: string, 
 }
 
 /** The peak RSS the preload wrote, MB; NaN when it wrote none. */
-export async function peakMb(rssFile: string): Promise<number> {
+async function peakMb(rssFile: string): Promise<number> {
   try {
     return Number(await readFile(rssFile, 'utf8')) / 1024;
   } catch {

@@ -12,18 +12,18 @@
  *   npm run bench -- --only floods --bin OLD/bin/lengthwise.js   # the floods against another build
  *   npm run bench -- --only live,screen --against DIR   # another checkout's dashboard measured beside this one's
  */
-import { execFile } from 'node:child_process';
 import { PerformanceObserver, constants, type PerformanceEntry } from 'node:perf_hooks';
-import { promisify } from 'node:util';
 import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir, cpus, loadavg } from 'node:os';
-import { join, dirname } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { writeBenchTrial, type BenchFormat, type BenchTrial } from './generate.ts';
+import { join } from 'node:path';
+import { benchSarcomeres, writeBenchTrial, type BenchFormat, type BenchTrial } from './generate.ts';
 import { runToolReplay } from './tool-replay.ts';
 import { plainLoop } from './plain-loop.ts';
 import { figureDifferences, figuresFromSummary, type BenchFigures } from './figures.ts';
 import { median } from '../src/model/stats.ts';
+import { benchArgs, wholeNumber } from './args.ts';
+import { benchScript, ROOT } from './fresh-process.ts';
+import { alternate, paired, perSecond, ratiosText, timeHere, type Paired } from './paired.ts';
 import { measureMemory, type MemoryResult } from './memory.ts';
 import { measureLive, type LiveResult } from './live.ts';
 import { measureCommand, measureStart, type CommandResult, type StartResult } from './command.ts';
@@ -32,20 +32,11 @@ import { floodLines, measureFloods } from './floods.ts';
 import { measureStudy, type StudyBenchResult } from './study.ts';
 import { descriptionLines, measureDescription } from './description.ts';
 
-export interface ReplayResult {
+/** Each pair's tool / plain loop in one process, by wall and by process CPU time (which other programs move less). */
+export interface ReplayResult extends Paired<'tool', 'loop'> {
   readonly format: BenchFormat;
   readonly samples: number;
   readonly bytes: number;
-  readonly toolMs: readonly number[];
-  readonly loopMs: readonly number[];
-  /** Each pair's tool ms / loop ms (wall time). */
-  readonly ratios: readonly number[];
-  readonly ratioMedian: number;
-  /** Process CPU time of each run, ms: less moved by other programs on a shared machine than wall time. */
-  readonly toolCpuMs: readonly number[];
-  readonly loopCpuMs: readonly number[];
-  readonly cpuRatios: readonly number[];
-  readonly cpuRatioMedian: number;
   /** Full (mark-compact) collections during the timed runs; many of them mean objects went to the old space. */
   readonly majorGcs: number;
   readonly toolSamplesPerS: number;
@@ -54,6 +45,8 @@ export interface ReplayResult {
   /** Where the tool's and the loop's figures differ; empty when they agree. */
   readonly differences: readonly string[];
 }
+
+const PARTS = ['replay', 'table', 'command', 'study', 'live', 'memory', 'screen', 'floods', 'description'];
 
 interface Args {
   readonly quick: boolean;
@@ -73,173 +66,120 @@ interface Args {
   readonly against: string | undefined;
   /** Lengths of the trial description's runs, hours. */
   readonly descriptionHours: readonly number[];
+  /** In a process of its own: one format's replay measurement (replayInChild), or the wide table's (tableInChild). */
+  readonly replayChild: BenchFormat | undefined;
+  readonly tableChild: boolean;
 }
 
 function parseArgs(argv: readonly string[]): Args {
-  const quick = argv.includes('--quick');
-  const value = (name: string): string | undefined => {
-    const i = argv.indexOf(name);
-    return i >= 0 ? argv[i + 1] : undefined;
-  };
-  const only = new Set((value('--only') ?? 'replay,table,command,study,live,memory,screen,floods,description').split(','));
+  const v = benchArgs('bench', argv, {
+    quick: { type: 'boolean' },
+    only: { type: 'string' },
+    samples: { type: 'string' },
+    pairs: { type: 'string' },
+    'memory-samples': { type: 'string' },
+    'command-pairs': { type: 'string' },
+    'start-pairs': { type: 'string' },
+    bin: { type: 'string' },
+    against: { type: 'string' },
+    'description-hours': { type: 'string' },
+    'replay-child': { type: 'string' },
+    'table-child': { type: 'boolean' },
+  });
+  const quick = v.quick === true;
+  const count = (name: 'samples' | 'pairs' | 'memory-samples' | 'command-pairs' | 'start-pairs', full: number, short: number): number =>
+    wholeNumber('bench', name, v[name], quick ? short : full);
+  const only = new Set((v.only ?? PARTS.join(',')).split(','));
   for (const part of only) {
-    if (!['replay', 'table', 'command', 'study', 'live', 'memory', 'screen', 'floods', 'description'].includes(part)) {
-      console.error(`bench: --only ${part}: accepted are replay, table, command, study, live, memory, screen, floods, description (comma-separated)`);
+    if (!PARTS.includes(part)) {
+      console.error(`bench: --only ${part}: accepted are ${PARTS.join(', ')} (comma-separated)`);
       process.exit(2);
     }
   }
   return {
     quick,
     only,
-    samples: Number(value('--samples') ?? (quick ? 200_000 : 1_000_000)),
-    pairs: Number(value('--pairs') ?? (quick ? 3 : 5)),
-    memorySamples: Number(value('--memory-samples') ?? (quick ? 1_000_000 : 10_000_000)),
-    commandPairs: Number(value('--command-pairs') ?? (quick ? 2 : 5)),
-    startPairs: Number(value('--start-pairs') ?? (quick ? 10 : 20)),
-    bin: value('--bin'),
+    samples: count('samples', 1_000_000, 200_000),
+    pairs: count('pairs', 5, 3),
+    memorySamples: count('memory-samples', 10_000_000, 1_000_000),
+    commandPairs: count('command-pairs', 5, 2),
+    startPairs: count('start-pairs', 20, 10),
+    bin: v.bin,
     screenFrames: quick ? 60 : 200,
-    against: value('--against'),
-    descriptionHours: (value('--description-hours') ?? (quick ? '0.25,1' : '1,24')).split(',').map(Number),
+    against: v.against,
+    descriptionHours: (v['description-hours'] ?? (quick ? '0.25,1' : '1,24')).split(',').map(Number),
+    replayChild: v['replay-child'] === undefined ? undefined : v['replay-child'] === 'csv' ? 'csv' : 'ndjson',
+    tableChild: v['table-child'] === true,
   };
-}
-
-function sarcomeresOf(trial: BenchTrial): Record<string, number> {
-  const n: Record<string, number> = {};
-  for (const m of trial.spec.muscles) n[m.name] = m.sarcomeresInSeries;
-  return n;
 }
 
 /** Alternating runs of the tool and the plain loop over one file, after one warm-up run of each. */
 export async function measureReplay(trial: BenchTrial, pairs: number): Promise<ReplayResult> {
-  const loopOptions = { format: trial.format, sarcomeresInSeries: sarcomeresOf(trial) };
+  const loopOptions = { format: trial.format, sarcomeresInSeries: benchSarcomeres(trial.spec) };
   // Warm-up: both paths compiled before anything is timed.
   const warm = await runToolReplay(trial.path, trial.calibration);
   const loopFigures = await plainLoop(trial.path, loopOptions);
   const figures = figuresFromSummary(warm.summary);
   const differences = figureDifferences(figures, loopFigures);
-  const toolMs: number[] = [];
-  const loopMs: number[] = [];
-  const ratios: number[] = [];
-  const toolCpuMs: number[] = [];
-  const loopCpuMs: number[] = [];
-  const cpuRatios: number[] = [];
   let majorGcs = 0;
   const observer = new PerformanceObserver((list) => {
     for (const entry of list.getEntries()) if ((entry as PerformanceEntry & { detail?: { kind?: number } }).detail?.kind === constants.NODE_PERFORMANCE_GC_MAJOR) majorGcs++;
   });
   observer.observe({ entryTypes: ['gc'] });
-  for (let i = 0; i < pairs; i++) {
-    let c0 = cpuMs();
-    const tool = await runToolReplay(trial.path, trial.calibration);
-    const toolCpu = cpuMs() - c0;
-    c0 = cpuMs();
-    const t0 = performance.now();
-    await plainLoop(trial.path, loopOptions);
-    const loop = performance.now() - t0;
-    const loopCpu = cpuMs() - c0;
-    toolMs.push(tool.ms);
-    loopMs.push(loop);
-    ratios.push(tool.ms / loop);
-    toolCpuMs.push(toolCpu);
-    loopCpuMs.push(loopCpu);
-    cpuRatios.push(toolCpu / loopCpu);
-  }
+  const runs = await alternate(
+    pairs,
+    () => timeHere(() => runToolReplay(trial.path, trial.calibration)),
+    () => timeHere(() => plainLoop(trial.path, loopOptions)),
+  );
   // Entries are delivered asynchronously: give them a turn before counting.
   await new Promise((resolve) => setTimeout(resolve, 50));
   observer.disconnect();
+  const times = paired('tool', runs.a, 'loop', runs.b);
   return {
     format: trial.format,
     samples: trial.samples,
     bytes: trial.bytes,
-    toolMs,
-    loopMs,
-    ratios,
-    ratioMedian: median(ratios),
-    toolCpuMs,
-    loopCpuMs,
-    cpuRatios,
-    cpuRatioMedian: median(cpuRatios),
+    ...times,
     majorGcs,
-    toolSamplesPerS: trial.samples / (median(toolMs) / 1000),
-    loopSamplesPerS: trial.samples / (median(loopMs) / 1000),
+    toolSamplesPerS: perSecond(trial.samples, times.toolMs),
+    loopSamplesPerS: perSecond(trial.samples, times.loopMs),
     figures,
     differences,
   };
 }
 
-const execFileAsync = promisify(execFile);
-
 /**
- * One format's replay measurement in a fresh process (bench/run.ts --replay-child FORMAT SAMPLES PAIRS),
- * so that what one format's run leaves in the JIT and the heap does not move the other's figures.
+ * One format's replay measurement in a fresh process (bench/run.ts --replay-child FORMAT), so that what
+ * one format's run leaves in the JIT and the heap does not move the other's figures. Without
+ * allocation-site pretenuring: alternating the tool and the plain loop in one process sometimes sends it
+ * into a slow mode that a user's process does not show (bench/README.md).
  */
 async function replayInChild(format: BenchFormat, samples: number, pairs: number): Promise<ReplayResult> {
-  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-  const { stdout } = await execFileAsync(
-    process.execPath,
-    // Without allocation-site pretenuring: alternating the tool and the plain loop in one process
-    // sometimes sends it into a slow mode that a user's process does not show (bench/README.md).
-    ['--no-allocation-site-pretenuring', join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--replay-child', format, String(samples), String(pairs)],
-    { maxBuffer: 16 * 1024 * 1024 },
-  );
-  return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as ReplayResult;
+  const args = ['--replay-child', format, '--samples', String(samples), '--pairs', String(pairs)];
+  return (await benchScript<ReplayResult>('run.ts', args, ['--no-allocation-site-pretenuring'])).result;
 }
 
 /** bench/screen-frames.ts in a fresh process: its table line and its figures. */
 async function screenInChild(frames: number, passes: number, against: string | undefined): Promise<{ readonly lines: readonly string[] } & Record<string, unknown>> {
-  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-  const { stdout } = await execFileAsync(
-    process.execPath,
-    [
-      join(root, 'bin/run-ts.js'),
-      join(root, 'bench/screen-frames.ts'),
-      '--frames',
-      String(frames),
-      '--passes',
-      String(passes),
-      ...(against === undefined ? [] : ['--against', against]),
-    ],
-    { maxBuffer: 16 * 1024 * 1024 },
-  );
-  const all = stdout.trim().split('\n');
-  const json = all.pop() ?? '{}';
-  return { ...(JSON.parse(json) as Record<string, unknown>), lines: all.filter((l) => l.startsWith('screen ')) };
+  const args = ['--frames', String(frames), '--passes', String(passes), ...(against === undefined ? [] : ['--against', against])];
+  const { result, lines } = await benchScript<Record<string, unknown>>('screen-frames.ts', args);
+  return { ...result, lines: lines.filter((l) => l.startsWith('screen ')) };
 }
 
-async function replayChild(format: BenchFormat, samples: number, pairs: number): Promise<void> {
-  const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
-  try {
-    const trial = await writeBenchTrial(dir, format, { samples });
-    const r = await measureReplay(trial, pairs);
-    process.stdout.write(`${JSON.stringify(r)}\n`);
-  } finally {
-    await rm(dir, { recursive: true, force: true });
-  }
-}
-
-/** The wide-table measurement in a fresh process of its own (bench/run.ts --table-child SAMPLES PAIRS). */
+/** The wide-table measurement in a fresh process of its own (bench/run.ts --table-child), as the replays'. */
 async function tableInChild(samples: number, pairs: number): Promise<TableResult> {
-  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-  const { stdout } = await execFileAsync(
-    process.execPath,
-    ['--no-allocation-site-pretenuring', join(root, 'bin/run-ts.js'), join(root, 'bench/run.ts'), '--table-child', String(samples), String(pairs)],
-    { maxBuffer: 16 * 1024 * 1024 },
-  );
-  return JSON.parse(stdout.trim().split('\n').pop() ?? '{}') as TableResult;
+  const args = ['--table-child', '--samples', String(samples), '--pairs', String(pairs)];
+  return (await benchScript<TableResult>('run.ts', args, ['--no-allocation-site-pretenuring'])).result;
 }
 
-async function tableChild(samples: number, pairs: number): Promise<void> {
+/** A child's part: one measurement in a temporary folder of its own, written as one line of JSON. */
+async function childMeasurement(measure: (dir: string) => Promise<unknown>): Promise<void> {
   const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
   try {
-    process.stdout.write(`${JSON.stringify(await measureTable(dir, samples, pairs))}\n`);
+    process.stdout.write(`${JSON.stringify(await measure(dir))}\n`);
   } finally {
     await rm(dir, { recursive: true, force: true });
   }
-}
-
-function cpuMs(): number {
-  const u = process.cpuUsage();
-  return (u.user + u.system) / 1000;
 }
 
 function stamp(d: Date): string {
@@ -250,10 +190,13 @@ function fmtRate(perS: number): string {
   return `${(perS / 1e6).toFixed(2)} M/s`;
 }
 
-async function main(): Promise<void> {
-  const args = parseArgs(process.argv.slice(2));
+/** Whether the two sides' figures agree, or where they differ. */
+function agreement(differences: readonly string[]): string {
+  return differences.length === 0 ? 'agree' : `DIFFER: ${differences.join('; ')}`;
+}
+
+async function main(args: Args): Promise<void> {
   const started = new Date();
-  const here = dirname(fileURLToPath(import.meta.url));
   const dir = await mkdtemp(join(tmpdir(), 'lengthwise-bench-'));
   const out: Record<string, unknown> = {
     date: started.toISOString(),
@@ -273,9 +216,7 @@ async function main(): Promise<void> {
         replay.push(r);
         lines.push(
           `replay ${format.padEnd(6)} tool ${fmtRate(r.toolSamplesPerS).padStart(10)}  loop ${fmtRate(r.loopSamplesPerS).padStart(10)}  ` +
-            `tool/loop ${r.ratioMedian.toFixed(2)}× wall (${r.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
-            `${r.cpuRatioMedian.toFixed(2)}× CPU (${r.cpuRatios.map((x) => x.toFixed(2)).join(' ')})  ` +
-            `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}; ${r.majorGcs} full collections`,
+            `tool/loop ${ratiosText(r)}  figures ${agreement(r.differences)}; ${r.majorGcs} full collections`,
         );
       }
       out['replay'] = replay;
@@ -285,9 +226,8 @@ async function main(): Promise<void> {
       const t = await tableInChild(args.samples, args.pairs);
       out['table'] = t;
       lines.push(
-        `table   wide ";" table with decimal commas / our CSV: ${t.ratioMedian.toFixed(2)}× wall (${t.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
-          `${t.cpuRatioMedian.toFixed(2)}× CPU (${t.cpuRatios.map((x) => x.toFixed(2)).join(' ')}); CSV ${fmtRate(t.samples / (median(t.csvMs) / 1000))}, ` +
-          `wide ${fmtRate(t.samples / (median(t.wideMs) / 1000))}; figures ${t.differences.length === 0 ? 'agree' : `differ: ${t.differences.join('; ')}`}`,
+        `table   wide ";" table with decimal commas / our CSV: ${ratiosText(t)}; CSV ${fmtRate(perSecond(t.samples, t.csvMs))}, ` +
+          `wide ${fmtRate(perSecond(t.samples, t.wideMs))}; figures ${t.differences.length === 0 ? 'agree' : `differ: ${t.differences.join('; ')}`}`,
       );
     }
     if (args.only.has('command')) {
@@ -300,9 +240,7 @@ async function main(): Promise<void> {
         command.push(r);
         lines.push(
           `command ${format.padEnd(6)} lengthwise replay ${fmtRate(r.commandSamplesPerS).padStart(10)}  plain-loop process ${fmtRate(r.loopSamplesPerS).padStart(10)}  ` +
-            `command/loop ${r.ratioMedian.toFixed(2)}× wall (${r.ratios.map((x) => x.toFixed(2)).join(' ')}), ` +
-            `${r.cpuRatioMedian.toFixed(2)}× CPU (${r.cpuRatios.map((x) => x.toFixed(2)).join(' ')})  ` +
-            `figures ${r.differences.length === 0 ? 'agree' : `DIFFER: ${r.differences.join('; ')}`}`,
+            `command/loop ${ratiosText(r)}  figures ${agreement(r.differences)}`,
         );
       }
       out['command'] = command;
@@ -323,8 +261,7 @@ async function main(): Promise<void> {
       lines.push(
         `study   ${study.trials} trials × ${study.samplesPerTrial} samples, --jobs ${study.jobs}: without the tables ${(median(study.withoutMs) / 1000).toFixed(1)} s, ` +
           `with groups (${study.groupRows} rows) and comparisons (${study.comparisonRows} rows) ${(median(study.withMs) / 1000).toFixed(1)} s: ` +
-          `${study.ratioMedian.toFixed(3)}× wall (${study.ratios.map((x) => x.toFixed(3)).join(' ')}), ${study.cpuRatioMedian.toFixed(3)}× CPU ` +
-          `(${study.cpuRatios.map((x) => x.toFixed(3)).join(' ')}); trials.csv ${study.trialsAgree ? 'the same' : 'DIFFERS'}`,
+          `${ratiosText(study, 3)}; trials.csv ${study.trialsAgree ? 'the same' : 'DIFFERS'}`,
       );
     }
     if (args.only.has('live')) {
@@ -366,7 +303,7 @@ async function main(): Promise<void> {
   }
   out['loadavgAtEnd'] = loadavg();
   out['seconds'] = (Date.now() - started.getTime()) / 1000;
-  const resultsDir = join(here, 'results');
+  const resultsDir = join(ROOT, 'bench', 'results');
   await mkdir(resultsDir, { recursive: true });
   const file = join(resultsDir, `${stamp(started)}.json`);
   await writeFile(file, `${JSON.stringify(out, null, 2)}\n`);
@@ -374,14 +311,8 @@ async function main(): Promise<void> {
   console.log(`(${(out['seconds'] as number).toFixed(0)} s; load ${loadavg().map((x) => x.toFixed(1)).join(' ')}; written to ${file})`);
 }
 
-const child = process.argv.indexOf('--replay-child');
-const tableChildAt = process.argv.indexOf('--table-child');
-if (tableChildAt >= 0) {
-  const [samples, pairs] = process.argv.slice(tableChildAt + 1);
-  await tableChild(Number(samples), Number(pairs));
-} else if (child >= 0) {
-  const [format, samples, pairs] = process.argv.slice(child + 1);
-  await replayChild(format === 'csv' ? 'csv' : 'ndjson', Number(samples), Number(pairs));
-} else {
-  await main();
-}
+const given = parseArgs(process.argv.slice(2));
+const replayFormat = given.replayChild;
+if (given.tableChild) await childMeasurement((dir) => measureTable(dir, given.samples, given.pairs));
+else if (replayFormat !== undefined) await childMeasurement(async (dir) => measureReplay(await writeBenchTrial(dir, replayFormat, { samples: given.samples }), given.pairs));
+else await main(given);

@@ -23,27 +23,27 @@ import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { register } from 'tsx/esm/api';
 import { FakeStdin, FakeStdout } from './fake-terminal.ts';
+import { benchArgs, wholeNumber } from './args.ts';
 
-const argv = process.argv.slice(2);
-const value = (name: string, fallback: number): number => {
-  const i = argv.indexOf(name);
-  const given = i >= 0 ? Number(argv[i + 1]) : fallback;
-  if (!Number.isInteger(given) || given <= 0) {
-    console.error(`screen-frames: ${name} takes a whole number above 0 (got ${argv[i + 1]})`);
-    process.exit(2);
-  }
-  return given;
-};
-const frameCount = value('--frames', 200);
-const passes = value('--passes', 5);
-const columns = value('--columns', 120);
-const rows = value('--rows', 40);
-const muscleCount = value('--muscles', 4);
-const color = !argv.includes('--no-color');
-const againstAt = argv.indexOf('--against');
-const against = againstAt >= 0 ? argv[againstAt + 1] : undefined;
-if (againstAt >= 0 && (against === undefined || !existsSync(join(against, 'src/dashboard/components/dashboard.tsx')))) {
-  console.error(`screen-frames: --against takes a checkout of lengthwise (a folder with src/dashboard/components/dashboard.tsx); got ${against ?? 'nothing'}`);
+const options = benchArgs('screen-frames', process.argv.slice(2), {
+  frames: { type: 'string' },
+  passes: { type: 'string' },
+  columns: { type: 'string' },
+  rows: { type: 'string' },
+  muscles: { type: 'string' },
+  'no-color': { type: 'boolean' },
+  against: { type: 'string' },
+});
+const count = (name: 'frames' | 'passes' | 'columns' | 'rows' | 'muscles', fallback: number): number => wholeNumber('screen-frames', name, options[name], fallback);
+const frameCount = count('frames', 200);
+const passes = count('passes', 5);
+const columns = count('columns', 120);
+const rows = count('rows', 40);
+const muscleCount = count('muscles', 4);
+const color = options['no-color'] !== true;
+const against = options.against;
+if (against !== undefined && !existsSync(join(against, 'src/dashboard/components/dashboard.tsx'))) {
+  console.error(`screen-frames: --against takes a checkout of lengthwise (a folder with src/dashboard/components/dashboard.tsx); got ${against}`);
   process.exit(2);
 }
 

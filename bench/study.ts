@@ -6,29 +6,19 @@
  * checks that both write the same trials.csv.
  */
 import { readFile, rm } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import { WALKING_CONDITIONS, writeStudy, type StudySpec } from '../src/sim/demo-study.ts';
-import { median } from '../src/model/stats.ts';
-import { timed } from './command.ts';
+import { BIN, runFresh } from './fresh-process.ts';
+import { alternate, paired, type Paired } from './paired.ts';
 
-const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
-const BIN = join(ROOT, 'bin', 'lengthwise.js');
-
-export interface StudyBenchResult {
+/**
+ * Each pair's summarizing with groups.csv and comparisons.csv as well (`with`) / with the trials table
+ * only (`without`), by wall and by CPU time.
+ */
+export interface StudyBenchResult extends Paired<'with', 'without'> {
   readonly trials: number;
   readonly samplesPerTrial: number;
   readonly jobs: number;
-  /** Summarising with the trials table only. */
-  readonly withoutMs: readonly number[];
-  /** The same, with groups.csv and comparisons.csv as well. */
-  readonly withMs: readonly number[];
-  readonly ratios: readonly number[];
-  readonly ratioMedian: number;
-  readonly withoutCpuMs: readonly number[];
-  readonly withCpuMs: readonly number[];
-  readonly cpuRatios: readonly number[];
-  readonly cpuRatioMedian: number;
   /** Rows of groups.csv and comparisons.csv. */
   readonly groupRows: number;
   readonly comparisonRows: number;
@@ -68,46 +58,21 @@ export async function measureStudy(dir: string, options: StudyBenchOptions = {})
   const without = [...common, '--out', out('trials-a.csv')];
   const withTables = [...common, '--out', out('trials-b.csv'), '--groups', out('groups.csv'), '--comparisons', out('comparisons.csv')];
 
-  await timed(without);
-  await timed(withTables);
+  await runFresh(without);
+  await runFresh(withTables);
   const made = /"created_utc": "[^"]*"/;
   const [a, b] = await Promise.all([readFile(out('trials-a.csv'), 'utf8'), readFile(out('trials-b.csv'), 'utf8')]);
   const groupRows = (await readFile(out('groups.csv'), 'utf8')).trimEnd().split('\r\n').length - 1;
   const comparisonRows = (await readFile(out('comparisons.csv'), 'utf8')).trimEnd().split('\r\n').length - 1;
 
-  const withoutMs: number[] = [];
-  const withMs: number[] = [];
-  const withoutCpuMs: number[] = [];
-  const withCpuMs: number[] = [];
-  for (let i = 0; i < pairs; i++) {
-    // Alternating which goes first, so neither always runs on the warmer page cache.
-    const order = i % 2 === 0 ? [without, withTables] : [withTables, without];
-    for (const args of order) {
-      const t = await timed(args);
-      if (args === without) {
-        withoutMs.push(t.ms);
-        withoutCpuMs.push(t.cpuMs);
-      } else {
-        withMs.push(t.ms);
-        withCpuMs.push(t.cpuMs);
-      }
-    }
-  }
+  // Which of the two goes first alternates, so neither always runs on the warmer page cache.
+  const runs = await alternate(pairs, () => runFresh(without), () => runFresh(withTables), { swap: true });
   await rm(studyDir, { recursive: true, force: true });
-  const ratios = withMs.map((w, i) => w / (withoutMs[i] as number));
-  const cpuRatios = withCpuMs.map((w, i) => w / (withoutCpuMs[i] as number));
   return {
     trials: spec.subjects * perSubject,
     samplesPerTrial,
     jobs,
-    withoutMs,
-    withMs,
-    ratios,
-    ratioMedian: median(ratios),
-    withoutCpuMs,
-    withCpuMs,
-    cpuRatios,
-    cpuRatioMedian: median(cpuRatios),
+    ...paired('with', runs.b, 'without', runs.a),
     groupRows,
     comparisonRows,
     trialsAgree: a.replace(made, '') === b.replace(made, ''),

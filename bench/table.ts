@@ -10,33 +10,22 @@ import { join } from 'node:path';
 import { concatMap, lastValueFrom } from 'rxjs';
 import { fileSource } from '../adapters/file-source.ts';
 import { parseDeviceMapping, type DeviceMapping } from '../adapters/device-mapping.ts';
-import { median } from '../src/model/stats.ts';
 import { writeBenchTrial } from './generate.ts';
 import { figureDifferences, figuresFromSummary } from './figures.ts';
 import { runToolReplay } from './tool-replay.ts';
+import { alternate, paired, timeHere, type Paired } from './paired.ts';
 
-export interface TableResult {
+/** Each pair's wide table / our CSV, by wall and by process CPU time. */
+export interface TableResult extends Paired<'wide', 'csv'> {
   readonly samples: number;
   readonly csvBytes: number;
   readonly wideBytes: number;
-  readonly csvMs: readonly number[];
-  readonly wideMs: readonly number[];
-  /** Each pair's wide ms / CSV ms (wall time), and the same by process CPU time. */
-  readonly ratios: readonly number[];
-  readonly ratioMedian: number;
-  readonly cpuRatios: readonly number[];
-  readonly cpuRatioMedian: number;
   /** Where the two replays' figures differ (the wide table leaves out the CSV's bad rows); empty when they agree. */
   readonly differences: readonly string[];
 }
 
 function comma(x: number): string {
   return String(x).replace('.', ',');
-}
-
-function cpuMs(): number {
-  const u = process.cpuUsage();
-  return (u.user + u.system) / 1000;
 }
 
 /** Writes our CSV trial's valid records as a wide table, streamed; returns its mapping and size. */
@@ -102,21 +91,10 @@ export async function measureTable(dir: string, samples: number, pairs: number):
   const warmCsv = await runToolReplay(trial.path, trial.calibration);
   const warmWide = await runToolReplay(widePath, trial.calibration, mapping);
   const differences = figureDifferences(figuresFromSummary(warmCsv.summary), figuresFromSummary(warmWide.summary));
-  const csvMs: number[] = [];
-  const wideMs: number[] = [];
-  const ratios: number[] = [];
-  const cpuRatios: number[] = [];
-  for (let i = 0; i < pairs; i++) {
-    let c0 = cpuMs();
-    const csv = await runToolReplay(trial.path, trial.calibration);
-    const csvCpu = cpuMs() - c0;
-    c0 = cpuMs();
-    const wide = await runToolReplay(widePath, trial.calibration, mapping);
-    const wideCpu = cpuMs() - c0;
-    csvMs.push(csv.ms);
-    wideMs.push(wide.ms);
-    ratios.push(wide.ms / csv.ms);
-    cpuRatios.push(wideCpu / csvCpu);
-  }
-  return { samples: trial.samples, csvBytes: trial.bytes, wideBytes: bytes, csvMs, wideMs, ratios, ratioMedian: median(ratios), cpuRatios, cpuRatioMedian: median(cpuRatios), differences };
+  const runs = await alternate(
+    pairs,
+    () => timeHere(() => runToolReplay(trial.path, trial.calibration)),
+    () => timeHere(() => runToolReplay(widePath, trial.calibration, mapping)),
+  );
+  return { samples: trial.samples, csvBytes: trial.bytes, wideBytes: bytes, ...paired('wide', runs.b, 'csv', runs.a), differences };
 }

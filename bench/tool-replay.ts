@@ -6,20 +6,17 @@ import { summaryJson, type SummaryJson } from '../src/output/summary-json.ts';
 import type { CalibrationSpec } from '../src/model/calibration.ts';
 import type { DeviceMapping } from '../adapters/device-mapping.ts';
 
+/** The run's summary; the benches time the call (paired.ts timeHere). */
 export interface ToolRun {
   readonly summary: SummaryJson;
-  /** Wall time from opening the file to the summary object, ms. */
-  readonly ms: number;
 }
 
 /** Reads, parses, cleans, converts, evaluates, segments and summarizes one file. */
 export async function runToolReplay(path: string, calibration?: CalibrationSpec, mapping?: DeviceMapping): Promise<ToolRun> {
-  const t0 = performance.now();
   const run = runTrial(fileSource(path, { mapping: mapping ?? null }).pipe(paceReplay('max')), {
     source: path,
     ...(calibration !== undefined ? { calibration } : {}),
   });
   const state = await run.done;
-  const summary = summaryJson(state);
-  return { summary, ms: performance.now() - t0 };
+  return { summary: summaryJson(state) };
 }

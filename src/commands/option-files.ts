@@ -4,6 +4,7 @@
  */
 import { readCalibrationFile } from '../../adapters/calibration-file.ts';
 import { mappedSides, readDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
+import { putNamedSides } from '../../adapters/named-sides.ts';
 import { readSettingsFile } from '../../adapters/settings-file.ts';
 import { DEFAULT_SETTINGS, type Settings } from '../trial/settings.ts';
 import type { CalibrationSpec } from '../model/calibration.ts';
@@ -28,21 +29,14 @@ export const TRIAL_INPUT_OPTIONS = { events: { type: 'string' }, side: { type: '
  */
 export function sidesOption(command: string, mapping: DeviceMapping | undefined, given: readonly string[] | undefined, io: CommandIo): Record<string, Side> | null {
   const sides = mappedSides(mapping);
-  const seen = new Set<string>();
-  for (const text of given ?? []) {
-    const at = text.lastIndexOf('=');
-    const name = at > 0 ? text.slice(0, at) : '';
-    const side = text.slice(at + 1);
-    if (name === '' || (side !== 'left' && side !== 'right')) {
-      io.err(`lengthwise ${command}: --side "${text}" is not a side: give NAME=left or NAME=right, e.g. --side calf=right (once per muscle)`);
-      return null;
-    }
-    if (seen.has(name)) {
-      io.err(`lengthwise ${command}: --side names "${name}" twice; give each muscle's side once`);
-      return null;
-    }
-    seen.add(name);
-    sides[name] = side;
+  const problem = putNamedSides(given ?? [], sides, { spaces: false });
+  if (problem?.kind === 'not_a_side') {
+    io.err(`lengthwise ${command}: --side "${problem.piece}" is not a side: give NAME=left or NAME=right, e.g. --side calf=right (once per muscle)`);
+    return null;
+  }
+  if (problem?.kind === 'twice') {
+    io.err(`lengthwise ${command}: --side names "${problem.name}" twice; give each muscle's side once`);
+    return null;
   }
   return sides;
 }

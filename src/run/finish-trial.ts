@@ -83,7 +83,12 @@ export function plainReport(state: TrialState): string {
             .join(', ')})`
         : ''),
   ];
-  if (!state.calibrated) lines.push('UNCALIBRATED: sarcomere lengths assume each muscle starts at its plateau middle; give --calibration for real estimates');
+  if (!state.calibrated) {
+    const all = [...state.muscles];
+    const uncalibrated = all.filter(([, m]) => m.calibrationSource === null || m.calibrationSource === 'baseline').map(([name]) => name);
+    const which = uncalibrated.length > 0 && uncalibrated.length < all.length ? ` (${uncalibrated.join(', ')})` : '';
+    lines.push(`UNCALIBRATED${which}: sarcomere lengths assume each muscle starts at its plateau middle; give --calibration for real estimates`);
+  }
   for (const w of state.warnings) lines.push(`note: ${w}`);
   for (const [name, m] of state.muscles) {
     const t = trialFigures(m.strides);

@@ -39,8 +39,10 @@ export interface SimulatorOptions {
   readonly muscles?: readonly string[];
   /** @default 1 */
   readonly seed?: number;
-  /** Wall seconds until the simulator stops by itself; undefined: until stop(). */
+  /** Wall seconds until the simulator stops by itself, counted from its first connection; undefined: until stop(). */
   readonly durationS?: number;
+  /** With a duration: wall seconds to wait for a first connection before stopping without one. @default durationS */
+  readonly firstConnectionWithinS?: number;
   /** true or options: inject faults; also adds repeating tracking dropouts to the trial. @default false */
   readonly faults?: boolean | FaultOptions;
   /** Wall milliseconds of stream per message. @default 40 */
@@ -131,6 +133,7 @@ export function checkSimulatorOptions(o: SimulatorOptions): string[] {
   const problems: string[] = [];
   if (o.rateHz !== undefined && !(o.rateHz >= 1 && o.rateHz <= 2000)) problems.push(`rate ${o.rateHz} Hz: give 1–2000 Hz`);
   if (o.durationS !== undefined && !(o.durationS > 0)) problems.push(`duration ${o.durationS} s: give a duration above 0 s`);
+  if (o.firstConnectionWithinS !== undefined && !(o.firstConnectionWithinS > 0)) problems.push(`first connection within ${o.firstConnectionWithinS} s: give a time above 0 s`);
   if (o.messageMs !== undefined && !(o.messageMs >= 1 && o.messageMs <= 1000)) problems.push(`message slice ${o.messageMs} ms: give 1–1000 ms`);
   if (o.speed !== undefined && !(o.speed > 0 && o.speed <= 1000)) problems.push(`speed ${o.speed}: give above 0 and at most 1000`);
   if (o.muscles !== undefined) {
@@ -257,11 +260,11 @@ class Engine {
     return `[${this.elapsedS().toFixed(1)} s]`;
   }
 
-  /** Where the stream goes; nothing is sent before start(). With a duration and no connection within it, it stops. */
+  /** Where the stream goes; nothing is sent before start(). With a duration and no connection within it (or within firstConnectionWithinS), it stops. */
   attach(transport: Transport): void {
     this.transport = transport;
     if (this.durationS !== undefined) {
-      this.timer = setTimeout(() => void this.stop(), this.durationS * 1000);
+      this.timer = setTimeout(() => void this.stop(), (this.options.firstConnectionWithinS ?? this.durationS) * 1000);
     }
   }
 

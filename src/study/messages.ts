@@ -1,20 +1,10 @@
 /** What the study runner and its worker threads say to each other (structured-clone data only). */
-import type { DeviceMapping } from '../../adapters/device-mapping.ts';
-import type { CalibrationSpec } from '../model/calibration.ts';
-import type { Side } from '../trial/records.ts';
 import type { Settings } from '../trial/settings.ts';
-import type { TrialOutcome } from './summarize-trial.ts';
+import type { TrialInputs, TrialOutcome } from './summarize-trial.ts';
 
-export interface WorkerSetup {
+export interface WorkerSetup extends TrialInputs {
   /** Every processing choice, for every trial. */
   readonly settings?: Settings;
-  readonly calibration?: CalibrationSpec;
-  /** Trials in a device's own names, units and table layout. */
-  readonly mapping?: DeviceMapping;
-  /** The --events file, for every trial. */
-  readonly eventsPath?: string;
-  /** Muscles' sides (--side and the mapping's). */
-  readonly sides?: Readonly<Record<string, Side>>;
   /** Samples between two progress messages of one trial. */
   readonly progressEverySamples: number;
   /** Draw each trial's report sections too, keyed by the job's place in the study (id + 1). */
@@ -24,12 +14,7 @@ export interface WorkerSetup {
 }
 
 /** A trial's own files and sides (a study manifest's row); each given wins over the study's for that trial. */
-export interface TrialSetup {
-  readonly calibration?: CalibrationSpec;
-  readonly mapping?: DeviceMapping;
-  readonly eventsPath?: string;
-  readonly sides?: Readonly<Record<string, Side>>;
-}
+export type TrialSetup = TrialInputs;
 
 export interface JobMessage {
   readonly type: 'job';

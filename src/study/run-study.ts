@@ -6,12 +6,9 @@
 import { stat } from 'node:fs/promises';
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
-import type { DeviceMapping } from '../../adapters/device-mapping.ts';
-import type { CalibrationSpec } from '../model/calibration.ts';
-import type { Side } from '../trial/records.ts';
 import type { Settings } from '../trial/settings.ts';
 import type { JobMessage, TrialSetup, WorkerMessage, WorkerSetup } from './messages.ts';
-import type { TrialOutcome } from './summarize-trial.ts';
+import type { TrialInputs, TrialOutcome } from './summarize-trial.ts';
 
 export interface StudyProgress {
   readonly trialsTotal: number;
@@ -29,16 +26,12 @@ export type StudyEvent =
   | { readonly type: 'progress'; readonly progress: StudyProgress }
   | { readonly type: 'trial'; readonly index: number; readonly outcome: TrialOutcome; readonly progress: StudyProgress };
 
-export interface StudyOptions {
+/** The study's inputs are every trial's, unless a trial's own (perTrial) say otherwise. */
+export interface StudyOptions extends TrialInputs {
   /** Worker threads; never more than the files. @default os.availableParallelism() */
   readonly jobs?: number;
   /** Every processing choice (--settings). @default DEFAULT_SETTINGS */
   readonly settings?: Settings;
-  readonly calibration?: CalibrationSpec;
-  readonly mapping?: DeviceMapping;
-  /** Gait events from another system, for every trial (--events). */
-  readonly eventsPath?: string;
-  readonly sides?: Readonly<Record<string, Side>>;
   readonly onEvent?: (event: StudyEvent) => void;
   /** Stops the workers; trials not finished come back as failures saying so. */
   readonly signal?: AbortSignal;

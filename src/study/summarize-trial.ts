@@ -42,9 +42,8 @@ export interface TrialProgress {
   readonly samples: number;
 }
 
-export interface SummarizeTrialOptions {
-  /** Every processing choice, as in `replay --settings`. @default DEFAULT_SETTINGS */
-  readonly settings?: Settings;
+/** What a trial is read with besides its file: a study's, for every trial, or a manifest row's own. */
+export interface TrialInputs {
   /** Wins over each trial's header calibration, as in `replay --calibration`. */
   readonly calibration?: CalibrationSpec;
   /** Trials in a device's own names, units and table layout, as in `replay --mapping`. */
@@ -53,6 +52,11 @@ export interface SummarizeTrialOptions {
   readonly eventsPath?: string;
   /** Muscles' sides, as in `replay --side` (the mapping's sides included). */
   readonly sides?: Readonly<Record<string, Side>>;
+}
+
+export interface SummarizeTrialOptions extends TrialInputs {
+  /** Every processing choice, as in `replay --settings`. @default DEFAULT_SETTINGS */
+  readonly settings?: Settings;
   /** Called after each batch of input. */
   readonly onProgress?: (progress: TrialProgress) => void;
 }

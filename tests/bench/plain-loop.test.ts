@@ -2,7 +2,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { writeBenchTrial, type BenchTrial } from '../../bench/generate.ts';
+import { benchSarcomeres, writeBenchTrial, type BenchTrial } from '../../bench/generate.ts';
 import { plainLoop } from '../../bench/plain-loop.ts';
 import { runToolReplay } from '../../bench/tool-replay.ts';
 import { figureDifferences, figuresFromSummary } from '../../bench/figures.ts';
@@ -16,13 +16,9 @@ afterAll(async () => {
   await rm(dir, { recursive: true, force: true });
 });
 
-function sarcomeres(trial: BenchTrial): Record<string, number> {
-  return Object.fromEntries(trial.spec.muscles.map((m) => [m.name, m.sarcomeresInSeries]));
-}
-
 async function compare(trial: BenchTrial): Promise<string[]> {
   const tool = figuresFromSummary((await runToolReplay(trial.path, trial.calibration)).summary);
-  const loop = await plainLoop(trial.path, { format: trial.format, sarcomeresInSeries: sarcomeres(trial) });
+  const loop = await plainLoop(trial.path, { format: trial.format, sarcomeresInSeries: benchSarcomeres(trial.spec) });
   expect(tool.accepted).toBeGreaterThan(0);
   return figureDifferences(tool, loop);
 }
@@ -42,7 +38,7 @@ describe('the plain loop of the benchmark', () => {
 
   it('counts each stride and flags the one with a dropout, like the tool', async () => {
     const trial = await writeBenchTrial(dir, 'ndjson', { samples: 20_000, seed: 3 });
-    const loop = await plainLoop(trial.path, { format: 'ndjson', sarcomeresInSeries: sarcomeres(trial) });
+    const loop = await plainLoop(trial.path, { format: 'ndjson', sarcomeresInSeries: benchSarcomeres(trial.spec) });
     const calf = loop.muscles['calf'];
     expect(calf?.strides).toBeGreaterThan(80);
     expect(calf?.flagged).toBeGreaterThanOrEqual(1);

@@ -92,6 +92,18 @@ describe('startSimulator', () => {
     expect(sim.stats).toMatchObject({ connections: 0, messagesSent: 0, samplesSent: 0, headersSent: 0 });
   });
 
+  it('waits firstConnectionWithinS for a late receiver, then streams its whole duration to it', async () => {
+    const sim = await serve({ durationS: 0.3, firstConnectionWithinS: 30 });
+    await new Promise((resolve) => setTimeout(resolve, 600));
+    const collector = createCollector();
+    const c = client(sim.url, collector, false);
+    await sim.done;
+    await c.finished;
+    expect(sim.stats.connections).toBe(1);
+    expect(collector.received.samples).toBe(sim.sentSamples);
+    expect(collector.received.samples).toBeGreaterThan(0);
+  });
+
   it('gives every one of several clients the header and the same stream', async () => {
     const sim = await serve({ durationS: 0.6, muscles: ['a', 'b', 'c'], rateHz: 50 });
     const collectors = [createCollector(), createCollector()];

@@ -7,20 +7,13 @@
  */
 import { Box } from 'ink';
 import { useRef } from 'react';
-import { bandKey, bandRow, curveLayers, markerRawCol, type LengthRange, type Run } from '../view/curve-drawing.ts';
-import type { ForceLengthCurve } from '../../model/geometry.ts';
+import { bandKey, bandRow, curveLayers, markerRawCol, type CurveDrawingInput, type Run } from '../view/curve-drawing.ts';
 import MarkerColumn from './marker-column.tsx';
 import RunsLine from './runs-line.tsx';
 import type { Theme } from '../view/theme.ts';
 
-export interface Props {
-  readonly curve: ForceLengthCurve;
-  readonly widthCols: number;
-  readonly heightRows: number;
-  /** NaN: no marker. */
-  readonly sarcomereUm: number;
-  readonly current: LengthRange | null;
-  readonly previous: LengthRange | null;
+/** What the drawing is of; the theme chooses its fill and the character where both strides' ranges meet. */
+export interface Props extends Omit<CurveDrawingInput, 'bothChar' | 'fill'> {
   readonly theme: Theme;
 }
 

@@ -146,7 +146,7 @@ describe('logLine: rejections', () => {
     ['unsafe_key', ',"__proto__":null'],
     ['too_deep', ',"nesting":[[[[[[[[[[]]]]]]]]]]'],
     ['not_json', ','],
-  ] as const)('reads a %s line of the logs written before rejections were summed up (one line per rejection) as the same reason', (reason: RejectReason, rest) => {
+  ] as const)('reads a rejection line of reason %s from logs written before rejections were summed up (one line per rejection) as that reason', (reason: RejectReason, rest) => {
     // Such a line: its reason, when it came, what it said and its excerpt, then whatever else the log wrote on it.
     const back = parseNdjsonLine(`{"rejected":"${reason}","rx":1764000000.123,"message":"m","excerpt":"e"${rest}}`, 1);
     expect(back).toMatchObject({ kind: 'rejection', reason });

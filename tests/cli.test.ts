@@ -1,16 +1,13 @@
 import { captureIo } from './helpers/capture-io.ts';
-import { execFile } from 'node:child_process';
+import { BIN, runChild } from './helpers/command-child.ts';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../src/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..');
-const BIN = join(ROOT, 'bin', 'lengthwise.js');
 const DEMO = join(ROOT, 'replays', 'demo-walk.ndjson');
-const run = promisify(execFile);
 
 /**
  * Module hooks for the child process only (the command itself registers none): each module the child
@@ -35,9 +32,10 @@ afterAll(async () => {
 /** Runs the built command in a fresh process; gives what it printed and the packages it loaded (by name). */
 async function packagesLoaded(name: string, args: readonly string[]): Promise<{ stdout: string; packages: Set<string>; files: string[] }> {
   const log = join(work, `${name}.loaded`);
-  const { stdout } = await run(process.execPath, ['--import', `data:text/javascript,${encodeURIComponent(RECORD)}`, BIN, ...args], {
+  const { code, stdout, stderr } = await runChild(process.execPath, ['--import', `data:text/javascript,${encodeURIComponent(RECORD)}`, BIN, ...args], {
     env: { ...process.env, LENGTHWISE_TEST_LOADED: log, NO_COLOR: '1' },
   });
+  expect(code, stderr).toBe(0);
   const files = (await readFile(log, 'utf8')).split('\n').filter((url) => url.startsWith('file:'));
   const packages = new Set(files.flatMap((url) => /\/node_modules\/((?:@[^/]+\/)?[^/]+)\//.exec(url)?.[1] ?? []));
   return { stdout, packages, files };

@@ -12,6 +12,11 @@ afterAll(async () => {
   await rm(dir, { recursive: true, force: true });
 });
 
+/** A calibration file's content that calibrates calf alone. */
+function calfOnly(calf: Record<string, unknown>): { muscles: { calf: Record<string, unknown> } } {
+  return { muscles: { calf } };
+}
+
 function problemsOf(value: unknown): readonly string[] {
   const r = parseCalibration(value);
   if (r.ok) throw new Error('expected problems');
@@ -40,20 +45,18 @@ describe('parseCalibration: valid calibrations', () => {
   });
 
   it('reads uncertainty, filaments, dispersion and shape', () => {
-    const r = parseCalibration({
-      muscles: {
-        calf: {
-          method: 'reference',
-          reference_fascicle_mm: 50,
-          reference_sarcomere_um: 2.6,
-          reference_sarcomere_sd_um: 0.1,
-          reference_fascicle_sd_mm: 2,
-          filaments: { thick_um: 1.65, thin_um: 1.2, bare_zone_um: 0.16, z_disc_um: 0.08, steep_zero_um: 1.3, steep_break_force: 0.85 },
-          dispersion_sd_um: 0.2,
-          shape: 'three-gaussian',
-        },
-      },
-    });
+    const r = parseCalibration(
+      calfOnly({
+        method: 'reference',
+        reference_fascicle_mm: 50,
+        reference_sarcomere_um: 2.6,
+        reference_sarcomere_sd_um: 0.1,
+        reference_fascicle_sd_mm: 2,
+        filaments: { thick_um: 1.65, thin_um: 1.2, bare_zone_um: 0.16, z_disc_um: 0.08, steep_zero_um: 1.3, steep_break_force: 0.85 },
+        dispersion_sd_um: 0.2,
+        shape: 'three-gaussian',
+      }),
+    );
     expect(r.ok && r.spec.muscles.calf).toEqual({
       species: 'human',
       method: 'reference',
@@ -134,36 +137,36 @@ describe('parseCalibration: valid calibrations', () => {
 
 describe('parseCalibration: bad input', () => {
   it('names an unknown species and the accepted ones', () => {
-    expect(problemsOf({ muscles: { calf: { species: 'cat', method: 'sarcomere_count', sarcomeres_in_series: 20000 } } })[0]).toBe(
+    expect(problemsOf(calfOnly({ species: 'cat', method: 'sarcomere_count', sarcomeres_in_series: 20000 }))[0]).toBe(
       'muscles.calf.species: unknown species "cat"; accepted: "human", "frog"',
     );
   });
 
   it('names a negative number, with the accepted range', () => {
-    expect(problemsOf({ muscles: { calf: { method: 'reference', reference_fascicle_mm: -50, reference_sarcomere_um: 2.7 } } })[0]).toBe(
+    expect(problemsOf(calfOnly({ method: 'reference', reference_fascicle_mm: -50, reference_sarcomere_um: 2.7 }))[0]).toBe(
       'muscles.calf.reference_fascicle_mm: too small; accepted: a fascicle length in mm from 1 to 1000',
     );
   });
 
   it('names absurd numbers: a 9 µm reference sarcomere, 10 sarcomeres in series', () => {
-    expect(problemsOf({ muscles: { calf: { method: 'reference', reference_fascicle_mm: 50, reference_sarcomere_um: 9 } } })[0]).toMatch(
+    expect(problemsOf(calfOnly({ method: 'reference', reference_fascicle_mm: 50, reference_sarcomere_um: 9 }))[0]).toMatch(
       /reference_sarcomere_um: too large; accepted: a sarcomere length in µm from 1 to 5/,
     );
-    expect(problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 10 } } })[0]).toMatch(
+    expect(problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 10 }))[0]).toMatch(
       /sarcomeres_in_series: too small/,
     );
   });
 
   it('names a missing number', () => {
-    expect(problemsOf({ muscles: { calf: { method: 'optimal_length' } } })[0]).toMatch(/^muscles.calf.optimal_fascicle_mm: must be a number/);
+    expect(problemsOf(calfOnly({ method: 'optimal_length' }))[0]).toMatch(/^muscles.calf.optimal_fascicle_mm: must be a number/);
   });
 
   it('names NaN-like and non-number values', () => {
-    expect(problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: '20000' } } })[0]).toMatch(/must be a number/);
+    expect(problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: '20000' }))[0]).toMatch(/must be a number/);
   });
 
   it('names an unknown method', () => {
-    expect(problemsOf({ muscles: { calf: { method: 'guess' } } })[0]).toBe(
+    expect(problemsOf(calfOnly({ method: 'guess' }))[0]).toBe(
       'muscles.calf.method: unknown or missing "method"; accepted: "sarcomere_count", "reference", "optimal_length", "architecture_prior"',
     );
   });
@@ -175,17 +178,13 @@ describe('parseCalibration: bad input', () => {
   });
 
   it('names an unknown filament key and an unknown shape', () => {
-    const problems = problemsOf({
-      muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, filaments: { myosin: 1.6 }, shape: 'bell' } },
-    });
+    const problems = problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000, filaments: { myosin: 1.6 }, shape: 'bell' }));
     expect(problems.join('\n')).toMatch(/`muscles.calf.filaments.myosin`: unknown key; accepted here: thick_um, thin_um/);
     expect(problems.join('\n')).toMatch(/muscles.calf.shape: unknown curve shape "bell"; accepted: "geometric", "gaussian", "three-gaussian"/);
   });
 
   it('refuses a misspelled key with its full path and the nearest accepted key, instead of ignoring it', () => {
-    const problems = problemsOf({
-      muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, sarcomeres_in_series_sdd: 500 } },
-    });
+    const problems = problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000, sarcomeres_in_series_sdd: 500 }));
     expect(problems[0]).toBe(
       '`muscles.calf.sarcomeres_in_series_sdd`: unknown key; did you mean `muscles.calf.sarcomeres_in_series_sd`?',
     );
@@ -193,19 +192,19 @@ describe('parseCalibration: bad input', () => {
   });
 
   it("refuses a key of another method's, naming the keys of the method given", () => {
-    const problems = problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, optimal_fascicle_mm: 60 } } });
+    const problems = problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000, optimal_fascicle_mm: 60 }));
     expect(problems[0]).toMatch(/^`muscles.calf.optimal_fascicle_mm`: unknown key; accepted here: species, filaments, .*sarcomeres_in_series, sarcomeres_in_series_sd\b/);
   });
 
   it('names filament lengths that are each in range but make no curve together', () => {
     expect(
-      problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, filaments: { thick_um: 2.8 } } } })[0],
+      problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000, filaments: { thick_um: 2.8 } }))[0],
     ).toMatch(/^muscles.calf.filaments: thick \+ Z-disc \(2.900 µm\) must be shorter than 2 × thin \+ Z-disc/);
   });
 
   it('names a dispersion SD out of range', () => {
     expect(
-      problemsOf({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, dispersion_sd_um: 3 } } })[0],
+      problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000, dispersion_sd_um: 3 }))[0],
     ).toMatch(/dispersion_sd_um: too large; accepted: an SD of sarcomere length between fibres in µm/);
   });
 
@@ -218,32 +217,30 @@ describe('parseCalibration: bad input', () => {
   });
 
   it('refuses a between-fibre SD given under both its names with two values', () => {
-    const problems = problemsOf({
-      muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000, between_fibre_sd_um: 0.2, dispersion_sd_um: 0.1 } },
-    });
+    const problems = problemsOf(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000, between_fibre_sd_um: 0.2, dispersion_sd_um: 0.1 }));
     expect(problems[0]).toMatch(/"between_fibre_sd_um" \(0.2\) and its older name "dispersion_sd_um" \(0.1\) disagree/);
   });
 
   it('asks a prior from published architecture for its source', () => {
-    const problems = problemsOf({ muscles: { calf: { method: 'architecture_prior', prior_fibre_mm: 44, prior_sarcomere_um: 2.7 } } });
+    const problems = problemsOf(calfOnly({ method: 'architecture_prior', prior_fibre_mm: 44, prior_sarcomere_um: 2.7 }));
     expect(problems[0]).toMatch(/muscles.calf.prior_source: accepted: the publication the values come from/);
   });
 
   it('ends its list with the accepted shape of the whole file', () => {
-    const problems = problemsOf({ muscles: { calf: { method: 'guess' } } });
+    const problems = problemsOf(calfOnly({ method: 'guess' }));
     expect(problems.at(-1)).toMatch(/^accepted: \{"muscles"/);
   });
 });
 
 describe('calibrationForMuscle', () => {
   it('finds a muscle the calibration has', () => {
-    const r = parseCalibration({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000 } } });
+    const r = parseCalibration(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000 }));
     if (!r.ok) throw new Error('bad fixture');
     expect(calibrationForMuscle(r.spec, 'calf')).toMatchObject({ ok: true, calibration: { sarcomeresInSeries: 20000 } });
   });
 
   it('names a missing muscle and the ones the calibration has', () => {
-    const r = parseCalibration({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 20000 } } });
+    const r = parseCalibration(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 20000 }));
     if (!r.ok) throw new Error('bad fixture');
     const m = calibrationForMuscle(r.spec, 'claf');
     expect(m).toEqual({
@@ -258,13 +255,13 @@ describe('calibrationForMuscle', () => {
 describe('readCalibrationFile', () => {
   it('reads a real file', async () => {
     const path = join(dir, 'good.json');
-    await writeFile(path, JSON.stringify({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 18000 } } }));
+    await writeFile(path, JSON.stringify(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 18000 })));
     expect(await readCalibrationFile(path)).toMatchObject({ ok: true, spec: { muscles: { calf: { sarcomeresInSeries: 18000 } } } });
   });
 
   it('prefixes each problem with the file', async () => {
     const path = join(dir, 'bad-species.json');
-    await writeFile(path, JSON.stringify({ muscles: { calf: { species: 'cat', method: 'sarcomere_count', sarcomeres_in_series: 18000 } } }));
+    await writeFile(path, JSON.stringify(calfOnly({ species: 'cat', method: 'sarcomere_count', sarcomeres_in_series: 18000 })));
     const r = await readCalibrationFile(path);
     expect(r.ok === false && r.problems[0]).toBe(`${path}: muscles.calf.species: unknown species "cat"; accepted: "human", "frog"`);
   });
@@ -284,7 +281,7 @@ describe('readCalibrationFile', () => {
 
   it('reads a file that starts with a UTF-8 byte-order mark', async () => {
     const path = join(dir, 'bom.json');
-    await writeFile(path, `\uFEFF${JSON.stringify({ muscles: { calf: { method: 'sarcomere_count', sarcomeres_in_series: 18000 } } })}`);
+    await writeFile(path, `\uFEFF${JSON.stringify(calfOnly({ method: 'sarcomere_count', sarcomeres_in_series: 18000 }))}`);
     expect(await readCalibrationFile(path)).toMatchObject({ ok: true, spec: { muscles: { calf: { sarcomeresInSeries: 18000 } } } });
   });
 

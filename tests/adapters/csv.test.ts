@@ -1,12 +1,11 @@
 import fc from 'fast-check';
-import { stringify } from 'csv-stringify/sync';
 import { describe, expect, it } from 'vitest';
 import { createCsvParser, ownCsvPlan } from '../../adapters/csv.ts';
 import type { Frame } from '../../src/trial/records.ts';
 import type { RejectReason } from '../../src/trial/reasons.ts';
 import { csvTrial } from './invented-trial.ts';
-
-const HEADER = 'time_s,muscle,fascicle_mm,pennation_deg,quality,event,side';
+import { itRejectsEach } from './rejection-table.ts';
+import { csvRow as row, OWN_HEADER as HEADER, ownColumnRows, ownHeaders } from './own-csv-rows.ts';
 
 function parseRows(rows: readonly string[], quick = true): Frame[] {
   const parse = createCsvParser({ quick });
@@ -20,11 +19,6 @@ function reasonOf(row: string, header = HEADER): RejectReason | Frame['kind'] {
 
 function kinds(frames: readonly Frame[]): string[] {
   return frames.map((f) => (f.kind === 'rejection' ? f.reason : f.kind));
-}
-
-/** One row as an independent CSV writer writes it (RFC 4180 quoting where needed), line ending left off. */
-function row(cells: readonly string[]): string {
-  return stringify([cells], { record_delimiter: '\n' }).replace(/\n$/, '');
 }
 
 describe('ownCsvPlan', () => {
@@ -97,31 +91,24 @@ describe('createCsvParser', () => {
     expect(frames[3]).toMatchObject({ kind: 'sample', fascicleMm: 52, pennationDeg: 22 });
   });
 
-  it.each([
-    ['fascicle 0', '0,calf,0,,,,'],
-    ['fascicle negative', '0,calf,-3,,,,'],
-    ['fascicle 1e400', '0,calf,1e400,,,,'],
-    ['pennation 95', '0,calf,50,95,,,'],
-    ['quality 1.5', '0,calf,50,,1.5,,'],
-    ['time 1e400', '1e400,calf,50,,,,'],
-    ['event time -1e400', '-1e400,,,,,toe_off,left'],
-  ])('rejects %s as out_of_range', (_name, r) => {
-    expect(reasonOf(r)).toBe('out_of_range');
-  });
-
-  it.each([
-    ['time as text', 'soon,calf,50,,,,'],
-    ['empty time', ',calf,50,,,,'],
-    ['fascicle as text', '0,calf,fifty,,,,'],
-    ['missing fascicle', '0,calf,,,,,'],
-    ['missing muscle', '0,,50,,,,'],
-    ['pennation as text', '0,calf,50,steep,,,'],
-    ['an event with a bad side', '0,,,,,toe_off,up'],
-    ['an event row with sample cells', '0,calf,50,,,foot_strike,left'],
-    ['a side with no event', '0,,,,,,left'],
-  ])('rejects %s as schema', (_name, r) => {
-    expect(reasonOf(r)).toBe('schema');
-  });
+  itRejectsEach(reasonOf, [
+    ['fascicle 0', 'out_of_range', '0,calf,0,,,,'],
+    ['fascicle negative', 'out_of_range', '0,calf,-3,,,,'],
+    ['fascicle 1e400', 'out_of_range', '0,calf,1e400,,,,'],
+    ['pennation 95', 'out_of_range', '0,calf,50,95,,,'],
+    ['quality 1.5', 'out_of_range', '0,calf,50,,1.5,,'],
+    ['time 1e400', 'out_of_range', '1e400,calf,50,,,,'],
+    ['event time -1e400', 'out_of_range', '-1e400,,,,,toe_off,left'],
+    ['time as text', 'schema', 'soon,calf,50,,,,'],
+    ['empty time', 'schema', ',calf,50,,,,'],
+    ['fascicle as text', 'schema', '0,calf,fifty,,,,'],
+    ['missing fascicle', 'schema', '0,calf,,,,,'],
+    ['missing muscle', 'schema', '0,,50,,,,'],
+    ['pennation as text', 'schema', '0,calf,50,steep,,,'],
+    ['an event with a bad side', 'schema', '0,,,,,toe_off,up'],
+    ['an event row with sample cells', 'schema', '0,calf,50,,,foot_strike,left'],
+    ['a side with no event', 'schema', '0,,,,,,left'],
+  ]);
 
   it('rejects unknown events as unknown_event', () => {
     expect(reasonOf('0,,,,,heel_off,left')).toBe('unknown_event');
@@ -166,13 +153,8 @@ describe('createCsvParser', () => {
       fc.integer({ min: -100, max: 100 }).map(String),
     );
     const text = fc.constantFrom('', 'calf', ' calf', 'calf ', 'a, b', 'say "hi"', 'time_s', 'foot_strike', 'toe_off', 'heel_off', 'left', 'right', 'up', '\u00a0calf');
-    const rows = fc
-      .tuple(number, text, number, number, number, text, text, fc.integer({ min: 0, max: 2 }))
-      .map(([t, muscle, fascicle, pennation, quality, event, side, drop]) => {
-        const cells = [t, muscle, fascicle, pennation, quality, event, side];
-        return row(cells.slice(0, cells.length - drop));
-      });
-    const headers = fc.constantFrom(HEADER, 'side,event,quality,pennation_deg,fascicle_mm,muscle,time_s', 'time_s,muscle,fascicle_mm,x,y,z,w', 'time_s,muscle,fascicle_mm,marker');
+    const rows = ownColumnRows(number, text, 2);
+    const headers = ownHeaders('time_s,muscle,fascicle_mm,marker');
     fc.assert(
       fc.property(headers, fc.array(rows, { minLength: 1, maxLength: 5 }), (header, rs) => {
         const quick = createCsvParser();

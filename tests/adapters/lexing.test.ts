@@ -33,6 +33,22 @@ function inBuffer(before: string, text: string, after: string): { readonly b: Bu
   return { b: Buffer.from(before + text + after), start, stop: start + Buffer.byteLength(text) };
 }
 
+/**
+ * For each of `texts` or any short string, put between junk: `check` reads it from its text into one slot
+ * and from its bytes into the other.
+ */
+function eachTextInBuffer(
+  texts: fc.Arbitrary<string>,
+  check: (placed: { readonly before: string; readonly text: string; readonly after: string; readonly b: Buffer; readonly start: number; readonly stop: number }, fromText: Float64Array, fromBytes: Float64Array) => void,
+): void {
+  fc.assert(
+    fc.property(junk, fc.oneof(texts, fc.string({ maxLength: 8 })), junk, (before, text, after) => {
+      check({ before, text, after, ...inBuffer(before, text, after) }, new Float64Array(1), new Float64Array(1));
+    }),
+    { numRuns: 3000 },
+  );
+}
+
 /** Decimal text as a writer or a person might type it: signs, points at either end, too many digits. */
 const decimalText = fc
   .tuple(fc.constantFrom('', '-', '+'), digits(10), fc.boolean(), digits(10))
@@ -67,18 +83,12 @@ describe('readPlainDecimal', () => {
   });
 
   it('reads from its UTF-8 bytes, anywhere in a buffer, exactly as from its text', () => {
-    fc.assert(
-      fc.property(junk, fc.oneof(decimalText, fc.string({ maxLength: 8 })), junk, (before, text, after) => {
-        const fromText = new Float64Array(1);
-        const fromBytes = new Float64Array(1);
-        const { b, start, stop } = inBuffer(before, text, after);
-        const readText = readPlainDecimal(`${before}${text}${after}`, before.length, before.length + text.length, fromText);
-        const readBytes = readPlainDecimalBytes(b, start, stop, fromBytes);
-        expect(readBytes).toBe(readText);
-        if (readText) expect(Object.is(fromBytes[0], fromText[0])).toBe(true);
-      }),
-      { numRuns: 3000 },
-    );
+    eachTextInBuffer(decimalText, ({ before, text, after, b, start, stop }, fromText, fromBytes) => {
+      const readText = readPlainDecimal(`${before}${text}${after}`, before.length, before.length + text.length, fromText);
+      const readBytes = readPlainDecimalBytes(b, start, stop, fromBytes);
+      expect(readBytes).toBe(readText);
+      if (readText) expect(Object.is(fromBytes[0], fromText[0])).toBe(true);
+    });
   });
 
   it('reads the edges of the exact range, and signed zeros', () => {
@@ -133,19 +143,13 @@ describe('readJsonNumber', () => {
   });
 
   it('reads from its UTF-8 bytes, anywhere in a buffer, exactly as from its text', () => {
-    fc.assert(
-      fc.property(junk, fc.oneof(jsonNumberText, fc.string({ maxLength: 8 })), junk, (before, text, after) => {
-        const fromText = new Float64Array(1);
-        const fromBytes = new Float64Array(1);
-        const { b, start, stop } = inBuffer(before, text, after);
-        // The text reader sees the line end where the text ends; the bytes reader, at `stop`.
-        const endText = readJsonNumber(text, 0, fromText);
-        const endBytes = readJsonNumberBytes(b, start, stop, fromBytes);
-        expect(endBytes < 0 ? -1 : endBytes - start).toBe(endText);
-        if (endText >= 0) expect(Object.is(fromBytes[0], fromText[0])).toBe(true);
-      }),
-      { numRuns: 3000 },
-    );
+    eachTextInBuffer(jsonNumberText, ({ text, b, start, stop }, fromText, fromBytes) => {
+      // The text reader sees the line end where the text ends; the bytes reader, at `stop`.
+      const endText = readJsonNumber(text, 0, fromText);
+      const endBytes = readJsonNumberBytes(b, start, stop, fromBytes);
+      expect(endBytes < 0 ? -1 : endBytes - start).toBe(endText);
+      if (endText >= 0) expect(Object.is(fromBytes[0], fromText[0])).toBe(true);
+    });
   });
 });
 

@@ -27,18 +27,15 @@ describe('createMappedNdjsonReader', () => {
     expect(reader.bytes(buffer, 2, 2 + Buffer.byteLength(text), 7)).toEqual(reader.text(text, 7));
   });
 
-  it('rejects bad lines for the same reasons as our own lines, with the device\'s line as the excerpt', () => {
-    const cases: [string, string][] = [
-      ['{"time_ms": 1', 'not_json'],
-      ['[1, 2]', 'schema'],
-      ['{"time_ms": 13500, "channel": "ch1", "fl_cm": -1}', 'out_of_range'],
-      ['{"time_ms": 13500, "channel": "ch1", "fl_cm": 5, "__proto__": {"x": 1}}', 'unsafe_key'],
-      ['{"time_ms": 13500, "event": "jump", "side": "left"}', 'unknown_event'],
-    ];
-    for (const [line, reason] of cases) {
-      const frame = reader.text(line, 2);
-      expect(frame, line).toMatchObject({ kind: 'rejection', reason, line: 2 });
-      if (frame.kind === 'rejection' && reason !== 'not_json') expect(frame.excerpt).toBe(line);
-    }
+  it.each([
+    ['{"time_ms": 1', 'not_json'],
+    ['[1, 2]', 'schema'],
+    ['{"time_ms": 13500, "channel": "ch1", "fl_cm": -1}', 'out_of_range'],
+    ['{"time_ms": 13500, "channel": "ch1", "fl_cm": 5, "__proto__": {"x": 1}}', 'unsafe_key'],
+    ['{"time_ms": 13500, "event": "jump", "side": "left"}', 'unknown_event'],
+  ])("rejects the bad line %s as %s, as it would our own line, with the device's line as the excerpt", (line, reason) => {
+    const frame = reader.text(line, 2);
+    expect(frame, line).toMatchObject({ kind: 'rejection', reason, line: 2 });
+    if (frame.kind === 'rejection' && reason !== 'not_json') expect(frame.excerpt).toBe(line);
   });
 });

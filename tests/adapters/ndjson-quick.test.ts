@@ -15,16 +15,21 @@ const nameText = fc.oneof(
   fc.string({ maxLength: 8 }),
 );
 
+/** Sample-like lines: our three fields in order, pennation and quality or not, then one of these tails before the closing brace. */
+function sampleLikeLine(tails: readonly string[]): fc.Arbitrary<string> {
+  return fc
+    .tuple(numberText, nameText, numberText, fc.option(numberText), fc.option(numberText), fc.constantFrom(...tails))
+    .map(([t, muscle, f, p, q, tail]) => {
+      let s = `{"t":${t},"muscle":"${muscle}","fascicle_mm":${f}`;
+      if (p !== null) s += `,"pennation_deg":${p}`;
+      if (q !== null) s += `,"quality":${q}`;
+      return `${s}${tail}}`;
+    });
+}
+
 describe('createNdjsonParser', () => {
   it('gives the same frame as the careful reading for sample-like lines, typed or odd', () => {
-    const line = fc
-      .tuple(numberText, nameText, numberText, fc.option(numberText), fc.option(numberText), fc.constantFrom('', ' ', '}', ',"x":1', ',"quality":0.5'))
-      .map(([t, muscle, f, p, q, tail]) => {
-        let s = `{"t":${t},"muscle":"${muscle}","fascicle_mm":${f}`;
-        if (p !== null) s += `,"pennation_deg":${p}`;
-        if (q !== null) s += `,"quality":${q}`;
-        return `${s}${tail}}`;
-      });
+    const line = sampleLikeLine(['', ' ', '}', ',"x":1', ',"quality":0.5']);
     fc.assert(
       fc.property(line, (text) => {
         expect(createNdjsonParser()(text, 7)).toEqual(parseJsonText(text, 7));
@@ -35,14 +40,7 @@ describe('createNdjsonParser', () => {
   });
 
   it('reads a line from its UTF-8 bytes, anywhere in a buffer, exactly as from its text', () => {
-    const line = fc
-      .tuple(numberText, nameText, numberText, fc.option(numberText), fc.option(numberText), fc.constantFrom('', ' ', '}', ',"x":1'))
-      .map(([t, muscle, f, p, q, tail]) => {
-        let s = `{"t":${t},"muscle":"${muscle}","fascicle_mm":${f}`;
-        if (p !== null) s += `,"pennation_deg":${p}`;
-        if (q !== null) s += `,"quality":${q}`;
-        return `${s}${tail}}`;
-      });
+    const line = sampleLikeLine(['', ' ', '}', ',"x":1']);
     fc.assert(
       fc.property(fc.oneof(line, fc.string({ maxLength: 60 })), fc.string({ maxLength: 5 }), fc.string({ maxLength: 5 }), (text, before, after) => {
         const head = Buffer.from(before);

@@ -10,6 +10,7 @@ import {
 } from '../../adapters/parse-record.ts';
 import type { Frame, Rejection } from '../../src/trial/records.ts';
 import type { RejectReason } from '../../src/trial/reasons.ts';
+import { itRejectsEach } from './rejection-table.ts';
 
 function rejection(frame: Frame): Rejection {
   if (frame.kind !== 'rejection') throw new Error(`expected a rejection, got ${frame.kind}`);
@@ -109,43 +110,36 @@ describe('parseRecordValue: rejections', () => {
     expect(r.excerpt).toBe('{"t": 0.1, "muscle": "calf", "fascicle_mm": -3}');
   });
 
-  it.each([
-    ['fascicle 0', '{"t":0,"muscle":"calf","fascicle_mm":0}'],
-    ['fascicle too big to be finite', '{"t":0,"muscle":"calf","fascicle_mm":1e400}'],
-    ['pennation above 90', '{"t":0,"muscle":"calf","fascicle_mm":50,"pennation_deg":95}'],
-    ['pennation below 0', '{"t":0,"muscle":"calf","fascicle_mm":50,"pennation_deg":-1}'],
-    ['quality above 1', '{"t":0,"muscle":"calf","fascicle_mm":50,"quality":1.5}'],
-    ['quality below 0', '{"t":0,"muscle":"calf","fascicle_mm":50,"quality":-0.1}'],
-    ['sample time 1e400 (JSON parses it to Infinity)', '{"t":1e400,"muscle":"calf","fascicle_mm":50}'],
-    ['event time -1e400', '{"t":-1e400,"event":"toe_off","side":"left"}'],
-    ['marker time 1e400', '{"t":1e400,"marker":"m"}'],
-    ['header rate 0', '{"format":"lengthwise-stream","version":1,"rate_hz":0}'],
-  ])('rejects %s as out_of_range', (_name, text) => {
-    expect(reasonOf(text)).toBe('out_of_range');
-  });
-
-  it.each([
-    ['a number', '42'],
-    ['a string', '"calf"'],
-    ['null', 'null'],
-    ['an array', '[1, 2]'],
-    ['an empty object', '{}'],
-    ['a sample without fascicle_mm', '{"t":0,"muscle":"calf"}'],
-    ['a sample without t', '{"muscle":"calf","fascicle_mm":50}'],
-    ['a sample with t as text', '{"t":"0.1","muscle":"calf","fascicle_mm":50}'],
-    ['a sample with an empty muscle name', '{"t":0,"muscle":"","fascicle_mm":50}'],
-    ['a sample with fascicle as text', '{"t":0,"muscle":"calf","fascicle_mm":"50"}'],
-    ['a sample with null pennation', '{"t":0,"muscle":"calf","fascicle_mm":50,"pennation_deg":null}'],
-    ['an event without side', '{"t":0,"event":"toe_off"}'],
-    ['an event with side "up"', '{"t":0,"event":"toe_off","side":"up"}'],
-    ['a marker that is a number', '{"t":0,"marker":5}'],
-    ['a header of another format', '{"format":"other","version":1}'],
-    ['a header of version 2', '{"format":"lengthwise-stream","version":2}'],
-    ['a header with a bad side', '{"format":"lengthwise-stream","version":1,"muscles":{"calf":{"side":"up"}}}'],
-    ['a header with a bad calibration', '{"format":"lengthwise-stream","version":1,"calibration":{"muscles":{"calf":{"method":"guess"}}}}'],
-  ])('rejects %s as schema', (_name, text) => {
-    expect(reasonOf(text)).toBe('schema');
-  });
+  itRejectsEach(reasonOf, [
+    ['fascicle 0', 'out_of_range', '{"t":0,"muscle":"calf","fascicle_mm":0}'],
+    ['fascicle too big to be finite', 'out_of_range', '{"t":0,"muscle":"calf","fascicle_mm":1e400}'],
+    ['pennation above 90', 'out_of_range', '{"t":0,"muscle":"calf","fascicle_mm":50,"pennation_deg":95}'],
+    ['pennation below 0', 'out_of_range', '{"t":0,"muscle":"calf","fascicle_mm":50,"pennation_deg":-1}'],
+    ['quality above 1', 'out_of_range', '{"t":0,"muscle":"calf","fascicle_mm":50,"quality":1.5}'],
+    ['quality below 0', 'out_of_range', '{"t":0,"muscle":"calf","fascicle_mm":50,"quality":-0.1}'],
+    ['sample time 1e400 (JSON parses it to Infinity)', 'out_of_range', '{"t":1e400,"muscle":"calf","fascicle_mm":50}'],
+    ['event time -1e400', 'out_of_range', '{"t":-1e400,"event":"toe_off","side":"left"}'],
+    ['marker time 1e400', 'out_of_range', '{"t":1e400,"marker":"m"}'],
+    ['header rate 0', 'out_of_range', '{"format":"lengthwise-stream","version":1,"rate_hz":0}'],
+    ['a number', 'schema', '42'],
+    ['a string', 'schema', '"calf"'],
+    ['null', 'schema', 'null'],
+    ['an array', 'schema', '[1, 2]'],
+    ['an empty object', 'schema', '{}'],
+    ['a sample without fascicle_mm', 'schema', '{"t":0,"muscle":"calf"}'],
+    ['a sample without t', 'schema', '{"muscle":"calf","fascicle_mm":50}'],
+    ['a sample with t as text', 'schema', '{"t":"0.1","muscle":"calf","fascicle_mm":50}'],
+    ['a sample with an empty muscle name', 'schema', '{"t":0,"muscle":"","fascicle_mm":50}'],
+    ['a sample with fascicle as text', 'schema', '{"t":0,"muscle":"calf","fascicle_mm":"50"}'],
+    ['a sample with null pennation', 'schema', '{"t":0,"muscle":"calf","fascicle_mm":50,"pennation_deg":null}'],
+    ['an event without side', 'schema', '{"t":0,"event":"toe_off"}'],
+    ['an event with side "up"', 'schema', '{"t":0,"event":"toe_off","side":"up"}'],
+    ['a marker that is a number', 'schema', '{"t":0,"marker":5}'],
+    ['a header of another format', 'schema', '{"format":"other","version":1}'],
+    ['a header of version 2', 'schema', '{"format":"lengthwise-stream","version":2}'],
+    ['a header with a bad side', 'schema', '{"format":"lengthwise-stream","version":1,"muscles":{"calf":{"side":"up"}}}'],
+    ['a header with a bad calibration', 'schema', '{"format":"lengthwise-stream","version":1,"calibration":{"muscles":{"calf":{"method":"guess"}}}}'],
+  ]);
 
   it('names the version it reads when a header has another version', () => {
     expect(rejection(parseJsonText('{"format":"lengthwise-stream","version":2}', 1)).message).toContain('reads version 1');

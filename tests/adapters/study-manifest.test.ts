@@ -27,6 +27,11 @@ function problems(result: ManifestResult): string[] {
   return result.problems.map(manifestProblemText);
 }
 
+/** Writes a manifest and reads it, as `manifest` does; the problems it was refused for. */
+async function manifestProblems(name: string, rows: readonly (readonly string[])[]): Promise<string[]> {
+  return problems(await manifest(name, rows));
+}
+
 describe('a study manifest', () => {
   it('gives a row per trial: paths from the manifest\'s folder, trials numbered within subject and condition, covariates as written', async () => {
     const result = await manifest('good.csv', [
@@ -58,19 +63,17 @@ describe('a study manifest', () => {
   });
 
   it('names a required column that is missing, with the nearest header', async () => {
-    expect(problems(await manifest('no-condition.csv', [['subject', 'conditon', 'file'], ['S01', 'slow', 'trials/a1.csv']]))).toEqual([
+    expect(await manifestProblems('no-condition.csv', [['subject', 'conditon', 'file'], ['S01', 'slow', 'trials/a1.csv']])).toEqual([
       'row 1, column "condition": is missing from the header row; did you mean "conditon"? (required: subject, condition, file; optional: trial, calibration, events, mapping, side, exclude, note)',
     ]);
   });
 
   it('names each missing file with its row and column, before any trial runs', async () => {
-    const found = problems(
-      await manifest('missing.csv', [
-        ['subject', 'condition', 'file', 'calibration', 'events'],
-        ['S01', 'slow', 'trials/a1.csv', 'cal-none.json', ''],
-        ['S02', 'slow', 'trials/zz.csv', '', 'ev.tsv'],
-      ]),
-    );
+    const found = await manifestProblems('missing.csv', [
+      ['subject', 'condition', 'file', 'calibration', 'events'],
+      ['S01', 'slow', 'trials/a1.csv', 'cal-none.json', ''],
+      ['S02', 'slow', 'trials/zz.csv', '', 'ev.tsv'],
+    ]);
     expect(found).toEqual([
       `row 2, column "calibration": cal-none.json: no such file (looked for ${join(dir, 'cal-none.json')}); paths are relative to the manifest's folder, ${dir}`,
       `row 3, column "file": trials/zz.csv: no such file (looked for ${join(dir, 'trials', 'zz.csv')}); paths are relative to the manifest's folder, ${dir}`,
@@ -79,14 +82,12 @@ describe('a study manifest', () => {
   });
 
   it('refuses a value a column does not accept: exclude, side, an empty required cell, a reserved subject', async () => {
-    const found = problems(
-      await manifest('values.csv', [
-        ['subject', 'condition', 'file', 'side', 'exclude'],
-        ['S01', 'slow', 'trials/a1.csv', 'calf=up', 'yes'],
-        ['', 'slow', 'trials/a2.csv', '', ''],
-        ['mean', 'fast', 'trials/b1.csv', 'calf=left;calf=right', ''],
-      ]),
-    );
+    const found = await manifestProblems('values.csv', [
+      ['subject', 'condition', 'file', 'side', 'exclude'],
+      ['S01', 'slow', 'trials/a1.csv', 'calf=up', 'yes'],
+      ['', 'slow', 'trials/a2.csv', '', ''],
+      ['mean', 'fast', 'trials/b1.csv', 'calf=left;calf=right', ''],
+    ]);
     expect(found).toEqual([
       'row 2, column "side": "calf=up" is not a side: give NAME=left or NAME=right, several separated by ";" (e.g. lat_gastroc=left;vastus_lat=right)',
       'row 2, column "exclude": "yes" is not accepted; give true or false (or leave it empty: false)',
@@ -97,44 +98,42 @@ describe('a study manifest', () => {
   });
 
   it('refuses the same subject, condition and trial twice, naming the first row', async () => {
-    const found = problems(
-      await manifest('twice.csv', [
-        ['subject', 'condition', 'trial', 'file'],
-        ['S01', 'slow', 't1', 'trials/a1.csv'],
-        ['S01', 'slow', 't2', 'trials/a2.csv'],
-        ['S01', 'slow', 't1', 'trials/b1.csv'],
-      ]),
-    );
+    const found = await manifestProblems('twice.csv', [
+      ['subject', 'condition', 'trial', 'file'],
+      ['S01', 'slow', 't1', 'trials/a1.csv'],
+      ['S01', 'slow', 't2', 'trials/a2.csv'],
+      ['S01', 'slow', 't1', 'trials/b1.csv'],
+    ]);
     expect(found).toEqual([
       'row 4, column "trial": subject "S01", condition "slow", trial "t1" is given in row 2 already; give each trial a name of its own in the "trial" column',
     ]);
   });
 
   it('refuses the same trial file in two rows', async () => {
-    const found = problems(await manifest('same-file.csv', [['subject', 'condition', 'file'], ['S01', 'slow', 'trials/a1.csv'], ['S01', 'slow', './trials/a1.csv']]));
+    const found = await manifestProblems('same-file.csv', [['subject', 'condition', 'file'], ['S01', 'slow', 'trials/a1.csv'], ['S01', 'slow', './trials/a1.csv']]);
     expect(found).toEqual(['row 3, column "file": the trial file is given in row 2 already; each row is a trial of its own file']);
   });
 
   it('says what a calibration file named in a row lacks, as --calibration would', async () => {
-    const found = problems(await manifest('bad-cal.csv', [['subject', 'condition', 'file', 'calibration'], ['S01', 'slow', 'trials/a1.csv', 'cal-bad.json']]));
+    const found = await manifestProblems('bad-cal.csv', [['subject', 'condition', 'file', 'calibration'], ['S01', 'slow', 'trials/a1.csv', 'cal-bad.json']]);
     expect(found).toHaveLength(1);
     expect(found[0]).toMatch(/^row 2, column "calibration": cal-bad\.json was not accepted: .*`muscles\.calf\.sarcomeres_in_seris`: unknown key; did you mean `muscles\.calf\.sarcomeres_in_series`\?/);
   });
 
   it('refuses a covariate named like a column the tables write, a column named twice, and a row with more cells than the header', async () => {
-    expect(problems(await manifest('reserved.csv', [['subject', 'condition', 'file', 'muscle'], ['S01', 'slow', 'trials/a1.csv', 'calf']]))).toEqual([
+    expect(await manifestProblems('reserved.csv', [['subject', 'condition', 'file', 'muscle'], ['S01', 'slow', 'trials/a1.csv', 'calf']])).toEqual([
       'row 1, column "muscle": is a column the study\'s tables write themselves; rename this covariate (e.g. with a prefix)',
     ]);
-    expect(problems(await manifest('twice-col.csv', [['subject', 'condition', 'file', 'age', 'age'], ['S01', 'slow', 'trials/a1.csv', '1', '2']]))).toEqual([
+    expect(await manifestProblems('twice-col.csv', [['subject', 'condition', 'file', 'age', 'age'], ['S01', 'slow', 'trials/a1.csv', '1', '2']])).toEqual([
       'row 1, column "age": is given twice in the header row; give each column once',
     ]);
-    expect(problems(await manifest('wide-row.csv', [['subject', 'condition', 'file'], ['S01', 'slow', 'trials/a1.csv', 'extra']]))).toEqual([
+    expect(await manifestProblems('wide-row.csv', [['subject', 'condition', 'file'], ['S01', 'slow', 'trials/a1.csv', 'extra']])).toEqual([
       'row 2: has 4 cells and the header row 3; quote cells that hold commas',
     ]);
   });
 
   it('refuses a manifest with no trial, and one that is not there', async () => {
-    expect(problems(await manifest('empty.csv', [['subject', 'condition', 'file']]))).toEqual([`${join(dir, 'empty.csv')} has a header row but no trial; give a row per trial`]);
+    expect(await manifestProblems('empty.csv', [['subject', 'condition', 'file']])).toEqual([`${join(dir, 'empty.csv')} has a header row but no trial; give a row per trial`]);
     expect(problems(await readStudyManifest(join(dir, 'none.csv')))).toEqual([`cannot read the manifest ${join(dir, 'none.csv')} (no such file); check the path`]);
   });
 });

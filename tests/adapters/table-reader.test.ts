@@ -1,11 +1,11 @@
 import fc from 'fast-check';
-import { stringify } from 'csv-stringify/sync';
 import { describe, expect, it } from 'vitest';
 import { parseDeviceMapping, type DeviceMapping } from '../../adapters/device-mapping.ts';
 import { findTableLayout } from '../../adapters/table-layout.ts';
 import { layoutQuery, planTable, tableReading, type TablePlan, type TableRole } from '../../adapters/table-plan.ts';
 import { createTableReader } from '../../adapters/table-reader.ts';
 import type { Frame, Sample } from '../../src/trial/records.ts';
+import { csvRow as row, OWN_HEADER as HEADER, ownColumnRows, ownHeaders } from './own-csv-rows.ts';
 
 function mapping(value: Record<string, unknown>): DeviceMapping {
   const r = parseDeviceMapping({ format: 'lengthwise-mapping', version: 1, ...value });
@@ -31,11 +31,6 @@ function read(plan: TablePlan, rows: readonly string[], quick = true, firstLine 
   const out: Frame[] = [];
   rows.forEach((r, i) => reader.text(r, firstLine + i, out));
   return out;
-}
-
-/** One row as an independent CSV writer writes it, with the given delimiter, line ending left off. */
-function row(cells: readonly string[], delimiter = ','): string {
-  return stringify([cells], { delimiter, record_delimiter: '\n' }).replace(/\n$/, '');
 }
 
 const WIDE = mapping({
@@ -117,18 +112,12 @@ describe('a wide table (a row per time, columns per muscle)', () => {
 });
 
 describe('a long table of our own columns, read from its bytes', () => {
-  const HEADER = 'time_s,muscle,fascicle_mm,pennation_deg,quality,event,side';
 
   it('reads a row from its UTF-8 bytes, anywhere in a buffer, exactly as from its text', () => {
     const number = fc.oneof(fc.double({ noNaN: true, min: -100, max: 200 }).map(String), fc.constantFrom('', '0', '-0', '+1', '.5', '1.', '1e3', '1e400', '00012.5', '1234567890123456', ' 5', 'x'));
     const text = fc.constantFrom('', 'calf', ' calf', 'calf ', 'a, b', 'say "hi"', 'time_s', 'foot_strike', 'toe_off', 'heel_off', 'left', 'right', 'größe', '\t');
-    const rows = fc
-      .tuple(number, text, number, number, number, text, text, fc.integer({ min: 0, max: 3 }))
-      .map(([t, muscle, fascicle, pennation, quality, event, side, drop]) => {
-        const cells = [t, muscle, fascicle, pennation, quality, event, side];
-        return row(cells.slice(0, cells.length - drop));
-      });
-    const headers = fc.constantFrom(HEADER, 'side,event,quality,pennation_deg,fascicle_mm,muscle,time_s', 'time_s,muscle,fascicle_mm,x,y,z,w', 'time_s,muscle,fascicle_mm');
+    const rows = ownColumnRows(number, text, 3);
+    const headers = ownHeaders('time_s,muscle,fascicle_mm');
     fc.assert(
       fc.property(headers, fc.array(fc.oneof(rows, fc.string({ maxLength: 20 })), { minLength: 1, maxLength: 6 }), fc.string({ maxLength: 4 }), (header, rs, before) => {
         const plan = planOf([header], null);

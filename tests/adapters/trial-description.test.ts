@@ -12,8 +12,7 @@ describe('a trial description', () => {
   it('reads every key, its paths beside the description and its offsets in seconds', () => {
     const r = parseTrialDescription(
       {
-        format: 'lengthwise-trial',
-        version: 1,
+        ...minimal,
         subject: 'S01',
         trial: 'walk-1',
         recordings: [

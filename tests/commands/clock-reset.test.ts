@@ -1,16 +1,11 @@
 import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { killServer, nextConnection, sendAll, until, wsClient, wsServer } from '../adapters/ws-peers.ts';
-import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSourceOrProvenance, type Child } from '../helpers/command-child.ts';
+import { endedAfterEach, endSession, expectReplayOfLog, listeningPort, liveSession, readJson, replaySummary, type LiveSession } from '../helpers/command-child.ts';
 
-const children: Child[] = [];
-const stops: (() => unknown)[] = [];
-afterEach(async () => {
-  for (const c of children.splice(0)) killChild(c);
-  while (stops.length > 0) await stops.pop()?.();
-});
+const { children, stops } = endedAfterEach();
 
 const HEADER = JSON.stringify({ format: 'lengthwise-stream', version: 1, subject: 'SYN-31', muscles: { calf: { side: 'left' } } });
 
@@ -27,7 +22,10 @@ function walkMessages(durationS: number): string[] {
   return messages;
 }
 
-async function expectContinued(live: Awaited<ReturnType<typeof readJson>>, log: string, dir: string, samples: number): Promise<void> {
+/** Ends the session after its two connections and checks its summary, its log and the log's replay. */
+async function expectContinued({ child, log, dir, summary }: LiveSession, samples: number): Promise<void> {
+  await endSession(child, 2);
+  const live = await readJson(summary);
   expect(live.frames).toMatchObject({ accepted: samples, rejected: 0 });
   const said = (live['warnings'] as string[]).filter((w) => /clock restarted/.test(w));
   expect(said).toHaveLength(1);
@@ -35,15 +33,13 @@ async function expectContinued(live: Awaited<ReturnType<typeof readJson>>, log: 
   expect(resets).toHaveLength(1);
   // The restarted clock (from 0) continues after the last time seen before it (5.99 s), however little wall time passed.
   expect(JSON.parse(resets[0] as string).clock_reset.offset_s).toBeGreaterThan(5.99);
-  expect(withoutSourceOrProvenance(await replaySummary(log, dir))).toEqual(withoutSourceOrProvenance(live));
+  await expectReplayOfLog(log, dir, live);
 }
 
 describe('a live device whose clock restarts', () => {
   it('(pushing to live --listen) goes on the session timeline with an offset: no sample is lost, it is said once, and the log replays the same', async () => {
-    const dir = await mkdtemp(join(tmpdir(), 'lengthwise-clock-'));
-    const log = join(dir, 'session.ndjson');
-    const summary = join(dir, 'live.json');
-    const c = lengthwise(['live', '--listen', '127.0.0.1:0', '--plain', '--log', log, '--summary', summary]);
+    const s = await liveSession(['--listen', '127.0.0.1:0'], 'lengthwise-clock-');
+    const c = s.child;
     children.push(c);
     const url = `ws://127.0.0.1:${await listeningPort(c)}`;
     for (let run = 0; run < 2; run++) {
@@ -54,19 +50,15 @@ describe('a live device whose clock restarts', () => {
       await until(() => (c.stderr.match(/DISCONNECTED/g) ?? []).length > run, 15_000, 'the device to leave');
     }
     expect(c.stderr).toMatch(/device clock restarted: the device of "calf" began a connection with a header and t=0 s, after t=5\.99 s/);
-    c.child.kill('SIGTERM');
-    expect((await c.exited).code, c.stderr).toBe(0);
-    await expectContinued(await readJson(summary), log, dir, 1200);
+    await expectContinued(s, 1200);
   });
 
   it('(served to live --connect) goes on the session timeline the same way after the reconnection', async () => {
     const server = await wsServer();
     stops.push(() => killServer(server.server));
-    const dir = await mkdtemp(join(tmpdir(), 'lengthwise-clock-connect-'));
-    const log = join(dir, 'session.ndjson');
-    const summary = join(dir, 'live.json');
     let connection = nextConnection(server.server);
-    const c = lengthwise(['live', '--connect', server.url, '--plain', '--log', log, '--summary', summary]);
+    const s = await liveSession(['--connect', server.url], 'lengthwise-clock-connect-');
+    const c = s.child;
     children.push(c);
     for (let run = 0; run < 2; run++) {
       const peer = await connection;
@@ -75,9 +67,7 @@ describe('a live device whose clock restarts', () => {
       peer.close(1001, 'device restarting');
       await until(() => (c.stderr.match(/DISCONNECTED/g) ?? []).length > run, 15_000, 'the connection to end');
     }
-    c.child.kill('SIGTERM');
-    expect((await c.exited).code, c.stderr).toBe(0);
-    await expectContinued(await readJson(summary), log, dir, 1200);
+    await expectContinued(s, 1200);
   });
 });
 

@@ -4,7 +4,8 @@ import { join } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { labTables, type LabTables } from '../helpers/lab-tables.ts';
-import { lengthwise } from '../helpers/lengthwise-process.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
+import { writeMappingFile } from '../helpers/mapping-file.ts';
 
 const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
 
@@ -28,18 +29,12 @@ describe('lengthwise inspect', () => {
       ['30', '5,5', '1,5', ''],
     ];
     await writeFile(path, `Invented station export\r\nsubject invented-03\r\n${stringify(rows, { delimiter: ';', record_delimiter: '\r\n' })}`);
-    const mapping = join(dir, 'station.json');
-    await writeFile(
-      mapping,
-      JSON.stringify({
-        format: 'lengthwise-mapping',
-        version: 1,
-        fields: { t: 'Time (ms)' },
-        units: { length: 'cm', time: 'ms' },
-        muscles: { lat_gastroc: { side: 'left', fascicle: 'LG fascicle (cm)', quality: 'LG conf' }, vastus_lat: { fascicle: 'VL fascicle (cm)' } },
-      }),
-    );
-    const ran = await lengthwise(['inspect', path, '--mapping', mapping, '--json']);
+    const mapping = await writeMappingFile(join(dir, 'station.json'), {
+      fields: { t: 'Time (ms)' },
+      units: { length: 'cm', time: 'ms' },
+      muscles: { lat_gastroc: { side: 'left', fascicle: 'LG fascicle (cm)', quality: 'LG conf' }, vastus_lat: { fascicle: 'VL fascicle (cm)' } },
+    });
+    const ran = await runLengthwise(['inspect', path, '--mapping', mapping, '--json']);
     expect(ran.code).toBe(0);
     expect(JSON.parse(ran.stdout)).toEqual({
       format: 'lengthwise-inspection',
@@ -92,7 +87,7 @@ describe('lengthwise inspect', () => {
   });
 
   it('reads the events file on the samples\' clock, and says the sides and where they come from', async () => {
-    const ran = await lengthwise(['inspect', tables.wide, '--mapping', tables.wideMapping, '--events', tables.events, '--side', 'calf=right', '--json']);
+    const ran = await runLengthwise(['inspect', tables.wide, '--mapping', tables.wideMapping, '--events', tables.events, '--side', 'calf=right', '--json']);
     expect(ran.code).toBe(0);
     const inspection = JSON.parse(ran.stdout);
     expect(inspection.muscles.calf).toMatchObject({ side: 'right', side_source: 'option' });
@@ -102,17 +97,17 @@ describe('lengthwise inspect', () => {
   });
 
   it('guesses a side from the first foot strike, and says so', async () => {
-    const ran = await lengthwise(['inspect', join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.csv')]);
+    const ran = await runLengthwise(['inspect', join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.csv')]);
     expect(ran.code).toBe(0);
     expect(ran.stdout).toContain('muscle thigh: left (guessed from the first foot strike)');
   });
 
   it('exits 1 for a table in columns not ours without a mapping, and suggests a mapping skeleton that reads it once its words are added', async () => {
-    const ran = await lengthwise(['inspect', tables.long, '--json']);
+    const ran = await runLengthwise(['inspect', tables.long, '--json']);
     expect(ran.code).toBe(1);
     const inspection = JSON.parse(ran.stdout);
     expect(inspection).toMatchObject({ readable: false, layout: null, problem: expect.stringContaining('no line among the first 64 names the columns') });
-    const suggested = await lengthwise(['inspect', tables.long, '--suggest-mapping']);
+    const suggested = await runLengthwise(['inspect', tables.long, '--suggest-mapping']);
     expect(suggested.code).toBe(0);
     const skeleton = JSON.parse(suggested.stdout);
     expect(skeleton).toEqual({
@@ -125,13 +120,13 @@ describe('lengthwise inspect', () => {
     });
     const mapping = join(dir, 'suggested.json');
     await writeFile(mapping, JSON.stringify({ ...skeleton, device: 'invented station', values: { event: { HS: 'foot_strike', TO: 'toe_off' }, side: { L: 'left', R: 'right' } } }));
-    expect((await lengthwise(['inspect', tables.long, '--mapping', mapping])).code).toBe(0);
+    expect((await runLengthwise(['inspect', tables.long, '--mapping', mapping])).code).toBe(0);
   });
 
   it('exits 1 for a file with no usable sample, listing the first bad lines', async () => {
     const path = join(dir, 'broken.csv');
     await writeFile(path, stringify([['time_s', 'muscle', 'fascicle_mm'], ['0', 'calf', 'x'], ['soon', 'calf', '50']]));
-    const ran = await lengthwise(['inspect', path]);
+    const ran = await runLengthwise(['inspect', path]);
     expect(ran.code).toBe(1);
     expect(ran.stdout).toContain('cannot be read');
     expect(ran.stdout).toContain('line 2 (fascicle_mm): schema: fascicle_mm is "x", not a decimal number');
@@ -141,7 +136,7 @@ describe('lengthwise inspect', () => {
   it('warns when fascicle lengths look like centimetres', async () => {
     const path = join(dir, 'cm.csv');
     await writeFile(path, stringify([['time_s', 'muscle', 'fascicle_mm'], ['0', 'calf', '5.2'], ['0.01', 'calf', '5.3']]));
-    const ran = await lengthwise(['inspect', path]);
+    const ran = await runLengthwise(['inspect', path]);
     expect(ran.stdout).toContain('warning: fascicle lengths average 5.25 mm, which looks like centimetres');
   });
 });

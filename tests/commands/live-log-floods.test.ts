@@ -1,33 +1,16 @@
-import { readFile, mkdtemp, stat } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
-import { killServer, nextConnection, sampleTexts, sendAll, until, wsClient, wsServer } from '../adapters/ws-peers.ts';
-import { killChild, lengthwise, listeningPort, readJson, replaySummary, withoutSourceOrProvenance, type Child } from '../helpers/command-child.ts';
+import { readFile, stat } from 'node:fs/promises';
+import { describe, expect, it } from 'vitest';
+import { killServer, nextConnection, sampleTexts, sendAll, wsClient, wsServer } from '../adapters/ws-peers.ts';
+import { endedAfterEach, endSession, expectReplayOfLog, listeningPort, liveSession, readJson, type LiveSession } from '../helpers/command-child.ts';
 import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
 
-const children: Child[] = [];
-const stops: (() => unknown)[] = [];
-afterEach(async () => {
-  for (const c of children.splice(0)) killChild(c);
-  while (stops.length > 0) await stops.pop()?.();
-});
+const { children, stops } = endedAfterEach();
 
-async function listeningSession(): Promise<{ child: Child; url: string; dir: string; log: string; summary: string }> {
-  const dir = await mkdtemp(join(tmpdir(), 'lengthwise-floods-'));
-  const log = join(dir, 'session.ndjson');
-  const summary = join(dir, 'live.json');
-  const child = lengthwise(['live', '--listen', '127.0.0.1:0', '--plain', '--log', log, '--summary', summary]);
-  children.push(child);
-  return { child, url: `ws://127.0.0.1:${await listeningPort(child)}`, dir, log, summary };
-}
-
-/** Ends a session once `devices` devices have left it: the summary is written, the log closed. */
-async function endSession(child: Child, devices: number): Promise<void> {
-  await until(() => (child.stderr.match(/DISCONNECTED/g) ?? []).length >= devices, 15_000, `${devices} devices to leave (stderr: ${child.stderr})`);
-  child.child.kill('SIGTERM');
-  const { code } = await child.exited;
-  expect(code, child.stderr).toBe(0);
+/** A session listening on 127.0.0.1, killed after the test if it still runs; the URL devices connect to. */
+async function listeningSession(): Promise<LiveSession & { url: string }> {
+  const s = await liveSession(['--listen', '127.0.0.1:0'], 'lengthwise-floods-');
+  children.push(s.child);
+  return { ...s, url: `ws://127.0.0.1:${await listeningPort(s.child)}` };
 }
 
 describe('a session log under floods that look legitimate', () => {
@@ -48,7 +31,7 @@ describe('a session log under floods that look legitimate', () => {
     const live = await readJson(s.summary);
     expect(live.frames).toMatchObject({ accepted: 50, rejected: 1 + 128 * 1024 - 1 + 5000 });
     expect(live.frames.rejected_by_reason).toEqual({ not_json: 1 + 2500, schema: 128 * 1024 - 1 + 2500 });
-    expect(withoutSourceOrProvenance(await replaySummary(s.log, s.dir))).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(s.log, s.dir, live);
   });
 
   it('records each message over the cap as one short rejection line, never padded, and a replay counts them', async () => {
@@ -71,7 +54,7 @@ describe('a session log under floods that look legitimate', () => {
     for (const line of lines) expect(line.length).toBeLessThan(1024);
     const live = await readJson(s.summary);
     expect(live.frames).toMatchObject({ accepted: 20, rejected_by_reason: { line_too_long: 3 } });
-    expect(withoutSourceOrProvenance(await replaySummary(s.log, s.dir))).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(s.log, s.dir, live);
   });
 
   it(`takes the first ${MAX_MUSCLES_PER_TRIAL} of 3000 one-sample muscles a device makes up, counts the rest as too_many_muscles, and the log replays the same`, async () => {
@@ -89,17 +72,14 @@ describe('a session log under floods that look legitimate', () => {
     const lost = (await readFile(s.log, 'utf8')).split('\n').find((l) => l.includes('"disconnected"')) ?? '';
     expect(JSON.parse(lost).disconnected.muscles).toHaveLength(MAX_MUSCLES_PER_TRIAL);
     expect((await stat(s.summary)).size).toBeLessThan(5 * 1024 * 1024);
-    expect(withoutSourceOrProvenance(await replaySummary(s.log, s.dir))).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(s.log, s.dir, live);
   });
 
   it('gives the live summary on replay when a server sends a 400 KiB muscle name of bytes that are not UTF-8', async () => {
     const server = await wsServer();
     stops.push(() => killServer(server.server));
-    const dir = await mkdtemp(join(tmpdir(), 'lengthwise-utf8-'));
-    const log = join(dir, 'session.ndjson');
-    const summary = join(dir, 'live.json');
     const connected = nextConnection(server.server);
-    const child = lengthwise(['live', '--connect', server.url, '--plain', '--log', log, '--summary', summary]);
+    const { child, dir, log, summary } = await liveSession(['--connect', server.url], 'lengthwise-utf8-');
     children.push(child);
     const peer = await connected;
     const name = Buffer.alloc(400 * 1024, 0xfe);
@@ -110,6 +90,6 @@ describe('a session log under floods that look legitimate', () => {
     await endSession(child, 1);
     const live = await readJson(summary);
     expect(live.frames).toMatchObject({ accepted: 200, rejected_by_reason: { line_too_long: 2 } });
-    expect(withoutSourceOrProvenance(await replaySummary(log, dir))).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(log, dir, live);
   });
 });

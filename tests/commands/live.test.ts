@@ -1,4 +1,4 @@
-import { execFileSync, spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
 import { appendFile, mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -12,45 +12,19 @@ import { fileSource } from '../../adapters/file-source.ts';
 import { runTrial } from '../../src/run/run-trial.ts';
 import { summaryJson } from '../../src/output/summary-json.ts';
 import { sampleTexts, sendAll, until, wsClient } from '../adapters/ws-peers.ts';
+import { endedAfterEach, expectReplayOfLog, lengthwise as start, listeningPort, readJson as json, replaySummary, withoutSourceOrProvenance, type Child } from '../helpers/command-child.ts';
 
-const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
+const { children, stops } = endedAfterEach();
 
-interface Child {
-  readonly child: ChildProcess;
-  stdout: string;
-  stderr: string;
-  readonly exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
-}
-
-const children: Child[] = [];
-const stops: (() => unknown)[] = [];
-afterEach(async () => {
-  for (const c of children.splice(0)) if (c.child.exitCode === null && c.child.signalCode === null) c.child.kill('SIGKILL');
-  while (stops.length > 0) await stops.pop()?.();
-});
-
-function lengthwise(args: readonly string[], cwd?: string): Child {
-  const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' }, ...(cwd !== undefined ? { cwd } : {}) });
-  const c: Child = {
-    child,
-    stdout: '',
-    stderr: '',
-    exited: new Promise((resolve) => child.on('exit', (code, signal) => resolve({ code, signal }))),
-  };
-  child.stdout?.on('data', (d: Buffer) => (c.stdout += d.toString()));
-  child.stderr?.on('data', (d: Buffer) => (c.stderr += d.toString()));
+/** Starts the command, killed after the test if it still runs. */
+function lengthwise(args: readonly string[]): Child {
+  const c = start(args);
   children.push(c);
   return c;
 }
 
 async function tmp(): Promise<string> {
   return mkdtemp(join(tmpdir(), 'lengthwise-live-'));
-}
-
-/** The port a `live --listen 127.0.0.1:0` child says it listens on. */
-async function listeningPort(c: Child): Promise<number> {
-  await until(() => /listening on ws:\/\/127\.0\.0\.1:\d+/.test(c.stderr), 15_000, `the child to listen (stderr: ${c.stderr})`);
-  return Number(/listening on ws:\/\/127\.0\.0\.1:(\d+)/.exec(c.stderr)?.[1]);
 }
 
 /** Waits until the session log on disk holds this many sample lines and rejected lines (it is flushed every second). */
@@ -63,24 +37,6 @@ async function logHolds(path: string, samples: number, rejected = 0): Promise<vo
     };
   };
   await until(() => counts().samples >= samples && counts().rejected >= rejected, 15_000, `the log to hold ${samples} samples and ${rejected} rejected lines`);
-}
-
-async function json(path: string): Promise<Record<string, unknown> & { frames: Record<string, unknown> }> {
-  return JSON.parse(await readFile(path, 'utf8'));
-}
-
-async function replaySummary(log: string, dir: string, name: string): Promise<Record<string, unknown> & { frames: Record<string, unknown> }> {
-  const out = join(dir, name);
-  const r = lengthwise(['replay', log, '--speed', 'max', '--plain', '--summary', out]);
-  const { code } = await r.exited;
-  expect(code, r.stderr).toBe(0);
-  return json(out);
-}
-
-function withoutSourceOrProvenance(summary: Record<string, unknown>): Record<string, unknown> {
-  // A live session's provenance names its session log as the input, its replay's the same file as the trial; each its own time.
-  const { source: _source, provenance: _provenance, ...rest } = summary;
-  return rest;
 }
 
 const BAD_MESSAGES: readonly (readonly [string, string])[] = [
@@ -166,7 +122,7 @@ describe('lengthwise live --listen', () => {
     await logHolds(log, 300, BAD_MESSAGES.length);
     c.child.kill('SIGKILL');
     expect((await c.exited).signal).toBe('SIGKILL');
-    const summary = await replaySummary(log, dir, 'replay.json');
+    const summary = await replaySummary(log, dir);
     expect(summary.frames).toMatchObject({ accepted: 300, rejected: BAD_MESSAGES.length });
     expect(summary.frames['rejected_by_reason']).toEqual({ not_json: 1, out_of_range: 1, unknown_event: 1, unsafe_key: 1, too_deep: 1, schema: 1 });
 
@@ -198,8 +154,7 @@ describe('lengthwise live --listen', () => {
     expect(c.stderr).toContain(`session log: ${log}`);
     const live = await json(join(dir, 'live.json'));
     expect(live.frames).toMatchObject({ accepted: 250, rejected: BAD_MESSAGES.length, headers: 1, gait_events: 2, markers: 1 });
-    const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(log, dir, live);
     expect(await readFile(join(dir, 'live.html'), 'utf8')).toContain('<svg');
   });
 
@@ -244,8 +199,7 @@ describe('lengthwise live --listen', () => {
     const calf = (live['muscles'] as Record<string, { side: string; strides: { start_s: number }[] }>)['calf'];
     expect(calf?.side).toBe('left');
     expect(calf?.strides.map((s) => s.start_s)).toEqual([0.2, 1.2]);
-    const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(log, dir, live);
   });
 
   it('refuses a device without the token with 401 and takes one with it', async () => {
@@ -316,8 +270,7 @@ describe('lengthwise live --connect', () => {
     expect(live.frames['accepted']).toBe(sim.stats.samplesSent);
     expect(live.frames['headers']).toBe(sim.stats.headersSent);
     expect(live.ended).toBe(true);
-    const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(log, dir, live);
   });
 
   it('through faults (malformed messages, disconnections, restarts) loses no valid sample received, and the log with its gaps restored replays the same', async () => {
@@ -393,8 +346,7 @@ describe.skipIf(!HAS_TMUX)(`lengthwise live on a real terminal${HAS_TMUX ? '' : 
     const live = await json(summary);
     expect(live.frames['accepted']).toBeGreaterThan(0);
     expect(live.ended).toBe(true);
-    const replay = await replaySummary(log, dir, 'replay.json');
-    expect(withoutSourceOrProvenance(replay)).toEqual(withoutSourceOrProvenance(live));
+    await expectReplayOfLog(log, dir, live);
   });
 });
 

@@ -3,15 +3,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { MAX_MUSCLES_PER_TRIAL } from '../../src/trial/settings.ts';
-import { lengthwise as start } from '../helpers/command-child.ts';
+import { runLengthwise as lengthwise } from '../helpers/command-child.ts';
+import { trialLines } from '../helpers/trial-lines.ts';
 
 const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
-
-async function lengthwise(args: readonly string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  const c = start(args);
-  const { code } = await c.exited;
-  return { code, stdout: c.stdout, stderr: c.stderr };
-}
 
 let dir = '';
 beforeAll(async () => {
@@ -22,12 +17,9 @@ describe('muscle names that are names of object properties', () => {
   /** The demo walk with its muscles renamed; the header no longer declares them (a header may not hold such keys). */
   async function renamedDemo(names: Record<string, string>): Promise<string> {
     const lines: string[] = [];
-    for (const line of (await readFile(DEMO, 'utf8')).split('\n')) {
-      let record: Record<string, unknown>;
-      try {
-        record = JSON.parse(line) as Record<string, unknown>;
-      } catch {
-        lines.push(line);
+    for (const { text, record } of await trialLines(DEMO)) {
+      if (record === null) {
+        lines.push(text);
         continue;
       }
       if (record['format'] === 'lengthwise-stream') {

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { labTables, type LabTables } from '../helpers/lab-tables.ts';
-import { lengthwise } from '../helpers/lengthwise-process.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 
 const REPLAYS = join(import.meta.dirname, '..', '..', 'replays');
 const DEMO = join(REPLAYS, 'demo-walk.ndjson');
@@ -19,7 +19,7 @@ interface Strides {
 /** Each muscle's side and stride start times, from a replay's summary. */
 async function strides(args: readonly string[], dir: string, name: string): Promise<Record<string, Strides>> {
   const summaryPath = join(dir, `${name}.json`);
-  const ran = await lengthwise(['replay', ...args, '--speed', 'max', '--plain', '--summary', summaryPath]);
+  const ran = await runLengthwise(['replay', ...args, '--speed', 'max', '--plain', '--summary', summaryPath]);
   expect(ran.stderr).not.toMatch(/\n\s+at /);
   expect(ran.code).toBe(0);
   const summary = JSON.parse(await readFile(summaryPath, 'utf8')) as { muscles: Record<string, { side: string; strides: { start_s: number }[] }> };
@@ -62,7 +62,7 @@ describe('a trial in your own files', () => {
 
   it('summarizes a table with its events file and mapping as replay does', async () => {
     const out = join(dir, 'study.csv');
-    const ran = await lengthwise(['summarize', tables.wide, '--mapping', tables.wideMapping, '--events', tables.events, '--calibration', DEMO_CAL, '--out', out, '--plain', '--jobs', '1']);
+    const ran = await runLengthwise(['summarize', tables.wide, '--mapping', tables.wideMapping, '--events', tables.events, '--calibration', DEMO_CAL, '--out', out, '--plain', '--jobs', '1']);
     expect(ran.code).toBe(0);
     const [header, ...rows] = (await readFile(out, 'utf8')).trim().split(/\r?\n/).map((r) => r.split(','));
     const column = (name: string): number => (header ?? []).indexOf(name);
@@ -73,7 +73,7 @@ describe('a trial in your own files', () => {
   });
 
   it('calibrates from a table through its mapping', async () => {
-    const ran = await lengthwise(['calibrate', tables.long, '--mapping', tables.longMapping, '--muscle', 'calf', '--window', '1-4', '--sarcomere-length', '2.7']);
+    const ran = await runLengthwise(['calibrate', tables.long, '--mapping', tables.longMapping, '--muscle', 'calf', '--window', '1-4', '--sarcomere-length', '2.7']);
     expect(ran.code).toBe(0);
     expect(JSON.parse(ran.stdout)).toMatchObject({ muscles: { calf: { method: 'sarcomere_count' } } });
   });
@@ -84,7 +84,7 @@ describe('failures nobody may miss', () => {
     const path = join(dir, 'no-samples.csv');
     await writeFile(path, stringify([['time_s', 'muscle', 'fascicle_mm'], ['0', 'calf', '-3'], ['0.01', 'calf', 'lost'], ['0.02', 'calf', '0']]));
     const summaryPath = join(dir, 'no-samples.json');
-    const ran = await lengthwise(['replay', path, '--speed', 'max', '--plain', '--summary', summaryPath]);
+    const ran = await runLengthwise(['replay', path, '--speed', 'max', '--plain', '--summary', summaryPath]);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toContain(`lengthwise replay: ${path} has no valid sample in 4 lines (rejected: 2 out_of_range`);
     expect(ran.stderr).toContain('line 2 (fascicle_mm): fascicle_mm is -3');
@@ -95,7 +95,7 @@ describe('failures nobody may miss', () => {
   it('exits 1 on an events file with no usable gait event, naming why', async () => {
     const path = join(dir, 'no-events.tsv');
     await writeFile(path, stringify([['time', 'kind', 'foot'], ['1.5', 'JUMP', 'L']], { delimiter: '\t' }));
-    const ran = await lengthwise(['replay', tables.wide, '--mapping', tables.wideMapping, '--events', path, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', tables.wide, '--mapping', tables.wideMapping, '--events', path, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toContain('the events file has no usable gait event in 2 lines (rejected: 1 unknown_event');
     expect(ran.stderr).toContain('line 2 (kind)');
@@ -104,19 +104,19 @@ describe('failures nobody may miss', () => {
   it('refuses a misspelled mapping key with its path and the nearest known key', async () => {
     const path = join(dir, 'typo.json');
     await writeFile(path, JSON.stringify({ format: 'lengthwise-mapping', version: 1, muscles: { calf: { side: 'left', fasicle: 'LG' } } }));
-    const ran = await lengthwise(['replay', DEMO, '--mapping', path, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', DEMO, '--mapping', path, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(2);
     expect(ran.stderr).toContain('`muscles.calf.fasicle`: unknown key; did you mean `muscles.calf.fascicle`?');
   });
 
   it('refuses a table whose columns are not the mapping\'s, naming the columns the file has', async () => {
-    const ran = await lengthwise(['replay', DEMO_CSV, '--mapping', tables.wideMapping, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', DEMO_CSV, '--mapping', tables.wideMapping, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toMatch(/lacks columns "calf fascicle \(mm\)" \(muscles\.calf\.fascicle\).*; it has "time_s", "muscle", "fascicle_mm"/);
   });
 
   it('warns when --side names a muscle the trial lacks, with both lists', async () => {
-    const ran = await lengthwise(['replay', DEMO, '--side', 'claf=left', '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', DEMO, '--side', 'claf=left', '--speed', 'max', '--plain']);
     expect(ran.code).toBe(0);
     expect(ran.stderr).toContain('names "claf", which the trial lacks; the trial has "calf", "thigh"');
   });

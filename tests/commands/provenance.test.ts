@@ -8,7 +8,7 @@ import { mkdtemp, readFile, stat, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { lengthwise } from '../helpers/lengthwise-process.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 import { DEFAULT_SETTINGS, SETTING_KEYS } from '../../src/trial/settings.ts';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 import type { RunProvenanceJson } from '../../src/output/run-provenance.ts';
@@ -31,7 +31,7 @@ beforeAll(async () => {
   await writeFile(settingsPath, JSON.stringify({ format: 'lengthwise-settings', version: 1, gap_s: 0.3 }));
   const out = join(dir, 'summary.json');
   const strides = join(dir, 'strides.csv');
-  const ran = await lengthwise(['replay', DEMO, '--speed', 'max', '--calibration', DEMO_CAL, '--settings', settingsPath, '--summary', out, '--strides', strides]);
+  const ran = await runLengthwise(['replay', DEMO, '--speed', 'max', '--calibration', DEMO_CAL, '--settings', settingsPath, '--summary', out, '--strides', strides]);
   expect(ran.code, ran.stderr).toBe(0);
   summary = JSON.parse(await readFile(out, 'utf8')) as SummaryJson;
   sidecar = JSON.parse(await readFile(`${strides}.provenance.json`, 'utf8')) as RunProvenanceJson;

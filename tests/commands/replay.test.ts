@@ -1,5 +1,4 @@
 import { describe, expect, it } from 'vitest';
-import { spawn } from 'node:child_process';
 import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -8,30 +7,12 @@ import { TestScheduler } from 'rxjs/testing';
 import { parseSpeed, speedOnceShown, type Speed } from '../../src/commands/replay.ts';
 import { paceReplayWith } from '../../src/pipeline/pace-replay.ts';
 import { makeSample } from '../../src/trial/records.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 import { deviceCopy, DEVICE_MAPPING as MAPPING } from '../helpers/device-copy.ts';
 
-const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
 const DEMO = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.ndjson');
 const DEMO_CSV = join(import.meta.dirname, '..', '..', 'replays', 'demo-walk.csv');
 const DEMO_CAL = join(import.meta.dirname, '..', '..', 'replays', 'demo-calibration.json');
-
-interface Ran {
-  readonly code: number | null;
-  readonly stdout: string;
-  readonly stderr: string;
-}
-
-function lengthwise(args: readonly string[]): Promise<Ran> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' } });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
-}
 
 async function tmp(): Promise<string> {
   return mkdtemp(join(tmpdir(), 'lengthwise-replay-'));
@@ -42,7 +23,7 @@ describe('lengthwise replay', () => {
     const dir = await tmp();
     const summaryPath = join(dir, 'out', 'summary.json');
     const stridesPath = join(dir, 'out', 'strides.csv');
-    const ran = await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', summaryPath, '--strides', stridesPath]);
+    const ran = await runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', summaryPath, '--strides', stridesPath]);
     expect(ran.stderr).toContain('summary written');
     expect(ran.code).toBe(0);
     const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
@@ -78,8 +59,8 @@ describe('lengthwise replay', () => {
     const dir = await tmp();
     const a = join(dir, 'a.json');
     const b = join(dir, 'b.json');
-    expect((await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', a])).code).toBe(0);
-    expect((await lengthwise(['replay', DEMO_CSV, '--calibration', DEMO_CAL, '--speed', 'max', '--summary', b])).code).toBe(0);
+    expect((await runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', a])).code).toBe(0);
+    expect((await runLengthwise(['replay', DEMO_CSV, '--calibration', DEMO_CAL, '--speed', 'max', '--summary', b])).code).toBe(0);
     const ndjson = JSON.parse(await readFile(a, 'utf8'));
     const csv = JSON.parse(await readFile(b, 'utf8'));
     expect(csv.muscles.calf.trial.stride_count).toBe(ndjson.muscles.calf.trial.stride_count);
@@ -90,8 +71,8 @@ describe('lengthwise replay', () => {
     const dir = await tmp();
     const a = join(dir, 'a.json');
     const b = join(dir, 'b.json');
-    await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', a]);
-    await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', b]);
+    await runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', a]);
+    await runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', b]);
     const made = /"created_utc": "[^"]*"/;
     const [x, y] = [await readFile(a, 'utf8'), await readFile(b, 'utf8')];
     expect(x).toMatch(made);
@@ -101,7 +82,7 @@ describe('lengthwise replay', () => {
   it('says loudly when a trial has no calibration, and still runs', async () => {
     const dir = await tmp();
     const summaryPath = join(dir, 's.json');
-    const ran = await lengthwise(['replay', DEMO_CSV, '--speed', 'max', '--summary', summaryPath]);
+    const ran = await runLengthwise(['replay', DEMO_CSV, '--speed', 'max', '--summary', summaryPath]);
     expect(ran.code).toBe(0);
     expect(ran.stdout).toContain('UNCALIBRATED');
     const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
@@ -110,7 +91,7 @@ describe('lengthwise replay', () => {
   });
 
   it('names a missing file and exits 1 without a stack trace', async () => {
-    const ran = await lengthwise(['replay', '/nonexistent/trial.ndjson', '--speed', 'max']);
+    const ran = await runLengthwise(['replay', '/nonexistent/trial.ndjson', '--speed', 'max']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toContain('/nonexistent/trial.ndjson');
     expect(ran.stderr).not.toMatch(/at .*\.ts:\d+/);
@@ -120,21 +101,21 @@ describe('lengthwise replay', () => {
     const dir = await tmp();
     const cal = join(dir, 'cal.json');
     await writeFile(cal, JSON.stringify({ muscles: { calf: { species: 'human', method: 'sarcomere_count', sarcomeres_in_series: -3 } } }));
-    const ran = await lengthwise(['replay', DEMO, '--calibration', cal]);
+    const ran = await runLengthwise(['replay', DEMO, '--calibration', cal]);
     expect(ran.code).toBe(2);
     expect(ran.stderr).toContain('sarcomeres_in_series');
   });
 
   it('refuses a bad speed, and names the nearest option for an unknown one', async () => {
-    expect((await lengthwise(['replay', DEMO, '--speed', 'fast'])).stderr).toContain('positive number');
-    const unknown = await lengthwise(['replay', DEMO, '--sped', '2']);
+    expect((await runLengthwise(['replay', DEMO, '--speed', 'fast'])).stderr).toContain('positive number');
+    const unknown = await runLengthwise(['replay', DEMO, '--sped', '2']);
     expect(unknown.code).toBe(2);
     expect(unknown.stderr).toContain('`--sped`: unknown option; did you mean `--speed`?');
     expect(unknown.stderr).toContain('lengthwise replay --help lists every option');
   });
 
   it('takes a negative number for a value and says why it is refused', async () => {
-    const negative = await lengthwise(['replay', DEMO, '--speed', '-1']);
+    const negative = await runLengthwise(['replay', DEMO, '--speed', '-1']);
     expect(negative.code).toBe(2);
     expect(negative.stderr).toContain('--speed "-1" is not a speed');
   });
@@ -146,8 +127,8 @@ describe('lengthwise replay --mapping', () => {
     const dir = await tmp();
     const files = await deviceCopy(DEMO, dir);
     const [a, b] = await Promise.all([
-      lengthwise(['replay', files.ours, '--speed', 'max', '--summary', join(dir, 'ours.json')]),
-      lengthwise(['replay', files.device, '--mapping', MAPPING, '--speed', 'max', '--summary', join(dir, 'device.json')]),
+      runLengthwise(['replay', files.ours, '--speed', 'max', '--summary', join(dir, 'ours.json')]),
+      runLengthwise(['replay', files.device, '--mapping', MAPPING, '--speed', 'max', '--summary', join(dir, 'device.json')]),
     ]);
     expect([a.code, b.code]).toEqual([0, 0]);
     const ours = JSON.parse(await readFile(join(dir, 'ours.json'), 'utf8'));
@@ -164,14 +145,14 @@ describe('lengthwise replay --mapping', () => {
   });
 
   it('refuses a CSV file in columns the mapping does not name, saying which, and a mapping that is not one', async () => {
-    const csv = await lengthwise(['replay', DEMO_CSV, '--mapping', MAPPING, '--speed', 'max', '--plain']);
+    const csv = await runLengthwise(['replay', DEMO_CSV, '--mapping', MAPPING, '--speed', 'max', '--plain']);
     expect(csv.code).toBe(1);
     expect(csv.stderr).toContain('no line among the first 64 names the columns "time_ms" (fields.t)');
     expect(csv.stderr).toContain('line 1, the likeliest header row, has "time_s", "muscle", "fascicle_mm"');
     const dir = await tmp();
     const bad = join(dir, 'bad-mapping.json');
     await writeFile(bad, JSON.stringify({ format: 'lengthwise-mapping', version: 1, fields: { t: 3 } }));
-    const refused = await lengthwise(['replay', DEMO, '--mapping', bad, '--speed', 'max']);
+    const refused = await runLengthwise(['replay', DEMO, '--mapping', bad, '--speed', 'max']);
     expect(refused.code).toBe(2);
     expect(refused.stderr).toContain('the device mapping was not accepted');
     expect(refused.stderr).not.toMatch(/\n\s+at /);
@@ -201,7 +182,7 @@ describe('lengthwise replay: calibration methods, activation and estimated strid
     );
     const summaryPath = join(dir, 'summary.json');
     const reportPath = join(dir, 'report.html');
-    const ran = await lengthwise(['replay', trial, '--calibration', calibration, '--speed', 'max', '--plain', '--summary', summaryPath, '--report', reportPath]);
+    const ran = await runLengthwise(['replay', trial, '--calibration', calibration, '--speed', 'max', '--plain', '--summary', summaryPath, '--report', reportPath]);
     expect(ran.code).toBe(0);
     const summary = JSON.parse(await readFile(summaryPath, 'utf8'));
     const calf = summary.muscles.calf;

@@ -2,7 +2,7 @@ import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { lengthwise } from '../helpers/lengthwise-process.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 import { parseSettings } from '../../adapters/settings-file.ts';
 import { DEFAULT_SETTINGS, SETTING_KEYS } from '../../src/trial/settings.ts';
 
@@ -18,14 +18,14 @@ beforeAll(async () => {
 
 describe('lengthwise settings', () => {
   it('prints every default as a settings file that reads back to the defaults', async () => {
-    const ran = await lengthwise(['settings']);
+    const ran = await runLengthwise(['settings']);
     expect(ran.code).toBe(0);
     expect(parseSettings(JSON.parse(ran.stdout))).toEqual({ ok: true, settings: DEFAULT_SETTINGS });
     expect(Object.keys(JSON.parse(ran.stdout) as object)).toEqual(['format', 'version', ...SETTING_KEYS]);
   });
 
   it('says what each setting does with --explain, a line each with its value', async () => {
-    const ran = await lengthwise(['settings', '--explain']);
+    const ran = await runLengthwise(['settings', '--explain']);
     expect(ran.code).toBe(0);
     const lines = ran.stdout.trimEnd().split('\n');
     expect(lines).toHaveLength(SETTING_KEYS.length);
@@ -35,21 +35,21 @@ describe('lengthwise settings', () => {
   it('prints the settings a file gives, the defaults filling in the rest', async () => {
     const path = join(dir, 'gate.json');
     await writeFile(path, JSON.stringify({ format: 'lengthwise-settings', version: 1, quality_gate: 0.4 }));
-    const ran = await lengthwise(['settings', '--settings', path]);
+    const ran = await runLengthwise(['settings', '--settings', path]);
     expect(ran.code).toBe(0);
     expect(JSON.parse(ran.stdout)).toMatchObject({ quality_gate: 0.4, gap_s: DEFAULT_SETTINGS.gap_s });
   });
 
   it('is refused by every command, before any work, when a key is not known, with the nearest one', async () => {
     const runs = await Promise.all([
-      lengthwise(['settings', '--settings', mistyped]),
-      lengthwise(['replay', DEMO, '--speed', 'max', '--settings', mistyped]),
-      lengthwise(['summarize', DEMO, '--settings', mistyped]),
-      lengthwise(['inspect', DEMO, '--settings', mistyped]),
-      lengthwise(['calibrate', DEMO, '--muscle', 'calf', '--window', '0-2', '--sarcomere-length', '2.7', '--settings', mistyped]),
-      lengthwise(['curve', '--sl', '2.5', '--settings', mistyped]),
-      lengthwise(['live', '--listen', '0', '--duration', '1', '--settings', mistyped]),
-      lengthwise(['simulate', '--listen', '0', '--duration', '1', '--settings', mistyped]),
+      runLengthwise(['settings', '--settings', mistyped]),
+      runLengthwise(['replay', DEMO, '--speed', 'max', '--settings', mistyped]),
+      runLengthwise(['summarize', DEMO, '--settings', mistyped]),
+      runLengthwise(['inspect', DEMO, '--settings', mistyped]),
+      runLengthwise(['calibrate', DEMO, '--muscle', 'calf', '--window', '0-2', '--sarcomere-length', '2.7', '--settings', mistyped]),
+      runLengthwise(['curve', '--sl', '2.5', '--settings', mistyped]),
+      runLengthwise(['live', '--listen', '0', '--duration', '1', '--settings', mistyped]),
+      runLengthwise(['simulate', '--listen', '0', '--duration', '1', '--settings', mistyped]),
     ]);
     for (const ran of runs) {
       expect(ran.code).toBe(2);
@@ -65,8 +65,8 @@ describe('a settings file given to replay', () => {
     await writeFile(narrow, JSON.stringify({ format: 'lengthwise-settings', version: 1, plausible_sarcomere_max_um: 2 }));
     const [plain, settled] = [join(dir, 'plain.json'), join(dir, 'narrow-summary.json')];
     const ran = await Promise.all([
-      lengthwise(['replay', DEMO, '--speed', 'max', '--summary', plain]),
-      lengthwise(['replay', DEMO, '--speed', 'max', '--summary', settled, '--settings', narrow]),
+      runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', plain]),
+      runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', settled, '--settings', narrow]),
     ]);
     expect(ran.map((r) => r.code)).toEqual([0, 0]);
     const [a, b] = await Promise.all([plain, settled].map(async (p) => JSON.parse(await readFile(p, 'utf8')) as { warnings: string[] }));
@@ -78,7 +78,7 @@ describe('a settings file given to replay', () => {
     const strict = join(dir, 'strict.json');
     await writeFile(strict, JSON.stringify({ format: 'lengthwise-settings', version: 1, stride_flag_gap_fraction: 0, quality_gate: 0.9 }));
     const out = join(dir, 'strict-summary.json');
-    const ran = await lengthwise(['replay', DEMO, '--speed', 'max', '--summary', out, '--settings', strict]);
+    const ran = await runLengthwise(['replay', DEMO, '--speed', 'max', '--summary', out, '--settings', strict]);
     expect(ran.code).toBe(0);
     const summary = JSON.parse(await readFile(out, 'utf8')) as { muscles: Record<string, { strides: { gap_s: number; flagged: boolean }[] }> };
     const strides = Object.values(summary.muscles).flatMap((m) => m.strides);

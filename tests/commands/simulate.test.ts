@@ -1,4 +1,3 @@
-import { spawn } from 'node:child_process';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { PassThrough } from 'node:stream';
@@ -7,6 +6,7 @@ import { WebSocket, WebSocketServer } from 'ws';
 import type { CommandIo } from '../../src/run/io.ts';
 import { parseSimulateArgs, run } from '../../src/commands/simulate.ts';
 import { createCollector } from '../sim/ws-collector.ts';
+import { killChild, lengthwise } from '../helpers/command-child.ts';
 import { websocketServer } from '../../adapters/websocket-server.ts';
 import type { Frame } from '../../src/trial/records.ts';
 
@@ -242,28 +242,20 @@ describe('lengthwise simulate', () => {
   });
 
   it('runs until SIGINT as a real process, then closes its clients cleanly and exits 0', async () => {
-    const child = spawn(process.execPath, [join(REPO, 'bin', 'lengthwise.js'), 'simulate', '--listen', '0'], {
-      cwd: REPO,
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
-    const out: string[] = [];
-    const err: string[] = [];
-    child.stdout.on('data', (d) => out.push(String(d)));
-    child.stderr.on('data', (d) => err.push(String(d)));
-    const exited = new Promise<number | null>((resolve) => child.on('exit', (c) => resolve(c)));
+    const c = lengthwise(['simulate', '--listen', '0'], { cwd: REPO, env: process.env });
     try {
-      const url = await until(() => urlIn(out), 15_000);
+      const url = await until(() => urlIn([c.stdout]), 15_000);
       const collector = createCollector();
       const ws = new WebSocket(url);
       ws.on('message', (d) => collector.take(String(d)));
       const closed = new Promise<number>((resolve) => ws.on('close', (c) => resolve(c)));
       await until(() => (collector.received.samples > 20 ? true : undefined));
-      child.kill('SIGINT');
-      expect(await exited).toBe(0);
+      c.child.kill('SIGINT');
+      expect((await c.exited).code).toBe(0);
       expect(await closed).toBe(1000);
-      expect(err.join('')).toMatch(/SIGINT received, closing connections/);
+      expect(c.stderr).toMatch(/SIGINT received, closing connections/);
     } finally {
-      if (child.exitCode === null) child.kill('SIGKILL');
+      killChild(c);
     }
   });
 });

@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import jstat from 'jstat';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { lengthwise, type Ran } from '../helpers/lengthwise-process.ts';
+import { runLengthwise, type Ran } from '../helpers/command-child.ts';
 import { csvRecords, parseCsv } from '../study/generated-trials.ts';
 import { studyTrials, writeStudy, WALKING_CONDITIONS, type StudySpec } from '../../src/sim/demo-study.ts';
 import type { StudyProvenanceJson } from '../../src/output/run-provenance.ts';
@@ -42,7 +42,7 @@ beforeAll(async () => {
   const results = await writeStudy(join(dir, 'study'), SPEC);
   for (const r of results) if (!r.ok) throw new Error(r.problem);
   out = join(dir, 'out');
-  ran = await lengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), ...outputs(out), '--jobs', '2', '--plain']);
+  ran = await runLengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), ...outputs(out), '--jobs', '2', '--plain']);
   for (const t of ['trials', 'groups', 'comparisons', 'cycles']) {
     texts[t] = await readFile(join(out, `${t}.csv`), 'utf8');
     tables[t] = csvRecords(texts[t]);
@@ -185,7 +185,7 @@ describe('lengthwise summarize --study', () => {
 
   it('writes the same bytes again for the same inputs and settings, but for created_utc', async () => {
     const again = join(dir, 'again');
-    const second = await lengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), ...outputs(again), '--jobs', '1', '--plain']);
+    const second = await runLengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), ...outputs(again), '--jobs', '1', '--plain']);
     expect(second.code).toBe(0);
     const made = /"created_utc": "[^"]*"/;
     for (const name of await readdir(out)) {
@@ -200,7 +200,7 @@ describe('the study report of summarize --study', () => {
     const settings = join(dir, 'settings.json');
     await writeFile(settings, JSON.stringify({ format: 'lengthwise-settings', version: 1, plausible_sarcomere_max_um: 4.5, gap_s: 0.3 }));
     const page = join(dir, 'report-out', 'report.html');
-    const result = await lengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), '--out', join(dir, 'report-out', 'trials.csv'), '--report', page, '--settings', settings, '--plain']);
+    const result = await runLengthwise(['summarize', '--study', join(dir, 'study', 'study.csv'), '--out', join(dir, 'report-out', 'trials.csv'), '--report', page, '--settings', settings, '--plain']);
     expect(result.code, result.stderr).toBe(0);
     const html = await readFile(page, 'utf8');
     const text = html.replace(/<[^>]+>/g, ' ').replace(/\s+/g, ' ');
@@ -221,7 +221,7 @@ describe('a manifest with problems', () => {
       'subject,condition,trial,file,exclude\r\nSYN-201,slow,a,trials/SYN-201-slow-1.ndjson,maybe\r\nSYN-201,slow,b,trials/none.ndjson,\r\nSYN-201,slow,a,trials/SYN-201-slow-2.ndjson,\r\n',
     );
     const folder = join(dir, 'bad-out');
-    const refused = await lengthwise(['summarize', '--study', bad, '--out', join(folder, 'trials.csv'), '--plain']);
+    const refused = await runLengthwise(['summarize', '--study', bad, '--out', join(folder, 'trials.csv'), '--plain']);
     expect(refused.code).toBe(2);
     expect(refused.stderr).toContain(`the manifest ${bad} was not accepted; nothing was run:`);
     expect(refused.stderr).toContain(`${bad} row 2, column "exclude": "maybe" is not accepted; give true or false`);
@@ -233,10 +233,10 @@ describe('a manifest with problems', () => {
 
   it('says the study tables need a manifest, and that a manifest and trial files do not go together', async () => {
     const demo = join(REPLAYS, 'demo-walk.ndjson');
-    const a = await lengthwise(['summarize', demo, '--groups', join(dir, 'g.csv')]);
+    const a = await runLengthwise(['summarize', demo, '--groups', join(dir, 'g.csv')]);
     expect(a.code).toBe(2);
     expect(a.stderr).toContain('--groups needs --study MANIFEST');
-    const b = await lengthwise(['summarize', demo, '--study', join(REPLAYS, 'study', 'study.csv')]);
+    const b = await runLengthwise(['summarize', demo, '--study', join(REPLAYS, 'study', 'study.csv')]);
     expect(b.code).toBe(2);
     expect(b.stderr).toContain('give either --study MANIFEST or trial files, not both');
   });
@@ -246,7 +246,7 @@ describe('a manifest with problems', () => {
     await writeFile(join(dir, 'study', 'trials', 'broken.ndjson'), 'not a trial\n');
     await writeFile(manifest, 'subject,condition,file\r\nSYN-201,slow,trials/SYN-201-slow-1.ndjson\r\nSYN-202,slow,trials/broken.ndjson\r\n');
     const folder = join(dir, 'broken-out');
-    const result = await lengthwise(['summarize', '--study', manifest, '--out', join(folder, 'trials.csv'), '--groups', join(folder, 'groups.csv'), '--plain']);
+    const result = await runLengthwise(['summarize', '--study', manifest, '--out', join(folder, 'trials.csv'), '--groups', join(folder, 'groups.csv'), '--plain']);
     expect(result.code).toBe(1);
     expect(result.stderr).toContain('1 failed');
     const rows = csvRecords(await readFile(join(folder, 'trials.csv'), 'utf8'));
@@ -259,7 +259,7 @@ describe('a manifest with problems', () => {
 describe('the bundled demo study', () => {
   it('runs as the README shows it, from a fresh clone', async () => {
     const folder = join(dir, 'demo-out');
-    const result = await lengthwise(['summarize', '--study', join(REPLAYS, 'study', 'study.csv'), '--out', join(folder, 'trials.csv'), '--groups', join(folder, 'groups.csv'), '--plain']);
+    const result = await runLengthwise(['summarize', '--study', join(REPLAYS, 'study', 'study.csv'), '--out', join(folder, 'trials.csv'), '--groups', join(folder, 'groups.csv'), '--plain']);
     expect(result.code, result.stderr).toBe(0);
     expect(result.stderr).toContain('summarized 12 of 12 trials');
   });

@@ -1,34 +1,19 @@
-import { execFile, execFileSync, spawnSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { summarizeTrial } from '../../src/study/summarize-trial.ts';
 import { parseJobs } from '../../src/commands/summarize.ts';
 import { csvRecords, expectTrialFiguresIn, trialFolder, type TrialFolder } from '../study/generated-trials.ts';
+import { BIN, runLengthwise, type Ran } from '../helpers/command-child.ts';
 import { deviceCopy, DEVICE_MAPPING } from '../helpers/device-copy.ts';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
-const BIN = join(ROOT, 'bin', 'lengthwise.js');
-const run = promisify(execFile);
-
-interface Ran {
-  readonly code: number;
-  readonly stdout: string;
-  readonly stderr: string;
-}
-
-/** Runs the real command line as a child process, the way a user does. */
-async function lengthwise(args: readonly string[]): Promise<Ran> {
-  try {
-    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { cwd: ROOT, maxBuffer: 64 * 1024 * 1024 });
-    return { code: 0, stdout, stderr };
-  } catch (error) {
-    const e = error as { code?: number; stdout?: string; stderr?: string };
-    return { code: typeof e.code === 'number' ? e.code : -1, stdout: e.stdout ?? '', stderr: e.stderr ?? '' };
-  }
+/** Runs the real command line as a child process, the way a user does, from the repository's folder and in its environment. */
+function lengthwise(args: readonly string[]): Promise<Ran> {
+  return runLengthwise(args, { cwd: ROOT, env: process.env });
 }
 
 let folder: TrialFolder;

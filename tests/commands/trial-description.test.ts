@@ -7,7 +7,7 @@ import { stringify } from 'csv-stringify/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 import { studyCsv } from '../../src/study/study-csv.ts';
-import { lengthwise } from '../helpers/lengthwise-process.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 import { THIGH_CLOCK_AHEAD_S, twoProbeTrial, type TwoProbeTrial } from '../helpers/two-probe-trial.ts';
 
 let dir = '';
@@ -16,7 +16,7 @@ let unsplit: SummaryJson;
 
 async function replayed(args: readonly string[], name: string): Promise<SummaryJson> {
   const summaryPath = join(dir, `${name}.summary.json`);
-  const ran = await lengthwise(['replay', ...args, '--speed', 'max', '--plain', '--summary', summaryPath]);
+  const ran = await runLengthwise(['replay', ...args, '--speed', 'max', '--plain', '--summary', summaryPath]);
   expect(ran.stderr).not.toMatch(/\n\s+at /);
   expect(ran.code, ran.stderr).toBe(0);
   return JSON.parse(await readFile(summaryPath, 'utf8')) as SummaryJson;
@@ -72,7 +72,7 @@ describe('a trial recorded by two probes, each on its own clock, described in on
       [noOffset, 'it gives none'],
       [slipped, 'it gives -41.235'],
     ] as const) {
-      const ran = await lengthwise(['replay', path, '--speed', 'max', '--plain']);
+      const ran = await runLengthwise(['replay', path, '--speed', 'max', '--plain']);
       expect(ran.code).toBe(1);
       expect(ran.stderr).toContain(`lengthwise replay: ${t.thigh} spans `);
       expect(ran.stderr).toContain(`the other recordings 0–39.99 s: they overlap by nothing, less than one stride (1.101 s, the median time between foot strikes of one side at the start of ${t.events})`);
@@ -82,7 +82,7 @@ describe('a trial recorded by two probes, each on its own clock, described in on
 
   it('refuses a muscle in two recordings, naming both files, before anything plays', async () => {
     const twice = await t.describe('twice.json', { ...t.content, recordings: [...t.content.recordings, { file: 'both.csv' }] });
-    const ran = await lengthwise(['replay', twice, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', twice, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toContain(`lengthwise replay: muscle "calf" is in two recordings, ${t.calf} and ${t.both}: a muscle may come from one recording only`);
   });
@@ -93,7 +93,7 @@ describe('a trial recorded by two probes, each on its own clock, described in on
     rows.push(['30', 'calf', '50']);
     await writeFile(join(dir, 'late.csv'), stringify(rows));
     const late = await t.describe('late.json', { ...t.content, recordings: [t.content.recordings[0], { file: 'late.csv' }] });
-    const ran = await lengthwise(['replay', late, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', late, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toContain(`${join(dir, 'late.csv')} line 3002: muscle "calf" is in two recordings, ${t.calf} and ${join(dir, 'late.csv')}`);
   });
@@ -102,7 +102,7 @@ describe('a trial recorded by two probes, each on its own clock, described in on
     await writeFile(join(dir, 'bad-a.csv'), stringify([['time_s', 'muscle', 'fascicle_mm'], ['0', 'calf', '-3'], ['0.01', 'calf', 'lost']]));
     await writeFile(join(dir, 'bad-b.csv'), stringify([['time_s', 'muscle', 'fascicle_mm'], ['0', 'thigh', '0']]));
     const bad = await t.describe('bad.json', { format: 'lengthwise-trial', version: 1, recordings: [{ file: 'bad-a.csv' }, { file: 'bad-b.csv' }] });
-    const ran = await lengthwise(['replay', bad, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', bad, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(1);
     expect(ran.stderr).toContain(`lengthwise replay: ${bad} has no valid sample`);
     expect(ran.stderr).toContain(`  ${join(dir, 'bad-a.csv')} line 2 (fascicle_mm): fascicle_mm is -3`);
@@ -123,7 +123,7 @@ describe('a trial recorded by two probes, each on its own clock, described in on
 
   it('says what is wrong with a description it does not accept, with the nearest key', async () => {
     const typo = await t.describe('typo.json', { ...t.content, recordings: undefined, recording: t.content.recordings });
-    const ran = await lengthwise(['replay', typo, '--speed', 'max', '--plain']);
+    const ran = await runLengthwise(['replay', typo, '--speed', 'max', '--plain']);
     expect(ran.code).toBe(2);
     expect(ran.stderr).toContain('lengthwise replay: the trial description was not accepted:');
     expect(ran.stderr).toContain(`${typo}: \`recording\`: unknown key; did you mean \`recordings\`?`);
@@ -131,14 +131,14 @@ describe('a trial recorded by two probes, each on its own clock, described in on
 
   it('gives summarize the same row as replay', async () => {
     const out = join(dir, 'study.csv');
-    const ran = await lengthwise(['summarize', t.description, '--out', out, '--plain', '--jobs', '1']);
+    const ran = await runLengthwise(['summarize', t.description, '--out', out, '--plain', '--jobs', '1']);
     expect(ran.code, ran.stderr).toBe(0);
     const described = await replayed([t.description], 'for-study');
     expect(await readFile(out, 'utf8')).toBe(studyCsv([described]));
   });
 
   it('calibrates from a description\'s recordings', async () => {
-    const ran = await lengthwise(['calibrate', t.description, '--muscle', 'thigh', '--window', '1-4', '--sarcomere-length', '2.9']);
+    const ran = await runLengthwise(['calibrate', t.description, '--muscle', 'thigh', '--window', '1-4', '--sarcomere-length', '2.9']);
     expect(ran.code, ran.stderr).toBe(0);
     expect(JSON.parse(ran.stdout)).toMatchObject({ muscles: { thigh: { method: 'sarcomere_count' } } });
   });
@@ -146,7 +146,7 @@ describe('a trial recorded by two probes, each on its own clock, described in on
 
 describe('lengthwise inspect DESCRIPTION', () => {
   it('shows each recording with its muscles and its span on the trial\'s clock, the events file and the overlap', async () => {
-    const ran = await lengthwise(['inspect', t.description]);
+    const ran = await runLengthwise(['inspect', t.description]);
     expect(ran.code, ran.stderr).toBe(0);
     const text = ran.stdout;
     expect(text).toContain(`${t.description}: a trial description of 2 recordings; can be read`);
@@ -161,7 +161,7 @@ describe('lengthwise inspect DESCRIPTION', () => {
 
   it('says, as JSON, each recording\'s span and the overlap, and exits 1 when a clock is off', async () => {
     const noOffset = await t.describe('inspect-no-offset.json', { ...t.content, recordings: [t.content.recordings[0], { file: 'thigh.csv', mapping: 'thigh-map.json' }] });
-    const ran = await lengthwise(['inspect', noOffset, '--json']);
+    const ran = await runLengthwise(['inspect', noOffset, '--json']);
     expect(ran.code).toBe(1);
     const i = JSON.parse(ran.stdout) as { readable: boolean; problem: string; overlap: unknown; recordings: { file: string; time_offset_s: number; first_s: number; last_s: number; muscles: object }[] };
     expect(i.readable).toBe(false);

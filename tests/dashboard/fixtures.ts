@@ -7,6 +7,8 @@ import { zeroRegionRecord, type RegionKey } from '../../src/model/regions.ts';
 import { speciesCurve, type Species } from '../../src/model/species.ts';
 import { makeSample, type Side } from '../../src/trial/records.ts';
 import { emptyFrameCounts, type CalibrationSource, type MuscleState, type StrideSummary, type TrialState } from '../../src/trial/state.ts';
+import type { Observer } from 'rxjs';
+import type { Run, Tone } from '../../src/dashboard/view/curve-drawing.ts';
 
 export interface MuscleOptions {
   readonly side?: Side | null;
@@ -141,4 +143,15 @@ export function walkingState(): TrialState {
   pushSample(state, 'thigh', { tS: 5, sarcomereUm: 3.05, velocityMmS: 20 });
   state.firstTS = 0;
   return state;
+}
+
+/** A trial that breaks off upstream: the walking state, then the stream failing with this message. */
+export function walkThenFail(state$: Observer<TrialState>, message: string): void {
+  state$.next(walkingState());
+  state$.error(new Error(message));
+}
+
+/** A drawn row as runs of text, each pair its text and its tone. */
+export function toneRuns(...pairs: readonly (readonly [text: string, tone: Tone])[]): Run[] {
+  return pairs.map(([text, tone]) => ({ text, tone }));
 }

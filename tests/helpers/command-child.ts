@@ -1,7 +1,12 @@
-/** The command as a child process, the way a user runs it, for tests that need real processes, sockets and signals. */
+/**
+ * The built command as a child process, the way a user runs it, for tests that need real processes, sockets
+ * and signals: started (`lengthwise`, to follow it while it runs) or run to its end (`runLengthwise`).
+ */
 import { spawn, type ChildProcess, type SpawnOptions } from 'node:child_process';
-import { readFile } from 'node:fs/promises';
+import { mkdtemp, readFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { afterEach, expect } from 'vitest';
 import { until } from '../adapters/ws-peers.ts';
 
 export const BIN = join(import.meta.dirname, '..', '..', 'bin', 'lengthwise.js');
@@ -32,9 +37,44 @@ export function spawnChild(program: string, args: readonly string[], spawnOption
   return c;
 }
 
+/** What a program run to its end gave: its exit code (null when a signal ended it) and all it printed. */
+export interface Ran {
+  readonly code: number | null;
+  readonly stdout: string;
+  readonly stderr: string;
+}
+
+/** Runs any program started as spawnChild starts it, to its end: resolves once its output streams have closed. */
+export function runChild(program: string, args: readonly string[], spawnOptions: SpawnOptions = {}): Promise<Ran> {
+  const c = spawnChild(program, args, spawnOptions);
+  return new Promise((resolve, reject) => {
+    c.child.on('error', reject);
+    c.child.on('close', (code) => resolve({ code, stdout: c.stdout, stderr: c.stderr }));
+  });
+}
+
+/** Runs `lengthwise ARGS` (NO_COLOR set) to its end. */
+export function runLengthwise(args: readonly string[], spawnOptions: SpawnOptions = {}): Promise<Ran> {
+  return runChild(process.execPath, [BIN, ...args], spawnOptions);
+}
+
 /** Kills a child that is still running (for afterEach). */
 export function killChild(c: Child): void {
   if (c.child.exitCode === null && c.child.signalCode === null) c.child.kill('SIGKILL');
+}
+
+/**
+ * The children a test file starts and the clean-ups it needs (closing sockets, stopping servers): after each
+ * test the children still running are killed, then the clean-ups run, the last added first.
+ */
+export function endedAfterEach(): { readonly children: Child[]; readonly stops: (() => unknown)[] } {
+  const children: Child[] = [];
+  const stops: (() => unknown)[] = [];
+  afterEach(async () => {
+    for (const c of children.splice(0)) killChild(c);
+    while (stops.length > 0) await stops.pop()?.();
+  });
+  return { children, stops };
 }
 
 /** The port a `live --listen 127.0.0.1:0` child says it listens on. */
@@ -56,6 +96,35 @@ export async function replaySummary(log: string, dir: string, name = 'replay.jso
   const { code } = await r.exited;
   if (code !== 0) throw new Error(`replay of ${log} ended with ${code}: ${r.stderr}`);
   return readJson(out);
+}
+
+/** A live session of the command in a folder of its own: `lengthwise live SOURCE --plain --log LOG --summary SUMMARY`. */
+export interface LiveSession {
+  readonly child: Child;
+  readonly dir: string;
+  readonly log: string;
+  readonly summary: string;
+}
+
+/** Starts `lengthwise live SOURCE…` (e.g. `--listen 127.0.0.1:0`) with its log and summary in a new folder named from `prefix`. */
+export async function liveSession(source: readonly string[], prefix: string): Promise<LiveSession> {
+  const dir = await mkdtemp(join(tmpdir(), prefix));
+  const log = join(dir, 'session.ndjson');
+  const summary = join(dir, 'live.json');
+  return { child: lengthwise(['live', ...source, '--plain', '--log', log, '--summary', summary]), dir, log, summary };
+}
+
+/** Ends a session once `devices` devices have left it (SIGTERM, then exit 0): the summary is written, the log closed. */
+export async function endSession(child: Child, devices: number): Promise<void> {
+  await until(() => (child.stderr.match(/DISCONNECTED/g) ?? []).length >= devices, 15_000, `${devices} devices to leave (stderr: ${child.stderr})`);
+  child.child.kill('SIGTERM');
+  const { code } = await child.exited;
+  expect(code, child.stderr).toBe(0);
+}
+
+/** Checks that the replay of a session's log gives the live session's summary, apart from source and provenance. */
+export async function expectReplayOfLog(log: string, dir: string, live: Record<string, unknown>): Promise<void> {
+  expect(withoutSourceOrProvenance(await replaySummary(log, dir))).toEqual(withoutSourceOrProvenance(live));
 }
 
 /** A summary without its `source` (a live session's URL, a replay's file), for comparing the two. */

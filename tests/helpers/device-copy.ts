@@ -3,8 +3,9 @@
  * would record it: milliseconds from its own zero, centimetres, numbered channels. Only the valid-looking
  * records are kept, in both copies, so the two files hold the same trial.
  */
-import { readFile, writeFile } from 'node:fs/promises';
+import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { trialLines } from './trial-lines.ts';
 
 export const DEVICE_MAPPING = join(import.meta.dirname, '..', '..', 'adapters', 'mappings', 'bench-probe-cm.json');
 
@@ -12,13 +13,8 @@ export async function deviceCopy(trial: string, dir: string): Promise<{ ours: st
   const channel: Record<string, string> = { calf: 'ch1', thigh: 'ch2' };
   const ours: string[] = [];
   const device: string[] = [];
-  for (const line of (await readFile(trial, 'utf8')).split('\n')) {
-    let r: Record<string, unknown>;
-    try {
-      r = JSON.parse(line) as Record<string, unknown>;
-    } catch {
-      continue;
-    }
+  for (const { text: line, record: r } of await trialLines(trial)) {
+    if (r === null) continue;
     if (r['format'] === 'lengthwise-stream') {
       ours.push(line);
       device.push(line);

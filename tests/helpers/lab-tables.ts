@@ -5,9 +5,11 @@
  * per time, a column per muscle, tabs) with the gait events in a file of their own on another clock. The
  * mappings that read them back are written beside them.
  */
-import { readFile, writeFile } from 'node:fs/promises';
+import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
+import { writeMappingFile } from './mapping-file.ts';
+import { trialLines } from './trial-lines.ts';
 
 interface Parsed {
   readonly t: number;
@@ -41,15 +43,11 @@ export interface LabTables {
 export const EVENTS_CLOCK_AHEAD_S = 1.25;
 
 export async function labTables(trial: string, dir: string): Promise<LabTables> {
-  const records: Parsed[] = [];
-  for (const line of (await readFile(trial, 'utf8')).split('\n')) {
-    try {
-      const r = JSON.parse(line) as Parsed;
-      if (typeof r.t === 'number' && (typeof r.muscle === 'string' || typeof r.event === 'string')) records.push(r);
-    } catch {
-      // Lines that are not JSON are the trial's own bad lines; a lab export has none of that kind.
-    }
-  }
+  // Lines that are not JSON are the trial's own bad lines; a lab export has none of that kind.
+  const records = (await trialLines(trial)).flatMap(({ record }) => {
+    const r = record as Partial<Parsed> | null;
+    return r !== null && typeof r.t === 'number' && (typeof r.muscle === 'string' || typeof r.event === 'string') ? [r as Parsed] : [];
+  });
   const muscles = [...new Set(records.flatMap((r) => (r.muscle !== undefined ? [r.muscle] : [])))];
   const sides = { calf: 'left', thigh: 'right' } as const;
 
@@ -64,18 +62,12 @@ export async function labTables(trial: string, dir: string): Promise<LabTables> 
     long,
     `\uFEFF${notes}${stringify([['Time (ms)', 'Site', 'Fascicle (cm)', 'Pennation (rad)', 'Conf', 'Gait', 'Foot'], ...longRows], { delimiter: ';', record_delimiter: '\r\n' })}`,
   );
-  const longMapping = join(dir, 'lab-long.json');
-  await writeFile(
-    longMapping,
-    JSON.stringify({
-      format: 'lengthwise-mapping',
-      version: 1,
-      fields: { t: 'Time (ms)', muscle: 'Site', fascicle: 'Fascicle (cm)', pennation: 'Pennation (rad)', quality: 'Conf', event: 'Gait', side: 'Foot' },
-      units: { length: 'cm', angle: 'rad', time: 'ms' },
-      muscles: { calf: { side: sides.calf }, thigh: { side: sides.thigh } },
-      values: { event: { HS: 'foot_strike', TO: 'toe_off' }, side: { L: 'left', R: 'right' } },
-    }),
-  );
+  const longMapping = await writeMappingFile(join(dir, 'lab-long.json'), {
+    fields: { t: 'Time (ms)', muscle: 'Site', fascicle: 'Fascicle (cm)', pennation: 'Pennation (rad)', quality: 'Conf', event: 'Gait', side: 'Foot' },
+    units: { length: 'cm', angle: 'rad', time: 'ms' },
+    muscles: { calf: { side: sides.calf }, thigh: { side: sides.thigh } },
+    values: { event: { HS: 'foot_strike', TO: 'toe_off' }, side: { L: 'left', R: 'right' } },
+  });
 
   // Wide: one row per time, the muscles' cells side by side (a muscle without a sample at a time leaves its cells empty).
   const byTime = new Map<number, Map<string, Parsed>>();
@@ -100,21 +92,15 @@ export async function labTables(trial: string, dir: string): Promise<LabTables> 
     .filter((r) => r.event !== undefined)
     .map((r) => [String(fixed(r.t + EVENTS_CLOCK_AHEAD_S, 6)), r.event === 'foot_strike' ? 'HS' : r.event === 'toe_off' ? 'TO' : (r.event ?? ''), r.side === 'left' ? 'L' : 'R']);
   await writeFile(events, stringify([['time', 'kind', 'foot'], ...eventRows], { delimiter: '\t' }));
-  const wideMapping = join(dir, 'lab-wide.json');
-  await writeFile(
-    wideMapping,
-    JSON.stringify({
-      format: 'lengthwise-mapping',
-      version: 1,
-      muscles: Object.fromEntries(muscles.map((m) => [m, { side: sides[m as keyof typeof sides], fascicle: `${m} fascicle (mm)`, pennation: `${m} pennation (deg)` }])),
-      events: {
-        table: { delimiter: '\t' },
-        fields: { t: 'time', event: 'kind', side: 'foot' },
-        units: { time: 's' },
-        time_offset_s: -EVENTS_CLOCK_AHEAD_S,
-        values: { event: { HS: 'foot_strike', TO: 'toe_off' }, side: { L: 'left', R: 'right' } },
-      },
-    }),
-  );
+  const wideMapping = await writeMappingFile(join(dir, 'lab-wide.json'), {
+    muscles: Object.fromEntries(muscles.map((m) => [m, { side: sides[m as keyof typeof sides], fascicle: `${m} fascicle (mm)`, pennation: `${m} pennation (deg)` }])),
+    events: {
+      table: { delimiter: '\t' },
+      fields: { t: 'time', event: 'kind', side: 'foot' },
+      units: { time: 's' },
+      time_offset_s: -EVENTS_CLOCK_AHEAD_S,
+      values: { event: { HS: 'foot_strike', TO: 'toe_off' }, side: { L: 'left', R: 'right' } },
+    },
+  });
   return { long, longMapping, wide, events, wideMapping };
 }

@@ -1,12 +1,11 @@
 import fc from 'fast-check';
-import { execFile } from 'node:child_process';
 import { mkdtemp, readFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { promisify } from 'node:util';
 import { describe, expect, it } from 'vitest';
 import { decimalsFor, OUTPUT_DECIMALS, roundFigures, roundTo } from '../../src/output/output-precision.ts';
 import { STRIDE_COLUMNS } from '../../src/output/strides-csv.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 import { parseCsv } from '../study/generated-trials.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
@@ -101,7 +100,8 @@ describe('the outputs of a replay', () => {
     const dir = await mkdtemp(join(tmpdir(), 'lengthwise-precision-'));
     const summary = join(dir, 's.json');
     const strides = join(dir, 's.csv');
-    await promisify(execFile)(process.execPath, [join(ROOT, 'bin', 'lengthwise.js'), 'replay', join(ROOT, 'replays', 'demo-walk.ndjson'), '--speed', 'max', '--plain', '--summary', summary, '--strides', strides]);
+    const ran = await runLengthwise(['replay', join(ROOT, 'replays', 'demo-walk.ndjson'), '--speed', 'max', '--plain', '--summary', summary, '--strides', strides], { env: process.env });
+    expect(ran.code, ran.stderr).toBe(0);
     // Every number as written, with the key it stands under (an array's items under the array's key).
     const numbers: [string, string][] = [];
     const keyed = /"([^"]+)":\s*(\[[^\]{]*\]|-?\d[\d.eE+-]*)/g;

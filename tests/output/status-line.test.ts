@@ -1,23 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { statusLine } from '../../src/output/status-line.ts';
 import { makeMuscle, makeTrialState, pushSample, walkingState } from '../dashboard/fixtures.ts';
+import { expectToContainEach } from '../helpers/text-checks.ts';
 
 describe('statusLine', () => {
   it('says what little is known of an empty trial', () => {
     const line = statusLine(makeTrialState([], 'replays/empty.ndjson'));
-    expect(line).toContain('replays/empty.ndjson');
-    expect(line).toContain('0 samples');
-    expect(line).toContain('t –');
+    expectToContainEach(line, ['replays/empty.ndjson', '0 samples', 't –']);
   });
 
   it('gives the source, elapsed time, counts, calibration and each muscle with units', () => {
     const line = statusLine(walkingState());
-    expect(line).toContain('replays/fixture-walk.ndjson');
-    expect(line).toContain('t 0:05.0');
-    expect(line).toContain('2 samples');
-    expect(line).toContain('calibrated');
-    expect(line).toContain('calf left 2.71 µm plateau');
-    expect(line).toContain('thigh right 3.05 µm descending');
+    expectToContainEach(line, ['replays/fixture-walk.ndjson', 't 0:05.0', '2 samples', 'calibrated', 'calf left 2.71 µm plateau', 'thigh right 3.05 µm descending']);
     expect(line).not.toContain('\n');
     // eslint-disable-next-line no-control-regex -- the escape character is what must be absent
     expect(line).not.toMatch(/\u001B/);
@@ -50,9 +44,7 @@ describe('statusLine', () => {
       logPath: 'sessions/s1.log',
     });
     expect(line).toMatch(/^ws:\/\/127\.0\.0\.1:8750/);
-    expect(line).toContain('DISCONNECTED, reconnecting in 2 s');
-    expect(line).toContain('replay 46% at 4×');
-    expect(line).toContain('log sessions/s1.log');
+    expectToContainEach(line, ['DISCONNECTED, reconnecting in 2 s', 'replay 46% at 4×', 'log sessions/s1.log']);
   });
 
   it('writes a dash for a muscle whose length is not known yet', () => {

@@ -10,11 +10,11 @@ import { stageChecklist } from '../helpers/stage-checklist.ts';
 import type { Batch, Frame, Sample, StrideBoundary } from '../../src/trial/records.ts';
 import { fileSource } from '../../adapters/file-source.ts';
 import { runTrial } from '../../src/run/run-trial.ts';
-import { summaryJson } from '../../src/output/summary-json.ts';
+import { summaryJson, type SummaryJson } from '../../src/output/summary-json.ts';
 import { createTrial } from '../../src/sim/gait-generator.ts';
 import { scenarioSpec } from '../../src/sim/scenarios.ts';
 import { demoWalkSpec } from '../../src/sim/demo-trials.ts';
-import { isWireEvent } from '../../src/sim/wire.ts';
+import { isWireEvent, type WireItem } from '../../src/sim/wire.ts';
 import { writeNdjson } from '../../src/sim/writers.ts';
 
 stageChecklist('estimateStrides', estimateStrides);
@@ -180,24 +180,28 @@ describe('estimateStrides', () => {
   });
 });
 
-describe('estimateStrides on a generated walking trial with its gait events removed (replay path)', () => {
-  let dir = '';
-  beforeAll(async () => {
-    dir = await mkdtemp(join(tmpdir(), 'lengthwise-estimate-'));
-  });
-  afterAll(async () => {
-    await rm(dir, { recursive: true, force: true });
-  });
+let dir = '';
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'lengthwise-estimate-'));
+});
+afterAll(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
 
+/** A generated trial's records written to a file of this name with its gait events left out, and the summary of its replay. */
+async function summaryWithoutEvents(records: Iterable<WireItem>, name: string): Promise<SummaryJson> {
+  const path = join(dir, name);
+  const items = function* () {
+    for (const item of records) if (typeof item === 'string' || !isWireEvent(item)) yield item;
+  };
+  expect((await writeNdjson(items(), path)).ok).toBe(true);
+  return summaryJson(await runTrial(fileSource(path), { source: path }).done);
+}
+
+describe('estimateStrides on a generated walking trial with its gait events removed (replay path)', () => {
   it('finds the true number of strides, each boundary at a true cycle minimum', async () => {
     const trial = createTrial(scenarioSpec('walk', { seed: 11, durationS: 40 }));
-    const path = join(dir, 'walk-no-events.ndjson');
-    const items = function* () {
-      for (const item of trial.records({ badLines: 'none' })) if (typeof item === 'string' || !isWireEvent(item)) yield item;
-    };
-    const written = await writeNdjson(items(), path);
-    expect(written.ok).toBe(true);
-    const summary = summaryJson(await runTrial(fileSource(path), { source: path }).done);
+    const summary = await summaryWithoutEvents(trial.records({ badLines: 'none' }), 'walk-no-events.ndjson');
     expect(summary.frames.gait_events).toBe(0);
     for (const muscle of ['calf', 'thigh']) {
       const m = summary.muscles[muscle];
@@ -235,22 +239,9 @@ describe('estimateStrides on a generated walking trial with its gait events remo
 });
 
 describe('estimateStrides on the demo walking trial with its gait events removed', () => {
-  let dir = '';
-  beforeAll(async () => {
-    dir = await mkdtemp(join(tmpdir(), 'lengthwise-estimate-demo-'));
-  });
-  afterAll(async () => {
-    await rm(dir, { recursive: true, force: true });
-  });
-
   it('finds the true number of strides within one, of the true period, and flags the stride with the dropout', async () => {
     const trial = createTrial(demoWalkSpec());
-    const path = join(dir, 'demo-walk-no-events.ndjson');
-    const items = function* () {
-      for (const item of trial.records()) if (typeof item === 'string' || !isWireEvent(item)) yield item;
-    };
-    expect((await writeNdjson(items(), path)).ok).toBe(true);
-    const summary = summaryJson(await runTrial(fileSource(path), { source: path }).done);
+    const summary = await summaryWithoutEvents(trial.records(), 'demo-walk-no-events.ndjson');
     for (const muscle of ['calf', 'thigh']) {
       const m = summary.muscles[muscle];
       const truth = trial.truth.strides(muscle);

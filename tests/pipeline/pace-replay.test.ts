@@ -30,6 +30,13 @@ function countingScheduler(inner: SchedulerLike): { scheduler: SchedulerLike; pe
   return { scheduler, pending: () => pending };
 }
 
+/** Checks what `paceReplay(speed)` releases, and when, of one batch of frames arriving at once (marbles as in TestScheduler). */
+function expectPaced(frames: Batch, speed: ReplaySpeed, marbles: string, released: Record<string, Batch>): void {
+  testScheduler().run(({ cold, expectObservable }) => {
+    expectObservable(cold('(a|)', { a: frames }).pipe(paceReplay(speed))).toBe(marbles, released);
+  });
+}
+
 describe('paceReplay', () => {
   it('passes batches through untouched and at once at speed max', () => {
     testScheduler().run(({ cold, expectObservable }) => {
@@ -46,32 +53,18 @@ describe('paceReplay', () => {
   });
 
   it('releases one frame at once', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const f = s(12.5);
-      expectObservable(cold('(a|)', { a: [f] }).pipe(paceReplay(1))).toBe('(a|)', { a: [f] });
-    });
+    const f = s(12.5);
+    expectPaced([f], 1, '(a|)', { a: [f] });
   });
 
   it('releases frames in real time at speed 1', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const [f0, f1, f2] = [s(10), s(10.5), s(11)];
-      expectObservable(cold('(a|)', { a: [f0, f1, f2] }).pipe(paceReplay(1))).toBe('a 499ms b 499ms (c|)', {
-        a: [f0],
-        b: [f1],
-        c: [f2],
-      });
-    });
+    const [f0, f1, f2] = [s(10), s(10.5), s(11)];
+    expectPaced([f0, f1, f2], 1, 'a 499ms b 499ms (c|)', { a: [f0], b: [f1], c: [f2] });
   });
 
   it('releases frames four times faster at speed 4', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const [f0, f1, f2] = [s(0), s(0.5), s(1)];
-      expectObservable(cold('(a|)', { a: [f0, f1, f2] }).pipe(paceReplay(4))).toBe('a 124ms b 124ms (c|)', {
-        a: [f0],
-        b: [f1],
-        c: [f2],
-      });
-    });
+    const [f0, f1, f2] = [s(0), s(0.5), s(1)];
+    expectPaced([f0, f1, f2], 4, 'a 124ms b 124ms (c|)', { a: [f0], b: [f1], c: [f2] });
   });
 
   it('re-slices a batch into slices of device time, never releasing a frame early', () => {
@@ -97,34 +90,18 @@ describe('paceReplay', () => {
   });
 
   it('sends frames without a time (headers, rejections) with the frame before them', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const [f0, f1] = [s(0), s(1)];
-      expectObservable(cold('(a|)', { a: [header, f0, rejected, f1, header] }).pipe(paceReplay(1))).toBe('a 999ms (b|)', {
-        a: [header, f0, rejected],
-        b: [f1, header],
-      });
-    });
+    const [f0, f1] = [s(0), s(1)];
+    expectPaced([header, f0, rejected, f1, header], 1, 'a 999ms (b|)', { a: [header, f0, rejected], b: [f1, header] });
   });
 
   it('waits at most 2 s of wall time for a forward jump, then paces on from there', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const [f0, f1, f2] = [s(0), s(3600), s(3601)];
-      expectObservable(cold('(a|)', { a: [f0, f1, f2] }).pipe(paceReplay(1))).toBe('a 1999ms b 999ms (c|)', {
-        a: [f0],
-        b: [f1],
-        c: [f2],
-      });
-    });
+    const [f0, f1, f2] = [s(0), s(3600), s(3601)];
+    expectPaced([f0, f1, f2], 1, 'a 1999ms b 999ms (c|)', { a: [f0], b: [f1], c: [f2] });
   });
 
   it('does not wait on time going backwards, and restarts the clock after a big step back', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const [f0, back, f2, f3] = [s(100), s(99.99), s(5), s(5.5)];
-      expectObservable(cold('(a|)', { a: [f0, back, f2, f3] }).pipe(paceReplay(1))).toBe('a 499ms (b|)', {
-        a: [f0, back, f2],
-        b: [f3],
-      });
-    });
+    const [f0, back, f2, f3] = [s(100), s(99.99), s(5), s(5.5)];
+    expectPaced([f0, back, f2, f3], 1, 'a 499ms (b|)', { a: [f0, back, f2], b: [f3] });
   });
 
   it('releases at once frames that arrive after their time is due', () => {
@@ -135,10 +112,8 @@ describe('paceReplay', () => {
   });
 
   it('completes only when every frame is released', () => {
-    testScheduler().run(({ cold, expectObservable }) => {
-      const [f0, f1] = [s(0), s(1)];
-      expectObservable(cold('(a|)', { a: [f0, f1] }).pipe(paceReplay(2))).toBe('a 499ms (b|)', { a: [f0], b: [f1] });
-    });
+    const [f0, f1] = [s(0), s(1)];
+    expectPaced([f0, f1], 2, 'a 499ms (b|)', { a: [f0], b: [f1] });
   });
 
   it('passes an error from upstream on at once', () => {

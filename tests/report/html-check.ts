@@ -3,6 +3,7 @@
  * order (HTML void elements and self-closed SVG elements allowed), and the elements with their attributes.
  * Not a general HTML parser: the report is generated and holds no comments, scripts or CDATA.
  */
+import { expect } from 'vitest';
 export interface Element {
   readonly name: string;
   readonly attributes: Readonly<Record<string, string>>;
@@ -77,4 +78,29 @@ export function checkHtml(html: string): CheckedHtml {
   }
   if (stack.length > 0) problems.push(`left open at the end: ${stack.join(' > ')}`);
   return { doctype, elements, problems };
+}
+
+/** Checks that the page is a whole HTML document: doctype first, every tag closed in order, a language and a character set. */
+export function expectWholeDocument(checked: CheckedHtml): void {
+  expect(checked.doctype).toBe(true);
+  expect(checked.problems).toEqual([]);
+  expect(checked.elements[0]).toMatchObject({ name: 'html', attributes: { lang: 'en' } });
+  expect(checked.elements.some((e) => e.name === 'meta' && e.attributes.charset === 'utf-8')).toBe(true);
+}
+
+/**
+ * Checks that the page fetches nothing: no element that loads something (script, style sheet, image, frame,
+ * media), no src, no URL in an attribute, every link one that `links` accepts, and no URL or import in the
+ * page's text (`text`: the page, less what the caller allows in it).
+ */
+export function expectFetchesNothing(checked: CheckedHtml, text: string, links: RegExp): void {
+  for (const e of checked.elements) {
+    expect(['script', 'link', 'img', 'iframe', 'object', 'embed', 'image', 'use', 'video', 'audio', 'source']).not.toContain(e.name);
+    for (const [name, value] of Object.entries(e.attributes)) {
+      if (name === 'href' || name === 'xlink:href') expect(value).toMatch(links);
+      expect(name).not.toBe('src');
+      expect(value).not.toMatch(/url\(|^[a-z][a-z0-9+.-]*:\/\//i);
+    }
+  }
+  expect(text).not.toMatch(/@import|url\(|https?:\/\//i);
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { methodsParagraphs } from '../../src/report/methods-text.ts';
 import type { StudyReportInput } from '../../src/report/study-report-input.ts';
+import { expectToContainEach } from '../helpers/text-checks.ts';
 import { generatedStudy, STUDY_PLAN, type StudyPlan } from './generated-study.ts';
 
 const study = generatedStudy(STUDY_PLAN);
@@ -36,15 +37,17 @@ describe('methodsParagraphs', () => {
   });
 
   it('quotes each setting that shaped the numbers in its sentence, with its unit', () => {
-    expect(text).toContain('tracking quality below 0.35 were skipped');
-    expect(text).toContain('random-walk model; measurement noise 0.3 mm², process noise 11 mm²/s');
-    expect(text).toContain("every hole in a muscle's samples longer than 0.3 s");
-    expect(text).toContain('A hole longer than 0.3 s and a sample skipped for low quality count as gap time');
-    // The flag threshold is a fraction of the stride in the settings; the sentence says it in percent.
-    expect(text).toContain('gap time of more than 15 % of its duration was flagged');
-    expect(text).toContain('within its first 12 s');
-    expect(text).toContain('periods of 0.45–2.5 s looked for');
-    expect(text).toContain('Estimates outside 1.1–4.9 µm');
+    expectToContainEach(text, [
+      'tracking quality below 0.35 were skipped',
+      'random-walk model; measurement noise 0.3 mm², process noise 11 mm²/s',
+      "every hole in a muscle's samples longer than 0.3 s",
+      'A hole longer than 0.3 s and a sample skipped for low quality count as gap time',
+      // The flag threshold is a fraction of the stride in the settings; the sentence says it in percent.
+      'gap time of more than 15 % of its duration was flagged',
+      'within its first 12 s',
+      'periods of 0.45–2.5 s looked for',
+      'Estimates outside 1.1–4.9 µm',
+    ]);
   });
 
   it('lists every setting with its value and unit, nested ones under their parent, short forms in full', () => {
@@ -60,12 +63,14 @@ describe('methodsParagraphs', () => {
       settings: { quality_gate: 0.5, gap_s: 0.2, stride_flag_gap_fraction: 0.05, estimate_window_s: 8, stride_period_min_s: 0.3, stride_period_max_s: 4, sample_rate_hz: 120 },
     });
     const words = methodsOf(renamed).join('\n');
-    expect(words).toContain('tracking quality below 0.5 were skipped');
-    expect(words).toContain('longer than 0.2 s');
-    expect(words).toContain('more than 5 % of its duration');
-    expect(words).toContain('within its first 8 s');
-    expect(words).toContain('periods of 0.3–4 s looked for');
-    expect(words).toContain('sample rate 120 Hz');
+    expectToContainEach(words, [
+      'tracking quality below 0.5 were skipped',
+      'longer than 0.2 s',
+      'more than 5 % of its duration',
+      'within its first 8 s',
+      'periods of 0.3–4 s looked for',
+      'sample rate 120 Hz',
+    ]);
     // A smoothing window is not the stride-estimation window.
     const smoothingWindow = methodsOf(studyWith({ settings: { smoothing: { window_s: 0.05 }, stride_estimation_window_s: 9 } })).join('\n');
     expect(smoothingWindow).toContain('within its first 9 s');
@@ -87,9 +92,11 @@ describe('methodsParagraphs', () => {
     const flagged = kept.reduce((a, t) => a + (t['flagged_strides'] as number), 0);
     const strides = kept.reduce((a, t) => a + (t['stride_count'] as number), 0);
     expect(flagged).toBeGreaterThan(0);
-    expect(text).toContain('Every figure is time-weighted: each sample holds until the next (zero-order hold)');
-    expect(text).toContain(`left out of the trial's figures and of its gait-cycle curve (${flagged} of ${strides} strides in this study)`);
-    expect(text).toContain('at 101 points (0–100 %) of the stride');
+    expectToContainEach(text, [
+      'Every figure is time-weighted: each sample holds until the next (zero-order hold)',
+      `left out of the trial's figures and of its gait-cycle curve (${flagged} of ${strides} strides in this study)`,
+      'at 101 points (0–100 %) of the stride',
+    ]);
   });
 
   it("names each muscle's calibration method, where it came from, and the subjects left uncalibrated", () => {
@@ -112,11 +119,13 @@ describe('methodsParagraphs', () => {
   });
 
   it('says how groups were averaged, with the numbers of subjects and pairs the tables give', () => {
-    expect(paragraphs[3]).toContain('The analysis covers 45 trials of 8 subjects in 3 conditions (level walk, incline walk and level run), with 2 muscles (lat_gastroc and vastus_lat)');
-    expect(paragraphs[3]).toContain('1 trial marked excluded in the manifest was left out.');
-    expect(paragraphs[3]).toContain("Subjects were the unit of analysis: a subject's value in a condition was the plain mean of that subject's trials in it.");
-    expect(paragraphs[3]).toContain('the 95 % confidence interval of the mean from the t distribution with n − 1 degrees of freedom (n = 7–8 subjects)');
-    expect(paragraphs[3]).toContain('two-sided paired t-tests over the subjects who had both (n = 7–8 pairs); the effect size dz is the mean difference divided by the SD of the differences');
+    expectToContainEach(paragraphs[3], [
+      'The analysis covers 45 trials of 8 subjects in 3 conditions (level walk, incline walk and level run), with 2 muscles (lat_gastroc and vastus_lat)',
+      '1 trial marked excluded in the manifest was left out.',
+      "Subjects were the unit of analysis: a subject's value in a condition was the plain mean of that subject's trials in it.",
+      'the 95 % confidence interval of the mean from the t distribution with n − 1 degrees of freedom (n = 7–8 subjects)',
+      'two-sided paired t-tests over the subjects who had both (n = 7–8 pairs); the effect size dz is the mean difference divided by the SD of the differences',
+    ]);
     const n = methodsOf({ ...study, groups: study.groups.map((g) => ({ ...g, n_subjects: 12 })), comparisons: study.comparisons.map((c) => ({ ...c, n_pairs: 11 })) });
     expect(n[3]).toContain('(n = 12 subjects)');
     expect(n[3]).toContain('(n = 11 pairs)');

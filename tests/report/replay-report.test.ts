@@ -1,17 +1,14 @@
-import { execFile } from 'node:child_process';
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SummaryJson } from '../../src/output/summary-json.ts';
 import { reportHtml } from '../../src/report/report-html.ts';
+import { runLengthwise } from '../helpers/command-child.ts';
 import { trialFolder, type TrialFolder } from '../study/generated-trials.ts';
 import { checkHtml } from './html-check.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
-const BIN = join(ROOT, 'bin', 'lengthwise.js');
-const run = promisify(execFile);
 
 let folder: TrialFolder;
 beforeAll(async () => {
@@ -24,7 +21,8 @@ describe('lengthwise replay --report', () => {
     const { path } = await folder.trial('replayed.ndjson', { seed: 61, subject: 'SYN-301' });
     const summaryPath = join(folder.dir, 'summary.json');
     const reportPath = join(folder.dir, 'report.html');
-    const { stderr } = await run(process.execPath, [BIN, 'replay', path, '--speed', 'max', '--plain', '--summary', summaryPath, '--report', reportPath], { cwd: ROOT });
+    const { code, stderr } = await runLengthwise(['replay', path, '--speed', 'max', '--plain', '--summary', summaryPath, '--report', reportPath], { cwd: ROOT, env: process.env });
+    expect(code, stderr).toBe(0);
     expect(stderr).toContain(`report written to ${reportPath}`);
     const summary = JSON.parse(await readFile(summaryPath, 'utf8')) as SummaryJson;
     const html = await readFile(reportPath, 'utf8');
@@ -37,11 +35,8 @@ describe('lengthwise replay --report', () => {
   it('says when the report cannot be written and exits 1', async () => {
     const { path } = await folder.trial('blocked.ndjson', { seed: 62, durationS: 3 });
     const blocker = await folder.file('a-file', 'x');
-    const failed = await run(process.execPath, [BIN, 'replay', path, '--speed', 'max', '--plain', '--report', join(blocker, 'report.html')], { cwd: ROOT }).then(
-      () => null,
-      (error: { code?: number; stderr?: string }) => error,
-    );
-    expect(failed?.code).toBe(1);
-    expect(failed?.stderr).toMatch(/could not write .*report\.html/);
+    const failed = await runLengthwise(['replay', path, '--speed', 'max', '--plain', '--report', join(blocker, 'report.html')], { cwd: ROOT, env: process.env });
+    expect(failed.code).toBe(1);
+    expect(failed.stderr).toMatch(/could not write .*report\.html/);
   });
 });

@@ -8,6 +8,7 @@ import RunsLine from '../../../src/dashboard/components/runs-line.tsx';
 import { createTheme, type Theme } from '../../../src/dashboard/view/theme.ts';
 import { speciesCurve } from '../../../src/model/species.ts';
 import { COLOUR_SGR, plain, renderScreen, tick, type Screen } from '../terminal-double.ts';
+import { toneRuns } from '../fixtures.ts';
 
 const human = speciesCurve('human');
 const frog = speciesCurve('frog');
@@ -166,15 +167,7 @@ describe('RunsLine', () => {
   it('writes only its stretches of ink, at their columns, and keeps the whole width', async () => {
     const theme = createTheme(true);
     // A band row: the previous stride's range, a gap, this stride's range with the marker in it.
-    const runs: Run[] = [
-      { text: '  ', tone: 'empty' },
-      { text: '▄▄▄', tone: 'band_previous' },
-      { text: ' ', tone: 'empty' },
-      { text: '▀▀', tone: 'band_current' },
-      { text: '◆', tone: 'marker' },
-      { text: '▀', tone: 'band_current' },
-      { text: '   ', tone: 'empty' },
-    ];
+    const runs = toneRuns(['  ', 'empty'], ['▄▄▄', 'band_previous'], [' ', 'empty'], ['▀▀', 'band_current'], ['◆', 'marker'], ['▀', 'band_current'], ['   ', 'empty']);
     const line = await frameOf(
       <Box>
         <RunsLine runs={runs} theme={theme} />

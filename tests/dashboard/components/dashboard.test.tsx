@@ -7,7 +7,8 @@ import type { TrialState } from '../../../src/trial/state.ts';
 import type { RunStatus } from '../../../src/trial/run-status.ts';
 import { REACT_TIMINGS_DROP_MS } from '../../../src/dashboard/thread/start-dashboard.tsx';
 import { MARKER_IN_BAND } from '../../../src/dashboard/view/curve-drawing.ts';
-import { completeStride, makeMuscle, makeTrialState, pushSample, startStride, walkingState } from '../fixtures.ts';
+import { completeStride, makeMuscle, makeTrialState, pushSample, startStride, walkingState, walkThenFail } from '../fixtures.ts';
+import { expectToContainEach } from '../../helpers/text-checks.ts';
 import { COLOUR_SGR, frameWhere, hides, KEY, shows, waitFor, KeysIn, plain, renderScreen, ScreenOut, startWalking, tick, WAIT_LIMIT_MS, type Screen } from '../terminal-double.ts';
 
 const screens: Screen[] = [];
@@ -66,6 +67,26 @@ function show(state$: Observable<TrialState>, more: Partial<Props> = {}, columns
   return { screen, scheduler, advance };
 }
 
+/**
+ * A trial's state shown (as a BehaviorSubject), its clock moved by `ms` so its frames are drawn; `send`
+ * adds a sample to the state and sends the state on.
+ */
+async function showState(state: TrialState, ms: number, more: Partial<Props> = {}, columns = 80, rows = 24) {
+  const state$ = new BehaviorSubject(state);
+  const shown = show(state$, more, columns, rows);
+  await shown.advance(ms);
+  const send = (muscle: string, sample: Parameters<typeof pushSample>[2]): void => {
+    pushSample(state, muscle, sample);
+    state$.next(state);
+  };
+  return { ...shown, state, send };
+}
+
+/** The walking trial shown, its clock moved by `ms`. */
+function showWalking(ms: number, more: Partial<Props> = {}, columns = 80, rows = 24) {
+  return showState(walkingState(), ms, more, columns, rows);
+}
+
 describe('Dashboard', () => {
   it('waits for the first samples on an empty trial', async () => {
     const { screen, advance } = show(new Subject<TrialState>());
@@ -95,38 +116,27 @@ describe('Dashboard', () => {
     state.muscles.set('shin', makeMuscle('shin', { side: 'right', calibrationSource: null }));
     state.muscles.set('foot', makeMuscle('foot', { side: 'right', calibrationSource: 'baseline' }));
     state.calibrated = false;
-    const { screen, advance } = show(new BehaviorSubject(state));
-    await advance(300);
+    const { screen } = await showState(state, 300);
     await shows(screen, 'UNCALIBRATED');
   });
 
   it('shows each muscle with its numbers and units', async () => {
-    const { screen, advance } = show(new BehaviorSubject(walkingState()));
-    await advance(300);
+    const { screen } = await showWalking(300);
     const text = plain(screen.lastFrame());
-    expect(text).toContain('calf');
-    expect(text).toContain('thigh');
-    expect(text).toContain('SL 2.71 µm');
-    expect(text).toContain('PLATEAU');
-    expect(text).toContain('DESCENDING');
-    expect(text).toContain('mm/s');
-    expect(text).toContain('°');
+    expectToContainEach(text, ['calf', 'thigh', 'SL 2.71 µm', 'PLATEAU', 'DESCENDING', 'mm/s', '°']);
   });
 
   it('fits an 80×24 terminal with a row to spare', async () => {
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { status$: new BehaviorSubject<RunStatus>({ replay: { progress: 0.3, speed: 2 } }) });
-    await advance(300);
+    const { screen } = await showWalking(300, { status$: new BehaviorSubject<RunStatus>({ replay: { progress: 0.3, speed: 2 } }) });
     const lines = plain(screen.lastFrame()).split('\n');
     expect(lines.length).toBeLessThanOrEqual(23);
     for (const line of lines) expect([...line].length).toBeLessThanOrEqual(80);
   });
 
   it('uses colour by default and none at all when colour is off', async () => {
-    const coloured = show(new BehaviorSubject(walkingState()));
-    await coloured.advance(300);
+    const coloured = await showWalking(300);
     expect(coloured.screen.lastFrame()).toMatch(COLOUR_SGR);
-    const bare = show(new BehaviorSubject(walkingState()), { color: false });
-    await bare.advance(300);
+    const bare = await showWalking(300, { color: false });
     expect(bare.screen.lastFrame()).not.toMatch(COLOUR_SGR);
     await shows(bare.screen, 'SL 2.71 µm');
   });
@@ -153,8 +163,7 @@ describe('Dashboard', () => {
   });
 
   it('follows a resize, side by side when wide and stacked when narrow', async () => {
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), {}, 100, 40);
-    await advance(300);
+    const { screen } = await showWalking(300, {}, 100, 40);
     const wide = plain(screen.lastFrame()).split('\n');
     const calfRow = wide.findIndex((l) => l.includes('calf'));
     expect(wide[calfRow]).toContain('thigh');
@@ -171,8 +180,7 @@ describe('Dashboard', () => {
     state.muscles.set('shin', makeMuscle('shin', { side: 'right', calibrationSource: 'baseline' }));
     state.calibrated = false;
     pushSample(state, 'shin', { tS: 5, sarcomereUm: 2.4 });
-    const { screen, advance } = show(new BehaviorSubject(state), { title: 'lengthwise live ws://127.0.0.1:8750/stream/with/a/long/path' }, 60, 24);
-    await advance(300);
+    const { screen } = await showState(state, 300, { title: 'lengthwise live ws://127.0.0.1:8750/stream/with/a/long/path' }, 60, 24);
     await shows(screen, 'UNCALIBRATED');
     const lines = plain(screen.lastFrame()).split('\n');
     expect(lines.length).toBeLessThanOrEqual(23);
@@ -191,8 +199,7 @@ describe('Dashboard', () => {
     const calf = state.muscles.get('calf');
     if (calf?.latest != null) calf.latest.region = null;
     startStride(state, 'calf', { slMinUm: Number.POSITIVE_INFINITY, slMaxUm: Number.NEGATIVE_INFINITY });
-    const { screen, advance } = show(new BehaviorSubject(state));
-    await advance(300);
+    const { screen } = await showState(state, 300);
     await shows(screen, 'SL – µm  –');
     await shows(screen, 'velocity – mm/s');
     await shows(screen, 'calibration pending');
@@ -202,8 +209,7 @@ describe('Dashboard', () => {
     const state$ = new Subject<TrialState>();
     const { screen, advance } = show(state$);
     await advance(10);
-    state$.next(walkingState());
-    state$.error(new Error('the trial file could not be read: permission denied'));
+    walkThenFail(state$, 'the trial file could not be read: permission denied');
     await advance(300);
     await shows(screen, '! the pipeline stopped: the trial file could not be read: permission denied');
     await shows(screen, 'SL 2.71 µm');
@@ -212,17 +218,14 @@ describe('Dashboard', () => {
   it('moves the marker along the curve when the sarcomere length changes', async () => {
     const state = makeTrialState([makeMuscle('calf')]);
     pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.2 });
-    const state$ = new BehaviorSubject(state);
-    const { screen, advance } = show(state$);
-    await advance(300);
+    const { screen, advance, send } = await showState(state, 300);
     const markerCol = (): number => {
       const line = plain(screen.lastFrame()).split('\n').find((l) => l.includes(MARKER_IN_BAND)) ?? '';
       return [...line].indexOf(MARKER_IN_BAND);
     };
     const before = markerCol();
     expect(before).toBeGreaterThan(0);
-    pushSample(state, 'calf', { tS: 1.1, sarcomereUm: 3.2 });
-    state$.next(state);
+    send('calf', { tS: 1.1, sarcomereUm: 3.2 });
     await advance(300);
     expect(markerCol()).toBeGreaterThan(before);
   });
@@ -233,8 +236,7 @@ describe('Dashboard', () => {
     pushSample(state, 'thigh', { tS: 1, sarcomereUm: 3.2 });
     const calf = state.muscles.get('calf');
     if (calf !== undefined) calf.regionProbability = { too_short: 0, steep_ascending: 0, shallow_ascending: 0.2, plateau: 0.74, descending: 0.06, no_overlap: 0 };
-    const { screen, advance } = show(new BehaviorSubject(state));
-    await advance(300);
+    const { screen } = await showState(state, 300);
     await shows(screen, 'PLATEAU 74%');
     await shows(screen, 'DESCENDING');
     expect(screen.lastFrame()).not.toMatch(/DESCENDING \d/);
@@ -247,8 +249,7 @@ describe('Dashboard', () => {
     const calf = state.muscles.get('calf');
     if (calf !== undefined) calf.segmentation = 'estimated';
     pushSample(state, 'calf', { tS: 3, sarcomereUm: 2.7 });
-    const { screen, advance } = show(new BehaviorSubject(state), {}, 80, 30);
-    await advance(300);
+    const { screen } = await showState(state, 300, {}, 80, 30);
     await shows(screen, '≈1 2.31–2.88');
   });
 
@@ -257,8 +258,7 @@ describe('Dashboard', () => {
     completeStride(state, 'calf', { slMinUm: 2.31, slMaxUm: 2.88, regionFraction: { plateau: 0.7, descending: 0.3 } });
     completeStride(state, 'calf', { slMinUm: 2.45, slMaxUm: 3.12, regionFraction: { plateau: 0.35, descending: 0.65 } });
     pushSample(state, 'calf', { tS: 3, sarcomereUm: 2.7 });
-    const { screen, advance } = show(new BehaviorSubject(state), {}, 80, 30);
-    await advance(300);
+    const { screen } = await showState(state, 300, {}, 80, 30);
     const lines = plain(screen.lastFrame()).split('\n');
     const second = lines.findIndex((l) => /\b2 2\.45–3\.12 descending\s+65%/.test(l));
     const first = lines.findIndex((l) => /\b1 2\.31–2\.88 plateau\s+70%/.test(l));
@@ -267,19 +267,14 @@ describe('Dashboard', () => {
   });
 
   it('raises an alert when a muscle stops while another flows, and clears it when samples return', async () => {
-    const state = walkingState();
-    const state$ = new BehaviorSubject(state);
-    const { screen, advance } = show(state$);
-    await advance(300);
+    const { screen, advance, send } = await showWalking(300);
     await hides(screen, 'no samples');
     for (let i = 1; i <= 15; i++) {
-      pushSample(state, 'thigh', { tS: 5 + i / 10, sarcomereUm: 3 });
-      state$.next(state);
+      send('thigh', { tS: 5 + i / 10, sarcomereUm: 3 });
       await advance(100);
     }
     await shows(screen, 'calf: no samples for');
-    pushSample(state, 'calf', { tS: 6.6, sarcomereUm: 2.7 });
-    state$.next(state);
+    send('calf', { tS: 6.6, sarcomereUm: 2.7 });
     await advance(100);
     await hides(screen, 'no samples');
   });
@@ -287,18 +282,14 @@ describe('Dashboard', () => {
   it('shouts UNCALIBRATED when the trial runs on the baseline assumption', async () => {
     const state = makeTrialState([makeMuscle('calf', { calibrationSource: 'baseline' })]);
     pushSample(state, 'calf', { tS: 1, sarcomereUm: 2.7 });
-    const { screen, advance } = show(new BehaviorSubject(state), { onCalibrate: () => undefined });
-    await advance(300);
+    const { screen } = await showState(state, 300, { onCalibrate: () => undefined });
     const text = plain(screen.lastFrame());
-    expect(text).toContain(' UNCALIBRATED ');
-    expect(text).toContain('! UNCALIBRATED (first 3 s taken as mid-plateau): give --calibration or press c');
-    expect(text).toContain('calf left · uncalibrated');
+    expectToContainEach(text, [' UNCALIBRATED ', '! UNCALIBRATED (first 3 s taken as mid-plateau): give --calibration or press c', 'calf left · uncalibrated']);
   });
 
   it('shows a disconnection from the status stream, and the replay progress and speed', async () => {
     const status$ = new BehaviorSubject<RunStatus>({ connection: { state: 'reconnecting', retryInS: 4 }, logPath: 'sessions/walk.log' });
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { status$ });
-    await advance(300);
+    const { screen, advance } = await showWalking(300, { status$ });
     await shows(screen, 'DISCONNECTED — reconnecting in 4 s');
     await shows(screen, 'log sessions/walk.log');
     status$.next({ connection: { state: 'connected' }, replay: { progress: 0.5, speed: 4 } });
@@ -311,8 +302,7 @@ describe('Dashboard', () => {
 
   it('quits on q: calls onQuit and unmounts', async () => {
     let quits = 0;
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onQuit: () => (quits += 1) });
-    await advance(100);
+    const { screen } = await showWalking(100, { onQuit: () => (quits += 1) });
     const exited = screen.instance.waitUntilExit();
     await screen.press('q');
     await exited;
@@ -320,15 +310,11 @@ describe('Dashboard', () => {
   });
 
   it('freezes the display on space while the state goes on, and resumes on space', async () => {
-    const state = walkingState();
-    const state$ = new BehaviorSubject(state);
-    const { screen, advance } = show(state$);
-    await advance(100);
+    const { screen, advance, send } = await showWalking(100);
     await screen.press(' ');
     await advance(100);
     await shows(screen, 'FROZEN');
-    pushSample(state, 'calf', { tS: 6, sarcomereUm: 3.01 });
-    state$.next(state);
+    send('calf', { tS: 6, sarcomereUm: 3.01 });
     await advance(500);
     await shows(screen, 'SL 2.71 µm');
     await screen.press(' ');
@@ -339,11 +325,7 @@ describe('Dashboard', () => {
 
   it('drops a timestamped marker on m', async () => {
     const markers: string[] = [];
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), {
-      onMarker: (text) => markers.push(text),
-      now: () => new Date(2026, 0, 1, 14, 3, 9),
-    });
-    await advance(100);
+    const { screen, advance } = await showWalking(100, { onMarker: (text) => markers.push(text), now: () => new Date(2026, 0, 1, 14, 3, 9) });
     await screen.press('m', 'm');
     await waitFor(() => markers.length === 2, 'two markers');
     expect(markers).toEqual(['marker 1 at trial time 0:05.0 (14:03:09)', 'marker 2 at trial time 0:05.0 (14:03:09)']);
@@ -357,8 +339,7 @@ describe('Dashboard', () => {
 
   it('asks the sarcomere length on c and calibrates the focused muscle, 2.7 µm by default', async () => {
     const calls: [string, number][] = [];
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]) });
-    await advance(100);
+    const { screen } = await showWalking(100, { onCalibrate: (m, um) => calls.push([m, um]) });
     await screen.press('c');
     await shows(screen, 'calibrate calf from the last 3 s');
     await screen.press(KEY.enter);
@@ -372,8 +353,7 @@ describe('Dashboard', () => {
   it('refuses a calibration length outside the plausible range, says what is accepted, and cancels on Esc', async () => {
     const calls: [string, number][] = [];
     let quits = 0;
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]), onQuit: () => (quits += 1) });
-    await advance(100);
+    const { screen, advance } = await showWalking(100, { onCalibrate: (m, um) => calls.push([m, um]), onQuit: () => (quits += 1) });
     await screen.press('c', '9', KEY.enter);
     await shows(screen, '"9" is not a usable sarcomere length: type a number of µm from 1 to 5');
     await screen.press('q');
@@ -386,20 +366,17 @@ describe('Dashboard', () => {
 
   it('changes the replay speed on + and -, only when the command offers it', async () => {
     const speeds: number[] = [];
-    const offered = show(new BehaviorSubject(walkingState()), { onSpeed: (d) => speeds.push(d) });
-    await offered.advance(100);
+    const offered = await showWalking(100, { onSpeed: (d) => speeds.push(d) });
     await offered.screen.press('+', '=', '-');
     await waitFor(() => speeds.length === 3, 'three speed changes');
     expect(speeds).toEqual([1, 1, -1]);
     await shows(offered.screen, '+ - speed');
-    const plainReplay = show(new BehaviorSubject(walkingState()));
-    await plainReplay.advance(100);
+    const plainReplay = await showWalking(100);
     await hides(plainReplay.screen, 'speed');
   });
 
   it('moves the focus with tab and the arrows', async () => {
-    const { screen, advance } = show(new BehaviorSubject(walkingState()));
-    await advance(100);
+    const { screen } = await showWalking(100);
     await shows(screen, '▸ calf');
     await screen.press(KEY.tab);
     await shows(screen, '▸ thigh');
@@ -411,8 +388,7 @@ describe('Dashboard', () => {
 
   it('takes keys that arrive together one by one', async () => {
     const markers: string[] = [];
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onMarker: (t) => markers.push(t) });
-    await advance(100);
+    const { screen } = await showWalking(100, { onMarker: (t) => markers.push(t) });
     await screen.press(' m?');
     await waitFor(() => markers.length === 1, 'the marker');
     await shows(screen, 'FROZEN');
@@ -421,16 +397,14 @@ describe('Dashboard', () => {
 
   it('takes a calibration typed in one go, Enter included', async () => {
     const calls: [string, number][] = [];
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { onCalibrate: (m, um) => calls.push([m, um]) });
-    await advance(100);
+    const { screen } = await showWalking(100, { onCalibrate: (m, um) => calls.push([m, um]) });
     await screen.press('c2.6\r');
     await waitFor(() => calls.length === 1, 'the calibration');
     expect(calls).toEqual([['calf', 2.6]]);
   });
 
   it('shows each region\'s fill character in the help when there is no colour', async () => {
-    const { screen, advance } = show(new BehaviorSubject(walkingState()), { color: false });
-    await advance(100);
+    const { screen } = await showWalking(100, { color: false });
     await screen.press('?');
     await shows(screen, 'reading a panel');
     const text = plain(screen.lastFrame());
@@ -439,8 +413,7 @@ describe('Dashboard', () => {
   });
 
   it('opens and closes the help on ?', async () => {
-    const { screen, advance } = show(new BehaviorSubject(walkingState()));
-    await advance(100);
+    const { screen } = await showWalking(100);
     await screen.press('?');
     await shows(screen, 'reading a panel');
     await screen.press('?');
@@ -484,24 +457,24 @@ describe('startDashboard', () => {
     performance.clearMeasures(reactLike[0]);
   });
 
-  it('renders without any colour code when NO_COLOR is set', async () => {
+  /** All the dashboard wrote, started on the walking trial in this environment, until its panels were up. */
+  async function writtenIn(env: NodeJS.ProcessEnv): Promise<string> {
     const { out, keys } = terminal();
-    const dashboard = startWalking(out, keys, { env: { NO_COLOR: '1' }, frameMs: 10 });
+    const dashboard = startWalking(out, keys, { env, frameMs: 10 });
     await waitFor(() => plain(out.frames.join('')).includes('SL 2.71 µm'), 'the panels');
     dashboard.unmount();
     await dashboard.waitUntilExit();
-    const all = out.frames.join('');
+    return out.frames.join('');
+  }
+
+  it('renders without any colour code when NO_COLOR is set', async () => {
+    const all = await writtenIn({ NO_COLOR: '1' });
     expect(plain(all)).toContain('SL 2.71 µm');
     expect(all).not.toMatch(COLOUR_SGR);
   });
 
   it('uses colour when NO_COLOR is empty or absent', async () => {
-    const { out, keys } = terminal();
-    const dashboard = startWalking(out, keys, { env: { NO_COLOR: '' }, frameMs: 10 });
-    await waitFor(() => plain(out.frames.join('')).includes('SL 2.71 µm'), 'the panels');
-    dashboard.unmount();
-    await dashboard.waitUntilExit();
-    expect(out.frames.join('')).toMatch(COLOUR_SGR);
+    expect(await writtenIn({ NO_COLOR: '' })).toMatch(COLOUR_SGR);
   });
 
   it('still shows the trial when standard input is not a terminal, and says keys are off', async () => {

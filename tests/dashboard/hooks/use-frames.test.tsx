@@ -6,7 +6,7 @@ import { useFrames } from '../../../src/dashboard/hooks/use-frames.ts';
 import { firstFrame, trialFrames, type TrialFrame, type TrialFramesOptions } from '../../../src/dashboard/view/trial-frames.ts';
 import type { RunStatus } from '../../../src/trial/run-status.ts';
 import type { TrialState } from '../../../src/trial/state.ts';
-import { pushSample, walkingState } from '../fixtures.ts';
+import { pushSample, walkingState, walkThenFail } from '../fixtures.ts';
 import { renderScreen, shows, tick, waitFor, type Screen } from '../terminal-double.ts';
 
 /** The frames of a trial's state and status, shown through useFrames (frozen: the shown frame stays). */
@@ -61,6 +61,27 @@ function setup() {
   return { scheduler, advance };
 }
 
+/** A Probe on a state stream of its own, once the hook has subscribed; a kept screen is unmounted after the test. */
+async function probe({ keep = true }: { readonly keep?: boolean } = {}) {
+  const { scheduler, advance } = setup();
+  const state$ = new Subject<TrialState>();
+  const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
+  if (keep) screens.push(screen);
+  await waitFor(() => state$.observed, 'the hook subscribing');
+  return { scheduler, advance, state$, screen };
+}
+
+/** A StatusProbe on a status stream and a state stream of its own, once the hook has subscribed to both; a kept screen is unmounted after the test. */
+async function statusProbe({ keep = true, onFrame }: { readonly keep?: boolean; readonly onFrame?: () => void } = {}) {
+  const { scheduler, advance } = setup();
+  const status$ = new Subject<RunStatus>();
+  const state$ = new Subject<TrialState>();
+  const screen = renderScreen(<StatusProbe status$={status$} state$={state$} scheduler={scheduler} {...(onFrame === undefined ? {} : { onFrame })} />);
+  if (keep) screens.push(screen);
+  await waitFor(() => status$.observed && state$.observed, 'the hook subscribing');
+  return { scheduler, advance, status$, state$, screen };
+}
+
 describe('useFrames', () => {
   it('shows nothing from a source that never emits', async () => {
     const { scheduler, advance } = setup();
@@ -71,11 +92,7 @@ describe('useFrames', () => {
   });
 
   it('shows the one state emitted, one frame later', async () => {
-    const { scheduler, advance } = setup();
-    const state$ = new Subject<TrialState>();
-    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
-    screens.push(screen);
-    await waitFor(() => state$.observed, 'the hook subscribing');
+    const { advance, state$, screen } = await probe();
     state$.next(walkingState());
     expect(screen.lastFrame()).toContain('muscles=0');
     await advance(80);
@@ -83,12 +100,8 @@ describe('useFrames', () => {
   });
 
   it('shows the newest of many emissions of the same mutated object', async () => {
-    const { scheduler, advance } = setup();
-    const state$ = new Subject<TrialState>();
+    const { advance, state$, screen } = await probe();
     const state = walkingState();
-    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
-    screens.push(screen);
-    await waitFor(() => state$.observed, 'the hook subscribing');
     for (let i = 0; i < 50; i++) {
       pushSample(state, 'calf', { tS: 6 + i / 100, sarcomereUm: 2 + i / 100 });
       state$.next(state);
@@ -98,23 +111,15 @@ describe('useFrames', () => {
   });
 
   it('keeps the last state and says why when the source errors', async () => {
-    const { scheduler, advance } = setup();
-    const state$ = new Subject<TrialState>();
-    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
-    screens.push(screen);
-    await waitFor(() => state$.observed, 'the hook subscribing');
-    state$.next(walkingState());
-    state$.error(new Error('trial file vanished'));
+    const { advance, state$, screen } = await probe();
+    walkThenFail(state$, 'trial file vanished');
     await advance(300);
     await shows(screen, 'calf=2.71');
     await shows(screen, 'error=trial file vanished');
   });
 
   it('unsubscribes from the source and stops its timers on unmount', async () => {
-    const { scheduler, advance } = setup();
-    const state$ = new Subject<TrialState>();
-    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
-    await waitFor(() => state$.observed, 'the hook subscribing');
+    const { scheduler, advance, state$, screen } = await probe({ keep: false });
     state$.next(walkingState());
     await advance(40);
     expect(state$.observed).toBe(true);
@@ -126,22 +131,15 @@ describe('useFrames', () => {
   });
 
   it('unsubscribes when unmounted before anything arrived', async () => {
-    const { scheduler } = setup();
-    const state$ = new Subject<TrialState>();
-    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} />);
-    await waitFor(() => state$.observed, 'the hook subscribing');
+    const { state$, screen } = await probe({ keep: false });
     screen.instance.unmount();
     await tick(5);
     expect(state$.observed).toBe(false);
   });
 
   it('holds the shown view while frozen and catches up when released', async () => {
-    const { scheduler, advance } = setup();
-    const state$ = new Subject<TrialState>();
+    const { scheduler, advance, state$, screen } = await probe();
     const state = walkingState();
-    const screen = renderScreen(<Probe state$={state$} scheduler={scheduler} frozen={false} />);
-    screens.push(screen);
-    await waitFor(() => state$.observed, 'the hook subscribing');
     state$.next(state);
     await advance(100);
     screen.instance.rerender(<Probe state$={state$} scheduler={scheduler} frozen />);
@@ -157,10 +155,7 @@ describe('useFrames', () => {
 
 describe('useFrames with a status stream', () => {
   it('merges the fields of each emission into the status so far and unsubscribes on unmount', async () => {
-    const { scheduler, advance } = setup();
-    const status$ = new Subject<RunStatus>();
-    const screen = renderScreen(<StatusProbe status$={status$} scheduler={scheduler} />);
-    await waitFor(() => status$.observed, 'the hook subscribing');
+    const { advance, status$, screen } = await statusProbe({ keep: false });
     await advance(100);
     expect(screen.lastFrame()).toContain('log=none conn=none');
     status$.next({ logPath: 'sessions/a.log' });
@@ -176,11 +171,7 @@ describe('useFrames with a status stream', () => {
   });
 
   it('keeps the status so far when the status stream fails', async () => {
-    const { scheduler, advance } = setup();
-    const status$ = new Subject<RunStatus>();
-    const screen = renderScreen(<StatusProbe status$={status$} scheduler={scheduler} />);
-    await waitFor(() => status$.observed, 'the hook subscribing');
-    screens.push(screen);
+    const { advance, status$, screen } = await statusProbe();
     await advance(10);
     status$.next({ logPath: 'sessions/b.log', connection: { state: 'listening' } });
     await advance(100);
@@ -191,13 +182,8 @@ describe('useFrames with a status stream', () => {
   });
 
   it('draws the state and the status arriving in one frame interval as one frame', async () => {
-    const { scheduler } = setup();
-    const status$ = new Subject<RunStatus>();
-    const state$ = new Subject<TrialState>();
     let renders = 0;
-    const screen = renderScreen(<StatusProbe status$={status$} state$={state$} scheduler={scheduler} onFrame={() => renders++} />);
-    screens.push(screen);
-    await waitFor(() => status$.observed && state$.observed, 'the hook subscribing');
+    const { scheduler, status$, state$, screen } = await statusProbe({ onFrame: () => renders++ });
     const before = renders;
     const state = walkingState();
     // The status first, the state 40 ms later, both inside one frame interval: drawn once. (The virtual
@@ -219,13 +205,8 @@ describe('useFrames with a status stream', () => {
   });
 
   it('draws nothing while nothing changes, and one frame per interval while data flows', async () => {
-    const { scheduler, advance } = setup();
-    const status$ = new Subject<RunStatus>();
-    const state$ = new Subject<TrialState>();
     let renders = 0;
-    const screen = renderScreen(<StatusProbe status$={status$} state$={state$} scheduler={scheduler} onFrame={() => renders++} />);
-    screens.push(screen);
-    await waitFor(() => status$.observed && state$.observed, 'the hook subscribing');
+    const { scheduler, advance, status$, state$, screen } = await statusProbe({ onFrame: () => renders++ });
     // The empty view's rate settles within its window; after that, ticks find nothing new to draw.
     for (let i = 0; i < 12; i++) await advance(250);
     let before = renders;

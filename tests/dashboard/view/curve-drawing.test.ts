@@ -10,6 +10,7 @@ import {
   MARKER_STEM,
   toRuns,
   type CurveDrawing,
+  type CurveDrawingInput,
 } from '../../../src/dashboard/view/curve-drawing.ts';
 import { speciesCurve } from '../../../src/model/species.ts';
 
@@ -33,6 +34,11 @@ function columnEighths(drawing: CurveDrawing, col: number, heightRows: number): 
 
 function draw(sarcomereUm = Number.NaN, curve = human, widthCols = 60, heightRows = 6) {
   return drawCurve({ curve, widthCols, heightRows, sarcomereUm, current: null, previous: null });
+}
+
+/** The human curve with no marker, this wide and high, banding these strides' ranges. */
+function drawBands(widthCols: number, heightRows: number, bands: Pick<CurveDrawingInput, 'current' | 'previous' | 'bothChar'>) {
+  return drawCurve({ curve: human, widthCols, heightRows, sarcomereUm: Number.NaN, ...bands });
 }
 
 describe('drawCurve', () => {
@@ -100,14 +106,7 @@ describe('drawCurve', () => {
   });
 
   it('bands the current stride with upper halves, the previous with lower halves and both with full blocks', () => {
-    const d = drawCurve({
-      curve: human,
-      widthCols: 60,
-      heightRows: 4,
-      sarcomereUm: Number.NaN,
-      current: { slMinUm: 2.5, slMaxUm: 3.0 },
-      previous: { slMinUm: 2.8, slMaxUm: 3.4 },
-    });
+    const d = drawBands(60, 4, { current: { slMinUm: 2.5, slMaxUm: 3.0 }, previous: { slMinUm: 2.8, slMaxUm: 3.4 } });
     const band = [...rowText(d, 4)];
     const at = (um: number) => band[columnOf(um, d.minUm, d.maxUm, 60)];
     expect(at(2.6)).toBe('▀');
@@ -118,29 +117,14 @@ describe('drawCurve', () => {
   });
 
   it('draws both strides in one half block when asked, toned so the theme paints the previous one under it', () => {
-    const d = drawCurve({
-      curve: human,
-      widthCols: 60,
-      heightRows: 2,
-      sarcomereUm: Number.NaN,
-      current: { slMinUm: 2.5, slMaxUm: 3.0 },
-      previous: { slMinUm: 2.8, slMaxUm: 3.4 },
-      bothChar: '▀',
-    });
+    const d = drawBands(60, 2, { current: { slMinUm: 2.5, slMaxUm: 3.0 }, previous: { slMinUm: 2.8, slMaxUm: 3.4 }, bothChar: '▀' });
     const tones = (d.rows[2] ?? []).map((r) => r.tone);
     expect(tones).toEqual(['empty', 'band_current', 'band_both', 'band_previous', 'empty']);
     expect((d.rows[2] ?? []).find((r) => r.tone === 'band_both')?.text).toMatch(/^▀+$/);
   });
 
   it('leaves the band empty for a stride with no length yet', () => {
-    const d = drawCurve({
-      curve: human,
-      widthCols: 40,
-      heightRows: 2,
-      sarcomereUm: Number.NaN,
-      current: { slMinUm: Number.POSITIVE_INFINITY, slMaxUm: Number.NEGATIVE_INFINITY },
-      previous: null,
-    });
+    const d = drawBands(40, 2, { current: { slMinUm: Number.POSITIVE_INFINITY, slMaxUm: Number.NEGATIVE_INFINITY }, previous: null });
     expect(rowText(d, 2).trim()).toBe('');
   });
 

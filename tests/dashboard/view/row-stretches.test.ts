@@ -3,15 +3,9 @@ import { describe, expect, it } from 'vitest';
 import type { Run } from '../../../src/dashboard/view/curve-drawing.ts';
 import { rowStretches } from '../../../src/dashboard/view/row-stretches.ts';
 import { createTheme } from '../../../src/dashboard/view/theme.ts';
+import { toneRuns } from '../fixtures.ts';
 
-const runs: Run[] = [
-  { text: '   ', tone: 'empty' },
-  { text: '▂▇', tone: 'steep_ascending' },
-  { text: '██', tone: 'plateau' },
-  { text: '  ', tone: 'empty' },
-  { text: '◆', tone: 'marker' },
-  { text: '    ', tone: 'empty' },
-];
+const runs = toneRuns(['   ', 'empty'], ['▂▇', 'steep_ascending'], ['██', 'plateau'], ['  ', 'empty'], ['◆', 'marker'], ['    ', 'empty']);
 
 describe('rowStretches', () => {
   it('leaves out the blank runs and gives each stretch of ink its column', () => {

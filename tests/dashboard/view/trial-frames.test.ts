@@ -4,7 +4,7 @@ import { EMPTY, NEVER, Subject, VirtualAction, VirtualTimeScheduler, throwError 
 import { trialFrames, type TrialFrame } from '../../../src/dashboard/view/trial-frames.ts';
 import type { RunStatus } from '../../../src/trial/run-status.ts';
 import type { TrialState } from '../../../src/trial/state.ts';
-import { pushSample, walkingState } from '../fixtures.ts';
+import { pushSample, walkingState, walkThenFail } from '../fixtures.ts';
 
 function clock() {
   const scheduler = new VirtualTimeScheduler(VirtualAction, Number.POSITIVE_INFINITY);
@@ -20,6 +20,19 @@ function collect(source: Parameters<typeof trialFrames>[0], status$?: Parameters
   const frames: { ms: number; frame: TrialFrame }[] = [];
   const sub = trialFrames(source, status$, { scheduler, frameMs: 80, tickMs: 250 }).subscribe((frame) => frames.push({ ms: scheduler.now(), frame }));
   return { frames, sub, to, scheduler };
+}
+
+/** The frames of a state stream of its own, collected on virtual time. */
+function collectStates() {
+  const state$ = new Subject<TrialState>();
+  return { state$, ...collect(state$) };
+}
+
+/** The frames of a state stream and a status stream of their own, collected on virtual time. */
+function collectStatesAndStatus() {
+  const state$ = new Subject<TrialState>();
+  const status$ = new Subject<RunStatus>();
+  return { state$, status$, ...collect(state$, status$) };
 }
 
 describe('trialFrames', () => {
@@ -39,8 +52,7 @@ describe('trialFrames', () => {
   });
 
   it('gives a frame at each tick while a silence alert counts the seconds up', () => {
-    const state$ = new Subject<TrialState>();
-    const { frames, to, sub } = collect(state$);
+    const { state$, frames, to, sub } = collectStates();
     state$.next(walkingState());
     to(100);
     const before = frames.length;
@@ -53,9 +65,7 @@ describe('trialFrames', () => {
   });
 
   it("stops giving frames once an ended trial's screen has settled, and gives one again when the status changes", () => {
-    const state$ = new Subject<TrialState>();
-    const status$ = new Subject<RunStatus>();
-    const { frames, to, sub } = collect(state$, status$);
+    const { state$, status$, frames, to, sub } = collectStatesAndStatus();
     const state = walkingState();
     state.ended = true;
     state$.next(state);
@@ -74,8 +84,7 @@ describe('trialFrames', () => {
   });
 
   it('shows one state one frame later', () => {
-    const state$ = new Subject<TrialState>();
-    const { frames, to, sub } = collect(state$);
+    const { state$, frames, to, sub } = collectStates();
     state$.next(walkingState());
     to(79);
     expect(frames).toHaveLength(0);
@@ -86,8 +95,7 @@ describe('trialFrames', () => {
   });
 
   it('draws many states arriving within a frame as one frame, at most one per frame interval', () => {
-    const state$ = new Subject<TrialState>();
-    const { frames, to, scheduler, sub } = collect(state$);
+    const { state$, frames, to, scheduler, sub } = collectStates();
     const state = walkingState();
     // A batch every 10 ms for a second.
     for (let ms = 0; ms < 1000; ms += 10) {
@@ -104,10 +112,8 @@ describe('trialFrames', () => {
   });
 
   it('keeps the last state and says why when the trial fails upstream', () => {
-    const state$ = new Subject<TrialState>();
-    const { frames, to, sub } = collect(state$);
-    state$.next(walkingState());
-    state$.error(new Error('trial file vanished'));
+    const { state$, frames, to, sub } = collectStates();
+    walkThenFail(state$, 'trial file vanished');
     to(500);
     const last = frames.at(-1)!.frame.view;
     expect(last.error).toBe('trial file vanished');
@@ -120,9 +126,7 @@ describe('trialFrames', () => {
   });
 
   it('stops its timers and lets go of its sources when unsubscribed early', () => {
-    const state$ = new Subject<TrialState>();
-    const status$ = new Subject<RunStatus>();
-    const { frames, to, scheduler, sub } = collect(state$, status$);
+    const { state$, status$, frames, to, scheduler, sub } = collectStatesAndStatus();
     state$.next(walkingState());
     sub.unsubscribe();
     expect(state$.observed).toBe(false);
@@ -147,8 +151,7 @@ describe('trialFrames', () => {
   });
 
   it('makes frames of plain data that survive a copy to another thread unchanged', () => {
-    const state$ = new Subject<TrialState>();
-    const { frames, to, sub } = collect(state$);
+    const { state$, frames, to, sub } = collectStates();
     state$.next(walkingState());
     to(100);
     const frame = frames.at(-1)!.frame;

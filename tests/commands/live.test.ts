@@ -246,18 +246,19 @@ describe('lengthwise live --listen', () => {
 
 describe('lengthwise live --connect', () => {
   async function simulator(extra: Parameters<typeof startSimulator>[0] = {}): Promise<RunningSimulator> {
-    const sim = await startSimulator({ port: 0, seed: 3, ...extra });
+    // A command slow to start on a busy machine still gets the whole stream: the device waits for it.
+    const sim = await startSimulator({ port: 0, seed: 3, firstConnectionWithinS: 25, ...extra });
     stops.push(() => sim.stop());
     return sim;
   }
 
-  /** A plain session with the simulator, ended by --duration after the device has stopped: where its log is, and its summary. */
-  /** A session connected to the simulator: its clock starts at the connection, and the session ends once the device has ended. */
+  /** A session connected to the simulator: its clock starts at the connection, and the session ends (SIGTERM) once the device has ended. */
   async function session(sim: RunningSimulator) {
     const dir = await tmp();
     const log = join(dir, 'session.ndjson');
     const c = lengthwise(['live', '--connect', sim.url, '--log', log, '--plain', '--summary', join(dir, 'live.json')]);
     await sim.done;
+    expect(sim.stats.connections, 'the command to have connected').toBeGreaterThanOrEqual(1);
     c.child.kill('SIGTERM');
     expect((await c.exited).code, c.stderr).toBe(0);
     return { dir, log, live: await json(join(dir, 'live.json')) };
@@ -387,7 +388,7 @@ describe('lengthwise live in-process, on virtual time', () => {
 
 describe('lengthwise live --connect with a token in the URL', () => {
   it('never shows the token: status lines, messages, summary source, report and log hide it', { timeout: 30_000 }, async () => {
-    const sim = await startSimulator({ port: 0, seed: 2, durationS: 1.5 });
+    const sim = await startSimulator({ port: 0, seed: 2, durationS: 1.5, firstConnectionWithinS: 25 });
     stops.push(() => sim.stop());
     const dir = await tmp();
     const scheduler = new VirtualTimeScheduler(VirtualAction, 60_000);

@@ -118,7 +118,17 @@ describe.skipIf(!HAS_TMUX)(title, () => {
     keys('demo', 'Space');
     // The replay bar keeps moving (ingestion goes on); everything read from the trial stays.
     const trialPart = (t: string): string => t.split('\n').filter((l) => !l.startsWith('replay ')).join('\n');
-    const frozen = await screenWhere('demo', (t) => t.includes('FROZEN'), 'FROZEN');
+    // Read once the frame that says FROZEN has been drawn whole (a busy machine may be caught mid-frame).
+    let last = '';
+    const frozen = await screenWhere(
+      'demo',
+      (t) => {
+        const same = t.includes('FROZEN') && trialPart(t) === last;
+        last = trialPart(t);
+        return same;
+      },
+      'FROZEN, drawn whole',
+    );
     await sleep(600);
     expect(trialPart(screen('demo'))).toBe(trialPart(frozen));
     keys('demo', 'Space');

@@ -10,7 +10,8 @@ import { mappingOption, SETTINGS_OPTION, settingsOption } from './option-files.t
 import { parseCalibration } from '../../adapters/calibration-file.ts';
 import { DEFAULT_SPECIES, SPECIES, isSpecies } from '../model/species.ts';
 import { ARCHITECTURE_PRIOR_CAUTION, METHOD_LABEL, checkCalibrationAgainstTrial } from '../model/calibration.ts';
-import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM, type SarcomereRange } from '../model/plausible-sarcomere.ts';
+import { plausibleSarcomereRange } from '../trial/settings.ts';
 import { POSTURE_DISAGREEMENT_FRACTION, QUIET_SPREAD_FRACTION, sarcomereCountFromReference, summarizeWindow, twoPostureCount } from '../model/quiet-window.ts';
 import { MAX_RELATIVE_SD, spreadProblem } from '../model/count-spread.ts';
 import { toolVersion } from '../run/tool-version.ts';
@@ -35,7 +36,8 @@ is normalised to (e.g. dissection data normalised to 2.7 µm). A prior, not a me
 length is not the living fascicle length.
 
 Warns when a window is not quiet, or when the count puts the trial's sarcomere lengths outside
-${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm. Refuses SDs that give the count a relative SD above ${MAX_RELATIVE_SD}.
+the plausible range (${PLAUSIBLE_SARCOMERE_UM.min}–${PLAUSIBLE_SARCOMERE_UM.max} µm unless --settings says otherwise), in which the sarcomere
+lengths given must lie too. Refuses SDs that give the count a relative SD above ${MAX_RELATIVE_SD}.
 
 options:
   --muscle NAME                  the muscle to calibrate, as named in the trial
@@ -72,13 +74,13 @@ export function parseWindow(text: string): Parsed<{ startS: number; endS: number
   return { ok: true, value: { startS, endS } };
 }
 
-/** Reads a positive sarcomere length (µm) within the plausible range. */
-function parseSarcomereUm(option: string, text: string): Parsed<number> {
+/** Reads a positive sarcomere length (µm) within the plausible range (the settings'). */
+function parseSarcomereUm(option: string, text: string, plausible: SarcomereRange): Parsed<number> {
   const value = Number(text);
-  if (text.trim() === '' || !isPlausibleSarcomereUm(value)) {
+  if (text.trim() === '' || !isPlausibleSarcomereUm(value, plausible)) {
     return {
       ok: false,
-      message: `${option} "${text}" is not accepted; give a sarcomere length from ${PLAUSIBLE_SARCOMERE_UM.min} to ${PLAUSIBLE_SARCOMERE_UM.max} µm, e.g. ${option} 2.7`,
+      message: `${option} "${text}" is not accepted; give a sarcomere length from ${plausible.min} to ${plausible.max} µm, e.g. ${option} 2.7`,
     };
   }
   return { ok: true, value };
@@ -145,7 +147,7 @@ type Plan =
   | { readonly kind: 'prior'; readonly fibreMm: number; readonly fibreSdMm: number | null; readonly sarcomereUm: number; readonly source: string };
 
 /** Reads the options into a plan, or the problems with them (every one, at once). */
-function planOf(values: CalibrateValues, problems: string[]): Plan | null {
+function planOf(values: CalibrateValues, plausible: SarcomereRange, problems: string[]): Plan | null {
   const windows = values.window ?? [];
   const lengths = values['sarcomere-length'] ?? [];
   const sds = values.sd ?? [];
@@ -172,7 +174,7 @@ function planOf(values: CalibrateValues, problems: string[]): Plan | null {
     if (values['prior-sarcomere-length'] === undefined) {
       problems.push('--prior-sarcomere-length UM is required for a prior: the sarcomere length the fibre length is normalised to, e.g. --prior-sarcomere-length 2.7');
     } else {
-      const r = parseSarcomereUm('--prior-sarcomere-length', values['prior-sarcomere-length']);
+      const r = parseSarcomereUm('--prior-sarcomere-length', values['prior-sarcomere-length'], plausible);
       if (r.ok) sarcomereUm = r.value;
       else problems.push(r.message);
     }
@@ -200,7 +202,7 @@ function planOf(values: CalibrateValues, problems: string[]): Plan | null {
   }
   const parsedLengths: number[] = [];
   for (const l of lengths) {
-    const r = parseSarcomereUm('--sarcomere-length', l);
+    const r = parseSarcomereUm('--sarcomere-length', l, plausible);
     if (r.ok) parsedLengths.push(r.value);
     else problems.push(r.message);
   }
@@ -252,8 +254,11 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   if (typeof parsed === 'number') return parsed;
   const { values, positionals } = parsed;
 
+  // The settings first: the plausible range they give is what a sarcomere length option may take.
+  const settings = await settingsOption('calibrate', values.settings, io);
+  if (!settings.ok) return 2;
   const problems: string[] = [];
-  const plan = planOf(values, problems);
+  const plan = planOf(values, plausibleSarcomereRange(settings.value), problems);
   const fileNeeded = plan === null || plan.kind === 'postures';
   if (positionals.length > 1 || (fileNeeded && positionals.length !== 1)) {
     problems.push(`give exactly one trial FILE (got ${positionals.length})${fileNeeded ? '' : ', or none for a prior alone'}`);
@@ -268,8 +273,6 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
     return 2;
   }
 
-  const settings = await settingsOption('calibrate', values.settings, io);
-  if (!settings.ok) return 2;
   const mapping = await mappingOption('calibrate', values.mapping, io);
   if (!mapping.ok) return 2;
   let trial: TrialSamples | undefined;
@@ -416,10 +419,7 @@ export async function run(argv: string[], io: CommandIo): Promise<number> {
   }
   if (trial !== undefined) {
     const fascicle = range(trial.fascicleMm);
-    const fit = checkCalibrationAgainstTrial(muscle, count, fascicle.min, fascicle.max, offsetMm, {
-      min: settings.value.plausible_sarcomere_min_um,
-      max: settings.value.plausible_sarcomere_max_um,
-    });
+    const fit = checkCalibrationAgainstTrial(muscle, count, fascicle.min, fascicle.max, offsetMm, plausibleSarcomereRange(settings.value));
     if (!fit.ok) io.err(`warning: ${fit.message}`);
   }
   io.out(JSON.stringify(calibration, null, 2));

@@ -16,7 +16,6 @@ import { applyCapture } from '../run/apply-capture.ts';
 import type { Batch, Frame } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import type { ConnectionStatus, RunStatus } from '../trial/run-status.ts';
-import { plausibleSarcomereRange } from '../trial/settings.ts';
 import { unitHint, type DeviceMapping, mappedSides } from '../../adapters/device-mapping.ts';
 import { websocketClient, type LinkEvent } from '../../adapters/websocket-client.ts';
 import { redactUrl } from '../../adapters/redact-url.ts';
@@ -198,7 +197,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
   } else {
     return 2;
   }
-  session.status({ sourceLabel: label, logPath, plausibleUm: plausibleSarcomereRange(settings), ...(openListen.warning !== null ? { message: openListen.warning } : {}) });
+  session.status({ sourceLabel: label, logPath, ...(openListen.warning !== null ? { message: openListen.warning } : {}) });
 
   const records$ = merge(source$, session.extra$).pipe(
     writeSessionLog(log),
@@ -207,6 +206,7 @@ export async function run(argv: string[], io: CommandIo, options: LiveRunOptions
     takeUntil(session.stop$),
   );
   const trial = runTrial(records$, { source: label, sides: mappedSides(mapping), settings, ...(calibration !== undefined ? { calibration } : {}) });
+  session.status({ plausibleUm: trial.plausibleUm });
   const final = await session.run(trial, label, duration !== null && duration.ok ? duration.value : null, () => log.flush());
   log.close();
   if (!log.complete && log.problem !== null) session.logProblem(log.problem);

@@ -2,7 +2,7 @@
 import type { Species } from './species.ts';
 import { plateauMiddleUm, type FilamentGeometry, type ForceLengthCurve } from './geometry.ts';
 import { makeMuscleModel, type CurveShape, type MuscleModel, type MuscleModelOptions } from './muscle-model.ts';
-import { PLAUSIBLE_SARCOMERE_UM } from './plausible-sarcomere.ts';
+import { PLAUSIBLE_SARCOMERE_UM, type SarcomereRange } from './plausible-sarcomere.ts';
 import type { CountSpread } from './count-spread.ts';
 
 /** Where a calibration came from, carried with it into the outputs. Every field is free to be absent. */
@@ -195,7 +195,7 @@ export function checkCalibrationAgainstTrial(
   fascicleMinMm: number,
   fascicleMaxMm: number,
   offsetMm = 0,
-  plausible: { readonly min: number; readonly max: number } = PLAUSIBLE_SARCOMERE_UM,
+  plausible: SarcomereRange = PLAUSIBLE_SARCOMERE_UM,
 ): CalibrationCheck {
   const slMinUm = sarcomereUmFromFascicle(fascicleMinMm, sarcomeresInSeriesCount, offsetMm);
   const slMaxUm = sarcomereUmFromFascicle(fascicleMaxMm, sarcomeresInSeriesCount, offsetMm);

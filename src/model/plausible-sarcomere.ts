@@ -12,7 +12,13 @@
  */
 export const PLAUSIBLE_SARCOMERE_UM = { min: 1, max: 5 } as const;
 
-/** True for a sarcomere length (µm) within PLAUSIBLE_SARCOMERE_UM; false for NaN and infinities. */
-export function isPlausibleSarcomereUm(um: number): boolean {
-  return um >= PLAUSIBLE_SARCOMERE_UM.min && um <= PLAUSIBLE_SARCOMERE_UM.max;
+/** A range of sarcomere lengths, µm, ends included (a settings file may narrow or widen the plausible one). */
+export interface SarcomereRange {
+  readonly min: number;
+  readonly max: number;
+}
+
+/** True for a sarcomere length (µm) within the range (by default PLAUSIBLE_SARCOMERE_UM); false for NaN and infinities. */
+export function isPlausibleSarcomereUm(um: number, range: SarcomereRange = PLAUSIBLE_SARCOMERE_UM): boolean {
+  return um >= range.min && um <= range.max;
 }

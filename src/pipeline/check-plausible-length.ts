@@ -1,6 +1,6 @@
 import type { OperatorFunction } from 'rxjs';
 import type { Batch } from '../trial/records.ts';
-import { PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
 import { OutBatch } from './out-batch.ts';
 import { statefulStage } from './stateful-stage.ts';
 
@@ -19,6 +19,7 @@ export interface CheckPlausibleLengthOptions {
 export function checkPlausibleLength(options: CheckPlausibleLengthOptions = {}): OperatorFunction<Batch, Batch> {
   const minUm = options.minUm ?? PLAUSIBLE_SARCOMERE_UM.min;
   const maxUm = options.maxUm ?? PLAUSIBLE_SARCOMERE_UM.max;
+  const plausible = { min: minUm, max: maxUm };
   return statefulStage(() => {
     const told = new Set<string>();
     return (batch) => {
@@ -26,7 +27,7 @@ export function checkPlausibleLength(options: CheckPlausibleLengthOptions = {}):
       for (const f of batch) {
         out.pass(f);
         if (f.kind !== 'sample' || Number.isNaN(f.sarcomereUm)) continue;
-        if (f.sarcomereUm >= minUm && f.sarcomereUm <= maxUm) continue;
+        if (isPlausibleSarcomereUm(f.sarcomereUm, plausible)) continue;
         if (told.has(f.muscle)) continue;
         told.add(f.muscle);
         out.insert({

@@ -2,8 +2,7 @@
 import type { CalibrationApplied } from '../trial/records.ts';
 import type { Species } from '../model/species.ts';
 import { medianSorted } from '../model/stats.ts';
-import { PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
-import type { SarcomereRange } from '../trial/run-status.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM, type SarcomereRange } from '../model/plausible-sarcomere.ts';
 
 export type CaptureResult =
   | { readonly ok: true; readonly frame: CalibrationApplied; readonly fascicleMm: number; readonly spreadPercent: number; readonly json: object }
@@ -24,7 +23,7 @@ export function captureCalibration(
   provenance: Readonly<Record<string, unknown>> = {},
   plausible: SarcomereRange = PLAUSIBLE_SARCOMERE_UM,
 ): CaptureResult {
-  if (!(sarcomereUm >= plausible.min && sarcomereUm <= plausible.max)) {
+  if (!isPlausibleSarcomereUm(sarcomereUm, plausible)) {
     return { ok: false, message: `an assumed sarcomere length of ${sarcomereUm} µm is not plausible; give a value between ${plausible.min} and ${plausible.max} µm (e.g. 2.7 for a human muscle near its plateau)` };
   }
   if (fascicleMm.length < MIN_CAPTURE_SAMPLES) {

@@ -4,7 +4,7 @@ import type { Batch } from '../trial/records.ts';
 import type { TrialState } from '../trial/state.ts';
 import { pipeline, type PipelineOptions } from '../pipeline/pipeline.ts';
 import { RecentFascicles } from './recent-fascicles.ts';
-import type { SarcomereRange } from '../trial/run-status.ts';
+import type { SarcomereRange } from '../model/plausible-sarcomere.ts';
 import { DEFAULT_SETTINGS, plausibleSarcomereRange } from '../trial/settings.ts';
 
 export interface TrialRun {

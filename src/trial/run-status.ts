@@ -4,6 +4,7 @@
  * Fed as an Observable; each emission is merged field by field into the previous one, so several
  * producers can each send only their own fields. Send a field as `undefined` to clear it.
  */
+import type { SarcomereRange } from '../model/plausible-sarcomere.ts';
 
 /** 'connecting': not connected yet (first attempt, or retrying before any connection); 'reconnecting': connected once, then lost. */
 export type ConnectionState = 'connecting' | 'connected' | 'reconnecting' | 'ended' | 'listening';
@@ -36,11 +37,6 @@ export interface RunStatus {
   readonly plausibleUm?: SarcomereRange | undefined;
 }
 
-/** A range of sarcomere lengths, µm, ends included. */
-export interface SarcomereRange {
-  readonly min: number;
-  readonly max: number;
-}
 
 /** Merges one emission into the status so far: fields present in `next` replace the previous ones. */
 export function mergeStatus(previous: RunStatus, next: RunStatus): RunStatus {

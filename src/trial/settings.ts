@@ -7,8 +7,7 @@
  * session takes a device's clock.
  */
 import { DEFAULT_MAX_PERIOD_S, DEFAULT_MIN_PERIOD_S } from '../model/stride-period.ts';
-import { PLAUSIBLE_SARCOMERE_UM } from '../model/plausible-sarcomere.ts';
-import type { SarcomereRange } from './run-status.ts';
+import { PLAUSIBLE_SARCOMERE_UM, type SarcomereRange } from '../model/plausible-sarcomere.ts';
 
 /**
  * Most distinct muscles one trial may carry, and one live device: a sample naming a further muscle (or a

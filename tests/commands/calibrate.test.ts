@@ -106,6 +106,15 @@ describe('lengthwise calibrate', () => {
     expect(r.err).toMatch(/warning: calf: \d+ sarcomeres in series put this trial's fascicle lengths \(\d+\.\d–300.0 mm\) at .* outside the plausible 1–5 µm/);
   });
 
+  it('takes the plausible range of --settings for the sarcomere length it is given', async () => {
+    const settings = join(dir, 'narrow.settings.json');
+    await writeFile(settings, JSON.stringify({ format: 'lengthwise-settings', version: 1, plausible_sarcomere_min_um: 1.5, plausible_sarcomere_max_um: 4.5 }));
+    expect((await calibrate(trial, '--muscle', 'calf', '--window', '1-4', '--sarcomere-length', '4.8')).code).toBe(0);
+    const r = await calibrate(trial, '--muscle', 'calf', '--window', '1-4', '--sarcomere-length', '4.8', '--settings', settings);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain('--sarcomere-length "4.8" is not accepted; give a sarcomere length from 1.5 to 4.5 µm');
+  });
+
   it('reads the CSV variant too', async () => {
     const csv = join(dir, 'standing.csv');
     const rows = ['time_s,muscle,fascicle_mm,pennation_deg,quality,event,side'];

@@ -20,7 +20,7 @@ describe('PLAUSIBLE_SARCOMERE_UM', () => {
   });
 
   it('takes its ends, and refuses what lies beyond them, NaN and infinities', () => {
-    expect([PLAUSIBLE_SARCOMERE_UM.min, PLAUSIBLE_SARCOMERE_UM.max].map(isPlausibleSarcomereUm)).toEqual([true, true]);
+    expect([PLAUSIBLE_SARCOMERE_UM.min, PLAUSIBLE_SARCOMERE_UM.max].map((um) => isPlausibleSarcomereUm(um))).toEqual([true, true]);
     for (const um of [0.99, 5.01, Number.NaN, Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY]) expect(isPlausibleSarcomereUm(um)).toBe(false);
   });
 });

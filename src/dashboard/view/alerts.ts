@@ -3,9 +3,9 @@
  * copied view, so each rule is tested on its own; an alert clears itself as soon as its cause is gone.
  */
 import type { StrideSummary } from '../../trial/state.ts';
-import type { ConnectionStatus, SarcomereRange } from '../../trial/run-status.ts';
+import type { ConnectionStatus } from '../../trial/run-status.ts';
 import { fixed, percent } from '../../output/format.ts';
-import { PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
+import { isPlausibleSarcomereUm, PLAUSIBLE_SARCOMERE_UM, type SarcomereRange } from '../../model/plausible-sarcomere.ts';
 
 export type AlertKind =
   | 'disconnected'
@@ -48,8 +48,8 @@ export function lowQualityAlert(muscle: string, lowSinceS: number | null, nowS: 
 
 /** A length outside the plausible range (the settings', by default PLAUSIBLE_SARCOMERE_UM), ends included as plausible. */
 export function implausibleLengthAlert(muscle: string, sarcomereUm: number, plausible: SarcomereRange = PLAUSIBLE_SARCOMERE_UM): Alert | null {
+  if (!Number.isFinite(sarcomereUm) || isPlausibleSarcomereUm(sarcomereUm, plausible)) return null;
   const { min, max } = plausible;
-  if (!Number.isFinite(sarcomereUm) || (sarcomereUm >= min && sarcomereUm <= max)) return null;
   return {
     kind: 'implausible_length',
     muscle,

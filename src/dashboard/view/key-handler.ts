@@ -4,10 +4,9 @@
  * before left.
  */
 import type { Key } from 'ink';
-import { PLAUSIBLE_SARCOMERE_UM } from '../../model/plausible-sarcomere.ts';
+import { PLAUSIBLE_SARCOMERE_UM, type SarcomereRange } from '../../model/plausible-sarcomere.ts';
 import { clockTime, elapsed, fixed } from '../../output/format.ts';
 import { DEFAULT_CALIBRATION_UM } from './keys.ts';
-import type { SarcomereRange } from '../../trial/run-status.ts';
 
 export type Mode =
   | { readonly kind: 'normal' }
